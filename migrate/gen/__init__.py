@@ -1,0 +1,1 @@
+"""Generators: the only place that knows PySpark."""

@@ -1,0 +1,399 @@
+"""Plan → PySpark DataFrame script text (expressions built here, file laid out by templates/job.py.j2)."""
+from __future__ import annotations
+
+import math
+import re
+from dataclasses import dataclass, field
+from pathlib import Path
+
+import black
+import jinja2
+
+from migrate.plan import (INTEGRAL, Agg, AggRef, Arith, BoolOp, Call, Cast, Col, Compare, Cond, Emit, Explode, Expr,
+                          Filter, Group, HandWork, Identity, Let, Lit, Plan, Project, Step)
+
+SPARK_TYPES = {"int": "int", "long": "bigint", "double": "double", "float": "float", "boolean": "boolean",
+               "String": "string"}
+MIN_VALUE = {"int": -2147483648, "long": -9223372036854775808}
+TEMPLATES = Path(__file__).resolve().parent.parent.parent / "templates"
+
+
+def _templates_dir() -> Path:
+    """templates/ at the top of a checkout, or inside the installed wheel (shared-data)."""
+    if TEMPLATES.is_dir():
+        return TEMPLATES
+    import sys
+
+    return Path(sys.prefix) / "share" / "mrlift" / "templates"
+
+
+_ENV = jinja2.Environment(loader=jinja2.FileSystemLoader(str(_templates_dir())), undefined=jinja2.StrictUndefined,
+                          keep_trailing_newline=True, trim_blocks=True, lstrip_blocks=True, autoescape=False)
+
+
+class ExprWriter:
+    """Spells plan expressions as Column code and remembers which helpers they need."""
+
+    def __init__(self) -> None:
+        self.helpers: set[str] = set()
+
+    def __call__(self, e: Expr | None) -> str:
+        if e is None:
+            return 'F.lit(None).cast("string")'
+        method = getattr(self, f"visit_{type(e).__name__}", None)
+        if method is None:
+            raise TypeError(f"the generator has no handler for {type(e).__name__}")
+        return method(e)
+
+    def visit_Col(self, e: Col) -> str:
+        return f'F.col("{e.name}")'
+
+    def visit_AggRef(self, e: AggRef) -> str:
+        return f'F.col("{agg_column(e.name)}")'
+
+    def visit_Lit(self, e: Lit) -> str:
+        return f"F.lit({self.py(e)})" + ('.cast("bigint")' if e.jtype == "long" and abs(e.value) < 2**31 else "")
+
+    @staticmethod
+    def py(e: Lit) -> str:
+        v = e.value
+        if isinstance(v, float):
+            if math.isnan(v):
+                return 'float("nan")'
+            if math.isinf(v):
+                return 'float("inf")' if v > 0 else 'float("-inf")'
+        return repr(v)
+
+    def visit_Cast(self, e: Cast) -> str:
+        return f'{self(e.arg)}.cast("{SPARK_TYPES[e.jtype]}")'
+
+    def visit_Cond(self, e: Cond) -> str:
+        return f"F.when({self(e.cond)}, {self(e.then)}).otherwise({self(e.other)})"
+
+    def visit_BoolOp(self, e: BoolOp) -> str:
+        if e.op == "!":
+            return f"~({self(e.args[0])})"
+        sym = " & " if e.op == "&&" else " | "
+        return "(" + sym.join(f"({self(a)})" if isinstance(a, BoolOp) and a.op != "!" else self(a) for a in e.args) + ")"
+
+    def visit_Compare(self, e: Compare) -> str:
+        op = "==" if e.op == "==" else e.op
+        core = f"({self(e.left)} {op} {self(e.right)})"
+        if e.left.jtype not in ("double", "float"):
+            return core
+        # Java: every comparison with NaN is false (!= is true); Spark orders NaN above all numbers.
+        nans = [f"F.isnan({self(x)})" for x in (e.left, e.right) if not isinstance(x, Lit)]
+        if not nans:
+            return core
+        if e.op == "!=":
+            return "(" + " | ".join(nans + [core]) + ")"
+        return "(" + " & ".join([f"~{n}" for n in nans] + [core]) + ")"
+
+    def visit_Arith(self, e: Arith) -> str:
+        a, b = self(e.left), self(e.right)
+        if e.op == "/" and e.jtype in INTEGRAL:
+            self.helpers.add("java_int_div")
+            return f'java_int_div({a}, {b}, "{SPARK_TYPES[e.jtype]}")'
+        if e.op == "/" and not (isinstance(e.right, Lit) and e.right.value not in (0, 0.0)):
+            self.helpers.add("java_div_double")
+            return f"java_div_double({a}, {b})"
+        return f"({a} {e.op} {b})"
+
+    def visit_Call(self, e: Call) -> str:
+        args = e.args
+        op = e.op
+        skip = ", skip_bad_record=True" if e.on_error == "null" else ""
+        if op in ("split", "split_limit"):
+            regex = args[1].value
+            if op == "split":
+                self.helpers.add("java_split")
+                return f"java_split({self(args[0])}, {regex!r})"
+            return f"F.split({self(args[0])}, {regex!r}, {args[2].value})"
+        if op == "tokens":
+            self.helpers.add("java_tokens")
+            if len(args) == 1:
+                return f"java_tokens({self(args[0])})"
+            return f"java_tokens({self(args[0])}, {tokenizer_regex(args[1].value)!r})"
+        if op == "regex_matches":
+            return f"F.regexp_extract_all({self(args[0])}, F.lit({args[1].value!r}), {args[2].value})"
+        if op == "index":
+            if e.on_error == "null":
+                return f"F.get({self(args[0])}, {self(args[1]) if not isinstance(args[1], Lit) else args[1].value})"
+            idx = args[1].value if isinstance(args[1], Lit) else self(args[1])
+            return f"{self(args[0])}[{idx}]"
+        if op == "size":
+            return f"F.size({self(args[0])})"
+        if op == "trim":
+            self.helpers.add("java_trim")
+            return f"java_trim({self(args[0])})"
+        if op in ("lower", "upper"):
+            return f"F.{op}({self(args[0])})"
+        if op in ("parse_int", "parse_long", "parse_double"):
+            self.helpers.add("java_" + op)
+            return f"java_{op}({self(args[0])}{skip})"
+        if op == "to_string":
+            return f'{self(args[0])}.cast("string")'
+        if op == "concat":
+            parts = []
+            for a in args:  # flatten nested concatenations: "a" + b + "c"
+                parts.extend(a.args if isinstance(a, Call) and a.op == "concat" else [a])
+            return "F.concat(" + ", ".join(self(p) for p in parts) + ")"
+        if op in ("starts_with", "ends_with", "contains"):
+            meth = {"starts_with": "startswith", "ends_with": "endswith", "contains": "contains"}[op]
+            return f"{self(args[0])}.{meth}({self(args[1])})"
+        if op == "is_empty":
+            return f"(F.length({self(args[0])}) == 0)"
+        if op == "length":
+            self.helpers.add("java_length")
+            return f"java_length({self(args[0])})"
+        if op in ("greatest", "least"):
+            return f"F.{op}({self(args[0])}, {self(args[1])})"
+        if op == "abs":
+            if e.jtype in MIN_VALUE:
+                self.helpers.add("java_abs")
+                return f"java_abs({self(args[0])}, {MIN_VALUE[e.jtype]})"
+            return f"F.abs({self(args[0])})"
+        if op == "guarded":
+            return f"F.when({self(args[0])}, {self(args[1])})"
+        if op == "if_else":
+            return f"F.when({self(args[0])}, {self(args[1])}).otherwise({self(args[2])})"
+        if op == "is_not_null":
+            return f"{self(args[0])}.isNotNull()"
+        raise TypeError(f"the generator has no spelling for operation {op!r}")
+
+
+def tokenizer_regex(delims: str) -> str:
+    """A Java regex character class matching runs of StringTokenizer delimiter characters."""
+    return "[" + "".join("\\" + c if c in "\\[]^-&" else c for c in delims) + "]+"
+
+
+def agg_column(name: str) -> str:
+    return f"{name}_acc" if name in ("key", "value") else name
+
+
+def agg_code(a: Agg, x: ExprWriter) -> str:
+    """One aggregate with the accumulator's Java semantics (int wrap, initial value, NaN rules)."""
+    arg = x(a.arg) if a.arg is not None else None
+    init = Lit(a.jtype, a.init) if a.init is not None else None
+    init_code = x(init) if init is not None else None
+    neutral_min = a.init in (MIN_VALUE.get(a.jtype), float("-inf"))
+    neutral_max = a.init in ({"int": 2147483647, "long": 9223372036854775807}.get(a.jtype), float("inf"))
+    if a.fn == "sum":
+        core = f"F.sum({arg})" if not a.init else f"({init_code} + F.sum({arg}))"
+        if a.jtype == "int":
+            x.helpers.add("wrap_int")
+            return f"wrap_int({core})"
+        return core
+    if a.fn == "count":
+        core = "F.count(F.lit(1))" if not a.init else f"({init_code} + F.count(F.lit(1)))"
+        return f'{core}.cast("int")' if a.jtype == "int" else core
+    if a.fn == "max":
+        return f"F.max({arg})" if neutral_min else f"F.greatest({init_code}, F.max({arg}))"
+    if a.fn == "min":
+        return f"F.min({arg})" if neutral_max else f"F.least({init_code}, F.min({arg}))"
+    if a.fn == "max_nonnan":
+        return f"F.greatest({init_code}, F.max(F.when(~F.isnan({arg}), {arg})))"
+    if a.fn == "min_nonnan":
+        return f"F.least({init_code}, F.min(F.when(~F.isnan({arg}), {arg})))"
+    if a.fn == "min_nan":
+        low = f"F.min({arg})" if neutral_max else f"F.least({init_code}, F.min({arg}))"
+        return f'F.when(F.bool_or(F.isnan({arg})), F.lit(float("nan"))).otherwise({low})'
+    raise TypeError(f"no spelling for aggregate {a.fn!r}")
+
+
+@dataclass
+class ScriptParts:
+    """Everything the template lays out."""
+
+    body: list[str] = field(default_factory=list)
+    helpers: str = ""
+    uses_window: bool = False
+
+
+def _where(origin) -> str:
+    return f"{origin.file}:{origin.line_start}" if origin.line_start else origin.file
+
+
+def build_body(plan: Plan, x: ExprWriter) -> ScriptParts:
+    """The statements of build(): read, map chain, reduce chain, return."""
+    parts = ScriptParts()
+    out = parts.body
+    src = plan.source
+    paths = ", ".join(src.params)
+    if src.split_commas:
+        out.append(f"paths = [p for p in ({paths},) for p in p.split(\",\")]  # FileInputFormat splits a path list on commas")
+        read = "spark.read.text(paths)"
+    else:
+        read = f"spark.read.text([{paths}])" if len(src.params) > 1 else f"spark.read.text({paths})"
+    if src.fmt == "keyvalue":
+        out.append(f"# KeyValueTextInputFormat: key = text before the first TAB, value = the rest")
+        out.append(f"pair = F.split(F.col(\"value\"), \"\\t\", 2)")
+        out.append(f"lines = {read}.select(pair[0].alias(\"key\"), "
+                   f"F.coalesce(F.try_element_at(pair, F.lit(2)), F.lit(\"\")).alias(\"value\"))")
+    else:
+        out.append(f"# TextInputFormat: one row per line, column `value` (LF, CRLF and CR end a line)")
+        out.append(f"lines = {read}")
+    if src.skip_first_line:
+        x.helpers.add("drop_first_line_per_file")
+        parts.uses_window = True
+        out.append("lines = drop_first_line_per_file(lines)  # the mapper skipped byte offset 0 of each file")
+    chain: list[str] = []
+    stub = [h for h in plan.hand_work if h.category in ("map-logic", "missing-source")]
+    for s in plan.map_steps:
+        chain.extend(_step_code(s, x))
+    if stub:
+        out.append("")
+        out.extend(_stub_lines(stub))
+    map_origin = plan.map_steps[0].origin if plan.map_steps else None
+    out.append("")
+    out.append(f"# Map side: narrow, row by row (no shuffle){' — ' + map_origin.file if map_origin else ''}")
+    out.append("map_output = (")
+    out.append("    lines")
+    out.extend("    " + c for c in chain)
+    out.append(")")
+    r = plan.reduce
+    rstub = [h for h in plan.hand_work if h.category in ("reduce-logic",)]
+    if rstub:
+        out.append("")
+        out.extend(_stub_lines(rstub))
+    if isinstance(r, Group):
+        out.append("")
+        out.append(f"# Reduce side: wide — rows are shuffled so all values of a key meet ({_where(r.origin)})")
+        out.append("result = (")
+        out.append("    map_output")
+        if r.distinct:
+            out.append("    .select(\"key\")")
+            out.append("    .distinct()  # the reducer ignores its values: one row per key")
+        else:
+            out.append("    .groupBy(\"key\")")
+            out.append("    .agg(")
+            for a in r.aggs:
+                out.append(f"        # {_where(a.origin)}  {a.note}")
+                out.append(f"        {agg_code(a, x)}.alias(\"{agg_column(a.name)}\"),")
+            out.append("    )")
+        if r.having is not None:
+            out.append(f"    .where({x(r.having)})  # the reducer writes only when this holds")
+        k = r.key_out
+        keep_sort = not (isinstance(k, Col) and k.name == "key")
+        sort = ', F.col("key").alias("_sort_key")' if keep_sort else ""
+        key_code = 'F.col("key")' if not keep_sort else f'{x(k)}.alias("key")'
+        out.append(f"    .select({key_code}, {x(r.value_out)}.alias(\"value\"){sort})")
+        out.append(")")
+        out.append("return result")
+    elif isinstance(r, Identity):
+        out.append("")
+        out.append("# Reduce side: Hadoop's identity reducer — pairs pass through; the writer sorts by key")
+        out.append("return map_output")
+    else:
+        out.append("return map_output")
+    parts.helpers = ""
+    return parts
+
+
+def _stub_lines(items: list[HandWork]) -> list[str]:
+    lines = ["# HAND WORK: the converter stopped here; the steps below are what it could prove."]
+    for h in items:
+        lines.append(f"# {_where(h.origin)}  {h.snippet}")
+        lines.append(f"#   why: {h.reason}")
+        lines.append(f"#   try: {h.suggestion}")
+    reasons = "; ".join(f"{_where(h.origin)} {h.reason}" for h in items)
+    lines.append(f"raise NotImplementedError({('hand work needed: ' + reasons)!r})")
+    return lines
+
+
+def _step_code(s: Step, x: ExprWriter) -> list[str]:
+    where = f"# {_where(s.origin)}  {s.note}" if s.note else f"# {_where(s.origin)}"
+    if isinstance(s, Let):
+        return [where, f".withColumn(\"{s.name}\", {x(s.expr)})"]
+    if isinstance(s, Filter):
+        return [where, f".where({x(s.cond)})"]
+    if isinstance(s, Explode):
+        return [where + "  (one row per element)", f".withColumn(\"{s.name}\", F.explode({x(s.array)}))"]
+    if isinstance(s, Project):
+        return _project_code(s, x)
+    raise TypeError(f"the generator has no handler for {type(s).__name__}")
+
+
+def _project_code(p: Project, x: ExprWriter) -> list[str]:
+    ems = p.emits
+    if len(ems) == 1:
+        e = ems[0]
+        lines = [f"# {_where(e.origin)}  {e.note}  (map output: key, value)"]
+        if e.guard is not None:
+            lines.append(f".where({x(e.guard)})")
+        lines.append(f".select({x(e.key)}.alias(\"key\"), {x(e.value)}.alias(\"value\"))")
+        return lines
+    key_t = _common([e.key for e in ems])
+    val_t = _common([e.value for e in ems])
+    lines = [f"# {len(ems)} writes per record: one output row for each write whose condition holds, in Java's order"]
+    lines.append(".select(")
+    lines.append("    F.explode(")
+    lines.append("        F.filter(")
+    lines.append("            F.array(")
+    for e in ems:
+        k = _typed(x, e.key, key_t)
+        v = _typed(x, e.value, val_t)
+        struct = f"F.struct({k}.alias(\"key\"), {v}.alias(\"value\"))"
+        lines.append(f"                # {_where(e.origin)}  {e.note}")
+        lines.append(f"                F.when({x(e.guard)}, {struct}),"
+                     if e.guard is not None else f"                {struct},")
+    lines.append("            ),")
+    lines.append("            lambda emitted: emitted.isNotNull(),")
+    lines.append("        )")
+    lines.append("    ).alias(\"emitted\")")
+    lines.append(")")
+    lines.append(".select(\"emitted.key\", \"emitted.value\")")
+    return lines
+
+
+def _common(exprs: list[Expr | None]) -> str | None:
+    types = {e.jtype for e in exprs if e is not None}
+    if len(types) <= 1:
+        return types.pop() if types else None
+    from migrate.lift.exprs import promote
+
+    if types <= {"int", "long", "double", "float"}:
+        t = "int"
+        for u in types:
+            t = promote(t, u)
+        return t
+    return "String"
+
+
+def _typed(x: ExprWriter, e: Expr | None, t: str | None) -> str:
+    if e is None:
+        return f'F.lit(None).cast("{SPARK_TYPES.get(t or "String", "string")}")'
+    code = x(e)
+    return code if e.jtype == t or t is None else f'{code}.cast("{SPARK_TYPES[t]}")'
+
+
+def render_script(plan: Plan, header: dict, hand_work: list[HandWork]) -> str:
+    """The whole script, formatted by black."""
+    x = ExprWriter()
+    parts = build_body(plan, x)
+    from migrate.gen.helpers import helper_source
+
+    helpers = helper_source(x.helpers) if x.helpers else ""
+    uses_window = parts.uses_window
+    positional = sorted([p for p in plan.params if p.position is not None], key=lambda p: p.position)
+    slots = []
+    for i in range(max([p.position for p in positional], default=-1) + 1):
+        found = [p for p in positional if p.position == i]
+        slots.append(found[0] if found else None)
+    text = _ENV.get_template("job.py.j2").render(
+        plan=plan, header=header, body=parts.body, helpers=helpers, uses_window=uses_window,
+        slots=slots, options=[p for p in plan.params if p.position is None], sink=plan.sink,
+        build_args=", ".join(f"{p}: str" for p in plan.source.params), hand_work=hand_work,
+        build_call=", ".join(f"args.{p}" for p in plan.source.params),
+        sort_column="_sort_key" if _has_sort_key(plan) else "key",
+    )
+    return format_code(text)
+
+
+def _has_sort_key(plan: Plan) -> bool:
+    r = plan.reduce
+    return isinstance(r, Group) and not (isinstance(r.key_out, Col) and r.key_out.name == "key")
+
+
+def format_code(text: str) -> str:
+    return black.format_str(text, mode=black.Mode(line_length=100))

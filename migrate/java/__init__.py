@@ -1,0 +1,1 @@
+"""The Java front end: read and parse sources, index classes, classify roles, read drivers."""

@@ -1,0 +1,391 @@
+"""Read a driver's Job / JobConf calls into a JobSpec: classes, types, formats, paths, conf, reducers."""
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+import javalang
+from javalang import tree as T
+
+from migrate.java.index import ClassIndex, ClassInfo, node_lines
+from migrate.java.literals import string_value
+from migrate.plan import Span
+
+
+@dataclass(frozen=True)
+class PathRef:
+    """Where a job path comes from: `args[i]` of the driver, a literal, or something unreadable."""
+
+    kind: str  # "arg" | "literal" | "unknown"
+    index: int | None = None
+    literal: str | None = None
+    text: str = ""
+
+
+@dataclass
+class JobSpec:
+    """What a driver configures for one MapReduce job."""
+
+    driver: ClassInfo
+    method: str  # "main" or "run"
+    name: str
+    api: str
+    origin: Span
+    classes: dict[str, str] = field(default_factory=dict)  # role -> fully qualified class
+    types: dict[str, str] = field(default_factory=dict)  # map_key/map_value/out_key/out_value -> fqcn
+    input_format: str | None = None
+    output_format: str | None = None
+    inputs: list[PathRef] = field(default_factory=list)
+    input_paths_split_commas: bool = False
+    output: PathRef | None = None
+    conf: dict[str, str] = field(default_factory=dict)
+    num_reduces: int | None = None
+    deletes_output: bool = False
+    unread: list[tuple[int, str]] = field(default_factory=list)  # (line, call text) the reader skipped
+    extra: list[tuple[str, int, str]] = field(default_factory=list)  # (category, line, text) needing hand work
+
+    @property
+    def reduces(self) -> int:
+        """Number of reduce tasks (Hadoop's default is 1)."""
+        return 1 if self.num_reduces is None else self.num_reduces
+
+
+_JOB_CALLS = {
+    "setMapperClass": "mapper", "setReducerClass": "reducer", "setCombinerClass": "combiner",
+    "setPartitionerClass": "partitioner", "setSortComparatorClass": "sort_comparator",
+    "setOutputKeyComparatorClass": "sort_comparator", "setGroupingComparatorClass": "grouping_comparator",
+    "setOutputValueGroupingComparator": "grouping_comparator",
+}
+_TYPE_CALLS = {"setMapOutputKeyClass": "map_key", "setMapOutputValueClass": "map_value",
+               "setOutputKeyClass": "out_key", "setOutputValueClass": "out_value"}
+_CONF_SETTERS = {"set", "setInt", "setLong", "setBoolean", "setFloat", "setDouble", "setStrings"}
+_HARMLESS = {"setJarByClass", "setJar", "waitForCompletion", "submit", "setJobName", "exit", "println", "printf",
+             "getInstance", "getConfiguration", "getRemainingArgs", "runJob", "print", "run", "getFileSystem", "get",
+             "exists", "monitorAndPrintJob", "setSpeculativeExecution", "setMapSpeculativeExecution",
+             "setReduceSpeculativeExecution", "printUsage", "printGenericCommandUsage", "setConf", "getConf",
+             "isSuccessful", "currentTimeMillis"}
+_CHAIN_CALLS = {"addInputPath": "MultipleInputs", "addNamedOutput": "MultipleOutputs"}
+
+
+def read_drivers(index: ClassIndex) -> tuple[list[JobSpec], list[tuple[ClassInfo, int, str]]]:
+    """All jobs configured by driver classes, and (class, line, message) for drivers not read."""
+    specs, problems = [], []
+    for cls in index:
+        if "driver" not in cls.roles:
+            continue
+        method = _entry_method(cls, index)
+        if method is None:
+            problems.append((cls, cls.line_start, "driver has no main(String[]) or run(String[]) that could be read"))
+            continue
+        reader = _DriverReader(cls, index)
+        reader.run(method)
+        specs.extend(reader.jobs())
+    return specs, problems
+
+
+def _entry_method(cls: ClassInfo, index: ClassIndex):
+    runs = [m for m in cls.methods("run") if len(m.parameters) == 1]
+    if "tool" in cls.roles and runs:
+        return runs[0]
+    mains = [m for m in cls.methods("main") if "static" in m.modifiers]
+    return mains[0] if mains else (runs[0] if runs else None)
+
+
+class _DriverReader:
+    """Interprets driver statements symbolically; values are small tuples (kind, payload)."""
+
+    def __init__(self, cls: ClassInfo, index: ClassIndex):
+        self.cls, self.index = cls, index
+        self.env: dict[str, tuple] = {}
+        self.specs: dict[str, JobSpec] = {}
+        self.order: list[str] = []
+        self.submitted: list[str] = []
+        self.method_name = "main"
+
+    # -- walking
+    def run(self, method: T.MethodDeclaration) -> None:
+        self.method_name = method.name
+        if method.parameters:
+            self.env[method.parameters[0].name] = ("args",)
+        self._block(method.body or [])
+
+    def jobs(self) -> list[JobSpec]:
+        ids = [j for j in self.order if j in self.submitted] or self.order
+        out = [self.specs[j] for j in ids]
+        if len(out) > 1:
+            for s in out:
+                s.extra.append(("chained-jobs", s.origin.line_start,
+                                f"the driver runs {len(out)} jobs in sequence; each is converted on its own"))
+        return out
+
+    def _block(self, stmts) -> None:
+        for s in stmts or []:
+            self._stmt(s)
+
+    def _stmt(self, s) -> None:
+        if isinstance(s, T.LocalVariableDeclaration):
+            for d in s.declarators:
+                if d.initializer is not None:
+                    self.env[d.name] = self._value(d.initializer, d.name)
+        elif isinstance(s, T.StatementExpression):
+            e = s.expression
+            if isinstance(e, T.Assignment) and isinstance(e.expressionl, T.MemberReference):
+                self.env[e.expressionl.member] = self._value(e.value, e.expressionl.member)
+            else:
+                self._value(e, None)
+        elif isinstance(s, T.IfStatement):
+            if not _exits(s.then_statement):
+                self._stmt(s.then_statement)
+            if s.else_statement is not None:
+                self._stmt(s.else_statement)
+        elif isinstance(s, T.BlockStatement):
+            self._block(s.statements)
+        elif isinstance(s, T.TryStatement):
+            self._block(s.block)
+        elif isinstance(s, T.ReturnStatement) and s.expression is not None:
+            self._value(s.expression, None)
+
+    # -- expressions
+    def _value(self, e, target: str | None) -> tuple:
+        if isinstance(e, T.Literal):
+            v = e.value
+            if v.startswith('"'):
+                return ("str", string_value(v))
+            if v.lstrip("-").isdigit():
+                return ("int", int(v))
+            return ("lit", v)
+        if isinstance(e, T.MemberReference):
+            base = self.env.get(e.member, ("unknown", e.member)) if not e.qualifier else ("unknown", f"{e.qualifier}.{e.member}")
+            for sel in e.selectors or []:
+                if isinstance(sel, T.ArraySelector) and base[0] == "args" and isinstance(sel.index, T.Literal):
+                    base = ("arg", int(sel.index.value))
+                elif isinstance(sel, T.ArraySelector):
+                    base = ("unknown", "array element")
+            return base
+        if isinstance(e, T.ClassCreator):
+            tname = e.type.name
+            if tname == "Path" and e.arguments:
+                return ("path", self._path_ref(self._value(e.arguments[0], None), e))
+            if tname in ("Job", "JobConf"):
+                return self._new_job(e, target, e.arguments)
+            if tname == "GenericOptionsParser":
+                return ("gop",)
+            if tname in ("Configuration",):
+                return ("conf",)
+            for sel in e.selectors or []:
+                if isinstance(sel, T.MethodInvocation):
+                    return self._call(("obj", tname), sel, e)
+            return ("obj", tname)
+        if isinstance(e, T.MethodInvocation):
+            return self._invocation(e, target)
+        if isinstance(e, T.Cast):
+            return self._value(e.expression, target)
+        if isinstance(e, T.BinaryOperation):
+            l, r = self._value(e.operandl, None), self._value(e.operandr, None)
+            if e.operator == "+" and l[0] == "str" and r[0] == "str":
+                return ("str", l[1] + r[1])
+            return ("unknown", "expression")
+        if isinstance(e, T.TernaryExpression):
+            return ("unknown", "conditional")
+        return ("unknown", type(e).__name__)
+
+    def _invocation(self, e: T.MethodInvocation, target: str | None) -> tuple:
+        q = e.qualifier or ""
+        if q in self.env:
+            recv = self.env[q]
+        elif q == "" or q == "this":
+            recv = ("self",)
+        elif q.split(".")[0] in ("Job",) and e.member == "getInstance":
+            recv = ("static", "Job")
+        else:
+            recv = ("static", q)
+        out = self._call(recv, e, e)
+        for sel in e.selectors or []:
+            if isinstance(sel, T.MethodInvocation):
+                out = self._call(out, sel, e)
+        return out
+
+    def _call(self, recv: tuple, e: T.MethodInvocation, where) -> tuple:
+        m, args = e.member, e.arguments or []
+        line = _line(where)
+        if m == "getInstance" and recv == ("static", "Job") or (m == "getInstance" and recv[1:] == ("Job",)):
+            return self._new_job(where, None, args)
+        if m == "getRemainingArgs" and recv[0] == "gop":
+            return ("args",)
+        if m in ("getConf", "getConfiguration") or recv[0] == "static" and m == "create" and recv[1] == "HBaseConfiguration":
+            return ("conf", recv[1] if recv[0] == "job" else None)
+        if m == "run" and recv[0] == "static" and recv[1] == "ToolRunner":
+            tool = next((a for a in args if isinstance(a, T.ClassCreator)), None)
+            if tool is not None:
+                target_cls = self.index.get(self.index.resolve(tool.type.name, self.cls))
+                if target_cls is not None and target_cls is not self.cls or target_cls is self.cls:
+                    runs = [mm for mm in (target_cls.methods("run") if target_cls else []) if len(mm.parameters) == 1]
+                    if runs:
+                        self.method_name = "run"
+                        saved = self.env
+                        self.env = {runs[0].parameters[0].name: ("args",)}
+                        self._block(runs[0].body)
+                        self.env = saved
+            return ("int", 0)
+        if m == "runJob" and recv == ("static", "JobClient") and args:
+            j = self._value(args[0], None)
+            if j[0] == "job":
+                self._submit(j[1])
+            return ("unknown", "running job")
+        if m in ("waitForCompletion", "submit") and recv[0] == "job":
+            self._submit(recv[1])
+            return ("unknown", "bool")
+        if m == "delete" and args:
+            p = self._value(args[0], None)
+            for spec in self.specs.values():
+                if spec.output is not None and p[0] == "path" and p[1] == spec.output:
+                    spec.deletes_output = True
+            self.pending_delete = getattr(self, "pending_delete", []) + ([p[1]] if p[0] == "path" else [])
+            return ("unknown", "bool")
+        if recv[0] == "static" and recv[1].split(".")[-1] in ("FileInputFormat", "FileOutputFormat", "TextInputFormat",
+                                                               "TextOutputFormat", "KeyValueTextInputFormat"):
+            return self._format_call(recv[1].split(".")[-1], m, args, line)
+        if recv[0] == "static" and recv[1].split(".")[-1] in ("MultipleInputs", "MultipleOutputs", "ChainMapper",
+                                                               "ChainReducer", "DistributedCache", "JobControl"):
+            spec = self._only_spec()
+            if spec is not None:
+                spec.extra.append((_category_of(recv[1]), line, f"{recv[1].split('.')[-1]}.{m}(...)"))
+            return ("unknown", m)
+        if recv[0] == "job":
+            return self._job_call(self.specs[recv[1]], m, args, line)
+        if recv[0] == "conf":
+            spec = self.specs.get(recv[1]) if len(recv) > 1 and recv[1] else self._conf_owner()
+            if m in _CONF_SETTERS and len(args) >= 2:
+                k, v = self._value(args[0], None), self._value(args[1], None)
+                if spec is not None and k[0] == "str":
+                    spec.conf[k[1]] = str(v[1]) if v[0] in ("str", "int", "lit") else f"<{v[1]}>"
+                elif spec is None and k[0] == "str":
+                    self.pending_conf = getattr(self, "pending_conf", {})
+                    self.pending_conf[k[1]] = str(v[1]) if v[0] in ("str", "int", "lit") else f"<{v[1]}>"
+            return ("unknown", m)
+        if m not in _HARMLESS and recv[0] not in ("unknown", "obj", "static", "self"):
+            spec = self._only_spec()
+            if spec is not None:
+                spec.unread.append((line, m))
+        return ("unknown", m)
+
+    def _new_job(self, where, target: str | None, args) -> tuple:
+        jid = f"job{len(self.order)}"
+        name = None
+        for a in args or []:
+            v = self._value(a, None)
+            if v[0] == "str":
+                name = v[1]
+        start, end = node_lines(where)
+        api = "mapred" if getattr(getattr(where, "type", None), "name", "") == "JobConf" else "mapreduce"
+        spec = JobSpec(self.cls, self.method_name, name or self.cls.name, api,
+                       Span(self.cls.file.path, start or self.cls.line_start, end or self.cls.line_end))
+        spec.conf.update(getattr(self, "pending_conf", {}))
+        self.specs[jid] = spec
+        self.order.append(jid)
+        return ("job", jid)
+
+    def _submit(self, jid: str) -> None:
+        if jid not in self.submitted:
+            self.submitted.append(jid)
+        spec = self.specs[jid]
+        if spec.output is not None and spec.output in getattr(self, "pending_delete", []):
+            spec.deletes_output = True
+
+    def _only_spec(self) -> JobSpec | None:
+        return self.specs[self.order[-1]] if self.order else None
+
+    def _conf_owner(self) -> JobSpec | None:
+        return self._only_spec()
+
+    def _job_call(self, spec: JobSpec, m: str, args, line: int) -> tuple:
+        if m in ("getConfiguration",):
+            return ("conf", None)
+        if m in _JOB_CALLS and args:
+            spec.classes[_JOB_CALLS[m]] = self._class_arg(args[0])
+        elif m in _TYPE_CALLS and args:
+            spec.types[_TYPE_CALLS[m]] = self._class_arg(args[0])
+        elif m in ("setInputFormatClass", "setInputFormat") and args:
+            spec.input_format = self._class_arg(args[0])
+        elif m in ("setOutputFormatClass", "setOutputFormat") and args:
+            spec.output_format = self._class_arg(args[0])
+        elif m == "setNumReduceTasks" and args:
+            v = self._value(args[0], None)
+            spec.num_reduces = v[1] if v[0] == "int" else None
+            if v[0] != "int":
+                spec.extra.append(("reducer-count", line, "number of reduce tasks is computed at run time"))
+        elif m == "setJobName" and args:
+            v = self._value(args[0], None)
+            if v[0] == "str":
+                spec.name = v[1]
+        elif m in _CONF_SETTERS and len(args) >= 2:
+            k, v = self._value(args[0], None), self._value(args[1], None)
+            if k[0] == "str":
+                spec.conf[k[1]] = str(v[1]) if v[0] in ("str", "int", "lit") else f"<{v[1]}>"
+        elif m in ("setInputPath", "addInputPath"):
+            spec.inputs.append(self._path_ref(self._value(args[0], None), args[0]))
+        elif m == "setOutputPath":
+            spec.output = self._path_ref(self._value(args[0], None), args[0])
+        elif m not in _HARMLESS:
+            spec.unread.append((line, m))
+        return ("unknown", m)
+
+    def _format_call(self, fmt: str, m: str, args, line: int) -> tuple:
+        if not args:
+            return ("unknown", m)
+        j = self._value(args[0], None)
+        if j[0] == "conf" and self.order:
+            j = ("job", self.order[-1])
+        if j[0] != "job":
+            return ("unknown", m)
+        spec = self.specs[j[1]]
+        if m in ("addInputPath", "setInputPaths", "addInputPaths"):
+            for a in args[1:]:
+                v = self._value(a, None)
+                if v[0] == "str" or v[0] == "arg":
+                    spec.input_paths_split_commas = True  # the String overloads split on commas
+                spec.inputs.append(self._path_ref(v, a))
+        elif m == "setOutputPath" and len(args) > 1:
+            spec.output = self._path_ref(self._value(args[1], None), args[1])
+            if spec.output in getattr(self, "pending_delete", []):
+                spec.deletes_output = True
+        elif m in ("setInputPathFilter", "setInputDirRecursive", "setMinInputSplitSize", "setMaxInputSplitSize",
+                   "setCompressOutput", "setOutputCompressorClass"):
+            spec.extra.append(("input-output-options", line, f"{fmt}.{m}(...)"))
+        return ("unknown", m)
+
+    def _class_arg(self, e) -> str:
+        if isinstance(e, T.ClassReference):
+            name = e.type.name
+            sub = e.type.sub_type
+            while sub is not None:
+                name, sub = f"{name}.{sub.name}", sub.sub_type
+            return self.index.resolve(name, self.cls) or name
+        v = self._value(e, None)
+        return f"<{v[1]}>"
+
+    def _path_ref(self, v: tuple, node) -> PathRef:
+        if v[0] == "path":
+            return v[1]
+        if v[0] == "arg":
+            return PathRef("arg", index=v[1])
+        if v[0] == "str":
+            return PathRef("literal", literal=v[1])
+        return PathRef("unknown", text=str(v[1]))
+
+
+def _exits(stmt) -> bool:
+    """An `if` branch that only prints usage and exits or returns (argument checks)."""
+    for _, node in stmt:
+        if isinstance(node, T.ReturnStatement) or (isinstance(node, T.MethodInvocation) and node.member == "exit"):
+            return True
+    return False
+
+
+def _category_of(name: str) -> str:
+    simple = name.split(".")[-1]
+    return {"MultipleInputs": "multiple-inputs", "MultipleOutputs": "named-outputs", "DistributedCache": "side-files",
+            "ChainMapper": "chained-maps", "ChainReducer": "chained-maps", "JobControl": "chained-jobs"}.get(simple, "driver")
+
+
+def _line(node) -> int:
+    return node_lines(node)[0]

@@ -1,0 +1,1 @@
+"""Rules that turn Java idioms into the plan. Only this package and migrate.java know javalang."""

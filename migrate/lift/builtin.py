@@ -1,0 +1,59 @@
+"""Mapper and reducer classes that ship with Hadoop, recognised by name instead of by source.
+
+Recognises: TokenCounterMapper / TokenCountMapper, InverseMapper, RegexMapper, identity
+Mapper / IdentityMapper, IntSumReducer, LongSumReducer, identity Reducer / IdentityReducer.
+Produces: the same plan steps a lifted body would. Caveats: the identity and inverse
+mappers read the input key, which on TextInputFormat is the byte offset: hand work.
+"""
+from __future__ import annotations
+
+from migrate.java.hadoop_api import MAPRED, MAPREDUCE
+from migrate.plan import Agg, AggRef, Call, Col, Emit, Explode, Group, Identity, Lit, Project, Span, Step
+
+TOKEN_MAPPERS = {f"{MAPREDUCE}.lib.map.TokenCounterMapper", f"{MAPRED}.lib.TokenCountMapper"}
+INVERSE_MAPPERS = {f"{MAPREDUCE}.lib.map.InverseMapper", f"{MAPRED}.lib.InverseMapper"}
+IDENTITY_MAPPERS = {f"{MAPREDUCE}.Mapper", f"{MAPRED}.lib.IdentityMapper", None}
+REGEX_MAPPERS = {f"{MAPREDUCE}.lib.map.RegexMapper": ("mapreduce.mapper.regex", "mapreduce.mapper.regexmapper..group"),
+                 f"{MAPRED}.lib.RegexMapper": ("mapred.mapper.regex", "mapred.mapper.regex.group")}
+SUM_REDUCERS = {f"{MAPREDUCE}.lib.reduce.IntSumReducer": "int", f"{MAPREDUCE}.lib.reduce.LongSumReducer": "long",
+                f"{MAPRED}.lib.LongSumReducer": "long"}
+IDENTITY_REDUCERS = {f"{MAPREDUCE}.Reducer", f"{MAPRED}.lib.IdentityReducer", None}
+
+LIB = Span("<ships with Hadoop>", 0, 0)
+
+
+def library_mapper(fqcn: str | None, input_fmt: str, conf: dict[str, str]) -> tuple[list[Step] | None, str]:
+    """Steps for a Hadoop library mapper, or (None, reason) when it cannot be expressed."""
+    value = Col("String", "value")
+    if fqcn in TOKEN_MAPPERS:
+        tokens = Call("String[]", "tokens", (value,))
+        return [Explode(LIB, "StringTokenizer over the line", "token", tokens),
+                Project(LIB, "emit (token, 1)", (Emit(LIB, "write(token, one)", Col("String", "token"), Lit("int", 1)),))], ""
+    if fqcn in REGEX_MAPPERS:
+        pattern_key, group_key = REGEX_MAPPERS[fqcn]
+        if pattern_key not in conf or conf[pattern_key].startswith("<"):
+            return None, f"RegexMapper needs `{pattern_key}`, which the driver does not set to a constant"
+        group = int(conf.get(group_key, "0"))
+        matches = Call("String[]", "regex_matches", (value, Lit("String", conf[pattern_key]), Lit("int", group)))
+        return [Explode(LIB, f"every match of {conf[pattern_key]!r}", "match", matches),
+                Project(LIB, "emit (match, 1L)", (Emit(LIB, "write(match, 1L)", Col("String", "match"), Lit("long", 1)),))], ""
+    if fqcn in INVERSE_MAPPERS or fqcn in IDENTITY_MAPPERS:
+        if input_fmt != "keyvalue":
+            return None, ("the mapper passes on the input key, which for TextInputFormat is the line's byte offset; "
+                          "Spark's text source has no per-line offset")
+        k, v = Col("String", "key"), Col("String", "value")
+        pair = (v, k) if fqcn in INVERSE_MAPPERS else (k, v)
+        return [Project(LIB, "emit the pair unchanged" if pair[0] is k else "emit (value, key)",
+                        (Emit(LIB, "write", pair[0], pair[1]),))], ""
+    return None, f"{fqcn} is not a Hadoop library mapper the converter knows"
+
+
+def library_reducer(fqcn: str | None, key_type: str, value_type: str) -> Step | None:
+    """A Group/Identity step for a Hadoop library reducer, or None."""
+    if fqcn in SUM_REDUCERS:
+        t = SUM_REDUCERS[fqcn]
+        agg = Agg("sum", "sum", Col(value_type, "value"), t, 0, LIB, f"{fqcn.rsplit('.', 1)[1]}: sum of the values")
+        return Group(LIB, "sum of values per key", (agg,), Col(key_type, "key"), AggRef(t, "sum"))
+    if fqcn in IDENTITY_REDUCERS:
+        return Identity(LIB, "identity reduce: pairs pass through sorted by key")
+    return None

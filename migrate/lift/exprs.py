@@ -1,0 +1,391 @@
+"""Lift Java expressions to plan expressions, deciding Java semantics (types, division, throws).
+
+Recognises: literals, locals and constant fields, String methods (split, trim, case, equals,
+startsWith/endsWith/contains, isEmpty, length, toString), Integer/Long/Double parsing,
+String.valueOf, arithmetic with binary numeric promotion, comparisons, && || !, ternaries,
+widening casts, Math.max/min/abs on integers, Writable get()/toString(), array index/length.
+Produces: plan Expr nodes. Caveats: anything else raises Unsupported with the node's line,
+which the calling rule turns into a hand-work item; nothing is guessed.
+"""
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+from javalang import tree as T
+
+from migrate.java.literals import number_value, string_value
+from migrate.plan import INTEGRAL, NUMERIC, Arith, BoolOp, Call, Cast, Col, Compare, Cond, Expr, Lit
+
+
+class Unsupported(Exception):
+    """A Java construct no rule understands; carries the line and a reason for the report."""
+
+    def __init__(self, node, reason: str, suggestion: str = ""):
+        super().__init__(reason)
+        self.node, self.reason, self.suggestion = node, reason, suggestion
+
+    @property
+    def line(self) -> int:
+        from migrate.java.index import node_lines
+
+        return node_lines(self.node)[0] if self.node is not None else 0
+
+
+# Which Java exception each throwing operation raises (for catch-and-skip blocks).
+THROWS = {"parse_int": "NumberFormatException", "parse_long": "NumberFormatException",
+          "parse_double": "NumberFormatException", "index": "ArrayIndexOutOfBoundsException"}
+CATCH_ALL = {"Exception", "RuntimeException", "Throwable", "IllegalArgumentException"}
+_SUPERS = {"NumberFormatException": {"IllegalArgumentException"},
+           "ArrayIndexOutOfBoundsException": {"IndexOutOfBoundsException"}}
+
+CONSTANTS = {
+    ("Integer", "MAX_VALUE"): (2147483647, "int"), ("Integer", "MIN_VALUE"): (-2147483648, "int"),
+    ("Long", "MAX_VALUE"): (9223372036854775807, "long"), ("Long", "MIN_VALUE"): (-9223372036854775808, "long"),
+    ("Double", "MAX_VALUE"): (1.7976931348623157e308, "double"), ("Double", "MIN_VALUE"): (5e-324, "double"),
+    ("Double", "POSITIVE_INFINITY"): (float("inf"), "double"), ("Double", "NEGATIVE_INFINITY"): (float("-inf"), "double"),
+}
+
+PARSERS = {("Integer", "parseInt"): "parse_int", ("Integer", "valueOf"): "parse_int",
+           ("Long", "parseLong"): "parse_long", ("Long", "valueOf"): "parse_long",
+           ("Double", "parseDouble"): "parse_double", ("Double", "valueOf"): "parse_double"}
+PARSED_TYPE = {"parse_int": "int", "parse_long": "long", "parse_double": "double"}
+
+WRITABLE_OF = {"Text": "String", "IntWritable": "int", "LongWritable": "long", "DoubleWritable": "double",
+               "FloatWritable": "float", "BooleanWritable": "boolean", "VIntWritable": "int", "VLongWritable": "long"}
+
+
+@dataclass
+class Writable:
+    """A Hadoop Writable object held in a variable; `content` is what it currently holds."""
+
+    kind: str
+    content: Expr | None
+
+
+@dataclass
+class Tokenizer:
+    """A java.util.StringTokenizer over `tokens` (an array expression already split)."""
+
+    tokens: Expr
+    current: Expr | None = None  # set while lifting the body of its loop
+
+
+@dataclass
+class Opaque:
+    """Something bound to a name that expressions may not read (context, reporter, values...)."""
+
+    what: str
+
+
+@dataclass
+class Scope:
+    """Names visible to an expression and the exception kinds a surrounding catch swallows."""
+
+    env: dict[str, object]
+    caught: frozenset[str] = frozenset()
+    emitted: list = field(default_factory=list)
+
+    def on_error(self, op: str) -> str:
+        exc = THROWS.get(op)
+        if exc is None:
+            return "fail"
+        kinds = {exc} | _SUPERS.get(exc, set())
+        return "null" if (kinds & self.caught) or (self.caught & CATCH_ALL) else "fail"
+
+
+def promote(a: str, b: str) -> str:
+    """Java binary numeric promotion (JLS 5.6.2)."""
+    for t in ("double", "float", "long"):
+        if t in (a, b):
+            return t
+    return "int"
+
+
+def lift(node, scope: Scope) -> Expr:
+    """Lift one Java expression node."""
+    if node is None:
+        raise Unsupported(node, "empty expression")
+    pre = list(getattr(node, "prefix_operators", None) or [])
+    post = list(getattr(node, "postfix_operators", None) or [])
+    if post:
+        raise Unsupported(node, f"postfix {post[0]} inside an expression changes state")
+    if pre:
+        node_copy = _without_prefix(node)
+        inner = lift(node_copy, scope)
+        for op in reversed(pre):
+            inner = _prefix(op, inner, node)
+        return inner
+    if isinstance(node, T.Literal):
+        return _literal(node)
+    if isinstance(node, T.MemberReference):
+        base = _member(node, scope)
+        return _selectors(base, node.selectors or [], scope, node)
+    if isinstance(node, T.MethodInvocation):
+        return _invocation(node, scope)
+    if isinstance(node, T.BinaryOperation):
+        return _binary(node, scope)
+    if isinstance(node, T.TernaryExpression):
+        c = _bool(lift(node.condition, scope), node)
+        a, b = lift(node.if_true, scope), lift(node.if_false, scope)
+        t = a.jtype if a.jtype == b.jtype else promote(a.jtype, b.jtype) if {a.jtype, b.jtype} <= NUMERIC else None
+        if t is None:
+            raise Unsupported(node, f"conditional mixes {a.jtype} and {b.jtype}")
+        return Cond(t, c, _widen(a, t), _widen(b, t))
+    if isinstance(node, T.Cast):
+        return _cast(node, scope)
+    if isinstance(node, T.ClassCreator):
+        w = writable_creator(node, scope)
+        if w is not None and w.content is not None:
+            return _selectors(w.content, node.selectors or [], scope, node)
+        raise Unsupported(node, f"`new {node.type.name}(...)` inside an expression")
+    raise Unsupported(node, f"Java expression {type(node).__name__} is not lifted yet")
+
+
+def _without_prefix(node):
+    import copy
+
+    c = copy.copy(node)
+    c.prefix_operators = []
+    return c
+
+
+def _prefix(op: str, e: Expr, node) -> Expr:
+    if op == "!":
+        return BoolOp("boolean", "!", (_bool(e, node),))
+    if op == "-" and e.jtype in NUMERIC:
+        if isinstance(e, Lit):
+            return Lit(e.jtype, -e.value)
+        return Arith(e.jtype, "-", Lit(e.jtype, 0), e)
+    if op == "+" and e.jtype in NUMERIC:
+        return e
+    raise Unsupported(node, f"prefix operator {op} on {e.jtype}")
+
+
+def _literal(node: T.Literal) -> Expr:
+    v = node.value
+    if v.startswith('"'):
+        return Lit("String", string_value(v))
+    if v.startswith("'"):
+        raise Unsupported(node, "char values are not lifted yet")
+    if v in ("true", "false"):
+        return Lit("boolean", v == "true")
+    if v == "null":
+        return Lit("null", None)
+    value, jtype = number_value(v)
+    return Lit(jtype, value)
+
+
+def _member(node: T.MemberReference, scope: Scope) -> Expr:
+    q, m = node.qualifier or "", node.member
+    if q in ("", "this"):
+        b = scope.env.get(m)
+        if b is None:
+            raise Unsupported(node, f"`{m}` is not a value the converter can follow (field, parameter or local)")
+        return _binding_value(b, node, m)
+    if (q, m) in CONSTANTS:
+        v, t = CONSTANTS[(q, m)]
+        return Lit(t, v)
+    b = scope.env.get(q)
+    if b is not None and m == "length":
+        arr = _binding_value(b, node, q)
+        if arr.jtype.endswith("[]"):
+            return Call("int", "size", (arr,))
+    raise Unsupported(node, f"`{q}.{m}` is not lifted")
+
+
+def _binding_value(b, node, name: str) -> Expr:
+    if isinstance(b, Expr):
+        return b
+    if isinstance(b, Writable):
+        if b.content is None:
+            raise Unsupported(node, f"Writable `{name}` is read before anything was set into it")
+        return b.content
+    raise Unsupported(node, f"`{name}` ({getattr(b, 'what', type(b).__name__)}) is used as a value")
+
+
+def _selectors(base: Expr, selectors, scope: Scope, node) -> Expr:
+    e = base
+    for sel in selectors:
+        if isinstance(sel, T.ArraySelector):
+            if not e.jtype.endswith("[]"):
+                raise Unsupported(node, "indexing a value that is not an array")
+            idx = lift(sel.index, scope)
+            if idx.jtype not in INTEGRAL:
+                raise Unsupported(node, "array index is not an integer")
+            e = Call(e.jtype[:-2], "index", (e, idx), scope.on_error("index"))
+        elif isinstance(sel, T.MethodInvocation):
+            e = _method(e, sel, scope)
+        elif isinstance(sel, T.MemberReference) and sel.member == "length" and e.jtype.endswith("[]"):
+            e = Call("int", "size", (e,))
+        else:
+            raise Unsupported(node, f"selector {type(sel).__name__} is not lifted")
+    return e
+
+
+def _invocation(node: T.MethodInvocation, scope: Scope) -> Expr:
+    q, m = node.qualifier or "", node.member
+    args = node.arguments or []
+    if (q, m) in PARSERS and len(args) == 1:
+        s = lift(args[0], scope)
+        if s.jtype != "String":
+            raise Unsupported(node, f"{q}.{m} of a {s.jtype}")
+        op = PARSERS[(q, m)]
+        return _selectors(Call(PARSED_TYPE[op], op, (s,), scope.on_error(op)), node.selectors or [], scope, node)
+    if (q, m) in (("String", "valueOf"), ("Integer", "toString"), ("Long", "toString"), ("Double", "toString")) and len(args) == 1:
+        return _selectors(to_string(lift(args[0], scope)), node.selectors or [], scope, node)
+    if q == "Math" and m in ("max", "min") and len(args) == 2:
+        a, b = lift(args[0], scope), lift(args[1], scope)
+        t = promote(a.jtype, b.jtype)
+        if t not in INTEGRAL:
+            raise Unsupported(node, f"Math.{m} on {t}: NaN and -0.0 order differ from Spark's greatest/least",
+                              "write F.when over F.isnan explicitly")
+        return Call(t, "greatest" if m == "max" else "least", (_widen(a, t), _widen(b, t)))
+    if q == "Math" and m == "abs" and len(args) == 1:
+        a = lift(args[0], scope)
+        if a.jtype not in NUMERIC:
+            raise Unsupported(node, "Math.abs of a non-number")
+        return Call(a.jtype, "abs", (a,))
+    if q and "." not in q and q in scope.env:
+        recv = scope.env[q]
+        if isinstance(recv, Tokenizer):
+            if m == "nextToken" and recv.current is not None:
+                return _selectors(recv.current, node.selectors or [], scope, node)
+            raise Unsupported(node, f"StringTokenizer.{m}() outside a token loop")
+        base = _binding_value(recv, node, q)
+        return _selectors(_method(base, node, scope), node.selectors or [], scope, node)
+    if q == "" and m in scope.env and isinstance(scope.env[m], Opaque):
+        raise Unsupported(node, f"call of {m}()")
+    raise Unsupported(node, f"call `{(q + '.') if q else ''}{m}(...)` is not lifted",
+                      "inline the helper by hand, or express it with pyspark.sql.functions")
+
+
+def _method(recv: Expr, node: T.MethodInvocation, scope: Scope) -> Expr:
+    m, args = node.member, node.arguments or []
+    a = [lift(x, scope) for x in args]
+    t = recv.jtype
+    if m == "toString" and not a:
+        return to_string(recv)
+    if m == "get" and not a and t in NUMERIC | {"boolean"}:
+        return recv  # IntWritable.get() and friends
+    if t != "String":
+        raise Unsupported(node, f"method {m}() on a {t} value is not lifted")
+    if m == "split" and a and isinstance(a[0], Lit) and a[0].jtype == "String":
+        limit = a[1] if len(a) > 1 else Lit("int", 0)
+        if not isinstance(limit, Lit):
+            raise Unsupported(node, "split limit is not a constant")
+        # Java's limit 0 drops trailing empty strings; Spark's split never does.
+        return Call("String[]", "split" if limit.value == 0 else "split_limit", (recv, a[0], limit))
+    if m == "trim" and not a:
+        return Call("String", "trim", (recv,))
+    if m in ("toLowerCase", "toUpperCase") and len(a) <= 1:
+        return Call("String", "lower" if m == "toLowerCase" else "upper", (recv,))
+    if m == "equals" and len(a) == 1:
+        return Compare("boolean", "==", recv, a[0]) if a[0].jtype == "String" else Lit("boolean", False)
+    if m in ("startsWith", "endsWith", "contains") and len(a) == 1 and a[0].jtype == "String":
+        return Call("boolean", {"startsWith": "starts_with", "endsWith": "ends_with", "contains": "contains"}[m], (recv, a[0]))
+    if m == "isEmpty" and not a:
+        return Call("boolean", "is_empty", (recv,))
+    if m == "length" and not a:
+        return Call("int", "length", (recv,))
+    raise Unsupported(node, f"String.{m}(...) is not lifted yet")
+
+
+def to_string(e: Expr) -> Expr:
+    """Java's String.valueOf / toString of a value (Double.toString for doubles)."""
+    if e.jtype == "String":
+        return e
+    if isinstance(e, Lit) and e.jtype in ("int", "long"):
+        return Lit("String", str(e.value))
+    if e.jtype in NUMERIC | {"boolean"}:
+        return Call("String", "to_string", (e,))
+    raise Unsupported(None, f"toString of {e.jtype}")
+
+
+def _binary(node: T.BinaryOperation, scope: Scope) -> Expr:
+    op = node.operator
+    l, r = lift(node.operandl, scope), lift(node.operandr, scope)
+    if op in ("&&", "||"):
+        return BoolOp("boolean", op, (_bool(l, node), _bool(r, node)))
+    if op == "+" and "String" in (l.jtype, r.jtype):
+        return Call("String", "concat", (to_string(l), to_string(r)))
+    if op in ("+", "-", "*", "/", "%"):
+        if l.jtype not in NUMERIC or r.jtype not in NUMERIC:
+            raise Unsupported(node, f"arithmetic {op} on {l.jtype} and {r.jtype}")
+        t = promote(l.jtype, r.jtype)
+        return Arith(t, op, _widen(l, t), _widen(r, t))
+    if op in ("<", ">", "<=", ">=", "==", "!="):
+        if l.jtype == "String" or r.jtype == "String":
+            if op in ("==", "!=") and "null" in (l.jtype, r.jtype):
+                return Lit("boolean", op == "!=")  # values read from text lines are never null
+            raise Unsupported(node, "Strings compared with == or <: Java compares references, not text",
+                              "use .equals() semantics deliberately: F.col(a) == F.col(b)")
+        if l.jtype in NUMERIC and r.jtype in NUMERIC:
+            t = promote(l.jtype, r.jtype)
+            return Compare("boolean", op, _widen(l, t), _widen(r, t))
+        if l.jtype == r.jtype == "boolean" and op in ("==", "!="):
+            return Compare("boolean", op, l, r)
+        raise Unsupported(node, f"comparison {op} of {l.jtype} and {r.jtype}")
+    raise Unsupported(node, f"operator {op} is not lifted yet")
+
+
+def _cast(node: T.Cast, scope: Scope) -> Expr:
+    target = getattr(node.type, "name", "")
+    e = lift(node.expression, scope)
+    if target == e.jtype:
+        return e
+    widening = {("int", "long"), ("int", "double"), ("long", "double"), ("int", "float"), ("float", "double"),
+                ("long", "float")}
+    if (e.jtype, target) in widening:
+        return _widen(e, target)
+    raise Unsupported(node, f"narrowing cast ({target}) of a {e.jtype}: Java saturates and truncates differently "
+                            "from Spark's ANSI cast", "check the value range, then cast explicitly")
+
+
+def _widen(e: Expr, t: str) -> Expr:
+    if e.jtype == t:
+        return e
+    if isinstance(e, Lit) and t in NUMERIC and e.jtype in NUMERIC:
+        return Lit(t, float(e.value) if t in ("double", "float") else e.value)
+    return Cast(t, e)
+
+
+def _bool(e: Expr, node) -> Expr:
+    if e.jtype != "boolean":
+        raise Unsupported(node, f"a {e.jtype} used as a condition")
+    return e
+
+
+def writable_creator(node: T.ClassCreator, scope: Scope) -> Writable | None:
+    """`new Text(s)`, `new IntWritable(n)` … → a Writable holding the lifted argument."""
+    kind = node.type.name.split(".")[-1]
+    if kind not in WRITABLE_OF:
+        return None
+    args = node.arguments or []
+    if not args:  # a fresh Writable holds its type's zero value
+        zero = {"String": "", "int": 0, "long": 0, "double": 0.0, "float": 0.0, "boolean": False}[WRITABLE_OF[kind]]
+        return Writable(kind, Lit(WRITABLE_OF[kind], zero))
+    v = lift(args[0], scope)
+    want = WRITABLE_OF[kind]
+    if want == "String":
+        return Writable(kind, to_string(v))
+    if v.jtype in NUMERIC and want in NUMERIC and promote(v.jtype, want) == want:
+        return Writable(kind, _widen(v, want))
+    if v.jtype == want:
+        return Writable(kind, v)
+    raise Unsupported(node, f"new {kind}(...) of a {v.jtype}")
+
+
+def writable_set(w: Writable, value: Expr, node) -> Expr:
+    """The content after `w.set(value)`, converted as the Writable's setter would."""
+    want = WRITABLE_OF[w.kind]
+    if want == "String":
+        if value.jtype != "String":
+            raise Unsupported(node, f"Text.set of a {value.jtype}")
+        return value
+    if value.jtype in NUMERIC and want in NUMERIC and promote(value.jtype, want) == want:
+        return _widen(value, want)
+    raise Unsupported(node, f"{w.kind}.set of a {value.jtype}")
+
+
+def widen(e: Expr, t: str) -> Expr:
+    return _widen(e, t)

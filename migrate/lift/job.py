@@ -1,0 +1,301 @@
+"""Assemble one job's Plan from its JobSpec: source, map steps, reduce fold, sink, hand work."""
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+from javalang import tree as T
+
+from migrate.java.driver import JobSpec, PathRef
+from migrate.java.hadoop_api import KNOWN_CLASSES, WRITABLE_TYPES
+from migrate.java.index import ClassIndex, ClassInfo, node_lines
+from migrate.java.source import logical_sloc
+from migrate.lift.builtin import IDENTITY_MAPPERS, IDENTITY_REDUCERS, SUM_REDUCERS, library_mapper, library_reducer
+from migrate.lift.mapper import MapBodyLifter
+from migrate.lift.reducer import FoldLifter
+from migrate.plan import (Agg, AggRef, Cast, Col, Emit, Explode, Filter, Group, HandWork, Identity, Param, Plan,
+                          Project, Sink, Source, Span, Step)
+
+LIFECYCLE = {"setup", "cleanup", "configure", "close", "run"}
+
+
+@dataclass
+class JobResult:
+    """A planned job plus what the report needs to know about where it came from."""
+
+    spec: JobSpec
+    plan: Plan
+    classes: dict[str, str]  # role -> fqcn
+    files: dict[str, Span]  # role -> span of the class (for the docstring and the review page)
+    sloc_total: int
+    notes: list[str] = field(default_factory=list)
+
+    @property
+    def status(self) -> str:
+        if not self.plan.hand_work:
+            return "converted"
+        lifted = [s for s in self.plan.map_steps if isinstance(s, Project)]
+        return "partial" if lifted or self.plan.reduce is not None else "not_converted"
+
+
+def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
+    hand: list[HandWork] = []
+    notes: list[str] = []
+    shapes: list[str] = []
+    classes = {"driver": spec.driver.fqcn, **spec.classes}
+    files = {"driver": spec.driver.span}
+    for role, fq in spec.classes.items():
+        c = index.get(fq)
+        if c is not None:
+            files[role] = c.span
+
+    def add(category: str, span: Span, reason: str, suggestion: str, profile: str = "P1", sloc: int = 0) -> None:
+        line = span.line_start
+        lines = index.get(spec.driver.fqcn).file.lines if span.file == spec.driver.file.path else []
+        snippet = lines[line - 1].strip() if lines and 0 < line <= len(lines) else ""
+        hand.append(HandWork(category, span, reason, suggestion, snippet, profile, sloc))
+
+    drv = spec.driver.file.path
+    # ---- parameters: the same positional arguments as the original driver
+    params: list[Param] = []
+    input_params = []
+    for i, ref in enumerate(spec.inputs or []):
+        name = "input_path" if len(spec.inputs) == 1 else f"input_path_{i + 1}"
+        params.append(_param(name, ref, "input path"))
+        input_params.append(name)
+    if not spec.inputs:
+        add("driver", spec.origin, "the driver sets no input path the converter could read",
+            "pass the input folder to build() by hand", "P1")
+        params.append(Param("input_path", "input path (not found in the driver)", None, None))
+        input_params.append("input_path")
+    out_ref = spec.output or PathRef("unknown", text="not set")
+    params.append(_param("output_path", out_ref, "output folder"))
+    if out_ref.kind == "unknown":
+        add("driver", spec.origin, "the driver's output path could not be read", "pass the output folder by hand")
+    for p in params:
+        if p.position is None and p.default is None:
+            pass
+    # ---- formats
+    fmt = "text"
+    if spec.input_format:
+        simple = spec.input_format.rsplit(".", 1)[-1]
+        if simple == "KeyValueTextInputFormat":
+            fmt = "keyvalue"
+            if any(k.endswith("key.value.separator.in.input.line") for k in spec.conf):
+                add("input-format", spec.origin, "custom key/value separator", "split on that separator instead of TAB")
+        elif simple != "TextInputFormat":
+            add("input-format", spec.origin, f"input format {simple} is not converted",
+                "read it with a Spark data source that matches the record layout", "P3", _sloc_of(index, spec.input_format))
+    if spec.output_format and spec.output_format.rsplit(".", 1)[-1] != "TextOutputFormat":
+        add("output-format", spec.origin, f"output format {spec.output_format.rsplit('.', 1)[-1]} is not converted",
+            "write with the Spark format downstream readers expect", "P3", _sloc_of(index, spec.output_format))
+    sep = spec.conf.get("mapreduce.output.textoutputformat.separator", spec.conf.get("mapred.textoutputformat.separator", "\t"))
+    # ---- map output types (Hadoop falls back to the job output types)
+    map_key_fq = spec.types.get("map_key", spec.types.get("out_key", "org.apache.hadoop.io.LongWritable"))
+    map_val_fq = spec.types.get("map_value", spec.types.get("out_value", "org.apache.hadoop.io.Text"))
+    map_key_t, map_val_t = _jtype(map_key_fq), _jtype(map_val_fq)
+    for what, fq, t in (("map output key", map_key_fq, map_key_t), ("map output value", map_val_fq, map_val_t)):
+        if t == "?":
+            add("custom-writable", spec.origin, f"{what} class {fq.rsplit('.', 1)[-1]} is a custom Writable",
+                "model its fields as struct columns", "P1", _sloc_of(index, fq))
+    # ---- mapper
+    mapper_fq = spec.classes.get("mapper")
+    steps: list[Step] = []
+    skip_first = False
+    mcls = index.get(mapper_fq)
+    if mcls is not None and "mapper" in mcls.roles:
+        steps, skip_first = _lift_mapper(mcls, fmt, hand, notes, index)
+    elif mapper_fq in KNOWN_CLASSES or mapper_fq in IDENTITY_MAPPERS:
+        lib_steps, why = library_mapper(mapper_fq, fmt, spec.conf)
+        if lib_steps is None:
+            add("map-logic", spec.origin, why, "read the input with the key you need and select it by hand", "P2")
+        else:
+            steps = lib_steps
+            shapes.append("token count" if any(isinstance(s, Explode) for s in steps) else "identity map")
+    else:
+        add("missing-source", spec.origin, f"mapper {mapper_fq} is neither in the repository nor a Hadoop library class",
+            "add its source to the scanned folder", "P2")
+    # ---- reduce side
+    reduce: Step | None = None
+    reducer_fq = spec.classes.get("reducer")
+    if spec.reduces == 0:
+        shapes.append("map only")
+    else:
+        rcls = index.get(reducer_fq)
+        if rcls is not None and "reducer" in rcls.roles:
+            reduce = _lift_reducer(rcls, map_key_t, map_val_t, hand, index)
+        elif reducer_fq in KNOWN_CLASSES or reducer_fq in IDENTITY_REDUCERS:
+            reduce = library_reducer(reducer_fq, map_key_t, map_val_t)
+            if reduce is None:
+                add("reduce-logic", spec.origin, f"reducer {reducer_fq} is not converted", "write the aggregation by hand", "P2")
+        else:
+            add("missing-source", spec.origin, f"reducer {reducer_fq} is neither in the repository nor a Hadoop library class",
+                "add its source to the scanned folder", "P2")
+        if spec.reduces > 1:
+            add("output-layout", spec.origin, f"Hadoop split the output over {spec.reduces} part files by key hash; "
+                "the script writes one file sorted by key", "if readers depend on the part files, repartition by key", "P1")
+        _check_combiner(spec, reduce, index, add)
+        for role, label in (("partitioner", "custom partitioner"), ("sort_comparator", "custom sort order"),
+                            ("grouping_comparator", "custom grouping (secondary sort)")):
+            if role in spec.classes:
+                add("secondary-sort" if role != "partitioner" else "partitioner", spec.origin,
+                    f"{label} {spec.classes[role].rsplit('.', 1)[-1]} is not converted",
+                    "Window.partitionBy(...).orderBy(...) expresses secondary sort", "P2", _sloc_of(index, spec.classes[role]))
+    for category, line, text in spec.extra:
+        add(category, Span(drv, line, line), f"{text} is not converted in this version",
+            "see the DataFrame join/union equivalents in DEVELOPERS.md", "P2")
+    for line, call in spec.unread:
+        notes.append(f"{drv}:{line} driver call `{call}` was not read")
+    # ---- shapes and the sink
+    shapes.extend(_shapes(steps, reduce))
+    out_key_t, out_val_t = _sink_types(steps, reduce, spec)
+    sink = Sink("output_path", out_key_t, out_val_t, sorted_by_key=reduce is not None and spec.reduces >= 1,
+                overwrite=spec.deletes_output, separator=sep, origin=spec.origin)
+    source = Source(tuple(input_params), fmt, skip_first, spec.input_paths_split_commas, spec.origin)
+    plan = Plan(spec.name, source, tuple(steps), reduce, sink, tuple(params), tuple(hand), tuple(dict.fromkeys(shapes)),
+                tuple(notes))
+    sloc = sum(c.sloc for c in {index.get(fq) for fq in classes.values()} if c is not None)
+    return JobResult(spec, plan, classes, files, sloc, notes)
+
+
+def _param(name: str, ref: PathRef, what: str) -> Param:
+    if ref.kind == "arg":
+        return Param(name, f"{what} (args[{ref.index}] of the original driver)", ref.index, None)
+    if ref.kind == "literal":
+        return Param(name, f"{what} (hard-coded in the original driver)", None, ref.literal)
+    return Param(name, f"{what} (the driver computed it: {ref.text})", None, None)
+
+
+def _jtype(fq: str) -> str:
+    if fq in WRITABLE_TYPES:
+        t = WRITABLE_TYPES[fq]
+        return "null" if t is None else t
+    return "?"
+
+
+def _sloc_of(index: ClassIndex, fq: str | None) -> int:
+    c = index.get(fq)
+    return c.sloc if c is not None else 0
+
+
+def _method(cls: ClassInfo, name: str, arity: tuple[int, ...]):
+    ms = [m for m in cls.methods(name) if len(m.parameters) in arity]
+    return ms[0] if ms else None
+
+
+def _find_method(cls: ClassInfo, index: ClassIndex, name: str, arity: tuple[int, ...]):
+    c: ClassInfo | None = cls
+    while c is not None:
+        m = _method(c, name, arity)
+        if m is not None:
+            return c, m
+        parent = c.node.extends
+        c = index.get(index.resolve(parent.name, c)) if parent is not None else None
+    return None, None
+
+
+def _method_hand_work(owner: ClassInfo, m, category: str, reason: str, suggestion: str, profile: str) -> HandWork:
+    a, b = node_lines(m)
+    start = m.position.line if m.position else a
+    end = max(b, start)
+    sloc = logical_sloc(owner.file.lines[start - 1 : end])
+    return HandWork(category, Span(owner.file.path, start, end), reason, suggestion,
+                    owner.file.lines[start - 1].strip(), profile, sloc)
+
+
+def _lift_mapper(mcls: ClassInfo, fmt: str, hand: list[HandWork], notes: list[str], index: ClassIndex):
+    owner, m = _find_method(mcls, index, "map", (3, 4))
+    if m is None:
+        hand.append(HandWork("map-logic", mcls.span, f"{mcls.name} has no map() method the converter could find",
+                             "write the map step by hand", mcls.file.lines[mcls.line_start - 1].strip(), "P2", mcls.sloc))
+        return [], False
+    for name in ("setup", "configure", "cleanup", "close"):
+        lm = _method(owner, name, (0, 1))
+        if lm is not None and _does_something(lm):
+            hand.append(_method_hand_work(owner, lm, "task-lifecycle",
+                                          f"{name}() runs once per task; its logic is not converted in this version",
+                                          "settings become script parameters; per-task state needs a rewrite", "P1"))
+    lifter = MapBodyLifter(owner, m, "String" if fmt == "keyvalue" else "offset", "String", owner.api or "mapreduce")
+    res = lifter.run()
+    for h in res.hand_work:
+        sloc = logical_sloc(owner.file.lines[h.origin.line_start - 1 : node_lines(m)[1]])
+        hand.append(HandWork(h.category, h.origin, h.reason, h.suggestion, h.snippet, h.profile, max(sloc, 1)))
+    notes.extend(res.notes)
+    return res.steps, res.skip_first_line
+
+
+def _does_something(m) -> bool:
+    body = m.body or []
+    return any(not (isinstance(s, T.StatementExpression) and isinstance(s.expression, T.SuperMethodInvocation))
+               for s in body)
+
+
+def _lift_reducer(rcls: ClassInfo, key_t: str, val_t: str, hand: list[HandWork], index: ClassIndex) -> Step | None:
+    owner, m = _find_method(rcls, index, "reduce", (3, 4))
+    if m is None:
+        return Identity(rcls.span, "reducer without reduce(): identity")
+    for name in ("setup", "configure", "cleanup", "close"):
+        lm = _method(owner, name, (0, 1))
+        if lm is not None and _does_something(lm):
+            hand.append(_method_hand_work(owner, lm, "task-lifecycle",
+                                          f"{name}() of the reducer is not converted in this version",
+                                          "per-task state (top-N in cleanup, side outputs) needs a rewrite", "P2"))
+    group, items = FoldLifter(owner, m, key_t, val_t).run()
+    if items:
+        a, b = node_lines(m)
+        sloc = logical_sloc(owner.file.lines[(m.position.line if m.position else a) - 1 : b])
+        hand.extend(HandWork(h.category, h.origin, h.reason, h.suggestion, h.snippet, h.profile, sloc) for h in items)
+    return group
+
+
+_SAFE_COMBINE = {"sum", "min", "max"}
+
+
+def _check_combiner(spec: JobSpec, reduce: Step | None, index: ClassIndex, add) -> None:
+    comb = spec.classes.get("combiner")
+    if comb is None:
+        return
+    same = comb == spec.classes.get("reducer") or (comb in SUM_REDUCERS and spec.classes.get("reducer") in SUM_REDUCERS)
+    safe = (same and isinstance(reduce, Group) and not reduce.distinct and reduce.having is None and reduce.aggs
+            and all(a.fn in _SAFE_COMBINE and isinstance(a.arg, (Col, Cast)) for a in reduce.aggs)
+            and isinstance(reduce.value_out, AggRef) and isinstance(reduce.key_out, Col) and reduce.key_out.name == "key")
+    if same and isinstance(reduce, Group) and reduce.distinct and reduce.having is None:
+        safe = True
+    if not safe:
+        add("combiner", spec.origin, f"combiner {comb.rsplit('.', 1)[-1]} may change the result: Hadoop runs it zero or "
+            "more times, so the original output depends on it", "check whether the combiner is a partial aggregate of the "
+            "reducer; if so drop it (Spark combines partial aggregates itself)", "P2", _sloc_of(index, comb))
+
+
+def _shapes(steps: list[Step], reduce: Step | None) -> list[str]:
+    out = []
+    if any(isinstance(s, Explode) for s in steps):
+        out.append("token count" if isinstance(reduce, Group) and reduce.aggs else "tokens")
+    if any(isinstance(s, Filter) for s in steps):
+        out.append("filter")
+    proj = [s for s in steps if isinstance(s, Project)]
+    if proj and not any(isinstance(s, Explode) for s in steps):
+        out.append("parse and emit")
+    if isinstance(reduce, Group):
+        if reduce.distinct:
+            out.append("distinct keys")
+        fns = {a.fn.split("_")[0] for a in reduce.aggs}
+        if {"sum", "count"} <= fns and any(x for x in [reduce.value_out] if x is not None and not isinstance(x, AggRef)):
+            out.append("average per key")
+        else:
+            out.extend(f"{f} per key" for f in sorted(fns))
+    if isinstance(reduce, Identity):
+        out.append("sort by key")
+    return out
+
+
+def _sink_types(steps: list[Step], reduce: Step | None, spec: JobSpec) -> tuple[str | None, str | None]:
+    if isinstance(reduce, Group):
+        k = reduce.key_out.jtype if reduce.key_out is not None else None
+        v = reduce.value_out.jtype if reduce.value_out is not None else None
+        return k, v
+    proj = [s for s in steps if isinstance(s, Project)]
+    if proj:
+        e = proj[-1].emits[0]
+        return (e.key.jtype if e.key is not None else None, e.value.jtype if e.value is not None else None)
+    out_k, out_v = _jtype(spec.types.get("out_key", "")), _jtype(spec.types.get("out_value", ""))
+    return (None if out_k == "null" else out_k, None if out_v == "null" else out_v)

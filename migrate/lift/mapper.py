@@ -1,0 +1,525 @@
+"""Lift a mapper's map() body: evaluate it symbolically into row steps and Emits.
+
+Recognises: locals (→ columns), `if (c) return;` guards (→ filters), nested if/else (→
+guarded emits), loops over StringTokenizer / split arrays (→ explode), `continue`, several
+writes per record, `try {…} catch (NumberFormatException | ArrayIndexOutOfBoundsException)`
+that skips the record (→ NULL-on-error + filter), Writable fields set and written,
+`if (key.get() == 0) return;` on TextInputFormat (→ drop each file's first line).
+Produces: Let / Filter / Explode / Project steps. Caveats: a statement it cannot prove it
+understood stops the lift there and becomes a HandWork item; state across records,
+setup()/cleanup() logic and counters are hand work in this version.
+"""
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+from javalang import tree as T
+
+from migrate.java.index import ClassInfo, node_lines
+from migrate.lift.exprs import (CATCH_ALL, WRITABLE_OF, Opaque, Scope, Tokenizer, Unsupported, Writable, lift,
+                                writable_creator, writable_set, widen)
+from migrate.plan import BoolOp, Call, Col, Compare, Emit, Explode, Expr, Filter, HandWork, Let, Lit, Project, Span, Step
+
+LOG_RECEIVERS = {"System.out", "System.err", "LOG", "log", "logger", "LOGGER"}
+
+
+@dataclass
+class MapResult:
+    """What lifting one map() produced."""
+
+    steps: list[Step]
+    hand_work: list[HandWork]
+    skip_first_line: bool = False
+    notes: list[str] = field(default_factory=list)
+    counters: list[str] = field(default_factory=list)
+
+
+def _and(a: Expr | None, b: Expr | None) -> Expr | None:
+    if a is None:
+        return b
+    if b is None:
+        return a
+    return BoolOp("boolean", "&&", (a, b))
+
+
+def _or(a: Expr | None, b: Expr | None) -> Expr | None:
+    if a is None or b is None:
+        return None if a is None and b is None else (a or b)
+    return BoolOp("boolean", "||", (a, b))
+
+
+def _not(a: Expr) -> Expr:
+    if isinstance(a, BoolOp) and a.op == "!":
+        return a.args[0]
+    if isinstance(a, Compare):
+        flip = {"<": ">=", ">=": "<", ">": "<=", "<=": ">", "==": "!=", "!=": "=="}
+        if a.left.jtype not in ("double", "float"):  # NaN makes !(a < b) differ from a >= b
+            return Compare("boolean", flip[a.op], a.left, a.right)
+    return BoolOp("boolean", "!", (a,))
+
+
+def _has_null_on_error(e) -> list[Expr]:
+    """Sub-expressions that become NULL where Java would have thrown (inside catch-and-skip)."""
+    out = []
+    if isinstance(e, Call) and e.on_error == "null":
+        out.append(e)
+    for name in ("args",):
+        for a in getattr(e, name, ()) or ():
+            out.extend(_has_null_on_error(a))
+    for name in ("left", "right", "arg", "cond", "then", "other"):
+        sub = getattr(e, name, None)
+        if isinstance(sub, Expr):
+            out.extend(_has_null_on_error(sub))
+    return out
+
+
+class _Stop(Exception):
+    """Lifting stops: the rest of the body is unreachable (unguarded return) or hand work."""
+
+
+class MapBodyLifter:
+    """Symbolic evaluation of one map() method."""
+
+    def __init__(self, cls: ClassInfo, method: T.MethodDeclaration, key_type: str, value_type: str, api: str):
+        self.cls, self.method, self.api = cls, method, api
+        self.file = cls.file.path
+        self.steps: list[Step] = []
+        self.emit_list: list[Emit] = []
+        self.hand: list[HandWork] = []
+        self.notes: list[str] = []
+        self.counters: list[str] = []
+        self.dead: Expr | None = None  # rows for which an earlier `return` already fired
+        self.loop_depth = 0
+        self.after_loop = False
+        self.caught: frozenset[str] = frozenset()
+        self.in_try_emitted = False
+        self.skip_first_line = False
+        self.columns = {"value"}
+        self.loop_locals: list[set[str]] = []
+        env: dict[str, object] = {}
+        env.update(class_constants(cls))
+        params = [p.name for p in method.parameters]
+        self.key_param = params[0] if params else None
+        if len(params) >= 2:
+            env[params[1]] = Col("String", "value")
+        if key_type == "String" and params:
+            env[params[0]] = Col("String", "key")
+            self.columns.add("key")
+        elif params:
+            env[params[0]] = Opaque("the byte offset of the line")
+        self.emit_target = params[2] if len(params) >= 3 else None
+        for p in params[2:]:
+            env[p] = Opaque("the task context")
+        self.scope = Scope(env)
+
+    # ------------------------------------------------------------------ driving
+    def run(self) -> MapResult:
+        try:
+            self._block(self.method.body or [], None)
+        except _Stop:
+            pass
+        except Unsupported as u:
+            self._hand("map-logic", u.line or self._line(self.method), u.reason, u.suggestion or
+                       "express this step with pyspark.sql.functions by hand")
+        if not self.hand:
+            if not self.emit_list:
+                self._hand("map-logic", self._line(self.method), "map() writes nothing the converter could follow",
+                           "check what the mapper emits and write the select by hand")
+            else:
+                self.steps.append(Project(self._span(self.method), "map output", tuple(self.emit_list)))
+        return MapResult(self.steps, self.hand, self.skip_first_line, self.notes, self.counters)
+
+    def _hand(self, category: str, line: int, reason: str, suggestion: str, profile: str = "P1") -> None:
+        snippet = self.cls.file.lines[line - 1].strip() if 0 < line <= len(self.cls.file.lines) else ""
+        self.hand.append(HandWork(category, Span(self.file, line, line), reason, suggestion, snippet, profile))
+
+    def _line(self, node) -> int:
+        return node_lines(node)[0]
+
+    def _span(self, node) -> Span:
+        a, b = node_lines(node)
+        return Span(self.file, a, b)
+
+    def _note(self, node) -> str:
+        a, _ = node_lines(node)
+        text = self.cls.file.lines[a - 1].strip() if a else ""
+        return text if len(text) <= 90 else text[:87] + "..."
+
+
+    def _eff(self, guard: Expr | None) -> Expr | None:
+        return _and(guard, _not(self.dead)) if self.dead is not None else guard
+
+    # ------------------------------------------------------------------ statements
+    def _block(self, stmts, guard: Expr | None) -> None:
+        stmts = list(stmts or [])
+        for i, s in enumerate(stmts):
+            if isinstance(s, T.TryStatement):
+                self._try(s, guard, rest=stmts[i + 1 :])
+            else:
+                self._stmt(s, guard)
+
+    def _stmt(self, s, guard: Expr | None) -> None:
+        if isinstance(s, T.BlockStatement):
+            self._scoped(s.statements, guard)
+        elif isinstance(s, T.LocalVariableDeclaration):
+            for d in s.declarators:
+                self._declare(s, d, guard)
+        elif isinstance(s, T.StatementExpression):
+            self._expression_statement(s, guard)
+        elif isinstance(s, T.IfStatement):
+            self._if(s, guard)
+        elif isinstance(s, (T.ReturnStatement, T.ContinueStatement)):
+            self._exit(s, guard)
+        elif isinstance(s, T.WhileStatement):
+            self._while(s, guard)
+        elif isinstance(s, T.ForStatement):
+            self._for(s, guard)
+        elif isinstance(s, T.TryStatement):
+            self._try(s, guard, rest=[])
+        elif type(s).__name__ == "Statement":  # a lone `;`
+            return
+        else:
+            raise Unsupported(s, f"{type(s).__name__.replace('Statement', '').lower() or 'this'} statement is not lifted yet")
+
+    def _scoped(self, stmts, guard) -> None:
+        before = set(self.scope.env)
+        self._block(stmts, guard)
+        for name in set(self.scope.env) - before:
+            del self.scope.env[name]
+
+    def _fresh(self, name: str) -> str:
+        n, i = name, 2
+        while n in self.columns:
+            n, i = f"{name}_{i}", i + 1
+        self.columns.add(n)
+        return n
+
+    def _declare(self, s, d, guard) -> None:
+        tname = getattr(s.type, "name", "")
+        dims = len(getattr(s.type, "dimensions", None) or []) + len(d.dimensions or [])
+        if d.initializer is None:
+            raise Unsupported(s, f"`{d.name}` is declared without a value", "give it its value where it is declared")
+        init = d.initializer
+        if tname == "StringTokenizer" and isinstance(init, T.ClassCreator):
+            self.scope.env[d.name] = Tokenizer(self._tokens(init))
+            return
+        if tname in WRITABLE_OF and isinstance(init, T.ClassCreator):
+            self.scope.env[d.name] = writable_creator(init, self.scope)
+            return
+        e = lift(init, self.scope)
+        declared = {"int": "int", "long": "long", "double": "double", "float": "float", "boolean": "boolean",
+                    "String": "String", "Integer": "int", "Long": "long", "Double": "double"}.get(tname)
+        if declared is None:
+            raise Unsupported(s, f"local of type {tname} is not lifted")
+        if dims:
+            declared += "[]"
+        if e.jtype != declared:
+            e = widen(e, declared)
+        if self.loop_locals:
+            self.loop_locals[-1].add(d.name)
+        if isinstance(e, (Col, Lit)) and not _has_null_on_error(e):
+            self.scope.env[d.name] = e
+            return
+        self._let(d.name, e, guard, s)
+
+    def _let(self, name: str, e: Expr, guard, node, reuse: str | None = None) -> None:
+        g = self._eff(guard)
+        col = reuse or self._fresh(name)
+        risky = _has_null_on_error(e)
+        if risky and self.in_try_emitted:
+            raise Unsupported(node, "a value that may throw is computed after a write in the same try block")
+        self.steps.append(Let(self._span(node), self._note(node), col, e if g is None else Call(e.jtype, "guarded", (g, e))))
+        self.scope.env[name] = Col(e.jtype, col)
+        if risky:
+            present = Call("boolean", "is_not_null", (Col(e.jtype, col),))
+            self.steps.append(Filter(self._span(node), "catch: skip the record", present if g is None else _or(_not(g), present)))
+
+    def _tokens(self, creator: T.ClassCreator) -> Expr:
+        args = [lift(a, self.scope) for a in creator.arguments or []]
+        if not args or args[0].jtype != "String":
+            raise Unsupported(creator, "StringTokenizer over something that is not a String")
+        if len(args) == 1:
+            return Call("String[]", "tokens", (args[0],))
+        if len(args) == 2 and isinstance(args[1], Lit) and args[1].jtype == "String":
+            return Call("String[]", "tokens", (args[0], args[1]))
+        raise Unsupported(creator, "StringTokenizer with returnDelims or computed delimiters")
+
+    def _expression_statement(self, s: T.StatementExpression, guard) -> None:
+        e = s.expression
+        if isinstance(e, T.MethodInvocation):
+            q, m = e.qualifier or "", e.member
+            if q == self.emit_target and m in ("write", "collect"):
+                return self._emit(s, e, guard)
+            if q in LOG_RECEIVERS or q.split(".")[0] in ("System",) and m.startswith("print"):
+                self.notes.append(f"{self.file}:{self._line(s)} logging call `{q}.{m}` is not carried over")
+                return
+            if m == "incrCounter" or any(isinstance(x, T.MethodInvocation) and x.member == "increment" for x in e.selectors or []) \
+                    or m == "getCounter":
+                self.counters.append(self._note(s))
+                self._hand("counter", self._line(s), "Hadoop counter; the script does not report it yet",
+                           "count the rows with a separate aggregation, or an accumulator", "P1")
+                return
+            if m in ("progress", "setStatus"):
+                return
+            if q in self.scope.env and isinstance(self.scope.env[q], Writable) and m == "set" and len(e.arguments) == 1:
+                w = self.scope.env[q]
+                new = writable_set(w, lift(e.arguments[0], self.scope), e)
+                g = self._eff(guard)
+                w.content = new if g is None or w.content is None else Call(new.jtype, "if_else", (g, new, w.content))
+                return
+            raise Unsupported(s, f"call `{(q + '.') if q else ''}{m}(...)` as a statement is not lifted",
+                              "if it only has side effects outside the output, drop it by hand; otherwise rewrite it")
+        if isinstance(e, T.Assignment):
+            return self._assign(s, e, guard)
+        if isinstance(e, T.MemberReference) and (e.postfix_operators or e.prefix_operators):
+            ops = (e.postfix_operators or []) + (e.prefix_operators or [])
+            one = T.Literal(value="1")
+            fake = T.BinaryOperation(operator="+" if "++" in ops else "-", operandl=T.MemberReference(member=e.member, qualifier=e.qualifier, selectors=[], prefix_operators=[], postfix_operators=[]), operandr=one)
+            return self._assign_value(s, e.member, fake, guard)
+        raise Unsupported(s, "expression statement is not lifted")
+
+    def _assign(self, s, e: T.Assignment, guard) -> None:
+        target = e.expressionl
+        if not isinstance(target, T.MemberReference) or target.qualifier not in ("", None) or target.selectors:
+            raise Unsupported(s, "assignment to something other than a local variable")
+        if e.type == "=":
+            value = e.value
+        else:
+            op = e.type[:-1]
+            value = T.BinaryOperation(operator=op, operandl=T.MemberReference(member=target.member, qualifier="", selectors=[], prefix_operators=[], postfix_operators=[]), operandr=e.value)
+        self._assign_value(s, target.member, value, guard)
+
+    def _assign_value(self, s, name: str, value_node, guard) -> None:
+        old = self.scope.env.get(name)
+        if not isinstance(old, (Col, Lit, Call)):
+            raise Unsupported(s, f"assignment to `{name}`, which is not a local the converter follows "
+                                 "(a field keeps state across records)",
+                              "per-record state is fine; state across records needs a window or an aggregation")
+        if self.loop_locals and name not in set().union(*self.loop_locals) and self.loop_depth:
+            raise Unsupported(s, f"`{name}` is carried from one loop iteration to the next",
+                              "an aggregate over the exploded rows (F.aggregate, or groupBy) can replace the loop")
+        new = widen(lift(value_node, self.scope), old.jtype) if old.jtype != "null" else lift(value_node, self.scope)
+        g = self._eff(guard)
+        value = new if g is None else Call(new.jtype, "if_else", (g, new, old))
+        reuse = old.name if isinstance(old, Col) and old.name not in ("value", "key") and not isinstance(value, Col) else None
+        saved = self.dead
+        self.dead = None  # the guard is already inside `value`
+        try:
+            self._let(name, value, None, s, reuse=reuse)
+        finally:
+            self.dead = saved
+
+    def _emit(self, s, call: T.MethodInvocation, guard) -> None:
+        if self.after_loop:
+            raise Unsupported(s, "a write after a token loop would repeat once per token in the DataFrame version")
+        if len(call.arguments) != 2:
+            raise Unsupported(s, "write with other than two arguments")
+        k, v = (self._emit_side(a) for a in call.arguments)
+        g = self._eff(guard)
+        for side in (k, v):
+            for risky in _has_null_on_error(side) if side is not None else []:
+                g = _and(g, Call("boolean", "is_not_null", (risky,)))
+        if self.caught:
+            self.in_try_emitted = True
+        self.emit_list.append(Emit(self._span(s), self._note(s), k, v, g))
+
+    def _emit_side(self, a) -> Expr | None:
+        if isinstance(a, T.Literal) and a.value == "null":
+            return None
+        if isinstance(a, T.MethodInvocation) and a.qualifier == "NullWritable" and a.member == "get":
+            return None
+        if isinstance(a, T.MemberReference) and not a.qualifier and isinstance(self.scope.env.get(a.member), Writable):
+            w = self.scope.env[a.member]
+            if w.content is None:
+                raise Unsupported(a, f"`{a.member}` is written before it holds a value")
+            return w.content
+        if isinstance(a, T.ClassCreator) and a.type.name.split(".")[-1] in WRITABLE_OF:
+            return writable_creator(a, self.scope).content
+        return lift(a, self.scope)
+
+    def _if(self, s: T.IfStatement, guard) -> None:
+        if self._is_first_line_check(s):
+            return
+        c = lift(s.condition, self.scope)
+        if c.jtype != "boolean":
+            raise Unsupported(s, "if condition is not a boolean")
+        self._branch(s.then_statement, _and(guard, c))
+        if s.else_statement is not None:
+            self._branch(s.else_statement, _and(guard, _not(c)))
+
+    def _branch(self, stmt, guard) -> None:
+        if isinstance(stmt, T.BlockStatement):
+            self._scoped(stmt.statements, guard)
+        else:
+            self._scoped([stmt], guard)
+
+    def _is_first_line_check(self, s: T.IfStatement) -> bool:
+        """`if (key.get() == 0) return;` on TextInputFormat: skip the first line of every file."""
+        c = s.condition
+        body = s.then_statement
+        stmts = body.statements if isinstance(body, T.BlockStatement) else [body]
+        if not (isinstance(c, T.BinaryOperation) and c.operator == "==" and len(stmts) == 1
+                and isinstance(stmts[0], T.ReturnStatement) and s.else_statement is None):
+            return False
+        left, right = c.operandl, c.operandr
+        is_key = isinstance(left, T.MethodInvocation) and left.qualifier == self.key_param and left.member == "get"
+        is_zero = isinstance(right, T.Literal) and right.value.rstrip("lL") == "0"
+        if not (is_key and is_zero and isinstance(self.scope.env.get(self.key_param), Opaque)):
+            return False
+        if self.steps or self.emit_list or self.dead is not None:
+            raise Unsupported(s, "the first-line check is not the first thing map() does")
+        self.skip_first_line = True
+        return True
+
+    def _exit(self, s, guard) -> None:
+        g = self._eff(guard)
+        is_continue = isinstance(s, T.ContinueStatement)
+        if isinstance(s, T.ReturnStatement) and self.loop_depth:
+            raise Unsupported(s, "return inside a loop ends the whole record; rows per token cannot express that")
+        if is_continue and not self.loop_depth:
+            raise Unsupported(s, "continue outside a loop")
+        if g is None:
+            raise _Stop()
+        if not self.emit_list:  # nothing written yet for this row: dropping it is exact
+            self.steps.append(Filter(self._span(s), self._note(s), _not(g)))
+        else:
+            self.dead = _or(self.dead, g)
+
+    def _loop(self, s, guard, array: Expr, var: str, body) -> None:
+        if self.emit_list:
+            raise Unsupported(s, "a loop after a write: exploding the rows would repeat the earlier write")
+        g = self._eff(guard)
+        if g is not None:
+            self.steps.append(Filter(self._span(s), "loop guard", g))
+        col = self._fresh(var)
+        self.steps.append(Explode(self._span(s), self._note(s), col, array))
+        saved_dead, self.dead = self.dead, None
+        self.loop_depth += 1
+        self.loop_locals.append(set())
+        try:
+            stmts = body.statements if isinstance(body, T.BlockStatement) else [body]
+            return col, stmts
+        finally:
+            pass
+
+    def _end_loop(self, saved_dead) -> None:
+        self.loop_depth -= 1
+        self.loop_locals.pop()
+        self.dead = saved_dead
+        self.after_loop = True
+
+    def _while(self, s: T.WhileStatement, guard) -> None:
+        c = s.condition
+        tok = None
+        if isinstance(c, T.MethodInvocation) and c.member in ("hasMoreTokens", "hasMoreElements") and not c.arguments:
+            tok = self.scope.env.get(c.qualifier)
+        if not isinstance(tok, Tokenizer):
+            raise Unsupported(s, "while loop that is not a loop over StringTokenizer tokens")
+        body = s.body
+        stmts = body.statements if isinstance(body, T.BlockStatement) else [body]
+        calls = [n for st in stmts for _, n in st if isinstance(n, T.MethodInvocation) and n.qualifier == c.qualifier
+                 and n.member in ("nextToken", "nextElement")]
+        if len(calls) != 1:
+            raise Unsupported(s, "the loop does not take exactly one token per iteration")
+        var = "token"
+        first = stmts[0] if stmts else None
+        if isinstance(first, T.LocalVariableDeclaration) and len(first.declarators) == 1 and \
+                isinstance(first.declarators[0].initializer, T.MethodInvocation) and first.declarators[0].initializer.member == "nextToken":
+            var = first.declarators[0].name
+        saved_dead = self.dead
+        col, stmts = self._loop(s, guard, tok.tokens, var, body)
+        tok.current = Col("String", col)
+        try:
+            self._scoped(stmts, None)
+        finally:
+            tok.current = None
+            self._end_loop(saved_dead)
+
+    def _for(self, s: T.ForStatement, guard) -> None:
+        ctl = s.control
+        if not isinstance(ctl, T.EnhancedForControl):
+            raise Unsupported(s, "counting for-loop is not lifted yet", "use F.posexplode over the array")
+        arr = lift(ctl.iterable, self.scope)
+        if not arr.jtype.endswith("[]"):
+            raise Unsupported(s, "for-each over something that is not an array")
+        var = ctl.var.declarators[0].name
+        saved_dead = self.dead
+        col, stmts = self._loop(s, guard, arr, var, s.body)
+        self.scope.env[var] = Col(arr.jtype[:-2], col)
+        self.loop_locals[-1].add(var)
+        try:
+            self._scoped(stmts, None)
+        finally:
+            self.scope.env.pop(var, None)
+            self._end_loop(saved_dead)
+
+    def _try(self, s: T.TryStatement, guard, rest) -> None:
+        if s.finally_block or s.resources:
+            raise Unsupported(s, "try with finally or resources is not lifted")
+        kinds: set[str] = set()
+        skips = True
+        for c in s.catches or []:
+            kinds.update(n.split(".")[-1] for n in c.parameter.types)
+            body = c.block or []
+            for st in body:
+                if isinstance(st, T.ReturnStatement):
+                    continue
+                if isinstance(st, T.StatementExpression) and isinstance(st.expression, T.MethodInvocation) and \
+                        (st.expression.qualifier or "") in LOG_RECEIVERS:
+                    self.notes.append(f"{self.file}:{self._line(st)} logging in a catch block is not carried over")
+                    continue
+                if isinstance(st, T.StatementExpression) and isinstance(st.expression, T.MethodInvocation) and \
+                        (st.expression.member in ("incrCounter", "getCounter") or any(
+                            getattr(x, "member", "") == "increment" for x in st.expression.selectors or [])):
+                    self._hand("counter", self._line(st), "Hadoop counter of skipped records; the script does not report it yet",
+                               "count the rows the filter drops with a separate aggregation", "P1")
+                    continue
+                raise Unsupported(st, "catch block does more than skip the record")
+            returns = any(isinstance(st, T.ReturnStatement) for st in body)
+            if not returns and any(not isinstance(x, (T.ReturnStatement,)) for x in rest) and rest:
+                skips = False
+        if not skips:
+            raise Unsupported(s, "code after a catch block runs for records that threw; the converter cannot follow that")
+        saved, self.caught = self.caught, frozenset(kinds)
+        saved_emitted, self.in_try_emitted = self.in_try_emitted, False
+        try:
+            self._scoped(s.block, guard)
+        finally:
+            self.caught, self.in_try_emitted = saved, saved_emitted
+        self.scope.caught = self.caught
+        if self.caught_all(kinds):
+            self.notes.append(f"{self.file}:{self._line(s)} catch of {', '.join(sorted(kinds))}: records are skipped exactly "
+                              "where parsing or indexing would have thrown")
+
+    @staticmethod
+    def caught_all(kinds) -> bool:
+        return bool(set(kinds) & CATCH_ALL)
+
+
+def class_constants(cls: ClassInfo) -> dict[str, object]:
+    """Fields the map/reduce body may read: constants and Writable holders (never assigned in methods)."""
+    env: dict[str, object] = {}
+    assigned = {n.expressionl.member for _, n in cls.node if isinstance(n, T.Assignment)
+                and isinstance(n.expressionl, T.MemberReference)}
+    assigned |= {n.expressionl.selectors[0].member for _, n in cls.node if isinstance(n, T.Assignment)
+                 and isinstance(n.expressionl, T.This) and n.expressionl.selectors}
+    for f in cls.fields():
+        tname = getattr(f.type, "name", "")
+        for d in f.declarators:
+            if d.name in assigned:
+                continue
+            init = d.initializer
+            if tname in WRITABLE_OF and isinstance(init, T.ClassCreator):
+                try:
+                    env[d.name] = writable_creator(init, Scope({}))
+                except Unsupported:
+                    pass
+            elif init is not None and ("final" in f.modifiers):
+                try:
+                    e = lift(init, Scope(dict(env)))
+                except Unsupported:
+                    continue
+                if isinstance(e, Lit):
+                    env[d.name] = e
+    return env
+

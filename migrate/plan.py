@@ -1,0 +1,358 @@
+"""The plan (IR): frozen dataclasses for a job's dataflow and a closed set of expression nodes.
+
+The plan knows neither javalang nor PySpark. Java semantics (integer division, split's
+trailing-empty rule, StringTokenizer delimiters, trim) are already decided here: an
+expression says *which* operation it is, and the generator only spells it.
+"""
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from typing import Any
+
+# Java value types the plan tracks. Arrays carry a trailing "[]".
+JTYPES = {"int", "long", "float", "double", "boolean", "String", "String[]", "null"}
+INTEGRAL = {"int", "long"}
+NUMERIC = {"int", "long", "float", "double"}
+
+
+@dataclass(frozen=True)
+class Span:
+    """Where a plan node came from in the legacy code."""
+
+    file: str
+    line_start: int
+    line_end: int
+
+    def __str__(self) -> str:
+        if self.line_start == self.line_end:
+            return f"{self.file}:{self.line_start}"
+        return f"{self.file}:{self.line_start}-{self.line_end}"
+
+
+NO_SPAN = Span("<generated>", 0, 0)
+
+
+# ----------------------------------------------------------------------------- expressions
+
+
+@dataclass(frozen=True)
+class Expr:
+    """Base of every expression node; `jtype` is the Java type of the value."""
+
+    jtype: str
+
+
+@dataclass(frozen=True)
+class Col(Expr):
+    """A column of the current DataFrame (a lifted local, the input line, a token)."""
+
+    name: str
+
+
+@dataclass(frozen=True)
+class Lit(Expr):
+    """A literal Java value (already converted to the Python value it denotes)."""
+
+    value: Any
+
+
+@dataclass(frozen=True)
+class Call(Expr):
+    """A named operation with Java semantics; the generator maps `op` to Spark code.
+
+    `on_error` says what happens where Java would throw: "fail" (the job fails, as an
+    uncaught Java exception fails the task) or "null" (inside a catch-and-skip block:
+    the value becomes NULL and the row is dropped).
+    """
+
+    op: str
+    args: tuple[Expr, ...]
+    on_error: str = "fail"
+
+    def __post_init__(self) -> None:
+        if self.on_error not in ("fail", "null"):
+            raise ValueError(f"on_error must be 'fail' or 'null', not {self.on_error!r}")
+
+
+@dataclass(frozen=True)
+class Arith(Expr):
+    """Java arithmetic; for integral `jtype`, `/` truncates toward zero (IntDiv)."""
+
+    op: str
+    left: Expr
+    right: Expr
+
+    def __post_init__(self) -> None:
+        if self.op not in ("+", "-", "*", "/", "%"):
+            raise ValueError(f"unknown arithmetic operator {self.op!r}")
+
+
+@dataclass(frozen=True)
+class Compare(Expr):
+    """A comparison; `==` on Strings here always means `equals` (see lift.exprs)."""
+
+    op: str
+    left: Expr
+    right: Expr
+
+
+@dataclass(frozen=True)
+class BoolOp(Expr):
+    """`&&`, `||` (short-circuit) or `!` over boolean expressions."""
+
+    op: str
+    args: tuple[Expr, ...]
+
+
+@dataclass(frozen=True)
+class Cond(Expr):
+    """Java's ternary `c ? a : b`."""
+
+    cond: Expr
+    then: Expr
+    other: Expr
+
+
+@dataclass(frozen=True)
+class Cast(Expr):
+    """A widening or narrowing primitive cast, `(double) x`, `(int) d`."""
+
+    arg: Expr
+
+
+@dataclass(frozen=True)
+class AggRef(Expr):
+    """A reference to an aggregate computed in the Group step (used in its `output`)."""
+
+    name: str
+
+
+# ----------------------------------------------------------------------------- dataflow
+
+
+@dataclass(frozen=True)
+class Step:
+    """Base of row-level and grouping steps; every step knows its Java origin."""
+
+    origin: Span
+    note: str  # the Java source text it stands for, shortened
+
+
+@dataclass(frozen=True)
+class Let(Step):
+    """Add a column computed per row (a Java local variable)."""
+
+    name: str
+    expr: Expr
+
+
+@dataclass(frozen=True)
+class Filter(Step):
+    """Keep rows where `cond` holds (a guard, an early return, a skipped bad record)."""
+
+    cond: Expr
+
+
+@dataclass(frozen=True)
+class Explode(Step):
+    """One row per element of an array (a loop over tokens)."""
+
+    name: str
+    array: Expr
+
+
+@dataclass(frozen=True)
+class Emit:
+    """One `context.write` / `output.collect`: key and value expressions, optional guard.
+
+    A key or value of None stands for NullWritable (or a literal null), which
+    TextOutputFormat leaves out of the line together with its separator.
+    """
+
+    origin: Span
+    note: str
+    key: Expr | None
+    value: Expr | None
+    guard: Expr | None = None
+
+
+@dataclass(frozen=True)
+class Project(Step):
+    """The map output: one row per Emit whose guard holds, columns `key` and `value`."""
+
+    emits: tuple[Emit, ...]
+
+    def __post_init__(self) -> None:
+        if not self.emits:
+            raise ValueError("a Project needs at least one Emit")
+
+
+@dataclass(frozen=True)
+class Agg:
+    """One aggregate over the values of a key: sum, count, min, max, …"""
+
+    name: str
+    fn: str  # "sum" | "count" | "min" | "max" | "min_nonnan" | "max_nonnan"
+    arg: Expr | None
+    jtype: str  # Java type of the accumulator (decides overflow wrap)
+    init: Any = None  # the accumulator's initial value, folded in when it can matter
+    origin: Span = NO_SPAN
+    note: str = ""
+
+
+@dataclass(frozen=True)
+class Group(Step):
+    """The shuffle + reduce: group map output by `key`, compute `aggs`, write `output`.
+
+    `output` is the reducer's final write: value expression over AggRef nodes (None =
+    NullWritable). `distinct` marks a reducer that ignores its values.
+    """
+
+    aggs: tuple[Agg, ...]
+    key_out: Expr | None
+    value_out: Expr | None
+    distinct: bool = False
+    having: Expr | None = None  # the reducer writes only when this holds
+
+
+@dataclass(frozen=True)
+class Identity(Step):
+    """Hadoop's identity reducer: every map output pair passes through, sorted by key."""
+
+
+@dataclass(frozen=True)
+class HandWork:
+    """Something the converter did not prove it understood: a visible stub + a report item."""
+
+    category: str
+    origin: Span
+    reason: str
+    suggestion: str
+    snippet: str = ""
+    profile: str = "P1"  # EFFORT.md adaptation profile: P1 re-express, P2 partial, P3 full redesign
+    sloc: int = 0
+
+
+@dataclass(frozen=True)
+class Source:
+    """The job's input: text lines (TextInputFormat) or key/value lines (KeyValueTextInputFormat)."""
+
+    params: tuple[str, ...]  # script parameters holding the path(s)
+    fmt: str = "text"  # "text" | "keyvalue"
+    skip_first_line: bool = False  # `if (key.get() == 0) return;`: drop each file's first line
+    split_commas: bool = False  # FileInputFormat's String overloads split a path list on commas
+    origin: Span = NO_SPAN
+
+
+@dataclass(frozen=True)
+class Sink:
+    """The job's output in TextOutputFormat layout: key TAB value, one line a record."""
+
+    param: str
+    key_type: str | None  # None = NullWritable (not printed)
+    value_type: str | None
+    sorted_by_key: bool
+    overwrite: bool
+    separator: str = "\t"
+    origin: Span = NO_SPAN
+
+
+@dataclass(frozen=True)
+class Param:
+    """A script parameter: positional (from `args[i]`) or an option with the old default."""
+
+    name: str
+    help: str
+    position: int | None = None  # index in the original driver's args
+    default: str | None = None
+
+
+@dataclass(frozen=True)
+class Plan:
+    """A whole job: source → map steps → optional group → sink, plus what needs hand work."""
+
+    job_name: str
+    source: Source
+    map_steps: tuple[Step, ...]
+    reduce: Step | None
+    sink: Sink
+    params: tuple[Param, ...]
+    hand_work: tuple[HandWork, ...] = ()
+    shapes: tuple[str, ...] = ()
+    notes: tuple[str, ...] = ()
+
+    def __post_init__(self) -> None:
+        if not self.map_steps or not isinstance(self.map_steps[-1], Project):
+            if not self.hand_work:
+                raise ValueError("map steps must end in a Project unless hand work stands in for them")
+        if self.reduce is not None and not isinstance(self.reduce, (Group, Identity)):
+            raise ValueError("reduce must be a Group or Identity step")
+
+
+# ----------------------------------------------------------------------------- text dump
+
+
+def dump_expr(e: Expr | None) -> str:
+    """A compact, stable text form of an expression (used by rule tests)."""
+    if e is None:
+        return "null"
+    if isinstance(e, Col):
+        return e.name
+    if isinstance(e, Lit):
+        return repr(e.value)
+    if isinstance(e, AggRef):
+        return f"@{e.name}"
+    if isinstance(e, Call):
+        tail = "?" if e.on_error == "null" else ""
+        return f"{e.op}{tail}({', '.join(dump_expr(a) for a in e.args)})"
+    if isinstance(e, (Arith, Compare)):
+        return f"({dump_expr(e.left)} {e.op}{':' + e.jtype if isinstance(e, Arith) else ''} {dump_expr(e.right)})"
+    if isinstance(e, BoolOp):
+        if e.op == "!":
+            return f"!{dump_expr(e.args[0])}"
+        return "(" + f" {e.op} ".join(dump_expr(a) for a in e.args) + ")"
+    if isinstance(e, Cond):
+        return f"({dump_expr(e.cond)} ? {dump_expr(e.then)} : {dump_expr(e.other)})"
+    if isinstance(e, Cast):
+        return f"({e.jtype}) {dump_expr(e.arg)}"
+    raise TypeError(f"no dump for {type(e).__name__}")
+
+
+def dump_plan(plan: Plan) -> str:
+    """An indented, one-node-a-line text form of a plan."""
+    out = [f"Plan {plan.job_name}", f"  Source {plan.source.fmt} <- {', '.join(plan.source.params)}"
+           + (" (skip first line of each file)" if plan.source.skip_first_line else "")]
+    for s in plan.map_steps:
+        out.append("  " + _dump_step(s))
+    if plan.reduce is not None:
+        out.append("  " + _dump_step(plan.reduce))
+    k = plan.sink
+    out.append(f"  Sink {k.param} key={k.key_type} value={k.value_type} sorted={k.sorted_by_key} overwrite={k.overwrite}")
+    for h in plan.hand_work:
+        out.append(f"  HandWork {h.category} @{h.origin}: {h.reason}")
+    return "\n".join(out) + "\n"
+
+
+def _dump_step(s: Step) -> str:
+    if isinstance(s, Let):
+        return f"Let {s.name} = {dump_expr(s.expr)}"
+    if isinstance(s, Filter):
+        return f"Filter {dump_expr(s.cond)}"
+    if isinstance(s, Explode):
+        return f"Explode {s.name} <- {dump_expr(s.array)}"
+    if isinstance(s, Project):
+        lines = ["Project"]
+        for e in s.emits:
+            g = f" if {dump_expr(e.guard)}" if e.guard is not None else ""
+            lines.append(f"    Emit {dump_expr(e.key)} -> {dump_expr(e.value)}{g}")
+        return "\n".join(lines)
+    if isinstance(s, Group):
+        lines = ["Group by key" + (" (distinct)" if s.distinct else "")]
+        for a in s.aggs:
+            lines.append(f"    Agg {a.name} = {a.fn}:{a.jtype}({dump_expr(a.arg)}) init={a.init!r}")
+        having = f" if {dump_expr(s.having)}" if s.having is not None else ""
+        lines.append(f"    Out {dump_expr(s.key_out)} -> {dump_expr(s.value_out)}{having}")
+        return "\n".join(lines)
+    if isinstance(s, Identity):
+        return "Identity (sorted by key)"
+    raise TypeError(f"no dump for {type(s).__name__}")

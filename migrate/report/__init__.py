@@ -1,0 +1,1 @@
+"""Findings, the effort estimate, and their renderings (json, markdown)."""

@@ -1,0 +1,96 @@
+"""The conversion report: report.json (data) and report.md (for people), deterministic."""
+from __future__ import annotations
+
+import json
+
+from migrate.lift.job import JobResult
+from migrate.report.effort import HOURS_PER_PM, JobEffort, repository_hours
+from migrate.java.source import ParseFailure
+
+VERIFY_WARNING = ("Generated jobs must be verified on real data before they replace production jobs: "
+                  "run the original and the script on the same representative input and compare the outputs.")
+EFFORT_CAVEAT = ("Effort follows COCOMO II.2000 (post-architecture, reuse and automatic-translation terms), "
+                 "calibrated on whole projects; for repositories under about 2 KSLOC the figures are indicative only. "
+                 "ESLOC counts legacy Java lines, not PySpark lines.")
+
+
+def job_effort(job: JobResult, name: str) -> JobEffort:
+    return JobEffort(name, job.sloc_total, tuple((h.profile, h.sloc) for h in job.plan.hand_work))
+
+
+def build_report(jobs: list[tuple[JobResult, str]], errors: list[ParseFailure], root_label: str) -> dict:
+    """The report as plain data (what report.json holds)."""
+    efforts = [job_effort(j, script) for j, script in jobs]
+    est = repository_hours(efforts)
+    out_jobs = []
+    for (job, script), eff in zip(jobs, efforts):
+        out_jobs.append({
+            "name": job.spec.name,
+            "driver": job.spec.driver.fqcn,
+            "script": script,
+            "status": job.status,
+            "classes": {role: fq for role, fq in sorted(job.classes.items())},
+            "files": {role: str(span) for role, span in sorted(job.files.items())},
+            "shapes": list(job.plan.shapes),
+            "arguments": [{"name": p.name, "position": p.position, "default": p.default, "help": p.help}
+                          for p in job.plan.params],
+            "hand_work": [{"category": h.category, "file": h.origin.file, "line": h.origin.line_start,
+                           "reason": h.reason, "suggestion": h.suggestion, "snippet": h.snippet,
+                           "profile": h.profile, "sloc": h.sloc} for h in job.plan.hand_work],
+            "notes": list(job.plan.notes),
+            "sloc": {"total": eff.sloc_total, "automatic": eff.sloc_auto, "hand": eff.sloc_manual},
+            "effort_hours": round(est["jobs"][script], 2),
+        })
+    counts = {s: sum(1 for j in out_jobs if j["status"] == s) for s in ("converted", "partial", "not_converted")}
+    return {
+        "tool": "mrlift",
+        "repository": root_label,
+        "warning": VERIFY_WARNING,
+        "summary": {"jobs": len(out_jobs), **counts, "errors": len(errors)},
+        "jobs": out_jobs,
+        "errors": [{"file": e.path, "line": e.line, "message": e.message} for e in errors],
+        "effort": {
+            "model": "COCOMO II.2000",
+            "hours": round(est["hours"], 2),
+            "range_hours": [round(est["range"][0], 2), round(est["range"][1], 2)],
+            "esloc": round(est["esloc"], 1),
+            "hours_per_person_month": HOURS_PER_PM,
+            "caveat": EFFORT_CAVEAT,
+        },
+    }
+
+
+def to_json(report: dict) -> str:
+    return json.dumps(report, indent=2, ensure_ascii=False, sort_keys=False) + "\n"
+
+
+def to_markdown(report: dict) -> str:
+    s = report["summary"]
+    out = [f"# mrlift conversion report: {report['repository']}", "",
+           f"> **{report['warning']}**", "",
+           f"{s['jobs']} jobs: {s['converted']} converted, {s['partial']} partial, {s['not_converted']} not converted; "
+           f"{s['errors']} file(s) could not be read.", "",
+           "| job | driver | script | status | shapes | hand-work items | effort (h) |",
+           "|---|---|---|---|---|---|---|"]
+    for j in report["jobs"]:
+        out.append(f"| {j['name']} | `{j['driver']}` | `{j['script']}` | {j['status']} | {', '.join(j['shapes'])} | "
+                   f"{len(j['hand_work'])} | {j['effort_hours']:.1f} |")
+    e = report["effort"]
+    out += ["", f"Estimated effort for the repository: **{e['hours']:.1f} h** "
+                f"(range {e['range_hours'][0]:.1f} to {e['range_hours'][1]:.1f} h). {e['caveat']}", ""]
+    for j in report["jobs"]:
+        if not j["hand_work"] and not j["notes"]:
+            continue
+        out += [f"## {j['name']} ({j['status']})", ""]
+        for h in j["hand_work"]:
+            out += [f"- **{h['category']}** at `{h['file']}:{h['line']}`: {h['reason']}",
+                    f"  - code: `{h['snippet']}`" if h["snippet"] else "  - code: (see file)",
+                    f"  - suggestion: {h['suggestion']}"]
+        for n in j["notes"]:
+            out.append(f"- note: {n}")
+        out.append("")
+    if report["errors"]:
+        out += ["## Files not read", ""]
+        out += [f"- `{e['file']}:{e['line']}`: {e['message']}" for e in report["errors"]]
+        out.append("")
+    return "\n".join(out)

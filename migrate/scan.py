@@ -1,0 +1,69 @@
+"""The front half of the flow for a whole repository: files → class index → roles → jobs → plans."""
+from __future__ import annotations
+
+import os
+from dataclasses import dataclass, field
+from pathlib import Path
+
+from migrate.java.driver import read_drivers
+from migrate.java.index import ClassIndex
+from migrate.java.roles import classify
+from migrate.java.source import ParsedFile, ParseFailure, find_java_files, read_java
+from migrate.lift.exprs import Unsupported
+from migrate.lift.job import JobResult, plan_job
+
+
+@dataclass
+class RepoScan:
+    """Everything mrlift learned about one repository."""
+
+    root: Path
+    files: list[ParsedFile]
+    errors: list[ParseFailure]
+    index: ClassIndex
+    jobs: list[JobResult] = field(default_factory=list)
+
+
+def scan_repo(root: Path, progress=None) -> RepoScan:
+    """Read every .java file (a bad file becomes an error entry; the batch goes on) and plan every job."""
+    root = root.resolve()
+    files, errors = [], []
+    base = root if root.is_dir() else root.parent
+    for path in find_java_files(root):
+        got = read_java(path, base)
+        (files if isinstance(got, ParsedFile) else errors).append(got)
+        if progress:
+            progress(path)
+    index = ClassIndex(files)
+    classify(index)
+    specs, problems = read_drivers(index)
+    for cls, line, msg in problems:
+        errors.append(ParseFailure(cls.file.path, line, msg))
+    scan = RepoScan(root, files, errors, index)
+    names: dict[str, int] = {}
+    for spec in specs:
+        try:
+            job = plan_job(spec, index)
+        except (Unsupported, RecursionError, ValueError, KeyError, AttributeError, TypeError) as exc:
+            # A converter bug or an unforeseen shape must not stop the batch; it is reported.
+            if os.environ.get("MRLIFT_DEBUG"):
+                raise
+            errors.append(ParseFailure(spec.driver.file.path, spec.origin.line_start,
+                                       f"could not plan job {spec.name!r}: {type(exc).__name__}: {exc}"))
+            continue
+        scan.jobs.append(job)
+    return scan
+
+
+def script_name(job: JobResult, taken: set[str]) -> str:
+    """A file name for the generated script: snake_case of the driver class, unique in the batch."""
+    import re
+
+    base = re.sub(r"(?<=[a-z0-9])(?=[A-Z])", "_", job.spec.driver.name).lower()
+    if base + ".py" in taken and job.spec.name:  # a driver that runs several jobs
+        base = f"{base}_{re.sub(r'[^a-z0-9]+', '_', job.spec.name.lower()).strip('_')}"
+    name, i = base + ".py", 2
+    while name in taken:
+        name, i = f"{base}_{i}.py", i + 1
+    taken.add(name)
+    return name
