@@ -211,7 +211,8 @@ class ScriptParts:
 
 
 def _where(origin) -> str:
-    return f"{origin.file}:{origin.line_start}" if origin.line_start else origin.file
+    name = origin.file.rsplit("/", 1)[-1]
+    return f"{name}:{origin.line_start}" if origin.line_start else name
 
 
 def build_body(plan: Plan, x: ExprWriter) -> ScriptParts:

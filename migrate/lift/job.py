@@ -214,7 +214,8 @@ def _lift_mapper(mcls: ClassInfo, fmt: str, hand: list[HandWork], notes: list[st
             hand.append(_method_hand_work(owner, lm, "task-lifecycle",
                                           f"{name}() runs once per task; its logic is not converted in this version",
                                           "settings become script parameters; per-task state needs a rewrite", "P1"))
-    lifter = MapBodyLifter(owner, m, "String" if fmt == "keyvalue" else "offset", "String", owner.api or "mapreduce")
+    lifter = MapBodyLifter(owner, m, "String" if fmt == "keyvalue" else "offset", "String", owner.api or "mapreduce",
+                           index)
     res = lifter.run()
     for h in res.hand_work:
         sloc = logical_sloc(owner.file.lines[h.origin.line_start - 1 : node_lines(m)[1]])
@@ -239,7 +240,7 @@ def _lift_reducer(rcls: ClassInfo, key_t: str, val_t: str, hand: list[HandWork],
             hand.append(_method_hand_work(owner, lm, "task-lifecycle",
                                           f"{name}() of the reducer is not converted in this version",
                                           "per-task state (top-N in cleanup, side outputs) needs a rewrite", "P2"))
-    group, items = FoldLifter(owner, m, key_t, val_t).run()
+    group, items = FoldLifter(owner, m, key_t, val_t, index).run()
     if items:
         a, b = node_lines(m)
         sloc = logical_sloc(owner.file.lines[(m.position.line if m.position else a) - 1 : b])

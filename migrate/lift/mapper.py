@@ -20,6 +20,8 @@ from migrate.lift.exprs import (CATCH_ALL, WRITABLE_OF, Opaque, Scope, Tokenizer
                                 writable_creator, writable_set, widen)
 from migrate.plan import BoolOp, Call, Col, Compare, Emit, Explode, Expr, Filter, HandWork, Let, Lit, Project, Span, Step
 
+_DECLARED = {"int": "int", "long": "long", "double": "double", "float": "float", "boolean": "boolean",
+             "String": "String", "Integer": "int", "Long": "long", "Double": "double"}
 LOG_RECEIVERS = {"System.out", "System.err", "LOG", "log", "logger", "LOGGER"}
 
 
@@ -80,7 +82,8 @@ class _Stop(Exception):
 class MapBodyLifter:
     """Symbolic evaluation of one map() method."""
 
-    def __init__(self, cls: ClassInfo, method: T.MethodDeclaration, key_type: str, value_type: str, api: str):
+    def __init__(self, cls: ClassInfo, method: T.MethodDeclaration, key_type: str, value_type: str, api: str,
+                 index=None):
         self.cls, self.method, self.api = cls, method, api
         self.file = cls.file.path
         self.steps: list[Step] = []
@@ -97,7 +100,7 @@ class MapBodyLifter:
         self.columns = {"value"}
         self.loop_locals: list[set[str]] = []
         env: dict[str, object] = {}
-        env.update(class_constants(cls))
+        env.update(class_constants(cls, index))
         params = [p.name for p in method.parameters]
         self.key_param = params[0] if params else None
         if len(params) >= 2:
@@ -198,7 +201,13 @@ class MapBodyLifter:
         tname = getattr(s.type, "name", "")
         dims = len(getattr(s.type, "dimensions", None) or []) + len(d.dimensions or [])
         if d.initializer is None:
-            raise Unsupported(s, f"`{d.name}` is declared without a value", "give it its value where it is declared")
+            declared = _DECLARED.get(tname)
+            if declared is None or dims:
+                raise Unsupported(s, f"`{d.name}` of type {tname} is declared without a value")
+            self.scope.env[d.name] = Lit(declared, None)  # Java's definite assignment sets it before any read
+            if self.loop_locals:
+                self.loop_locals[-1].add(d.name)
+            return
         init = d.initializer
         if tname == "StringTokenizer" and isinstance(init, T.ClassCreator):
             self.scope.env[d.name] = Tokenizer(self._tokens(init))
@@ -207,8 +216,7 @@ class MapBodyLifter:
             self.scope.env[d.name] = writable_creator(init, self.scope)
             return
         e = lift(init, self.scope)
-        declared = {"int": "int", "long": "long", "double": "double", "float": "float", "boolean": "boolean",
-                    "String": "String", "Integer": "int", "Long": "long", "Double": "double"}.get(tname)
+        declared = _DECLARED.get(tname)
         if declared is None:
             raise Unsupported(s, f"local of type {tname} is not lifted")
         if dims:
@@ -480,13 +488,14 @@ class MapBodyLifter:
                 skips = False
         if not skips:
             raise Unsupported(s, "code after a catch block runs for records that threw; the converter cannot follow that")
-        saved, self.caught = self.caught, frozenset(kinds)
+        saved, self.caught = self.caught, self.caught | frozenset(kinds)
         saved_emitted, self.in_try_emitted = self.in_try_emitted, False
+        self.scope.caught = self.caught
         try:
             self._scoped(s.block, guard)
         finally:
             self.caught, self.in_try_emitted = saved, saved_emitted
-        self.scope.caught = self.caught
+            self.scope.caught = self.caught
         if self.caught_all(kinds):
             self.notes.append(f"{self.file}:{self._line(s)} catch of {', '.join(sorted(kinds))}: records are skipped exactly "
                               "where parsing or indexing would have thrown")
@@ -496,9 +505,12 @@ class MapBodyLifter:
         return bool(set(kinds) & CATCH_ALL)
 
 
-def class_constants(cls: ClassInfo) -> dict[str, object]:
-    """Fields the map/reduce body may read: constants and Writable holders (never assigned in methods)."""
+def class_constants(cls: ClassInfo, index=None) -> dict[str, object]:
+    """Fields the map/reduce body may read: constants (also of outer classes) and Writable holders."""
     env: dict[str, object] = {}
+    outer = index.get(cls.outer) if index is not None and cls.outer else None
+    if outer is not None:
+        env.update({k: v for k, v in class_constants(outer, index).items() if isinstance(v, Lit)})
     assigned = {n.expressionl.member for _, n in cls.node if isinstance(n, T.Assignment)
                 and isinstance(n.expressionl, T.MemberReference)}
     assigned |= {n.expressionl.selectors[0].member for _, n in cls.node if isinstance(n, T.Assignment)
@@ -519,7 +531,23 @@ def class_constants(cls: ClassInfo) -> dict[str, object]:
                     e = lift(init, Scope(dict(env)))
                 except Unsupported:
                     continue
+                e = fold_constant(e)
                 if isinstance(e, Lit):
                     env[d.name] = e
     return env
+
+
+def fold_constant(e: Expr) -> Expr:
+    """Fold arithmetic on literals (`60 * 60`) with Java's int/long wrap-around."""
+    from migrate.plan import Arith
+
+    if isinstance(e, Arith):
+        l, r = fold_constant(e.left), fold_constant(e.right)
+        if isinstance(l, Lit) and isinstance(r, Lit) and e.op in "+-*" and None not in (l.value, r.value):
+            v = {"+": l.value + r.value, "-": l.value - r.value, "*": l.value * r.value}[e.op]
+            if e.jtype in ("int", "long"):
+                bits = 32 if e.jtype == "int" else 64
+                v = (v + (1 << (bits - 1))) % (1 << bits) - (1 << (bits - 1))
+            return Lit(e.jtype, v)
+    return e
 

@@ -27,12 +27,12 @@ _DECLARED = {"int": "int", "long": "long", "double": "double", "float": "float",
 class FoldLifter:
     """Turns one reduce() method into a Group step (or hand work)."""
 
-    def __init__(self, cls: ClassInfo, method: T.MethodDeclaration, key_type: str, value_type: str):
+    def __init__(self, cls: ClassInfo, method: T.MethodDeclaration, key_type: str, value_type: str, index=None):
         self.cls, self.method = cls, method
         self.file = cls.file.path
         self.key_type, self.value_type = key_type, value_type
         params = [p.name for p in method.parameters]
-        env: dict[str, object] = dict(class_constants(cls))
+        env: dict[str, object] = dict(class_constants(cls, index))
         env[params[0]] = Col(key_type, "key")
         self.values = params[1]
         env[params[1]] = Opaque("the values of the key")

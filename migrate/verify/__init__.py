@@ -1,0 +1,1 @@
+"""Run the original job on Hadoop's local runner and the generated script on local Spark; compare."""

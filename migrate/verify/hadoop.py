@@ -1,0 +1,64 @@
+"""Compile legacy Java against the Hadoop client jars that ship in the pyspark wheel and run it locally."""
+from __future__ import annotations
+
+import shutil
+import subprocess
+from dataclasses import dataclass
+from pathlib import Path
+
+
+class HadoopUnavailable(Exception):
+    """No JDK or no Hadoop client jars on this machine."""
+
+
+def spark_jars() -> Path:
+    """The pyspark wheel's jars folder (it holds hadoop-client-api and hadoop-client-runtime)."""
+    try:
+        import pyspark
+    except ImportError as exc:
+        raise HadoopUnavailable("pyspark is not installed (pip install 'mrlift[spark]')") from exc
+    jars = Path(pyspark.__file__).parent / "jars"
+    if not list(jars.glob("hadoop-client-api-*.jar")):
+        raise HadoopUnavailable(f"no hadoop-client-api jar in {jars}")
+    return jars
+
+
+def compile_classpath() -> str:
+    jars = spark_jars()
+    return ":".join(str(p) for p in sorted(jars.glob("hadoop-client-*.jar")))
+
+
+def run_classpath(classes: Path) -> str:
+    return f"{classes}:{spark_jars()}/*"
+
+
+@dataclass(frozen=True)
+class CompileResult:
+    ok: bool
+    classes: Path
+    log: str
+
+
+def compile_sources(sources: list[Path], classes: Path) -> CompileResult:
+    """javac every file (UTF-8, warnings off); the LocalJobRunner needs nothing else."""
+    if shutil.which("javac") is None:
+        raise HadoopUnavailable("javac is not on PATH (Java 17+ is needed to run the original jobs)")
+    classes.mkdir(parents=True, exist_ok=True)
+    cmd = ["javac", "-nowarn", "-encoding", "UTF-8", "-cp", compile_classpath(), "-d", str(classes),
+           *[str(s) for s in sources]]
+    p = subprocess.run(cmd, capture_output=True, text=True)
+    return CompileResult(p.returncode == 0, classes, p.stdout + p.stderr)
+
+
+@dataclass(frozen=True)
+class RunResult:
+    returncode: int
+    log: str
+
+
+def run_job(classes: Path, driver: str, args: list[str], cwd: Path, timeout: float = 600) -> RunResult:
+    """`java -cp classes:<jars>/* Driver args…` in local mode (mapreduce.framework.name=local is the default)."""
+    cmd = ["java", "-Xmx1g", "-Duser.timezone=UTC", "-Duser.language=en", "-Duser.country=US",
+           "-cp", run_classpath(classes), driver, *args]
+    p = subprocess.run(cmd, capture_output=True, text=True, cwd=cwd, timeout=timeout)
+    return RunResult(p.returncode, p.stdout + p.stderr)

@@ -1,0 +1,68 @@
+"""Shared fixtures: one local Spark session, the converted samples, the compiled original jobs."""
+from __future__ import annotations
+
+import importlib.util
+import json
+import os
+import sys
+from pathlib import Path
+
+import pytest
+
+ROOT = Path(__file__).resolve().parent.parent
+SAMPLES = ROOT / "samples" / "bikeshare"
+
+
+def pytest_addoption(parser):
+    parser.addoption("--regen-golden", action="store_true", default=False,
+                     help="rewrite the expected files of the golden tests from the current output")
+
+
+@pytest.fixture(scope="session")
+def spark():
+    pyspark = pytest.importorskip("pyspark", reason="pyspark is part of the test extra: pip install -e '.[test]'")
+    from pyspark.sql import SparkSession
+
+    os.environ.setdefault("PYSPARK_PYTHON", sys.executable)
+    session = (SparkSession.builder.master("local[2]").appName("mrlift-tests")
+               .config("spark.sql.ansi.enabled", "true").config("spark.ui.enabled", "false")
+               .config("spark.sql.shuffle.partitions", "4").getOrCreate())
+    session.sparkContext.setLogLevel("ERROR")
+    yield session
+    session.stop()
+
+
+@pytest.fixture(scope="session")
+def converted_samples(tmp_path_factory):
+    """mrlift convert samples/bikeshare -o <tmp>: the folder and its report."""
+    from migrate.convert import write_outputs
+    from migrate.scan import scan_repo
+
+    out = tmp_path_factory.mktemp("converted") / "bikeshare"
+    scan = scan_repo(SAMPLES)
+    written = write_outputs(scan, out, "bikeshare")
+    return out, written.report
+
+
+@pytest.fixture(scope="session")
+def hadoop_classes(tmp_path_factory):
+    """The sample repository compiled with javac against the Hadoop client jars."""
+    from migrate.verify.hadoop import compile_sources
+
+    classes = tmp_path_factory.mktemp("classes")
+    result = compile_sources(sorted((SAMPLES / "src").rglob("*.java")), classes)
+    assert result.ok, result.log
+    return classes
+
+
+def sample_runs() -> list[dict]:
+    return json.loads((SAMPLES / "runs.json").read_text(encoding="utf-8"))["runs"]
+
+
+def load_script(path: Path):
+    """Import a generated script as a module (each under its own name)."""
+    name = "generated_" + path.stem
+    spec = importlib.util.spec_from_file_location(name, path)
+    module = importlib.util.module_from_spec(spec)
+    spec.loader.exec_module(module)
+    return module
