@@ -34,7 +34,7 @@ def _parser() -> argparse.ArgumentParser:
 
 def main(argv: list[str] | None = None) -> int:
     args = _parser().parse_args(argv)
-    console = Console(stderr=False)
+    console = Console(soft_wrap=True)
     if not args.path.exists():
         console.print(f"[red]mrlift: {args.path} does not exist[/red]")
         return 2

@@ -1,0 +1,95 @@
+"""Front end: parsing, the class index, roles and driver reading, on the sample repository and on
+small cases. Roles follow the Hadoop API docs: a mapper extends org.apache.hadoop.mapreduce.Mapper
+or implements org.apache.hadoop.mapred.Mapper (old API, with MapReduceBase); the driver is the
+class whose main(String[]) or Tool.run(String[]) configures a Job or JobConf."""
+from __future__ import annotations
+
+from tests.conftest import SAMPLES
+from tests.helpers import HEADER, scan_text
+from migrate.scan import scan_repo
+
+
+def _sample():
+    return scan_repo(SAMPLES)
+
+
+def test_every_sample_file_parses_including_crlf_and_non_ascii():
+    scan = _sample()
+    assert scan.errors == []
+    assert any(f.path.endswith("workshop_stats.java") for f in scan.files)  # CRLF, French/German comments
+
+
+def test_roles_across_both_apis_nested_and_separate_files():
+    idx = _sample().index
+    roles = {c.fqcn: (c.roles, c.api) for c in idx}
+    assert roles["net.brindleharbour.docks.MaxBikesPerDock.DockMapper"] == ({"mapper"}, "mapred")
+    assert roles["net.brindleharbour.docks.MaxBikesPerDock.PeakReducer"] == ({"reducer"}, "mapred")
+    assert roles["net.brindleharbour.rides.StationRideMapper"] == ({"mapper"}, "mapreduce")  # its own file
+    assert "partitioner" in roles["net.brindleharbour.reports.TopStationsByDestination.FirstLetterPartitioner"][0]
+    assert "driver" in roles["net.brindleharbour.rides.RidesPerStation"][0]  # Tool + ToolRunner
+    assert "driver" in roles["TicketsPerCategory"][0]  # default package, file name differs from the class
+
+
+def test_driver_reads_classes_types_paths_and_reducer_count():
+    jobs = {j.spec.driver.fqcn: j.spec for j in _sample().jobs}
+    avg = jobs["net.brindleharbour.rides.AverageRideDuration"]
+    assert avg.classes["mapper"] == "net.brindleharbour.rides.DurationMapper"
+    assert avg.types == {"map_key": "org.apache.hadoop.io.Text", "map_value": "org.apache.hadoop.io.IntWritable",
+                         "out_key": "org.apache.hadoop.io.Text", "out_value": "org.apache.hadoop.io.DoubleWritable"}
+    assert [i.index for i in avg.inputs] == [0] and avg.output.index == 1  # through locals `in`, `out`
+    assert avg.deletes_output  # fs.delete(out, true) before the run
+    assert jobs["net.brindleharbour.rides.LongRidesFilter"].num_reduces == 0
+    assert jobs["net.brindleharbour.rides.LongRidesFilter"].deletes_output  # out.getFileSystem(conf).delete(out, true)
+    tool = jobs["net.brindleharbour.tickets.MinBatteryLevel"]
+    assert tool.api == "mapred" and tool.method == "run"
+    assert jobs["net.brindleharbour.reports.TopStationsByDestination"].num_reduces == 3
+
+
+def test_hard_coded_paths_become_options_with_the_old_value():
+    jobs = {j.spec.driver.fqcn: j for j in _sample().jobs}
+    peak = jobs["net.brindleharbour.reports.PeakHourByStation"]
+    params = {p.name: p for p in peak.plan.params}
+    assert params["input_path"].default == "hdfs://bh-namenode:8020/data/rides/current"
+    assert params["output_path"].default == "/srv/reports/peak_hour"
+    assert peak.spec.conf["mapreduce.job.queuename"] == "reports"
+
+
+def test_wildcard_imports_and_fully_qualified_names_resolve(tmp_path):
+    src = """
+import org.apache.hadoop.io.*;
+import org.apache.hadoop.mapreduce.*;
+public class W {
+  static class M extends org.apache.hadoop.mapreduce.Mapper<LongWritable, Text, Text, IntWritable> {}
+  static class R extends Reducer<Text, IntWritable, Text, IntWritable> {}
+}
+"""
+    scan = scan_text(tmp_path, {"W.java": src})
+    roles = {c.name: c.roles for c in scan.index}
+    assert roles["M"] == {"mapper"} and roles["R"] == {"reducer"}
+
+
+def test_same_package_classes_in_other_files_resolve(tmp_path):
+    a = "package p;\n" + HEADER + "public class A extends Mapper<LongWritable, Text, Text, IntWritable> {}\n"
+    b = "package p;\n" + HEADER + "public class B extends A {}\n"  # a mapper through its superclass
+    scan = scan_text(tmp_path, {"p/A.java": a, "p/B.java": b})
+    assert {c.fqcn: c.roles for c in scan.index}["p.B"] == {"mapper"}
+
+
+def test_chained_jobs_in_one_driver_are_each_planned_and_flagged(tmp_path):
+    src = HEADER + """
+public class Two {
+  public static void main(String[] args) throws Exception {
+    Job first = Job.getInstance(new Configuration(), "first");
+    FileInputFormat.addInputPath(first, new Path(args[0]));
+    FileOutputFormat.setOutputPath(first, new Path(args[1]));
+    first.waitForCompletion(true);
+    Job second = Job.getInstance(new Configuration(), "second");
+    FileInputFormat.addInputPath(second, new Path(args[1]));
+    FileOutputFormat.setOutputPath(second, new Path(args[2]));
+    second.waitForCompletion(true);
+  }
+}
+"""
+    scan = scan_text(tmp_path, {"Two.java": src})
+    assert [j.spec.name for j in scan.jobs] == ["first", "second"]
+    assert all(any(h.category == "chained-jobs" for h in j.plan.hand_work) for j in scan.jobs)

@@ -1,0 +1,189 @@
+"""Lifting rules: Java in, plan (IR text dump) out; and the cases a rule must decline.
+
+Java semantics asserted here come from the Java SE API documentation: String.split(regex)
+is split(regex, 0), which removes trailing empty strings; StringTokenizer's default
+delimiters are " \\t\\n\\r\\f"; integer division rounds toward zero (JLS 15.17.2); int
+arithmetic wraps (JLS 4.2.2); Math.min returns NaN if either argument is NaN; any comparison
+with NaN is false (JLS 15.20.1)."""
+from __future__ import annotations
+
+from migrate.plan import dump_plan
+from tests.helpers import job_source, scan_text
+
+SUM_REDUCER = """  public static class R extends Reducer<Text, IntWritable, Text, IntWritable> {
+    protected void reduce(Text key, Iterable<IntWritable> values, Context context) throws IOException, InterruptedException {
+%s
+    }
+  }"""
+
+
+def _plan(tmp_path, body, reducer="", **kw):
+    scan = scan_text(tmp_path, {"Main.java": job_source(body, reducer, reducer_class="R" if reducer else None, **kw)})
+    assert not scan.errors, scan.errors
+    (job,) = scan.jobs
+    return job, dump_plan(job.plan)
+
+
+def test_split_guard_parse_and_two_guarded_writes(tmp_path):
+    job, dump = _plan(tmp_path, """
+      String[] f = value.toString().split(",");
+      if (f.length < 3) return;
+      int n = Integer.parseInt(f[1].trim());
+      if (n > 10) { context.write(new Text(f[0]), new IntWritable(n)); }
+      else { context.write(new Text("small"), new IntWritable(n / 2)); }""")
+    assert job.status == "converted"
+    assert "Let f = split(value, ',', 0)" in dump  # Java's limit-0 split, not F.split
+    assert "Filter (size(f) >= 3)" in dump
+    assert "Let n = parse_int(trim(index(f, 1)))" in dump  # fails the job where Java throws
+    assert "Emit index(f, 0) -> n if (n > 10)" in dump
+    assert "Emit 'small' -> (n /:int 2) if (n <= 10)" in dump  # integer division is explicit
+
+
+def test_catch_and_skip_turns_throwing_operations_into_null_and_filter(tmp_path):
+    job, dump = _plan(tmp_path, """
+      String[] f = value.toString().split(";");
+      try {
+        int n = Integer.parseInt(f[3]);
+        context.write(new Text(f[0]), new IntWritable(n));
+      } catch (NumberFormatException | ArrayIndexOutOfBoundsException e) {
+        return;
+      }""")
+    assert "Let n = parse_int?(index?(f, 3))" in dump  # `?`: NULL where Java throws
+    assert "Filter is_not_null(n)" in dump
+    assert job.status == "converted"
+
+
+def test_uncaught_kind_still_fails_the_job(tmp_path):
+    _, dump = _plan(tmp_path, """
+      String[] f = value.toString().split(";");
+      try {
+        context.write(new Text(f[0]), new IntWritable(Integer.parseInt(f[3])));
+      } catch (NumberFormatException e) { }""")
+    # the index can throw ArrayIndexOutOfBoundsException, which this catch does not swallow
+    assert "parse_int?(index(f, 3))" in dump
+
+
+def test_token_loop_with_lowercase_and_continue_becomes_explode_and_filter(tmp_path):
+    job, dump = _plan(tmp_path, """
+      StringTokenizer it = new StringTokenizer(value.toString());
+      while (it.hasMoreTokens()) {
+        String w = it.nextToken().toLowerCase();
+        if (w.length() < 3) continue;
+        context.write(new Text(w), new IntWritable(1));
+      }""", fields="")
+    assert "Explode w <- tokens(value)" in dump
+    assert "Filter (length(w_2) >= 3)" in dump or "Filter (length(" in dump
+    assert job.status == "converted"
+
+
+def test_for_each_over_split_array(tmp_path):
+    _, dump = _plan(tmp_path, """
+      for (String part : value.toString().split(" ")) {
+        context.write(new Text(part), new IntWritable(1));
+      }""")
+    assert "Explode part <- split(value, ' ', 0)" in dump
+
+
+def test_truncating_long_average_in_reducer(tmp_path):
+    red = """  public static class R extends Reducer<Text, LongWritable, Text, LongWritable> {
+    protected void reduce(Text key, Iterable<LongWritable> values, Context context) throws IOException, InterruptedException {
+      long sum = 0; long count = 0;
+      for (LongWritable v : values) { sum += v.get(); count++; }
+      context.write(key, new LongWritable(sum / count));
+    }
+  }"""
+    _, dump = _plan(tmp_path, "context.write(value, new LongWritable(1L));", red,
+                    map_out=("Text", "LongWritable"), out=("Text", "LongWritable"))
+    assert "Out key -> (@sum /:long @count)" in dump  # long / long truncates toward zero
+
+
+def test_double_average_uses_exact_long_sum(tmp_path):
+    red = """  public static class R extends Reducer<Text, IntWritable, Text, DoubleWritable> {
+    protected void reduce(Text key, Iterable<IntWritable> values, Context context) throws IOException, InterruptedException {
+      long sum = 0; int n = 0;
+      for (IntWritable v : values) { sum += v.get(); n++; }
+      context.write(key, new DoubleWritable((double) sum / n));
+    }
+  }"""
+    _, dump = _plan(tmp_path, "context.write(value, new IntWritable(1));", red, out=("Text", "DoubleWritable"))
+    assert "Agg sum = sum:long((long) value) init=0" in dump
+    assert "Agg n = count:int(null) init=0" in dump
+    assert "Out key -> ((double) @sum /:double (double) @n)" in dump
+
+
+def test_min_and_max_keep_java_nan_rules(tmp_path):
+    red = """  public static class R extends Reducer<Text, DoubleWritable, Text, DoubleWritable> {
+    protected void reduce(Text key, Iterable<DoubleWritable> values, Context context) throws IOException, InterruptedException {
+      double lo = Double.MAX_VALUE; double hi = 0;
+      for (DoubleWritable v : values) { lo = Math.min(lo, v.get()); if (v.get() > hi) hi = v.get(); }
+      context.write(key, new DoubleWritable(hi - lo));
+    }
+  }"""
+    _, dump = _plan(tmp_path, "context.write(value, new DoubleWritable(1.0));", red,
+                    map_out=("Text", "DoubleWritable"), out=("Text", "DoubleWritable"))
+    assert "Agg lo = min_nan:double(value)" in dump  # Math.min: NaN wins
+    assert "Agg hi = max_nonnan:double(value) init=0.0" in dump  # `v > hi` is false for NaN
+
+
+def test_int_sum_keeps_the_int_type_for_wraparound(tmp_path):
+    red = SUM_REDUCER % """
+      int s = 0;
+      for (IntWritable v : values) { s += v.get(); }
+      context.write(key, new IntWritable(s));"""
+    _, dump = _plan(tmp_path, "context.write(value, new IntWritable(1));", red)
+    assert "Agg s = sum:int(value) init=0" in dump
+
+
+def test_distinct_reducer_ignores_values(tmp_path):
+    red = """  public static class R extends Reducer<Text, NullWritable, Text, NullWritable> {
+    protected void reduce(Text key, Iterable<NullWritable> values, Context context) throws IOException, InterruptedException {
+      context.write(key, NullWritable.get());
+    }
+  }"""
+    job, dump = _plan(tmp_path, "context.write(value, NullWritable.get());", red,
+                      map_out=("Text", "NullWritable"), out=("Text", "NullWritable"))
+    assert "Group by key (distinct)" in dump and "Out key -> null" in dump
+    assert job.plan.sink.value_type is None  # TextOutputFormat prints the key alone
+
+
+def test_string_reference_comparison_is_declined(tmp_path):
+    job, _ = _plan(tmp_path, """
+      String s = value.toString();
+      if (s == "x") return;
+      context.write(new Text(s), new IntWritable(1));""")
+    assert job.status == "partial"
+    (item,) = job.plan.hand_work
+    assert "references" in item.reason and item.origin.line_start > 0
+
+
+def test_state_across_records_is_declined(tmp_path):
+    job, _ = _plan(tmp_path, """
+      seen = seen + 1;
+      context.write(value, new IntWritable(seen));""", fields="private int seen = 0;")
+    assert job.status == "partial"
+    assert "state across records" in job.plan.hand_work[0].reason
+
+
+def test_loop_carried_accumulator_in_map_is_declined(tmp_path):
+    job, _ = _plan(tmp_path, """
+      int total = 0;
+      for (String p : value.toString().split(",")) { total += Integer.parseInt(p); }
+      context.write(new Text("t"), new IntWritable(total));""")
+    assert job.status == "partial"
+
+
+def test_first_line_skip_by_offset(tmp_path):
+    job, dump = _plan(tmp_path, """
+      if (key.get() == 0) return;
+      context.write(value, new IntWritable(1));""")
+    assert job.plan.source.skip_first_line and "skip first line" in dump
+
+
+def test_combiner_that_is_not_a_partial_aggregate_is_hand_work(tmp_path):
+    red = SUM_REDUCER % """
+      int n = 0;
+      for (IntWritable v : values) { n++; }
+      context.write(key, new IntWritable(n));"""
+    job, _ = _plan(tmp_path, "context.write(value, new IntWritable(1));", red,
+                   extra_driver="job.setCombinerClass(R.class);")
+    assert [h.category for h in job.plan.hand_work] == ["combiner"]
