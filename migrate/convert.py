@@ -38,7 +38,7 @@ def summary(job: JobResult) -> str:
     elif isinstance(r, Identity):
         what = "the mapper's pairs sorted by key"
     else:
-        what = "(not determined)"
+        what = "not determined: the reduce side needs hand work"
     shapes = f" Shapes: {', '.join(p.shapes)}." if p.shapes else ""
     return what + "." + shapes
 

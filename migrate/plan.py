@@ -220,6 +220,12 @@ class Identity(Step):
     """Hadoop's identity reducer: every map output pair passes through, sorted by key."""
 
 
+# Hand work that leaves the script unable to compute the original's output: the generated
+# script stops with NotImplementedError until it is done. Other items (counters, file layout,
+# chaining) leave the output right but the job incomplete.
+ADVISORY_CATEGORIES = {"counter", "output-layout", "partitioner", "chained-jobs", "driver", "input-output-options"}
+
+
 @dataclass(frozen=True)
 class HandWork:
     """Something the converter did not prove it understood: a visible stub + a report item."""
@@ -231,6 +237,10 @@ class HandWork:
     snippet: str = ""
     profile: str = "P1"  # EFFORT.md adaptation profile: P1 re-express, P2 partial, P3 full redesign
     sloc: int = 0
+
+    @property
+    def blocking(self) -> bool:
+        return self.category not in ADVISORY_CATEGORIES
 
 
 @dataclass(frozen=True)

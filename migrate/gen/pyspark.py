@@ -68,7 +68,7 @@ class ExprWriter:
         return f'{self(e.arg)}.cast("{SPARK_TYPES[e.jtype]}")'
 
     def visit_Cond(self, e: Cond) -> str:
-        return f"F.when({self(e.cond)}, {self(e.then)}).otherwise({self(e.other)})"
+        return f"F.when({bare(self(e.cond))}, {self(e.then)}).otherwise({self(e.other)})"
 
     def visit_BoolOp(self, e: BoolOp) -> str:
         if e.op == "!":
@@ -76,9 +76,16 @@ class ExprWriter:
         sym = " & " if e.op == "&&" else " | "
         return "(" + sym.join(f"({self(a)})" if isinstance(a, BoolOp) and a.op != "!" else self(a) for a in e.args) + ")"
 
+    def operand(self, e: Expr, other: Expr) -> str:
+        """A literal next to a column is written as a plain Python value (Spark coerces it)."""
+        if isinstance(e, Lit) and not isinstance(other, Lit) and e.value is not None and e.jtype != "boolean":
+            return self.py(e)
+        return self(e)
+
     def visit_Compare(self, e: Compare) -> str:
         op = "==" if e.op == "==" else e.op
-        core = f"({self(e.left)} {op} {self(e.right)})"
+        left = self(e.left) if isinstance(e.left, Lit) else self.operand(e.left, e.right)
+        core = f"({left} {op} {self.operand(e.right, e.left)})"
         if e.left.jtype not in ("double", "float"):
             return core
         # Java: every comparison with NaN is false (!= is true); Spark orders NaN above all numbers.
@@ -97,7 +104,8 @@ class ExprWriter:
         if e.op == "/" and not (isinstance(e.right, Lit) and e.right.value not in (0, 0.0)):
             self.helpers.add("java_div_double")
             return f"java_div_double({a}, {b})"
-        return f"({a} {e.op} {b})"
+        left = a if isinstance(e.left, Lit) else self.operand(e.left, e.right)
+        return f"({left} {e.op} {self.operand(e.right, e.left)})"
 
     def visit_Call(self, e: Call) -> str:
         args = e.args
@@ -140,7 +148,7 @@ class ExprWriter:
             return "F.concat(" + ", ".join(self(p) for p in parts) + ")"
         if op in ("starts_with", "ends_with", "contains"):
             meth = {"starts_with": "startswith", "ends_with": "endswith", "contains": "contains"}[op]
-            return f"{self(args[0])}.{meth}({self(args[1])})"
+            return f"{self(args[0])}.{meth}({self.operand(args[1], args[0])})"
         if op == "is_empty":
             return f"(F.length({self(args[0])}) == 0)"
         if op == "length":
@@ -154,9 +162,9 @@ class ExprWriter:
                 return f"java_abs({self(args[0])}, {MIN_VALUE[e.jtype]})"
             return f"F.abs({self(args[0])})"
         if op == "guarded":
-            return f"F.when({self(args[0])}, {self(args[1])})"
+            return f"F.when({bare(self(args[0]))}, {self(args[1])})"
         if op == "if_else":
-            return f"F.when({self(args[0])}, {self(args[1])}).otherwise({self(args[2])})"
+            return f"F.when({bare(self(args[0]))}, {self(args[1])}).otherwise({self(args[2])})"
         if op == "is_not_null":
             return f"{self(args[0])}.isNotNull()"
         raise TypeError(f"the generator has no spelling for operation {op!r}")
@@ -210,6 +218,19 @@ class ScriptParts:
     uses_window: bool = False
 
 
+def bare(code: str) -> str:
+    """Drop one pair of parentheses that wraps the whole expression (`.where((a > 1))`)."""
+    if not (code.startswith("(") and code.endswith(")")):
+        return code
+    depth = 0
+    for i, ch in enumerate(code):
+        depth += ch == "("
+        depth -= ch == ")"
+        if depth == 0 and i < len(code) - 1:
+            return code
+    return code[1:-1]
+
+
 def _where(origin) -> str:
     name = origin.file.rsplit("/", 1)[-1]
     return f"{name}:{origin.line_start}" if origin.line_start else name
@@ -239,7 +260,7 @@ def build_body(plan: Plan, x: ExprWriter) -> ScriptParts:
         parts.uses_window = True
         out.append("lines = drop_first_line_per_file(lines)  # the mapper skipped byte offset 0 of each file")
     chain: list[str] = []
-    stub = [h for h in plan.hand_work if h.category in ("map-logic", "missing-source")]
+    stub = [h for h in plan.hand_work if h.blocking]
     for s in plan.map_steps:
         chain.extend(_step_code(s, x))
     if stub:
@@ -247,16 +268,13 @@ def build_body(plan: Plan, x: ExprWriter) -> ScriptParts:
         out.extend(_stub_lines(stub))
     map_origin = plan.map_steps[0].origin if plan.map_steps else None
     out.append("")
-    out.append(f"# Map side: narrow, row by row (no shuffle){' — ' + map_origin.file if map_origin else ''}")
+    map_file = map_origin.file.rsplit("/", 1)[-1] if map_origin else ""
+    out.append(f"# Map side: narrow, row by row (no shuffle){' — ' + map_file if map_file else ''}")
     out.append("map_output = (")
     out.append("    lines")
     out.extend("    " + c for c in chain)
     out.append(")")
     r = plan.reduce
-    rstub = [h for h in plan.hand_work if h.category in ("reduce-logic",)]
-    if rstub:
-        out.append("")
-        out.extend(_stub_lines(rstub))
     if isinstance(r, Group):
         out.append("")
         out.append(f"# Reduce side: wide — rows are shuffled so all values of a key meet ({_where(r.origin)})")
@@ -273,7 +291,7 @@ def build_body(plan: Plan, x: ExprWriter) -> ScriptParts:
                 out.append(f"        {agg_code(a, x)}.alias(\"{agg_column(a.name)}\"),")
             out.append("    )")
         if r.having is not None:
-            out.append(f"    .where({x(r.having)})  # the reducer writes only when this holds")
+            out.append(f"    .where({bare(x(r.having))})  # the reducer writes only when this holds")
         k = r.key_out
         keep_sort = not (isinstance(k, Col) and k.name == "key")
         sort = ', F.col("key").alias("_sort_key")' if keep_sort else ""
@@ -292,7 +310,8 @@ def build_body(plan: Plan, x: ExprWriter) -> ScriptParts:
 
 
 def _stub_lines(items: list[HandWork]) -> list[str]:
-    lines = ["# HAND WORK: the converter stopped here; the steps below are what it could prove."]
+    lines = ["# HAND WORK: this job is not complete. Until the items below are written by hand the",
+             "# script refuses to run; the steps after this are only the part mrlift could lift."]
     for h in items:
         lines.append(f"# {_where(h.origin)}  {h.snippet}")
         lines.append(f"#   why: {h.reason}")
@@ -307,7 +326,7 @@ def _step_code(s: Step, x: ExprWriter) -> list[str]:
     if isinstance(s, Let):
         return [where, f".withColumn(\"{s.name}\", {x(s.expr)})"]
     if isinstance(s, Filter):
-        return [where, f".where({x(s.cond)})"]
+        return [where, f".where({bare(x(s.cond))})"]
     if isinstance(s, Explode):
         return [where + "  (one row per element)", f".withColumn(\"{s.name}\", F.explode({x(s.array)}))"]
     if isinstance(s, Project):
@@ -321,7 +340,7 @@ def _project_code(p: Project, x: ExprWriter) -> list[str]:
         e = ems[0]
         lines = [f"# {_where(e.origin)}  {e.note}  (map output: key, value)"]
         if e.guard is not None:
-            lines.append(f".where({x(e.guard)})")
+            lines.append(f".where({bare(x(e.guard))})")
         lines.append(f".select({x(e.key)}.alias(\"key\"), {x(e.value)}.alias(\"value\"))")
         return lines
     key_t = _common([e.key for e in ems])
@@ -336,7 +355,7 @@ def _project_code(p: Project, x: ExprWriter) -> list[str]:
         v = _typed(x, e.value, val_t)
         struct = f"F.struct({k}.alias(\"key\"), {v}.alias(\"value\"))"
         lines.append(f"                # {_where(e.origin)}  {e.note}")
-        lines.append(f"                F.when({x(e.guard)}, {struct}),"
+        lines.append(f"                F.when({bare(x(e.guard))}, {struct}),"
                      if e.guard is not None else f"                {struct},")
     lines.append("            ),")
     lines.append("            lambda emitted: emitted.isNotNull(),")

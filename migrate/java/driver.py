@@ -41,6 +41,7 @@ class JobSpec:
     num_reduces: int | None = None
     deletes_output: bool = False
     unread: list[tuple[int, str]] = field(default_factory=list)  # (line, call text) the reader skipped
+    call_lines: dict[str, int] = field(default_factory=dict)  # job method name -> line of the call
     extra: list[tuple[str, int, str]] = field(default_factory=list)  # (category, line, text) needing hand work
 
     @property
@@ -298,6 +299,7 @@ class _DriverReader:
         return self._only_spec()
 
     def _job_call(self, spec: JobSpec, m: str, args, line: int) -> tuple:
+        spec.call_lines.setdefault(m, line)
         if m in ("getConfiguration",):
             return ("conf", None)
         if m in _JOB_CALLS and args:

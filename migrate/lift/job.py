@@ -10,6 +10,7 @@ from migrate.java.hadoop_api import KNOWN_CLASSES, WRITABLE_TYPES
 from migrate.java.index import ClassIndex, ClassInfo, node_lines
 from migrate.java.source import logical_sloc
 from migrate.lift.builtin import IDENTITY_MAPPERS, IDENTITY_REDUCERS, SUM_REDUCERS, library_mapper, library_reducer
+from migrate.lift.limits import explain
 from migrate.lift.mapper import MapBodyLifter
 from migrate.lift.reducer import FoldLifter
 from migrate.plan import (Agg, AggRef, Cast, Col, Emit, Explode, Filter, Group, HandWork, Identity, Param, Plan,
@@ -55,6 +56,13 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
         hand.append(HandWork(category, span, reason, suggestion, snippet, profile, sloc))
 
     drv = spec.driver.file.path
+
+    def at(*calls: str) -> Span:
+        """The driver line of the first of these job calls (or the job's creation)."""
+        for c in calls:
+            if c in spec.call_lines:
+                return Span(drv, spec.call_lines[c], spec.call_lines[c])
+        return spec.origin
     # ---- parameters: the same positional arguments as the original driver
     params: list[Param] = []
     input_params = []
@@ -83,10 +91,10 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
             if any(k.endswith("key.value.separator.in.input.line") for k in spec.conf):
                 add("input-format", spec.origin, "custom key/value separator", "split on that separator instead of TAB")
         elif simple != "TextInputFormat":
-            add("input-format", spec.origin, f"input format {simple} is not converted",
+            add("input-format", at("setInputFormatClass", "setInputFormat"), f"input format {simple} is not converted",
                 "read it with a Spark data source that matches the record layout", "P3", _sloc_of(index, spec.input_format))
     if spec.output_format and spec.output_format.rsplit(".", 1)[-1] != "TextOutputFormat":
-        add("output-format", spec.origin, f"output format {spec.output_format.rsplit('.', 1)[-1]} is not converted",
+        add("output-format", at("setOutputFormatClass", "setOutputFormat"), f"output format {spec.output_format.rsplit('.', 1)[-1]} is not converted",
             "write with the Spark format downstream readers expect", "P3", _sloc_of(index, spec.output_format))
     sep = spec.conf.get("mapreduce.output.textoutputformat.separator", spec.conf.get("mapred.textoutputformat.separator", "\t"))
     # ---- map output types (Hadoop falls back to the job output types)
@@ -131,15 +139,21 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
             add("missing-source", spec.origin, f"reducer {reducer_fq} is neither in the repository nor a Hadoop library class",
                 "add its source to the scanned folder", "P2")
         if spec.reduces > 1:
-            add("output-layout", spec.origin, f"Hadoop split the output over {spec.reduces} part files by key hash; "
+            add("output-layout", at("setNumReduceTasks"), f"Hadoop split the output over {spec.reduces} part files by key hash; "
                 "the script writes one file sorted by key", "if readers depend on the part files, repartition by key", "P1")
-        _check_combiner(spec, reduce, index, add)
-        for role, label in (("partitioner", "custom partitioner"), ("sort_comparator", "custom sort order"),
-                            ("grouping_comparator", "custom grouping (secondary sort)")):
+        _check_combiner(spec, reduce, index, add, at("setCombinerClass"))
+        comparator_hint = "Window.partitionBy(...).orderBy(...) expresses secondary sort"
+        for role, label, calls, hint in (
+                ("partitioner", "custom partitioner", ("setPartitionerClass",),
+                 "only the split into part files changes; repartition by the same rule if readers depend on it"),
+                ("sort_comparator", "custom sort order", ("setSortComparatorClass", "setOutputKeyComparatorClass"),
+                 comparator_hint),
+                ("grouping_comparator", "custom grouping (secondary sort)",
+                 ("setGroupingComparatorClass", "setOutputValueGroupingComparator"), comparator_hint)):
             if role in spec.classes:
-                add("secondary-sort" if role != "partitioner" else "partitioner", spec.origin,
-                    f"{label} {spec.classes[role].rsplit('.', 1)[-1]} is not converted",
-                    "Window.partitionBy(...).orderBy(...) expresses secondary sort", "P2", _sloc_of(index, spec.classes[role]))
+                add("secondary-sort" if role != "partitioner" else "partitioner", at(*calls),
+                    f"{label} {spec.classes[role].rsplit('.', 1)[-1]} is not converted", hint, "P2",
+                    _sloc_of(index, spec.classes[role]))
     for category, line, text in spec.extra:
         add(category, Span(drv, line, line), f"{text} is not converted in this version",
             "see the DataFrame join/union equivalents in DEVELOPERS.md", "P2")
@@ -219,9 +233,17 @@ def _lift_mapper(mcls: ClassInfo, fmt: str, hand: list[HandWork], notes: list[st
     res = lifter.run()
     for h in res.hand_work:
         sloc = logical_sloc(owner.file.lines[h.origin.line_start - 1 : node_lines(m)[1]])
-        hand.append(HandWork(h.category, h.origin, h.reason, h.suggestion, h.snippet, h.profile, max(sloc, 1)))
+        hand.append(_named(owner, h, max(sloc, 1)))
     notes.extend(res.notes)
     return res.steps, res.skip_first_line
+
+
+def _named(owner: ClassInfo, h: HandWork, sloc: int) -> HandWork:
+    """Give a lifting failure the name of the API behind it, when there is one (lift.limits)."""
+    lim = explain(owner, h.origin.line_start) if h.category in ("map-logic", "reduce-logic") else None
+    if lim is None:
+        return HandWork(h.category, h.origin, h.reason, h.suggestion, h.snippet, h.profile, sloc)
+    return HandWork(lim.category, h.origin, f"{lim.reason} ({h.reason})", lim.suggestion, h.snippet, lim.profile, sloc)
 
 
 def _does_something(m) -> bool:
@@ -244,25 +266,26 @@ def _lift_reducer(rcls: ClassInfo, key_t: str, val_t: str, hand: list[HandWork],
     if items:
         a, b = node_lines(m)
         sloc = logical_sloc(owner.file.lines[(m.position.line if m.position else a) - 1 : b])
-        hand.extend(HandWork(h.category, h.origin, h.reason, h.suggestion, h.snippet, h.profile, sloc) for h in items)
+        hand.extend(_named(owner, h, sloc) for h in items)
     return group
 
 
 _SAFE_COMBINE = {"sum", "min", "max"}
 
 
-def _check_combiner(spec: JobSpec, reduce: Step | None, index: ClassIndex, add) -> None:
+def _check_combiner(spec: JobSpec, reduce: Step | None, index: ClassIndex, add, where: Span) -> None:
     comb = spec.classes.get("combiner")
     if comb is None:
         return
     same = comb == spec.classes.get("reducer") or (comb in SUM_REDUCERS and spec.classes.get("reducer") in SUM_REDUCERS)
     safe = (same and isinstance(reduce, Group) and not reduce.distinct and reduce.having is None and reduce.aggs
             and all(a.fn in _SAFE_COMBINE and isinstance(a.arg, (Col, Cast)) for a in reduce.aggs)
+            and all(a.fn != "sum" or not a.init for a in reduce.aggs)  # an initial value would be added per combine
             and isinstance(reduce.value_out, AggRef) and isinstance(reduce.key_out, Col) and reduce.key_out.name == "key")
     if same and isinstance(reduce, Group) and reduce.distinct and reduce.having is None:
         safe = True
     if not safe:
-        add("combiner", spec.origin, f"combiner {comb.rsplit('.', 1)[-1]} may change the result: Hadoop runs it zero or "
+        add("combiner", where, f"combiner {comb.rsplit('.', 1)[-1]} may change the result: Hadoop runs it zero or "
             "more times, so the original output depends on it", "check whether the combiner is a partial aggregate of the "
             "reducer; if so drop it (Spark combines partial aggregates itself)", "P2", _sloc_of(index, comb))
 

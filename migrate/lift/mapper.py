@@ -99,6 +99,7 @@ class MapBodyLifter:
         self.skip_first_line = False
         self.columns = {"value"}
         self.loop_locals: list[set[str]] = []
+        self.if_nodes: list = []  # enclosing if statements (for comments on the filters they become)
         env: dict[str, object] = {}
         env.update(class_constants(cls, index))
         params = [p.name for p in method.parameters]
@@ -351,9 +352,13 @@ class MapBodyLifter:
         c = lift(s.condition, self.scope)
         if c.jtype != "boolean":
             raise Unsupported(s, "if condition is not a boolean")
-        self._branch(s.then_statement, _and(guard, c))
-        if s.else_statement is not None:
-            self._branch(s.else_statement, _and(guard, _not(c)))
+        self.if_nodes.append(s)
+        try:
+            self._branch(s.then_statement, _and(guard, c))
+            if s.else_statement is not None:
+                self._branch(s.else_statement, _and(guard, _not(c)))
+        finally:
+            self.if_nodes.pop()
 
     def _branch(self, stmt, guard) -> None:
         if isinstance(stmt, T.BlockStatement):
@@ -389,7 +394,8 @@ class MapBodyLifter:
         if g is None:
             raise _Stop()
         if not self.emit_list:  # nothing written yet for this row: dropping it is exact
-            self.steps.append(Filter(self._span(s), self._note(s), _not(g)))
+            where = self.if_nodes[-1] if self.if_nodes else s
+            self.steps.append(Filter(self._span(where), self._note(where), _not(g)))
         else:
             self.dead = _or(self.dead, g)
 
