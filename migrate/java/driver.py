@@ -58,6 +58,13 @@ _JOB_CALLS = {
 }
 _TYPE_CALLS = {"setMapOutputKeyClass": "map_key", "setMapOutputValueClass": "map_value",
                "setOutputKeyClass": "out_key", "setOutputValueClass": "out_value"}
+# Configuration-key constants of Hadoop library classes (Hadoop 3 javadoc, "Constant Field Values").
+LIBRARY_CONSTANTS = {
+    ("RegexMapper", "PATTERN"): "mapreduce.mapper.regex",
+    ("RegexMapper", "GROUP"): "mapreduce.mapper.regexmapper..group",
+    ("KeyValueLineRecordReader", "KEY_VALUE_SEPARATOR"): "mapreduce.input.keyvaluelinerecordreader.key.value.separator",
+    ("TextOutputFormat", "SEPARATOR"): "mapreduce.output.textoutputformat.separator",
+}
 _CONF_SETTERS = {"set", "setInt", "setLong", "setBoolean", "setFloat", "setDouble", "setStrings"}
 _HARMLESS = {"setJarByClass", "setJar", "waitForCompletion", "submit", "setJobName", "exit", "println", "printf",
              "getInstance", "getConfiguration", "getRemainingArgs", "runJob", "print", "run", "getFileSystem", "get",
@@ -154,6 +161,8 @@ class _DriverReader:
             if v.lstrip("-").isdigit():
                 return ("int", int(v))
             return ("lit", v)
+        if isinstance(e, T.MemberReference) and (e.qualifier, e.member) in LIBRARY_CONSTANTS:
+            return ("str", LIBRARY_CONSTANTS[(e.qualifier, e.member)])
         if isinstance(e, T.MemberReference):
             base = self.env.get(e.member, ("unknown", e.member)) if not e.qualifier else ("unknown", f"{e.qualifier}.{e.member}")
             for sel in e.selectors or []:

@@ -118,7 +118,10 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
             add("map-logic", spec.origin, why, "read the input with the key you need and select it by hand", "P2")
         else:
             steps = lib_steps
-            shapes.append("token count" if any(isinstance(s, Explode) for s in steps) else "identity map")
+            simple = (mapper_fq or "Mapper").rsplit(".", 1)[-1]
+            shapes.append({"TokenCounterMapper": "token count", "TokenCountMapper": "token count",
+                           "RegexMapper": "regex match count", "InverseMapper": "swap key and value"}
+                          .get(simple, "identity map"))
     else:
         add("missing-source", spec.origin, f"mapper {mapper_fq} is neither in the repository nor a Hadoop library class",
             "add its source to the scanned folder", "P2")
@@ -160,7 +163,7 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
     for line, call in spec.unread:
         notes.append(f"{drv}:{line} driver call `{call}` was not read")
     # ---- shapes and the sink
-    shapes.extend(_shapes(steps, reduce))
+    shapes.extend(_shapes(steps if mcls is not None else [], reduce))
     out_key_t, out_val_t = _sink_types(steps, reduce, spec)
     sink = Sink("output_path", out_key_t, out_val_t, sorted_by_key=reduce is not None and spec.reduces >= 1,
                 overwrite=spec.deletes_output, separator=sep, origin=spec.origin)
