@@ -72,6 +72,9 @@ def main(argv: list[str] | None = None) -> int:
                 return 1
             written = write_outputs(scan, args.output, args.path.name, args.force, progress=lambda _j: bar.advance(t2))
         _print_summary(console, written.report, args.output)
+        for kept, new in written.kept:
+            console.print(f"[yellow]kept[/yellow] {args.output / kept} (edited or not written by mrlift); "
+                          f"the new version is {args.output / new}")
         return 0
     return 2
 

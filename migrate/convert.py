@@ -1,6 +1,8 @@
 """Write one script per job plus the report into an output folder (never over a user's files)."""
 from __future__ import annotations
 
+import hashlib
+import json
 from dataclasses import dataclass
 from pathlib import Path
 
@@ -22,6 +24,49 @@ def check_output_folder(out: Path, force: bool) -> None:
         raise OutputFolderError(f"{out} exists and is not a folder")
     if out.is_dir() and any(out.iterdir()) and not (out / MARKER).exists() and not force:
         raise OutputFolderError(f"{out} is not empty and was not written by mrlift; choose another folder or pass --force")
+
+
+def _digest(data: bytes) -> str:
+    return hashlib.sha256(data).hexdigest()
+
+
+class _Writer:
+    """Writes files into the output folder without ever replacing a file mrlift did not write.
+
+    The marker file records a digest of everything mrlift wrote. A file that is missing from
+    it (the user's own) or whose content changed since (hand work done in a generated script)
+    is left alone; the new version goes beside it as `<name>.mrlift-new<suffix>`.
+    """
+
+    def __init__(self, out: Path):
+        self.out = out
+        marker = out / MARKER
+        self.known: dict[str, str] = {}
+        if marker.exists():
+            try:
+                self.known = json.loads(marker.read_text(encoding="utf-8")).get("files", {})
+            except (ValueError, AttributeError):
+                self.known = {}
+        self.kept: list[tuple[str, str]] = []  # (file kept, where the new version went)
+        self.wrote: dict[str, str] = {}
+
+    def write(self, name: str, text: str) -> str:
+        data = text.encode("utf-8")
+        target = self.out / name
+        if target.exists() and _digest(target.read_bytes()) != self.known.get(name):
+            p = Path(name)
+            alt = f"{p.stem}.mrlift-new{p.suffix}"
+            self.kept.append((name, alt))
+            name, target = alt, self.out / alt
+        target.write_bytes(data)
+        self.wrote[name] = _digest(data)
+        return name
+
+    def close(self) -> None:
+        files = {**self.known, **self.wrote}
+        body = {"about": "written by mrlift; lists the files it wrote (sha256) so it never replaces your edits",
+                "files": dict(sorted(files.items()))}
+        (self.out / MARKER).write_text(json.dumps(body, indent=2) + "\n", encoding="utf-8")
 
 
 def summary(job: JobResult) -> str:
@@ -60,22 +105,23 @@ def header_for(job: JobResult, script: str) -> dict:
 class Written:
     scripts: list[tuple[JobResult, str]]
     report: dict
+    kept: list[tuple[str, str]]  # files left alone because they were edited or not ours
 
 
 def write_outputs(scan: RepoScan, out: Path, root_label: str, force: bool = False, progress=None) -> Written:
     check_output_folder(out, force)
     out.mkdir(parents=True, exist_ok=True)
-    (out / MARKER).write_text("written by mrlift; safe to delete\n", encoding="utf-8")
+    writer = _Writer(out)
     taken: set[str] = set()
     written = []
     for job in scan.jobs:
         name = script_name(job, taken)
         text = render_script(job.plan, header_for(job, name), list(job.plan.hand_work))
-        (out / name).write_text(text, encoding="utf-8")
-        written.append((job, name))
+        written.append((job, writer.write(name, text)))
         if progress:
             progress(job)
     report = build_report(written, scan.errors, root_label)
-    (out / "report.json").write_text(to_json(report), encoding="utf-8")
-    (out / "report.md").write_text(to_markdown(report), encoding="utf-8")
-    return Written(written, report)
+    writer.write("report.json", to_json(report))
+    writer.write("report.md", to_markdown(report))
+    writer.close()
+    return Written(written, report, writer.kept)

@@ -37,9 +37,14 @@ NO_SPAN = Span("<generated>", 0, 0)
 
 @dataclass(frozen=True)
 class Expr:
-    """Base of every expression node; `jtype` is the Java type of the value."""
+    """Base of every expression node; `jtype` is the Java type of the value.
+
+    `origin` is where the expression was written; it does not take part in equality, so two
+    expressions that compute the same thing compare equal wherever they came from.
+    """
 
     jtype: str
+    origin: Span = field(default=NO_SPAN, compare=False, kw_only=True)
 
 
 @dataclass(frozen=True)

@@ -9,12 +9,12 @@ which the calling rule turns into a hand-work item; nothing is guessed.
 """
 from __future__ import annotations
 
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 
 from javalang import tree as T
 
 from migrate.java.literals import number_value, string_value
-from migrate.plan import INTEGRAL, NUMERIC, Arith, BoolOp, Call, Cast, Col, Compare, Cond, Expr, Lit
+from migrate.plan import INTEGRAL, NO_SPAN, NUMERIC, Arith, BoolOp, Call, Cast, Col, Compare, Cond, Expr, Lit, Span
 
 
 class Unsupported(Exception):
@@ -83,7 +83,8 @@ class Scope:
 
     env: dict[str, object]
     caught: frozenset[str] = frozenset()
-    emitted: list = field(default_factory=list)
+    file: str = ""  # the Java file, for the origin of every lifted expression
+    notes: list[str] = field(default_factory=list)  # assumptions the lift made, for the report
 
     def on_error(self, op: str) -> str:
         exc = THROWS.get(op)
@@ -102,7 +103,18 @@ def promote(a: str, b: str) -> str:
 
 
 def lift(node, scope: Scope) -> Expr:
-    """Lift one Java expression node."""
+    """Lift one Java expression node; the result carries the node's file and lines."""
+    e = _lift(node, scope)
+    if e.origin is NO_SPAN and scope.file:
+        from migrate.java.index import node_lines
+
+        a, b = node_lines(node)
+        if a:
+            e = replace(e, origin=Span(scope.file, a, b))
+    return e
+
+
+def _lift(node, scope: Scope) -> Expr:
     if node is None:
         raise Unsupported(node, "empty expression")
     pre = list(getattr(node, "prefix_operators", None) or [])
@@ -278,6 +290,11 @@ def _method(recv: Expr, node: T.MethodInvocation, scope: Scope) -> Expr:
     if m == "trim" and not a:
         return Call("String", "trim", (recv,))
     if m in ("toLowerCase", "toUpperCase") and len(a) <= 1:
+        if not a:
+            from migrate.java.index import node_lines
+
+            scope.notes.append(f"{scope.file}:{node_lines(node)[0]} {m}() uses the JVM's default locale; the script "
+                               "assumes it was not Turkish or Azeri (where I/i map differently)")
         return Call("String", "lower" if m == "toLowerCase" else "upper", (recv,))
     if m == "equals" and len(a) == 1:
         return Compare("boolean", "==", recv, a[0]) if a[0].jtype == "String" else Lit("boolean", False)

@@ -162,6 +162,11 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
             "see the DataFrame join/union equivalents in DEVELOPERS.md", "P2")
     for line, call in spec.unread:
         notes.append(f"{drv}:{line} driver call `{call}` was not read")
+    if isinstance(reduce, Identity):
+        notes.append("the values of one key come out in no defined order, in Hadoop as here")
+    if isinstance(reduce, Group) and any(a.fn == "sum" and a.jtype in ("double", "float") for a in reduce.aggs):
+        notes.append("a floating-point sum depends on the order of the values, which neither Hadoop nor Spark "
+                     "fixes; the last digit can differ between runs of either")
     # ---- shapes and the sink
     shapes.extend(_shapes(steps if mcls is not None else [], reduce))
     out_key_t, out_val_t = _sink_types(steps, reduce, spec)

@@ -114,7 +114,7 @@ class MapBodyLifter:
         self.emit_target = params[2] if len(params) >= 3 else None
         for p in params[2:]:
             env[p] = Opaque("the task context")
-        self.scope = Scope(env)
+        self.scope = Scope(env, file=self.file)
 
     # ------------------------------------------------------------------ driving
     def run(self) -> MapResult:
@@ -131,7 +131,8 @@ class MapBodyLifter:
                            "check what the mapper emits and write the select by hand")
             else:
                 self.steps.append(Project(self._span(self.method), "map output", tuple(self.emit_list)))
-        return MapResult(self.steps, self.hand, self.skip_first_line, self.notes, self.counters)
+        notes = self.notes + [n for n in self.scope.notes if n not in self.notes]
+        return MapResult(self.steps, self.hand, self.skip_first_line, notes, self.counters)
 
     def _hand(self, category: str, line: int, reason: str, suggestion: str, profile: str = "P1") -> None:
         snippet = self.cls.file.lines[line - 1].strip() if 0 < line <= len(self.cls.file.lines) else ""

@@ -39,7 +39,7 @@ class FoldLifter:
         self.emit_target = params[2] if len(params) > 2 else None
         for p in params[2:]:
             env[p] = Opaque("the task context")
-        self.scope = Scope(env)
+        self.scope = Scope(env, file=self.file)
         self.accs: dict[str, tuple[str, Lit]] = {}
         self.aggs: dict[str, Agg] = {}
         self.seen_loop = False

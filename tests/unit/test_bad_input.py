@@ -78,3 +78,23 @@ def test_scan_json_lists_jobs_classes_and_errors(tmp_path, capsys):
     assert data["jobs"][0]["driver"] == "Main" and data["jobs"][0]["status"] == "converted"
     assert {c["class"]: c["roles"] for c in data["classes"]}["Main.M"] == ["mapper"]
     assert data["errors"][0]["file"] == "Bad.java"
+
+
+def test_reconvert_never_replaces_hand_edits_or_foreign_files(tmp_path):
+    repo = tmp_path / "repo"
+    scan_text(repo, {"Main.java": GOOD})
+    out = tmp_path / "out"
+    assert main(["convert", str(repo), "-o", str(out)]) == 0
+    script = out / "main.py"
+    fresh = script.read_text()
+    script.write_text(fresh + "\n# hand work done here\n")
+    assert main(["convert", str(repo), "-o", str(out)]) == 0
+    assert script.read_text().endswith("# hand work done here\n")  # the user's edit survives
+    assert (out / "main.mrlift-new.py").read_text() == fresh
+    # --force into a folder of the user's: their files stay as they were
+    mine = tmp_path / "mine"
+    mine.mkdir()
+    (mine / "report.md").write_text("my notes")
+    assert main(["convert", str(repo), "-o", str(mine), "--force"]) == 0
+    assert (mine / "report.md").read_text() == "my notes"
+    assert (mine / "report.mrlift-new.md").exists() and (mine / "main.py").exists()

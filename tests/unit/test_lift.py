@@ -187,3 +187,17 @@ def test_combiner_that_is_not_a_partial_aggregate_is_hand_work(tmp_path):
     job, _ = _plan(tmp_path, "context.write(value, new IntWritable(1));", red,
                    extra_driver="job.setCombinerClass(R.class);")
     assert [h.category for h in job.plan.hand_work] == ["combiner"]
+
+
+def test_every_lifted_expression_knows_its_java_line(tmp_path):
+    from migrate.plan import Let
+
+    job, _ = _plan(tmp_path, """
+      String[] f = value.toString().split(",");
+      int n = Integer.parseInt(f[1]);
+      context.write(new Text(f[0]), new IntWritable(n));""")
+    lets = {s.name: s for s in job.plan.map_steps if isinstance(s, Let)}
+    src = (tmp_path / "Main.java").read_text().split("\n")
+    for name, needle in (("f", "split"), ("n", "parseInt")):
+        line = next(i for i, l in enumerate(src, 1) if needle in l)
+        assert lets[name].expr.origin.line_start == line and lets[name].expr.origin.file == "Main.java"

@@ -17,7 +17,7 @@ Semantics kept from Java/Hadoop: see the helper docstrings. Java int/long overfl
 row arithmetic raises an error here (ANSI mode) instead of wrapping silently.
 
 Verify this script on real data before it replaces the production job: compare its
-output with the original job's output (`mrlift verify`) on a representative sample.
+output with the original job's output on a representative sample of real data.
 """
 
 from __future__ import annotations

@@ -16,9 +16,10 @@ Usage (the same positional arguments as the original driver):
 
 Semantics kept from Java/Hadoop: see the helper docstrings. Java int/long overflow in
 row arithmetic raises an error here (ANSI mode) instead of wrapping silently.
+Note: RiderFeedbackWordCount.java:30 toLowerCase() uses the JVM's default locale; the script assumes it was not Turkish or Azeri (where I/i map differently)
 
 Verify this script on real data before it replaces the production job: compare its
-output with the original job's output (`mrlift verify`) on a representative sample.
+output with the original job's output on a representative sample of real data.
 """
 
 from __future__ import annotations
