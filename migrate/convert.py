@@ -6,7 +6,10 @@ import json
 from dataclasses import dataclass
 from pathlib import Path
 
+import black
+
 from migrate.gen.pyspark import render_script
+from migrate.java.source import ParseFailure
 from migrate.lift.job import JobResult
 from migrate.plan import AggRef, Group, Identity
 from migrate.report.render import build_report, to_json, to_markdown
@@ -114,13 +117,19 @@ def write_outputs(scan: RepoScan, out: Path, root_label: str, force: bool = Fals
     writer = _Writer(out)
     taken: set[str] = set()
     written = []
+    errors = list(scan.errors)
     for job in scan.jobs:
         name = script_name(job, taken)
-        text = render_script(job.plan, header_for(job, name), list(job.plan.hand_work))
+        try:
+            text = render_script(job.plan, header_for(job, name), list(job.plan.hand_work))
+        except (TypeError, ValueError, KeyError, black.InvalidInput) as exc:  # a generator bug: report, go on
+            errors.append(ParseFailure(job.spec.driver.file.path, job.spec.origin.line_start,
+                                       f"could not write a script for {job.spec.name!r}: {type(exc).__name__}: {exc}"))
+            continue
         written.append((job, writer.write(name, text)))
         if progress:
             progress(job)
-    report = build_report(written, scan.errors, root_label)
+    report = build_report(written, errors, root_label)
     writer.write("report.json", to_json(report))
     writer.write("report.md", to_markdown(report))
     writer.close()

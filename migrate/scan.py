@@ -37,6 +37,11 @@ def scan_repo(root: Path, progress=None) -> RepoScan:
     index = ClassIndex(files)
     classify(index)
     specs, problems = read_drivers(index)
+    for spec in specs:  # roles that only the driver's use reveals
+        for role in ("combiner", "sort_comparator", "grouping_comparator"):
+            c = index.get(spec.classes.get(role))
+            if c is not None:
+                c.roles.add(role.replace("_", "-"))
     for cls, line, msg in problems:
         errors.append(ParseFailure(cls.file.path, line, msg))
     scan = RepoScan(root, files, errors, index)

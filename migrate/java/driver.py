@@ -85,7 +85,13 @@ def read_drivers(index: ClassIndex) -> tuple[list[JobSpec], list[tuple[ClassInfo
             problems.append((cls, cls.line_start, "driver has no main(String[]) or run(String[]) that could be read"))
             continue
         reader = _DriverReader(cls, index)
-        reader.run(method)
+        try:
+            reader.run(method)
+        except (AttributeError, TypeError, ValueError, KeyError, IndexError, RecursionError) as exc:
+            # an unforeseen driver shape must not stop the batch: it is reported with its line
+            problems.append((cls, method.position.line if method.position else cls.line_start,
+                             f"driver could not be read ({type(exc).__name__}: {exc})"))
+            continue
         specs.extend(reader.jobs())
     return specs, problems
 

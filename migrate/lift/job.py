@@ -125,6 +125,7 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
     else:
         add("missing-source", spec.origin, f"mapper {mapper_fq} is neither in the repository nor a Hadoop library class",
             "add its source to the scanned folder", "P2")
+    _check_map_output_types(steps, map_key_t, map_val_t, mcls, add)
     # ---- reduce side
     reduce: Step | None = None
     reducer_fq = spec.classes.get("reducer")
@@ -296,6 +297,19 @@ def _check_combiner(spec: JobSpec, reduce: Step | None, index: ClassIndex, add, 
         add("combiner", where, f"combiner {comb.rsplit('.', 1)[-1]} may change the result: Hadoop runs it zero or "
             "more times, so the original output depends on it", "check whether the combiner is a partial aggregate of the "
             "reducer; if so drop it (Spark combines partial aggregates itself)", "P2", _sloc_of(index, comb))
+
+
+def _check_map_output_types(steps: list[Step], key_t: str, val_t: str, mcls: ClassInfo | None, add) -> None:
+    """Hadoop fails the task when a written key/value class differs from the declared map output class."""
+    for p in (s for s in steps if isinstance(s, Project)):
+        for e in p.emits:
+            for side, declared, what in ((e.key, key_t, "key"), (e.value, val_t, "value")):
+                got = side.jtype if side is not None else "null"
+                if declared not in ("?", got) and not (got == "null" and declared != "null") and mcls is not None:
+                    add("type-mismatch", e.origin, f"the mapper writes a {got} {what} where the driver declares "
+                        f"{declared}; Hadoop fails such a task (\"Type mismatch in {what} from map\")",
+                        "fix the declared class or the written value, then convert again", "P1")
+                    return
 
 
 def _shapes(steps: list[Step], reduce: Step | None) -> list[str]:

@@ -23,7 +23,7 @@ def test_roles_across_both_apis_nested_and_separate_files():
     idx = _sample().index
     roles = {c.fqcn: (c.roles, c.api) for c in idx}
     assert roles["net.brindleharbour.docks.MaxBikesPerDock.DockMapper"] == ({"mapper"}, "mapred")
-    assert roles["net.brindleharbour.docks.MaxBikesPerDock.PeakReducer"] == ({"reducer"}, "mapred")
+    assert roles["net.brindleharbour.docks.MaxBikesPerDock.PeakReducer"] == ({"reducer", "combiner"}, "mapred")
     assert roles["net.brindleharbour.rides.StationRideMapper"] == ({"mapper"}, "mapreduce")  # its own file
     assert "partitioner" in roles["net.brindleharbour.reports.TopStationsByDestination.FirstLetterPartitioner"][0]
     assert "driver" in roles["net.brindleharbour.rides.RidesPerStation"][0]  # Tool + ToolRunner
@@ -93,3 +93,18 @@ public class Two {
     scan = scan_text(tmp_path, {"Two.java": src})
     assert [j.spec.name for j in scan.jobs] == ["first", "second"]
     assert all(any(h.category == "chained-jobs" for h in j.plan.hand_work) for j in scan.jobs)
+
+
+def test_custom_writable_value_is_named_as_hand_work(tmp_path):
+    pair = "import java.io.*;\nimport org.apache.hadoop.io.*;\n" \
+           "public class Pair implements Writable {\n  int a;\n" \
+           "  public void write(DataOutput out) throws IOException { out.writeInt(a); }\n" \
+           "  public void readFields(DataInput in) throws IOException { a = in.readInt(); }\n}\n"
+    from tests.helpers import job_source
+
+    src = job_source("context.write(value, new IntWritable(1));", reducer_class=None, map_out=("Text", "Pair"))
+    scan = scan_text(tmp_path, {"Pair.java": pair, "Main.java": src})
+    roles = {c.fqcn: c.roles for c in scan.index}
+    assert roles["Pair"] == {"writable"}
+    (job,) = scan.jobs
+    assert "custom-writable" in [h.category for h in job.plan.hand_work]

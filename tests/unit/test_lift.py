@@ -201,3 +201,33 @@ def test_every_lifted_expression_knows_its_java_line(tmp_path):
     for name, needle in (("f", "split"), ("n", "parseInt")):
         line = next(i for i, l in enumerate(src, 1) if needle in l)
         assert lets[name].expr.origin.line_start == line and lets[name].expr.origin.file == "Main.java"
+
+
+def test_written_class_must_match_the_declared_map_output_class(tmp_path):
+    # Hadoop's MapTask checks the key class of every write (Hadoop source: "Type mismatch in key from map")
+    job, _ = _plan(tmp_path, "context.write(new IntWritable(1), new IntWritable(1));")
+    assert [h.category for h in job.plan.hand_work] == ["type-mismatch"]
+
+
+def test_null_key_in_a_map_only_job_prints_the_value_alone(tmp_path):
+    job, dump = _plan(tmp_path, "context.write(null, value);", map_out=("NullWritable", "Text"),
+                      out=("NullWritable", "Text"), extra_driver="job.setNumReduceTasks(0);")
+    assert "Emit null -> value" in dump and job.status == "converted"
+    assert job.plan.sink.key_type is None and not job.plan.sink.sorted_by_key
+
+
+def test_reducer_post_loop_locals_and_packed_text_value(tmp_path):
+    red = """  public static class R extends Reducer<Text, IntWritable, Text, Text> {
+    private final Text out = new Text();
+    protected void reduce(Text key, Iterable<IntWritable> values, Context context) throws IOException, InterruptedException {
+      int sum = 0; int count = 0;
+      for (IntWritable v : values) { sum += v.get(); count += 1; }
+      double mean = (double) sum / count;
+      out.set(sum + "," + count + "," + mean);
+      context.write(key, out);
+    }
+  }"""
+    job, dump = _plan(tmp_path, "context.write(value, new IntWritable(1));", red, out=("Text", "Text"))
+    assert job.status == "converted"
+    assert "Out key -> concat(concat(concat(concat(to_string(@sum), ','), to_string(@count)), ','), " \
+           "to_string(((double) @sum /:double (double) @count)))" in dump

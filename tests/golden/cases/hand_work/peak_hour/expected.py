@@ -101,13 +101,15 @@ def main(argv: list[str] | None = None) -> int:
     )
     parser.add_argument(
         "--input-path",
+        dest="input_path",
         default="hdfs://bh-namenode:8020/data/rides/current",
-        help="input path (hard-coded in the original driver)",
+        help="input path (hard-coded in the original driver); default: %(default)s",
     )
     parser.add_argument(
         "--output-path",
+        dest="output_path",
         default="/srv/reports/peak_hour",
-        help="output folder (hard-coded in the original driver)",
+        help="output folder (hard-coded in the original driver); default: %(default)s",
     )
     parser.add_argument(
         "-D",
