@@ -11,7 +11,7 @@ import black
 from migrate.gen.pyspark import render_script
 from migrate.java.source import ParseFailure
 from migrate.lift.job import JobResult
-from migrate.plan import AggRef, Group, Identity
+from migrate.plan import Group, Identity
 from migrate.report.render import build_report, to_json, to_markdown
 from migrate.scan import RepoScan, script_name
 

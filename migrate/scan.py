@@ -45,7 +45,6 @@ def scan_repo(root: Path, progress=None) -> RepoScan:
     for cls, line, msg in problems:
         errors.append(ParseFailure(cls.file.path, line, msg))
     scan = RepoScan(root, files, errors, index)
-    names: dict[str, int] = {}
     for spec in specs:
         try:
             job = plan_job(spec, index)

@@ -20,7 +20,7 @@ def pytest_addoption(parser):
 
 @pytest.fixture(scope="session")
 def spark():
-    pyspark = pytest.importorskip("pyspark", reason="pyspark is part of the test extra: pip install -e '.[test]'")
+    pytest.importorskip("pyspark", reason="pyspark is part of the test extra: pip install -e '.[test]'")
     from pyspark.sql import SparkSession
 
     os.environ.setdefault("PYSPARK_PYTHON", sys.executable)

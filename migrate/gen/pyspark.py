@@ -2,14 +2,13 @@
 from __future__ import annotations
 
 import math
-import re
 from dataclasses import dataclass, field
 from pathlib import Path
 
 import black
 import jinja2
 
-from migrate.plan import (INTEGRAL, Agg, AggRef, Arith, BoolOp, Call, Cast, Col, Compare, Cond, Emit, Explode, Expr,
+from migrate.plan import (INTEGRAL, Agg, AggRef, Arith, BoolOp, Call, Cast, Col, Compare, Cond, Explode, Expr,
                           Filter, Group, HandWork, Identity, Let, Lit, Plan, Project, Step)
 
 SPARK_TYPES = {"int": "int", "long": "bigint", "double": "double", "float": "float", "boolean": "boolean",
@@ -248,12 +247,12 @@ def build_body(plan: Plan, x: ExprWriter) -> ScriptParts:
     else:
         read = f"spark.read.text([{paths}])" if len(src.params) > 1 else f"spark.read.text({paths})"
     if src.fmt == "keyvalue":
-        out.append(f"# KeyValueTextInputFormat: key = text before the first TAB, value = the rest")
-        out.append(f"pair = F.split(F.col(\"value\"), \"\\t\", 2)")
+        out.append("# KeyValueTextInputFormat: key = text before the first TAB, value = the rest")
+        out.append("pair = F.split(F.col(\"value\"), \"\\t\", 2)")
         out.append(f"lines = {read}.select(pair[0].alias(\"key\"), "
                    f"F.coalesce(F.try_element_at(pair, F.lit(2)), F.lit(\"\")).alias(\"value\"))")
     else:
-        out.append(f"# TextInputFormat: one row per line, column `value` (LF, CRLF and CR end a line)")
+        out.append("# TextInputFormat: one row per line, column `value` (LF, CRLF and CR end a line)")
         out.append(f"lines = {read}")
     if src.skip_first_line:
         x.helpers.add("drop_first_line_per_file")

@@ -3,7 +3,6 @@ from __future__ import annotations
 
 from dataclasses import dataclass, field
 
-import javalang
 from javalang import tree as T
 
 from migrate.java.index import ClassIndex, ClassInfo, node_lines

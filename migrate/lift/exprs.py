@@ -14,7 +14,7 @@ from dataclasses import dataclass, field, replace
 from javalang import tree as T
 
 from migrate.java.literals import number_value, string_value
-from migrate.plan import INTEGRAL, NO_SPAN, NUMERIC, Arith, BoolOp, Call, Cast, Col, Compare, Cond, Expr, Lit, Span
+from migrate.plan import INTEGRAL, NO_SPAN, NUMERIC, Arith, BoolOp, Call, Cast, Compare, Cond, Expr, Lit, Span
 
 
 class Unsupported(Exception):
@@ -406,3 +406,16 @@ def writable_set(w: Writable, value: Expr, node) -> Expr:
 
 def widen(e: Expr, t: str) -> Expr:
     return _widen(e, t)
+
+
+def write_argument(a, scope: Scope) -> Expr | None:
+    """A key or value passed to `context.write` / `output.collect`; None for null and NullWritable."""
+    if isinstance(a, T.Literal) and a.value == "null":
+        return None
+    if isinstance(a, T.MethodInvocation) and a.qualifier == "NullWritable" and a.member == "get":
+        return None
+    if isinstance(a, T.MemberReference) and not a.qualifier and isinstance(scope.env.get(a.member), Writable):
+        return scope.env[a.member].content
+    if isinstance(a, T.ClassCreator) and a.type.name.split(".")[-1] in WRITABLE_OF:
+        return writable_creator(a, scope).content
+    return lift(a, scope)

@@ -13,7 +13,7 @@ from migrate.lift.builtin import IDENTITY_MAPPERS, IDENTITY_REDUCERS, SUM_REDUCE
 from migrate.lift.limits import explain
 from migrate.lift.mapper import MapBodyLifter
 from migrate.lift.reducer import FoldLifter
-from migrate.plan import (Agg, AggRef, Cast, Col, Emit, Explode, Filter, Group, HandWork, Identity, Param, Plan,
+from migrate.plan import (AggRef, Cast, Col, Explode, Filter, Group, HandWork, Identity, Param, Plan,
                           Project, Sink, Source, Span, Step)
 
 LIFECYCLE = {"setup", "cleanup", "configure", "close", "run"}
@@ -231,12 +231,8 @@ def _lift_mapper(mcls: ClassInfo, fmt: str, hand: list[HandWork], notes: list[st
         hand.append(HandWork("map-logic", mcls.span, f"{mcls.name} has no map() method the converter could find",
                              "write the map step by hand", mcls.file.lines[mcls.line_start - 1].strip(), "P2", mcls.sloc))
         return [], False
-    for name in ("setup", "configure", "cleanup", "close"):
-        lm = _method(owner, name, (0, 1))
-        if lm is not None and _does_something(lm):
-            hand.append(_method_hand_work(owner, lm, "task-lifecycle",
-                                          f"{name}() runs once per task; its logic is not converted in this version",
-                                          "settings become script parameters; per-task state needs a rewrite", "P1"))
+    hand.extend(_lifecycle(owner, "of the mapper runs once per task; its logic is not converted in this version",
+                           "settings become script parameters; per-task state needs a rewrite", "P1"))
     lifter = MapBodyLifter(owner, m, "String" if fmt == "keyvalue" else "offset", "String", owner.api or "mapreduce",
                            index)
     res = lifter.run()
@@ -255,6 +251,16 @@ def _named(owner: ClassInfo, h: HandWork, sloc: int) -> HandWork:
     return HandWork(lim.category, h.origin, f"{lim.reason} ({h.reason})", lim.suggestion, h.snippet, lim.profile, sloc)
 
 
+def _lifecycle(owner: ClassInfo, what: str, suggestion: str, profile: str) -> list[HandWork]:
+    """setup()/configure()/cleanup()/close() that do more than call super: hand work."""
+    out = []
+    for name in ("setup", "configure", "cleanup", "close"):
+        lm = _method(owner, name, (0, 1))
+        if lm is not None and _does_something(lm):
+            out.append(_method_hand_work(owner, lm, "task-lifecycle", f"{name}() {what}", suggestion, profile))
+    return out
+
+
 def _does_something(m) -> bool:
     body = m.body or []
     return any(not (isinstance(s, T.StatementExpression) and isinstance(s.expression, T.SuperMethodInvocation))
@@ -265,12 +271,8 @@ def _lift_reducer(rcls: ClassInfo, key_t: str, val_t: str, hand: list[HandWork],
     owner, m = _find_method(rcls, index, "reduce", (3, 4))
     if m is None:
         return Identity(rcls.span, "reducer without reduce(): identity")
-    for name in ("setup", "configure", "cleanup", "close"):
-        lm = _method(owner, name, (0, 1))
-        if lm is not None and _does_something(lm):
-            hand.append(_method_hand_work(owner, lm, "task-lifecycle",
-                                          f"{name}() of the reducer is not converted in this version",
-                                          "per-task state (top-N in cleanup, side outputs) needs a rewrite", "P2"))
+    hand.extend(_lifecycle(owner, "of the reducer is not converted in this version",
+                           "per-task state (top-N in cleanup, side outputs) needs a rewrite", "P2"))
     group, items = FoldLifter(owner, m, key_t, val_t, index).run()
     if items:
         a, b = node_lines(m)

@@ -11,7 +11,6 @@ from __future__ import annotations
 import re
 from dataclasses import dataclass
 
-from javalang import tree as T
 
 from migrate.java.index import ClassInfo
 

@@ -17,7 +17,7 @@ from javalang import tree as T
 
 from migrate.java.index import ClassInfo, node_lines
 from migrate.lift.exprs import (CATCH_ALL, WRITABLE_OF, Opaque, Scope, Tokenizer, Unsupported, Writable, lift,
-                                writable_creator, writable_set, widen)
+                                widen, writable_creator, writable_set, write_argument)
 from migrate.plan import BoolOp, Call, Col, Compare, Emit, Explode, Expr, Filter, HandWork, Let, Lit, Project, Span, Step
 
 _DECLARED = {"int": "int", "long": "long", "double": "double", "float": "float", "boolean": "boolean",
@@ -324,7 +324,7 @@ class MapBodyLifter:
             raise Unsupported(s, "a write after a token loop would repeat once per token in the DataFrame version")
         if len(call.arguments) != 2:
             raise Unsupported(s, "write with other than two arguments")
-        k, v = (self._emit_side(a) for a in call.arguments)
+        k, v = (write_argument(a, self.scope) for a in call.arguments)
         g = self._eff(guard)
         for side in (k, v):
             for risky in _has_null_on_error(side) if side is not None else []:
@@ -332,20 +332,6 @@ class MapBodyLifter:
         if self.caught:
             self.in_try_emitted = True
         self.emit_list.append(Emit(self._span(s), self._note(s), k, v, g))
-
-    def _emit_side(self, a) -> Expr | None:
-        if isinstance(a, T.Literal) and a.value == "null":
-            return None
-        if isinstance(a, T.MethodInvocation) and a.qualifier == "NullWritable" and a.member == "get":
-            return None
-        if isinstance(a, T.MemberReference) and not a.qualifier and isinstance(self.scope.env.get(a.member), Writable):
-            w = self.scope.env[a.member]
-            if w.content is None:
-                raise Unsupported(a, f"`{a.member}` is written before it holds a value")
-            return w.content
-        if isinstance(a, T.ClassCreator) and a.type.name.split(".")[-1] in WRITABLE_OF:
-            return writable_creator(a, self.scope).content
-        return lift(a, self.scope)
 
     def _if(self, s: T.IfStatement, guard) -> None:
         if self._is_first_line_check(s):
@@ -400,7 +386,8 @@ class MapBodyLifter:
         else:
             self.dead = _or(self.dead, g)
 
-    def _loop(self, s, guard, array: Expr, var: str, body) -> None:
+    def _loop(self, s, guard, array: Expr, var: str, body) -> tuple[str, list]:
+        """Start a loop over `array`: filter by the guard, explode, return the column and the body."""
         if self.emit_list:
             raise Unsupported(s, "a loop after a write: exploding the rows would repeat the earlier write")
         g = self._eff(guard)
@@ -408,14 +395,10 @@ class MapBodyLifter:
             self.steps.append(Filter(self._span(s), "loop guard", g))
         col = self._fresh(var)
         self.steps.append(Explode(self._span(s), self._note(s), col, array))
-        saved_dead, self.dead = self.dead, None
+        self.dead = None
         self.loop_depth += 1
         self.loop_locals.append(set())
-        try:
-            stmts = body.statements if isinstance(body, T.BlockStatement) else [body]
-            return col, stmts
-        finally:
-            pass
+        return col, (body.statements if isinstance(body, T.BlockStatement) else [body])
 
     def _end_loop(self, saved_dead) -> None:
         self.loop_depth -= 1

@@ -14,9 +14,10 @@ from __future__ import annotations
 from javalang import tree as T
 
 from migrate.java.index import ClassInfo, node_lines
-from migrate.lift.exprs import WRITABLE_OF, Opaque, Scope, Unsupported, Writable, lift, writable_creator, writable_set, widen
+from migrate.lift.exprs import (WRITABLE_OF, Opaque, Scope, Unsupported, Writable, lift, widen, writable_creator,
+                                writable_set, write_argument)
 from migrate.lift.mapper import class_constants
-from migrate.plan import NUMERIC, Agg, AggRef, BoolOp, Col, Compare, Expr, Group, HandWork, Lit, Span
+from migrate.plan import NUMERIC, Agg, AggRef, BoolOp, Col, Expr, Group, HandWork, Lit, Span
 
 _MIN_OF = {"int": -2147483648, "long": -9223372036854775808, "double": float("-inf"), "float": float("-inf")}
 _MAX_OF = {"int": 2147483647, "long": 9223372036854775807, "double": float("inf"), "float": float("inf")}
@@ -103,7 +104,7 @@ class FoldLifter:
         elif isinstance(s, T.StatementExpression):
             e = s.expression
             if isinstance(e, T.MethodInvocation) and e.qualifier == self.emit_target and e.member in ("write", "collect"):
-                k, v = (self._side(x) for x in e.arguments)
+                k, v = (write_argument(x, self.scope) for x in e.arguments)
                 self.emits.append((s, k, v, guard))
                 return
             if isinstance(e, T.MethodInvocation) and e.member == "set" and isinstance(self.scope.env.get(e.qualifier), Writable):
@@ -122,17 +123,6 @@ class FoldLifter:
                 self._stmt(x, c if guard is None else BoolOp("boolean", "&&", (guard, c)))
         else:
             raise Unsupported(s, f"{type(s).__name__} in reduce() is not lifted")
-
-    def _side(self, a) -> Expr | None:
-        if isinstance(a, T.Literal) and a.value == "null":
-            return None
-        if isinstance(a, T.MethodInvocation) and a.qualifier == "NullWritable" and a.member == "get":
-            return None
-        if isinstance(a, T.MemberReference) and not a.qualifier and isinstance(self.scope.env.get(a.member), Writable):
-            return self.scope.env[a.member].content
-        if isinstance(a, T.ClassCreator) and a.type.name in WRITABLE_OF:
-            return writable_creator(a, self.scope).content
-        return lift(a, self.scope)
 
     # ------------------------------------------------------------------ the loop over values
     def _loop(self, s) -> None:

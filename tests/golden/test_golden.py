@@ -10,7 +10,6 @@ import ast
 import difflib
 from pathlib import Path
 
-import black
 import pytest
 
 from migrate.convert import header_for
