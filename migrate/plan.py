@@ -255,7 +255,7 @@ class Source:
     params: tuple[str, ...]  # script parameters holding the path(s)
     fmt: str = "text"  # "text" | "keyvalue"
     skip_first_line: bool = False  # `if (key.get() == 0) return;`: drop each file's first line
-    split_commas: bool = False  # FileInputFormat's String overloads split a path list on commas
+    split_commas: tuple[bool, ...] = ()  # per param: FileInputFormat's String overloads split on commas
     origin: Span = NO_SPAN
 
 

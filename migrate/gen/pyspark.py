@@ -240,11 +240,12 @@ def build_body(plan: Plan, x: ExprWriter) -> ScriptParts:
     parts = ScriptParts()
     out = parts.body
     src = plan.source
-    paths = ", ".join(src.params)
-    if src.split_commas:
-        out.append(f"paths = [p for p in ({paths},) for p in p.split(\",\")]  # FileInputFormat splits a path list on commas")
+    if any(src.split_commas):
+        items = [f"*{p}.split(\",\")" if split else p for p, split in zip(src.params, src.split_commas)]
+        out.append(f"paths = [{', '.join(items)}]  # the driver passed a String: Hadoop reads \"a,b\" as two paths")
         read = "spark.read.text(paths)"
     else:
+        paths = ", ".join(src.params)
         read = f"spark.read.text([{paths}])" if len(src.params) > 1 else f"spark.read.text({paths})"
     if src.fmt == "keyvalue":
         out.append("# KeyValueTextInputFormat: key = text before the first TAB, value = the rest")

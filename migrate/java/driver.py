@@ -18,6 +18,7 @@ class PathRef:
     index: int | None = None
     literal: str | None = None
     text: str = ""
+    split_commas: bool = False  # FileInputFormat's String overloads read "a,b" as two paths
 
 
 @dataclass
@@ -34,7 +35,6 @@ class JobSpec:
     input_format: str | None = None
     output_format: str | None = None
     inputs: list[PathRef] = field(default_factory=list)
-    input_paths_split_commas: bool = False
     output: PathRef | None = None
     conf: dict[str, str] = field(default_factory=dict)
     num_reduces: int | None = None
@@ -183,7 +183,11 @@ class _DriverReader:
             if tname in ("Job", "JobConf"):
                 return self._new_job(e, target, e.arguments)
             if tname == "GenericOptionsParser":
-                return ("gop",)
+                got: tuple = ("gop",)
+                for sel in e.selectors or []:
+                    if isinstance(sel, T.MethodInvocation):
+                        got = self._call(got, sel, e)
+                return got
             if tname in ("Configuration",):
                 return ("conf",)
             for sel in e.selectors or []:
@@ -357,9 +361,10 @@ class _DriverReader:
         if m in ("addInputPath", "setInputPaths", "addInputPaths"):
             for a in args[1:]:
                 v = self._value(a, None)
-                if v[0] == "str" or v[0] == "arg":
-                    spec.input_paths_split_commas = True  # the String overloads split on commas
-                spec.inputs.append(self._path_ref(v, a))
+                ref = self._path_ref(v, a)
+                if v[0] in ("str", "arg"):  # the String overloads split on commas; a Path does not
+                    ref = PathRef(ref.kind, ref.index, ref.literal, ref.text, split_commas=True)
+                spec.inputs.append(ref)
         elif m == "setOutputPath" and len(args) > 1:
             spec.output = self._path_ref(self._value(args[1], None), args[1])
             if spec.output in getattr(self, "pending_delete", []):

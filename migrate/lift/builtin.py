@@ -24,6 +24,7 @@ LIB = Span("<ships with Hadoop>", 0, 0)
 
 def library_mapper(fqcn: str | None, input_fmt: str, conf: dict[str, str]) -> tuple[list[Step] | None, str]:
     """Steps for a Hadoop library mapper, or (None, reason) when it cannot be expressed."""
+    LIB = Span(f"{(fqcn or 'Mapper').rsplit('.', 1)[-1]} (ships with Hadoop)", 0, 0)
     value = Col("String", "value")
     if fqcn in TOKEN_MAPPERS:
         tokens = Call("String[]", "tokens", (value,))

@@ -173,7 +173,8 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
     out_key_t, out_val_t = _sink_types(steps, reduce, spec)
     sink = Sink("output_path", out_key_t, out_val_t, sorted_by_key=reduce is not None and spec.reduces >= 1,
                 overwrite=spec.deletes_output, separator=sep, origin=spec.origin)
-    source = Source(tuple(input_params), fmt, skip_first, spec.input_paths_split_commas, spec.origin)
+    splits = tuple(ref.split_commas for ref in spec.inputs) or (False,)
+    source = Source(tuple(input_params), fmt, skip_first, splits, spec.origin)
     plan = Plan(spec.name, source, tuple(steps), reduce, sink, tuple(params), tuple(hand), tuple(dict.fromkeys(shapes)),
                 tuple(notes))
     sloc = sum(c.sloc for c in {index.get(fq) for fq in classes.values()} if c is not None)

@@ -30,7 +30,9 @@ def test_converted_job_matches_hadoop_output(run, converted_samples, hadoop_clas
     ran = run_job(hadoop_classes, run["driver"], hadoop_args, cwd=SAMPLES)
     assert ran.returncode == 0, ran.log[-4000:]
     script = load_script(out_dir / job["script"])
-    spark_args = [str(spark_out) if a == "@out" else str(SAMPLES / a) for a in run["args"]]
+    # the same arguments as the Hadoop run, made absolute (Spark's JVM keeps its own working folder)
+    spark_args = [str(spark_out) if a == "@out" else ",".join(str(SAMPLES / p) for p in a.split(","))
+                  for a in run["args"]]
     assert script.main(spark_args) == 0
     cmp = compare_outputs(hadoop_out, spark_out)
     assert cmp.original_lines > 0, "the sample produced no output: the test would prove nothing"

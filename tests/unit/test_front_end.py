@@ -108,3 +108,14 @@ def test_custom_writable_value_is_named_as_hand_work(tmp_path):
     assert roles["Pair"] == {"writable"}
     (job,) = scan.jobs
     assert "custom-writable" in [h.category for h in job.plan.hand_work]
+
+
+def test_generic_options_parser_args_and_comma_separated_input_paths():
+    # Hadoop javadoc: FileInputFormat.setInputPaths(Job, String commaSeparatedPaths) splits on commas;
+    # addInputPath(Job, Path) takes one path. GenericOptionsParser.getRemainingArgs() = args without -D etc.
+    jobs = {j.spec.driver.fqcn: j for j in _sample().jobs}
+    corpus = jobs["net.brindleharbour.notes.CorpusWordCount"]
+    assert [(r.index, r.split_commas) for r in corpus.spec.inputs] == [(0, True), (1, False)]
+    assert corpus.spec.output.index == 2
+    assert [p.position for p in corpus.plan.params] == [0, 1, 2]
+    assert corpus.plan.source.split_commas == (True, False)

@@ -74,7 +74,7 @@ def write_text_output(result: DataFrame, output_path: str, *, dry_run: bool = Fa
 
     A NULL side (NullWritable) is left out together with its separator.
     """
-    # One reducer wrote one file sorted by key: the same here.
+    # One reducer wrote one file sorted by key: the same here (wide: one shuffle into one partition).
     rows = result.repartition(1).sortWithinPartitions("key")
     lines = rows.where(F.col("key").isNotNull() | F.col("value").isNotNull()).select(
         F.concat_ws("\t", F.col("key").cast("string"), F.col("value").cast("string")).alias("value")
