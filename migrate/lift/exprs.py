@@ -56,10 +56,18 @@ WRITABLE_OF = {"Text": "String", "IntWritable": "int", "LongWritable": "long", "
 
 @dataclass
 class Writable:
-    """A Hadoop Writable object held in a variable; `content` is what it currently holds."""
+    """A Hadoop Writable object held in a variable; `content` is what it currently holds.
+
+    A Writable *field* outlives the record: where map() sets it only under a condition, a
+    later write outside that condition sends the previous record's value. `set_only_if`
+    keeps that condition so the lifter can refuse such writes.
+    """
 
     kind: str
     content: Expr | None
+    field: bool = False
+    set_this_record: bool = False
+    set_only_if: Expr | None = None
 
 
 @dataclass

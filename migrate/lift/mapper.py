@@ -75,6 +75,20 @@ def _has_null_on_error(e) -> list[Expr]:
     return out
 
 
+def _conjuncts(e: Expr | None) -> list[Expr]:
+    if e is None:
+        return []
+    if isinstance(e, BoolOp) and e.op == "&&":
+        return [c for a in e.args for c in _conjuncts(a)]
+    return [e]
+
+
+def _implies(g: Expr | None, cond: Expr) -> bool:
+    """Syntactic check that guard `g` implies `cond` (every conjunct of cond appears in g)."""
+    have = _conjuncts(g)
+    return all(c in have for c in _conjuncts(cond))
+
+
 class _Stop(Exception):
     """Lifting stops: the rest of the body is unreachable (unguarded return) or hand work."""
 
@@ -276,6 +290,10 @@ class MapBodyLifter:
                 new = writable_set(w, lift(e.arguments[0], self.scope), e)
                 g = self._eff(guard)
                 w.content = new if g is None or w.content is None else Call(new.jtype, "if_else", (g, new, w.content))
+                if g is None:
+                    w.set_this_record, w.set_only_if = True, None
+                elif w.field and not w.set_this_record:
+                    w.set_only_if = _or(w.set_only_if, g) if w.set_only_if is not None else g
                 return
             raise Unsupported(s, f"call `{(q + '.') if q else ''}{m}(...)` as a statement is not lifted",
                               "if it only has side effects outside the output, drop it by hand; otherwise rewrite it")
@@ -324,8 +342,14 @@ class MapBodyLifter:
             raise Unsupported(s, "a write after a token loop would repeat once per token in the DataFrame version")
         if len(call.arguments) != 2:
             raise Unsupported(s, "write with other than two arguments")
-        k, v = (write_argument(a, self.scope) for a in call.arguments)
         g = self._eff(guard)
+        for a in call.arguments:
+            w = self.scope.env.get(a.member) if isinstance(a, T.MemberReference) and not a.qualifier else None
+            if isinstance(w, Writable) and w.set_only_if is not None and not _implies(g, w.set_only_if):
+                raise Unsupported(s, f"`{a.member}` is a field set only under a condition; where it is not set, "
+                                     "Hadoop writes the value left from the previous record",
+                                  "set it on every path, or write a new Writable")
+        k, v = (write_argument(a, self.scope) for a in call.arguments)
         for side in (k, v):
             for risky in _has_null_on_error(side) if side is not None else []:
                 g = _and(g, Call("boolean", "is_not_null", (risky,)))
@@ -513,9 +537,11 @@ def class_constants(cls: ClassInfo, index=None) -> dict[str, object]:
             init = d.initializer
             if tname in WRITABLE_OF and isinstance(init, T.ClassCreator):
                 try:
-                    env[d.name] = writable_creator(init, Scope({}))
+                    w = writable_creator(init, Scope({}))
                 except Unsupported:
-                    pass
+                    continue
+                w.field = True
+                env[d.name] = w
             elif init is not None and ("final" in f.modifiers):
                 try:
                     e = lift(init, Scope(dict(env)))

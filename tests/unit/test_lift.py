@@ -231,3 +231,20 @@ def test_reducer_post_loop_locals_and_packed_text_value(tmp_path):
     assert job.status == "converted"
     assert "Out key -> concat(concat(concat(concat(to_string(@sum), ','), to_string(@count)), ','), " \
            "to_string(((double) @sum /:double (double) @count)))" in dump
+
+
+def test_writable_field_set_only_in_a_branch_is_declined(tmp_path):
+    # Hadoop reuses the mapper object: the field still holds the previous record's text where it is not set.
+    job, _ = _plan(tmp_path, """
+      String s = value.toString();
+      if (s.startsWith("a")) { word.set(s); }
+      context.write(word, new IntWritable(1));""", fields="private Text word = new Text();")
+    assert job.status == "partial" and "previous record" in job.plan.hand_work[0].reason
+
+
+def test_writable_field_set_and_written_under_the_same_guard_is_fine(tmp_path):
+    job, _ = _plan(tmp_path, """
+      String s = value.toString();
+      if (s.startsWith("a")) { word.set(s); context.write(word, new IntWritable(1)); }""",
+                   fields="private Text word = new Text();")
+    assert job.status == "converted"
