@@ -74,15 +74,16 @@ def java_parse_double(s: Column, *, skip_bad_record: bool = False) -> Column:
 
 _h("wrap_int", '''
 def wrap_int(c: Column) -> Column:
-    """Java int overflow wraps around; Spark's sum widens to bigint instead."""
-    return (F.pmod(c.cast("bigint") + 2147483648, F.lit(4294967296)) - 2147483648).cast("int")
+    """Java int overflow wraps around (keeps the low 32 bits); Spark widens or raises instead."""
+    low = c.cast("bigint").bitwiseAND(F.lit(4294967295))
+    return F.when(low >= 2147483648, low - 4294967296).otherwise(low).cast("int")
 ''')
 
 _h("java_int_div", '''
-def java_int_div(a: Column, b: Column, java_type: str = "bigint") -> Column:
-    """Java integer division truncates toward zero (Spark's `/` gives a double)."""
-    return F.call_function("div", a, b).cast(java_type)
-''')
+def java_int_div(a: Column, b: Column) -> Column:
+    """Java int division truncates toward zero (Spark's `/` gives a double); MIN_VALUE / -1 wraps."""
+    return wrap_int(F.call_function("div", a, b))
+''', ("wrap_int",))
 
 _h("java_div_double", '''
 def java_div_double(a: Column, b: Column) -> Column:
@@ -124,6 +125,138 @@ def drop_first_line_per_file(lines: DataFrame) -> DataFrame:
         .select("value")
     )
 ''')
+
+
+_h("java_strip", """
+def java_strip(s: Column, *, leading: bool = True, trailing: bool = True) -> Column:
+    \"\"\"String.strip(): removes Character.isWhitespace chars (Java regex class \\\\p{javaWhitespace}).\"\"\"
+    parts = ([r"^\\p{javaWhitespace}+"] if leading else []) + ([r"\\p{javaWhitespace}+$"] if trailing else [])
+    return F.regexp_replace(s, "|".join(parts), "")
+""")
+
+_h("java_substring", """
+def java_substring(s: Column, begin: Column, end: Column | None = None, *, skip_bad_record: bool = False) -> Column:
+    \"\"\"String.substring(begin[, end]) on UTF-16 indexes; out of range throws StringIndexOutOfBoundsException.\"\"\"
+    n = java_length(s)
+    stop = n if end is None else end
+    ok = (begin >= 0) & (stop <= n) & (begin <= stop)
+    units = F.encode(s, "UTF-16BE")  # Java indexes UTF-16 code units, Spark counts code points
+    value = F.decode(F.substr(units, begin * 2 + 1, (stop - begin) * 2), "UTF-16BE")
+    if skip_bad_record:
+        return F.when(ok, value)
+    return F.when(ok, value).otherwise(F.raise_error(F.lit("StringIndexOutOfBoundsException in substring")))
+""", ("java_length",))
+
+_h("java_index_of", """
+def java_index_of(s: Column, t: Column) -> Column:
+    \"\"\"String.indexOf(str): UTF-16 index of the first occurrence, -1 if absent.\"\"\"
+    before = F.call_function("substring_index", s, t, F.lit(1))
+    return F.when(F.instr(s, t) == 0, F.lit(-1)).otherwise(java_length(before))
+""", ("java_length",))
+
+_h("java_last_index_of", """
+def java_last_index_of(s: Column, t: Column) -> Column:
+    \"\"\"String.lastIndexOf(str): UTF-16 index of the last occurrence, -1 if absent.\"\"\"
+    after = F.call_function("substring_index", s, t, F.lit(-1))
+    return F.when(F.instr(s, t) == 0, F.lit(-1)).otherwise(java_length(s) - java_length(after) - java_length(t))
+""", ("java_length",))
+
+_h("java_equals_ignore_case", """
+def java_equals_ignore_case(a: Column, b: Column) -> Column:
+    \"\"\"String.equalsIgnoreCase: same length and each char equal after upper- or lower-casing.\"\"\"
+    def char(c: Column, i: Column) -> Column:
+        return F.substr(c, i, F.lit(1))
+
+    return (F.length(a) == F.length(b)) & F.forall(
+        F.sequence(F.lit(1), F.length(a)),
+        lambda i: (F.upper(char(a, i)) == F.upper(char(b, i))) | (F.lower(char(a, i)) == F.lower(char(b, i))),
+    )
+""")
+
+_h("java_round", """
+def java_round(x: Column) -> Column:
+    \"\"\"Math.round(double) -> long: floor(x + 0.5) without its rounding error; NaN -> 0; clamps to long.\"\"\"
+    fl = F.floor(x)
+    return (
+        F.when(F.isnan(x), F.lit(0).cast("bigint"))
+        .when(x >= F.lit(9.223372036854775807e18), F.lit(9223372036854775807))
+        .when(x <= F.lit(-9.223372036854775808e18), F.lit(-9223372036854775808))
+        .otherwise(fl + F.when(x - fl >= 0.5, 1).otherwise(0))
+    )
+""")
+
+_h("java_floor", """
+def java_floor(x: Column) -> Column:
+    \"\"\"Math.floor(double) -> double (keeps NaN, infinities, huge values and signed zero).\"\"\"
+    keep = F.isnan(x) | (F.abs(x) >= F.lit(4503599627370496.0)) | (x == 0)
+    return F.when(keep, x).otherwise(F.floor(x).cast("double"))
+""")
+
+_h("java_ceil", """
+def java_ceil(x: Column) -> Column:
+    \"\"\"Math.ceil(double) -> double; the ceiling of a value in (-1, 0) is -0.0.\"\"\"
+    keep = F.isnan(x) | (F.abs(x) >= F.lit(4503599627370496.0)) | (x == 0)
+    return F.when(keep, x).when((x > -1) & (x < 0), F.lit(-0.0)).otherwise(F.ceil(x).cast("double"))
+""")
+
+_h("java_max_min", """
+def java_max(a: Column, b: Column) -> Column:
+    \"\"\"Math.max(double, double): NaN if either is NaN; 0.0 is greater than -0.0.\"\"\"
+    # for two zeros IEEE addition gives the answer (-0.0 only if both are -0.0); a CASE on -0.0 and
+    # 0.0 literals would be folded away by Spark, which holds them equal
+    return F.when(F.isnan(a) | F.isnan(b), F.lit(float("nan"))).when((a == 0) & (b == 0), a + b).otherwise(
+        F.greatest(a, b)
+    )
+
+
+def java_min(a: Column, b: Column) -> Column:
+    \"\"\"Math.min(double, double): NaN if either is NaN; -0.0 is less than 0.0.\"\"\"
+    return F.when(F.isnan(a) | F.isnan(b), F.lit(float("nan"))).when((a == 0) & (b == 0), -(-a - b)).otherwise(
+        F.least(a, b)
+    )
+""")
+
+_h("java_double_to_integral", """
+def java_double_to_int(x: Column) -> Column:
+    \"\"\"(int) of a double: truncates toward zero, NaN -> 0, saturates at the int range (JLS 5.1.3).\"\"\"
+    return (
+        F.when(F.isnan(x), F.lit(0))
+        .when(x >= F.lit(2147483647.0), F.lit(2147483647))
+        .when(x <= F.lit(-2147483648.0), F.lit(-2147483648))
+        .otherwise(x.cast("int"))
+    )
+
+
+def java_double_to_long(x: Column) -> Column:
+    \"\"\"(long) of a double: truncates toward zero, NaN -> 0, saturates at the long range (JLS 5.1.3).\"\"\"
+    return (
+        F.when(F.isnan(x), F.lit(0).cast("bigint"))
+        .when(x >= F.lit(9.223372036854775807e18), F.lit(9223372036854775807))
+        .when(x <= F.lit(-9.223372036854775808e18), F.lit(-9223372036854775808))
+        .otherwise(x.cast("bigint"))
+    )
+""")
+
+_h("wrap_long", """
+def wrap_long(c: Column) -> Column:
+    \"\"\"Java long overflow wraps around; c is an exact integral value (DECIMAL(38,0)).\"\"\"
+    offset = F.lit("9223372036854775808").cast("decimal(38,0)")
+    modulus = F.lit("18446744073709551616").cast("decimal(38,0)")
+    return (F.pmod(c.cast("decimal(38,0)") + offset, modulus) - offset).cast("bigint")
+""")
+
+_h("java_long_div", """
+def java_long_div(a: Column, b: Column) -> Column:
+    \"\"\"Java long division: truncates toward zero; Long.MIN_VALUE / -1 wraps to Long.MIN_VALUE.\"\"\"
+    return F.when(b == -1, wrap_long(-a.cast("decimal(20,0)"))).otherwise(F.call_function("div", a, b))
+""", ("wrap_long",))
+
+_h("java_parse_float", """
+def java_parse_float(s: Column, *, skip_bad_record: bool = False) -> Column:
+    \"\"\"Float.parseFloat: the Double.parseDouble grammar, rounded to float.\"\"\"
+    value = F.when(s.rlike(JAVA_DOUBLE), s.try_cast("float"))
+    return value if skip_bad_record else fail_where_java_throws(value, s, "NumberFormatException")
+""", ("java_parse_double", "fail_where_java_throws"))
 
 
 def helper_source(names: set[str]) -> str:

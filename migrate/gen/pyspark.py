@@ -71,7 +71,7 @@ class ExprWriter:
 
     def visit_BoolOp(self, e: BoolOp) -> str:
         if e.op == "!":
-            return f"~({self(e.args[0])})"
+            return f"(~{self(e.args[0])})" if self(e.args[0]).startswith("(") else f"(~({self(e.args[0])}))"
         sym = " & " if e.op == "&&" else " | "
         return "(" + sym.join(f"({self(a)})" if isinstance(a, BoolOp) and a.op != "!" else self(a) for a in e.args) + ")"
 
@@ -97,14 +97,31 @@ class ExprWriter:
 
     def visit_Arith(self, e: Arith) -> str:
         a, b = self(e.left), self(e.right)
-        if e.op == "/" and e.jtype in INTEGRAL:
-            self.helpers.add("java_int_div")
-            return f'java_int_div({a}, {b}, "{SPARK_TYPES[e.jtype]}")'
+        if e.jtype in INTEGRAL and e.op in "+-*/":
+            return self._integral(e, a, b)
         if e.op == "/" and not (isinstance(e.right, Lit) and e.right.value not in (0, 0.0)):
             self.helpers.add("java_div_double")
             return f"java_div_double({a}, {b})"
         left = a if isinstance(e.left, Lit) else self.operand(e.left, e.right)
         return f"({left} {e.op} {self.operand(e.right, e.left)})"
+
+    def _integral(self, e: Arith, a: str, b: str) -> str:
+        """int/long + - * / with Java's two's-complement wrap-around (JLS 15.17, 15.18)."""
+        if isinstance(e.left, Lit) and isinstance(e.right, Lit):
+            return f"F.lit({_fold(e)})"
+        if e.op == "/":
+            helper = "java_int_div" if e.jtype == "int" else "java_long_div"
+            self.helpers.add(helper)
+            return f"{helper}({a}, {b})"
+        if e.jtype == "int":
+            self.helpers.add("wrap_int")
+            wide = a if isinstance(e.left, Lit) else f'{a}.cast("bigint")'
+            right = self.operand(e.right, e.left)
+            return f"wrap_int({wide} {e.op} {right})" if not isinstance(e.left, Lit) else \
+                f"wrap_int({a}.cast(\"bigint\") {e.op} {b})"
+        self.helpers.add("wrap_long")
+        wide = f'{a}.cast("decimal(20,0)")'
+        return f"wrap_long({wide} {e.op} {self.operand(e.right, e.left)})"
 
     def visit_Call(self, e: Call) -> str:
         args = e.args
@@ -135,7 +152,7 @@ class ExprWriter:
             return f"java_trim({self(args[0])})"
         if op in ("lower", "upper"):
             return f"F.{op}({self(args[0])})"
-        if op in ("parse_int", "parse_long", "parse_double"):
+        if op in ("parse_int", "parse_long", "parse_double", "parse_float"):
             self.helpers.add("java_" + op)
             return f"java_{op}({self(args[0])}{skip})"
         if op == "to_string":
@@ -160,6 +177,58 @@ class ExprWriter:
                 self.helpers.add("java_abs")
                 return f"java_abs({self(args[0])}, {MIN_VALUE[e.jtype]})"
             return f"F.abs({self(args[0])})"
+        if op in ("strip", "strip_leading", "strip_trailing"):
+            self.helpers.add("java_strip")
+            opts = {"strip": "", "strip_leading": ", trailing=False", "strip_trailing": ", leading=False"}[op]
+            return f"java_strip({self(args[0])}{opts})"
+        if op in ("substring", "char_at"):
+            self.helpers.add("java_substring")
+            s_, begin = self(args[0]), self(args[1])
+            if op == "char_at":
+                end = self(Arith("int", "+", args[1], Lit("int", 1))) if not isinstance(args[1], Lit) \
+                    else f"F.lit({args[1].value + 1})"
+                return f"java_substring({s_}, {begin}, {end}{skip})"
+            end = f", {self(args[2])}" if len(args) > 2 else ""
+            return f"java_substring({s_}, {begin}{end}{skip})"
+        if op == "char_string":
+            return self(args[0])
+        if op in ("index_of", "last_index_of"):
+            helper = "java_" + op
+            self.helpers.add(helper)
+            return f"{helper}({self(args[0])}, {self(args[1])})"
+        if op == "equals_ignore_case":
+            self.helpers.add("java_equals_ignore_case")
+            return f"java_equals_ignore_case({self(args[0])}, {self(args[1])})"
+        if op == "is_blank":
+            return f'{self(args[0])}.rlike(r"^\\p{{javaWhitespace}}*\\z")'
+        if op == "matches":
+            return f"{self(args[0])}.rlike({('^(?:' + args[1].value + ')' + chr(92) + 'z')!r})"
+        if op == "replace":
+            if isinstance(args[1], Lit) and args[1].value == "":
+                raise TypeError("replace of the empty string is not lifted")
+            return f"F.replace({self(args[0])}, {self(args[1])}, {self(args[2])})"
+        if op == "replace_all":
+            return f"F.regexp_replace({self(args[0])}, {args[1].value!r}, {args[2].value!r})"
+        if op == "format":
+            return f"F.format_string({args[0].value!r}, {', '.join(self(a) for a in args[1:])})"
+        if op in ("java_max", "java_min"):
+            self.helpers.add("java_max_min")
+            return f"{op}({self(args[0])}, {self(args[1])})"
+        if op in ("round", "floor", "ceil"):
+            self.helpers.add("java_" + op)
+            return f"java_{op}({self(args[0])})"
+        if op in ("sqrt", "rint"):
+            return f"F.{op}({self(args[0])})"
+        if op == "pow":
+            return f"F.pow({self(args[0])}, {self(args[1])})"
+        if op in ("double_to_int", "double_to_long"):
+            self.helpers.add("java_double_to_integral")
+            return f"java_{op}({self(args[0])})"
+        if op == "long_to_int":
+            self.helpers.add("wrap_int")
+            return f"wrap_int({self(args[0])})"
+        if op == "double_to_float":
+            return f'{self(args[0])}.cast("float")'
         if op == "guarded":
             return f"F.when({bare(self(args[0]))}, {self(args[1])})"
         if op == "if_else":
@@ -167,6 +236,15 @@ class ExprWriter:
         if op == "is_not_null":
             return f"{self(args[0])}.isNotNull()"
         raise TypeError(f"the generator has no spelling for operation {op!r}")
+
+
+def _fold(e: Arith) -> int:
+    v = {"+": e.left.value + e.right.value, "-": e.left.value - e.right.value, "*": e.left.value * e.right.value,
+         "/": int(e.left.value / e.right.value) if e.right.value else None}[e.op]
+    if v is None:
+        raise TypeError("constant division by zero")
+    bits = 32 if e.jtype == "int" else 64
+    return (v + (1 << (bits - 1))) % (1 << bits) - (1 << (bits - 1))
 
 
 def tokenizer_regex(delims: str) -> str:

@@ -9,6 +9,7 @@ which the calling rule turns into a hand-work item; nothing is guessed.
 """
 from __future__ import annotations
 
+import re
 from dataclasses import dataclass, field, replace
 
 from javalang import tree as T
@@ -33,10 +34,13 @@ class Unsupported(Exception):
 
 # Which Java exception each throwing operation raises (for catch-and-skip blocks).
 THROWS = {"parse_int": "NumberFormatException", "parse_long": "NumberFormatException",
-          "parse_double": "NumberFormatException", "index": "ArrayIndexOutOfBoundsException"}
+          "parse_double": "NumberFormatException", "parse_float": "NumberFormatException",
+          "index": "ArrayIndexOutOfBoundsException", "substring": "StringIndexOutOfBoundsException",
+          "char_at": "StringIndexOutOfBoundsException"}
 CATCH_ALL = {"Exception", "RuntimeException", "Throwable", "IllegalArgumentException"}
 _SUPERS = {"NumberFormatException": {"IllegalArgumentException"},
-           "ArrayIndexOutOfBoundsException": {"IndexOutOfBoundsException"}}
+           "ArrayIndexOutOfBoundsException": {"IndexOutOfBoundsException"},
+           "StringIndexOutOfBoundsException": {"IndexOutOfBoundsException"}}
 
 CONSTANTS = {
     ("Integer", "MAX_VALUE"): (2147483647, "int"), ("Integer", "MIN_VALUE"): (-2147483648, "int"),
@@ -47,8 +51,13 @@ CONSTANTS = {
 
 PARSERS = {("Integer", "parseInt"): "parse_int", ("Integer", "valueOf"): "parse_int",
            ("Long", "parseLong"): "parse_long", ("Long", "valueOf"): "parse_long",
-           ("Double", "parseDouble"): "parse_double", ("Double", "valueOf"): "parse_double"}
-PARSED_TYPE = {"parse_int": "int", "parse_long": "long", "parse_double": "double"}
+           ("Double", "parseDouble"): "parse_double", ("Double", "valueOf"): "parse_double",
+           ("Float", "parseFloat"): "parse_float", ("Float", "valueOf"): "parse_float"}
+PARSED_TYPE = {"parse_int": "int", "parse_long": "long", "parse_double": "double", "parse_float": "float"}
+# Math.x(double) -> (result type, plan operation); Java SE API: round returns long, floor/ceil a double.
+MATH_UNARY = {"abs": (None, "abs"), "round": ("long", "round"), "floor": ("double", "floor"),
+              "ceil": ("double", "ceil"), "sqrt": ("double", "sqrt"), "rint": ("double", "rint")}
+UNBOX = {"intValue": "int", "longValue": "long", "doubleValue": "double", "floatValue": "float"}
 
 WRITABLE_OF = {"Text": "String", "IntWritable": "int", "LongWritable": "long", "DoubleWritable": "double",
                "FloatWritable": "float", "BooleanWritable": "boolean", "VIntWritable": "int", "VLongWritable": "long"}
@@ -186,7 +195,7 @@ def _literal(node: T.Literal) -> Expr:
     if v.startswith('"'):
         return Lit("String", string_value(v))
     if v.startswith("'"):
-        raise Unsupported(node, "char values are not lifted yet")
+        return Lit("char", string_value(v))
     if v in ("true", "false"):
         return Lit("boolean", v == "true")
     if v == "null":
@@ -247,24 +256,47 @@ def _invocation(node: T.MethodInvocation, scope: Scope) -> Expr:
     args = node.arguments or []
     if (q, m) in PARSERS and len(args) == 1:
         s = lift(args[0], scope)
+        if s.jtype in NUMERIC and m == "valueOf":  # boxing: Integer.valueOf(int) is the same number
+            want = PARSED_TYPE[PARSERS[(q, m)]]
+            return _selectors(_widen(s, want) if promote(s.jtype, want) == want else s, node.selectors or [], scope, node)
         if s.jtype != "String":
             raise Unsupported(node, f"{q}.{m} of a {s.jtype}")
         op = PARSERS[(q, m)]
         return _selectors(Call(PARSED_TYPE[op], op, (s,), scope.on_error(op)), node.selectors or [], scope, node)
-    if (q, m) in (("String", "valueOf"), ("Integer", "toString"), ("Long", "toString"), ("Double", "toString")) and len(args) == 1:
+    if (q, m) in (("String", "valueOf"), ("Integer", "toString"), ("Long", "toString"), ("Double", "toString"),
+                  ("Float", "toString"), ("Boolean", "toString")) and len(args) == 1:
         return _selectors(to_string(lift(args[0], scope)), node.selectors or [], scope, node)
+    if (q, m) == ("String", "format") and args:
+        fmt = lift(args[0], scope)
+        if not (isinstance(fmt, Lit) and fmt.jtype == "String"):
+            raise Unsupported(node, "String.format with a computed format string")
+        values = [lift(a, scope) for a in args[1:]]
+        _check_format(fmt.value, values, node)
+        from migrate.java.index import node_lines
+
+        scope.notes.append(f"{scope.file}:{node_lines(node)[0]} String.format uses the JVM's default locale; the "
+                           "script formats as an English (US) locale does (decimal point, comma grouping)")
+        return _selectors(Call("String", "format", (fmt, *values)), node.selectors or [], scope, node)
     if q == "Math" and m in ("max", "min") and len(args) == 2:
         a, b = lift(args[0], scope), lift(args[1], scope)
         t = promote(a.jtype, b.jtype)
-        if t not in INTEGRAL:
-            raise Unsupported(node, f"Math.{m} on {t}: NaN and -0.0 order differ from Spark's greatest/least",
-                              "write F.when over F.isnan explicitly")
-        return Call(t, "greatest" if m == "max" else "least", (_widen(a, t), _widen(b, t)))
-    if q == "Math" and m == "abs" and len(args) == 1:
+        if t not in NUMERIC:
+            raise Unsupported(node, f"Math.{m} of {a.jtype} and {b.jtype}")
+        op = ("greatest" if m == "max" else "least") if t in INTEGRAL else f"java_{m}"  # NaN and -0.0 rules
+        return Call(t, op, (_widen(a, t), _widen(b, t)))
+    if q == "Math" and m in MATH_UNARY and len(args) == 1:
         a = lift(args[0], scope)
         if a.jtype not in NUMERIC:
-            raise Unsupported(node, "Math.abs of a non-number")
-        return Call(a.jtype, "abs", (a,))
+            raise Unsupported(node, f"Math.{m} of a {a.jtype}")
+        if m == "abs":
+            return Call(a.jtype, "abs", (a,))
+        if m == "round" and a.jtype == "float":
+            raise Unsupported(node, "Math.round(float) returns an int rounded in float precision")
+        out_t, op = MATH_UNARY[m]
+        return _selectors(Call(out_t, op, (_widen(a, "double"),)), node.selectors or [], scope, node)
+    if (q, m) == ("Math", "pow") and len(args) == 2:
+        a, b = (lift(x, scope) for x in args)
+        return Call("double", "pow", (_widen(a, "double"), _widen(b, "double")))
     if q and "." not in q and q in scope.env:
         recv = scope.env[q]
         if isinstance(recv, Tokenizer):
@@ -287,6 +319,11 @@ def _method(recv: Expr, node: T.MethodInvocation, scope: Scope) -> Expr:
         return to_string(recv)
     if m == "get" and not a and t in NUMERIC | {"boolean"}:
         return recv  # IntWritable.get() and friends
+    if m in UNBOX and not a and t in NUMERIC:
+        want = UNBOX[m]
+        if promote(t, want) != want:
+            raise Unsupported(node, f"{m}() narrows a {t}")
+        return _widen(recv, want)
     if t != "String":
         raise Unsupported(node, f"method {m}() on a {t} value is not lifted")
     if m == "split" and a and isinstance(a[0], Lit) and a[0].jtype == "String":
@@ -295,8 +332,9 @@ def _method(recv: Expr, node: T.MethodInvocation, scope: Scope) -> Expr:
             raise Unsupported(node, "split limit is not a constant")
         # Java's limit 0 drops trailing empty strings; Spark's split never does.
         return Call("String[]", "split" if limit.value == 0 else "split_limit", (recv, a[0], limit))
-    if m == "trim" and not a:
-        return Call("String", "trim", (recv,))
+    if m in ("trim", "strip", "stripLeading", "stripTrailing") and not a:
+        return Call("String", {"trim": "trim", "strip": "strip", "stripLeading": "strip_leading",
+                               "stripTrailing": "strip_trailing"}[m], (recv,))
     if m in ("toLowerCase", "toUpperCase") and len(a) <= 1:
         if not a:
             from migrate.java.index import node_lines
@@ -305,20 +343,53 @@ def _method(recv: Expr, node: T.MethodInvocation, scope: Scope) -> Expr:
                                "assumes it was not Turkish or Azeri (where I/i map differently)")
         return Call("String", "lower" if m == "toLowerCase" else "upper", (recv,))
     if m == "equals" and len(a) == 1:
-        return Compare("boolean", "==", recv, a[0]) if a[0].jtype == "String" else Lit("boolean", False)
+        return Compare("boolean", "==", recv, a[0]) if a[0].jtype in ("String",) else Lit("boolean", False)
+    if m == "equalsIgnoreCase" and len(a) == 1 and a[0].jtype == "String":
+        return Call("boolean", "equals_ignore_case", (recv, a[0]))
     if m in ("startsWith", "endsWith", "contains") and len(a) == 1 and a[0].jtype == "String":
         return Call("boolean", {"startsWith": "starts_with", "endsWith": "ends_with", "contains": "contains"}[m], (recv, a[0]))
     if m == "isEmpty" and not a:
         return Call("boolean", "is_empty", (recv,))
+    if m == "isBlank" and not a:
+        return Call("boolean", "is_blank", (recv,))
     if m == "length" and not a:
         return Call("int", "length", (recv,))
+    if m == "substring" and 1 <= len(a) <= 2 and all(x.jtype in ("int",) for x in a):
+        return Call("String", "substring", (recv, *a), scope.on_error("substring"))
+    if m == "charAt" and len(a) == 1 and a[0].jtype == "int":
+        return Call("char", "char_at", (recv, a[0]), scope.on_error("char_at"))
+    if m in ("indexOf", "lastIndexOf") and len(a) == 1 and a[0].jtype in ("String", "char"):
+        return Call("int", "index_of" if m == "indexOf" else "last_index_of", (recv, to_string(a[0])))
+    if m == "matches" and len(a) == 1 and isinstance(a[0], Lit):
+        return Call("boolean", "matches", (recv, a[0]))
+    if m == "replace" and len(a) == 2 and all(x.jtype in ("String", "char") for x in a):
+        return Call("String", "replace", (recv, to_string(a[0]), to_string(a[1])))
+    if m in ("replaceAll", "replaceFirst") and len(a) == 2 and all(isinstance(x, Lit) for x in a):
+        return Call("String", "replace_all" if m == "replaceAll" else "replace_first", (recv, a[0], a[1]))
+    if m == "concat" and len(a) == 1 and a[0].jtype == "String":
+        return Call("String", "concat", (recv, a[0]))
     raise Unsupported(node, f"String.{m}(...) is not lifted yet")
+
+
+FORMAT_SPEC = re.compile(r"%(?:(\d+)\$)?([-#+ 0,(]*)(\d+)?(?:\.(\d+))?([a-zA-Z%])")
+
+
+def _check_format(fmt: str, values: list[Expr], node) -> None:
+    """Accept the format conversions whose Spark format_string output was checked against Java."""
+    specs = [m for m in FORMAT_SPEC.finditer(fmt) if m.group(5) not in ("%", "n")]
+    if len(specs) != len(values) or any(m.group(1) for m in specs):
+        raise Unsupported(node, "String.format with a number of arguments that differs from its conversions")
+    for m, v in zip(specs, values):
+        conv = m.group(5)
+        ok = (conv == "s") or (conv == "d" and v.jtype in INTEGRAL) or (conv == "f" and v.jtype in ("double", "float"))
+        if not ok:
+            raise Unsupported(node, f"String.format conversion %{conv} of a {v.jtype} is not lifted")
 
 
 def to_string(e: Expr) -> Expr:
     """Java's String.valueOf / toString of a value (Double.toString for doubles)."""
-    if e.jtype == "String":
-        return e
+    if e.jtype in ("String", "char"):
+        return e if e.jtype == "String" else replace(e, jtype="String") if isinstance(e, Lit) else Call("String", "char_string", (e,))
     if isinstance(e, Lit) and e.jtype in ("int", "long"):
         return Lit("String", str(e.value))
     if e.jtype in NUMERIC | {"boolean"}:
@@ -347,7 +418,7 @@ def _binary(node: T.BinaryOperation, scope: Scope) -> Expr:
         if l.jtype in NUMERIC and r.jtype in NUMERIC:
             t = promote(l.jtype, r.jtype)
             return Compare("boolean", op, _widen(l, t), _widen(r, t))
-        if l.jtype == r.jtype == "boolean" and op in ("==", "!="):
+        if l.jtype == r.jtype and l.jtype in ("boolean", "char") and op in ("==", "!="):
             return Compare("boolean", op, l, r)
         raise Unsupported(node, f"comparison {op} of {l.jtype} and {r.jtype}")
     raise Unsupported(node, f"operator {op} is not lifted yet")
@@ -362,8 +433,15 @@ def _cast(node: T.Cast, scope: Scope) -> Expr:
                 ("long", "float")}
     if (e.jtype, target) in widening:
         return _widen(e, target)
-    raise Unsupported(node, f"narrowing cast ({target}) of a {e.jtype}: Java saturates and truncates differently "
-                            "from Spark's ANSI cast", "check the value range, then cast explicitly")
+    if (e.jtype, target) in NARROWING:
+        return Call(target, NARROWING[(e.jtype, target)], (e,))
+    raise Unsupported(node, f"cast ({target}) of a {e.jtype} is not lifted", "check the value range, then cast explicitly")
+
+
+# JLS 5.1.3: double -> int/long truncates toward zero, NaN -> 0, saturates; long -> int keeps the low 32 bits.
+NARROWING = {("double", "int"): "double_to_int", ("double", "long"): "double_to_long",
+             ("float", "int"): "double_to_int", ("float", "long"): "double_to_long", ("long", "int"): "long_to_int",
+             ("double", "float"): "double_to_float"}
 
 
 def _widen(e: Expr, t: str) -> Expr:

@@ -127,7 +127,7 @@ def test_integer_division_wrap_and_double_division(java_results, helpers, spark)
 
     pairs = [(-7, 2), (7, -2), (7, 2), (-7, -2), (0, 5), (9223372036854775807, 3), (-9, 4)]
     df = spark.createDataFrame(pairs, "a bigint, b bigint")
-    rows = df.select(helpers["java_int_div"](F.col("a"), F.col("b")).alias("d"), (F.col("a") % F.col("b")).alias("m")).collect()
+    rows = df.select(helpers["java_long_div"](F.col("a"), F.col("b")).alias("d"), (F.col("a") % F.col("b")).alias("m")).collect()
     for i, r in enumerate(rows):
         assert str(r["d"]) == java_results[("long_div", i)] and str(r["m"]) == java_results[("long_mod", i)]
     sums = spark.createDataFrame([(2147483647, 1), (-2147483648, -1), (100000, 100000)], "a bigint, b bigint")

@@ -57,7 +57,7 @@ def build(spark: SparkSession, input_path: str) -> DataFrame:
         # DistinctMemberPostcodes.java:20  String postcode = f[2].trim();
         .withColumn("postcode", F.when(F.size(F.col("f")) >= 3, java_trim(F.col("f")[2])))
         # DistinctMemberPostcodes.java:22  context.write(new Text(postcode), NullWritable.get());  (map output: key, value)
-        .where((F.size(F.col("f")) >= 3) & ~((F.length(F.col("postcode")) == 0))).select(
+        .where((F.size(F.col("f")) >= 3) & (~(F.length(F.col("postcode")) == 0))).select(
             F.col("postcode").alias("key"), F.lit(None).cast("string").alias("value")
         )
     )

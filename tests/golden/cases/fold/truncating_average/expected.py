@@ -59,9 +59,18 @@ def java_parse_long(s: Column, *, skip_bad_record: bool = False) -> Column:
     return value if skip_bad_record else fail_where_java_throws(value, s, "NumberFormatException")
 
 
-def java_int_div(a: Column, b: Column, java_type: str = "bigint") -> Column:
-    """Java integer division truncates toward zero (Spark's `/` gives a double)."""
-    return F.call_function("div", a, b).cast(java_type)
+def wrap_long(c: Column) -> Column:
+    """Java long overflow wraps around; c is an exact integral value (DECIMAL(38,0))."""
+    offset = F.lit("9223372036854775808").cast("decimal(38,0)")
+    modulus = F.lit("18446744073709551616").cast("decimal(38,0)")
+    return (F.pmod(c.cast("decimal(38,0)") + offset, modulus) - offset).cast("bigint")
+
+
+def java_long_div(a: Column, b: Column) -> Column:
+    """Java long division: truncates toward zero; Long.MIN_VALUE / -1 wraps to Long.MIN_VALUE."""
+    return F.when(b == -1, wrap_long(-a.cast("decimal(20,0)"))).otherwise(
+        F.call_function("div", a, b)
+    )
 
 
 def build(spark: SparkSession, input_path: str) -> DataFrame:
@@ -93,9 +102,7 @@ def build(spark: SparkSession, input_path: str) -> DataFrame:
             # AverageHoursToClose.java:50  tickets += 1;
             F.count(F.lit(1)).alias("tickets"),
         )
-        .select(
-            F.col("key"), java_int_div(F.col("total"), F.col("tickets"), "bigint").alias("value")
-        )
+        .select(F.col("key"), java_long_div(F.col("total"), F.col("tickets")).alias("value"))
     )
     return result
 

@@ -39,8 +39,9 @@ def java_split(s: Column, regex: str) -> Column:
 
 
 def wrap_int(c: Column) -> Column:
-    """Java int overflow wraps around; Spark's sum widens to bigint instead."""
-    return (F.pmod(c.cast("bigint") + 2147483648, F.lit(4294967296)) - 2147483648).cast("int")
+    """Java int overflow wraps around (keeps the low 32 bits); Spark widens or raises instead."""
+    low = c.cast("bigint").bitwiseAND(F.lit(4294967295))
+    return F.when(low >= 2147483648, low - 4294967296).otherwise(low).cast("int")
 
 
 def build(spark: SparkSession, input_path: str) -> DataFrame:

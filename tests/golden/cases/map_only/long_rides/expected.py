@@ -69,7 +69,7 @@ def build(spark: SparkSession, input_path: str) -> DataFrame:
         # LongRidesFilter.java:26  String[] cols = value.toString().split(",");
         .withColumn("cols", java_split(F.col("value"), ","))
         # LongRidesFilter.java:27  if (cols.length < 6 || cols[0].equals("ride_id")) {
-        .where(~(((F.size(F.col("cols")) < 6) | (F.col("cols")[0] == "ride_id"))))
+        .where(~((F.size(F.col("cols")) < 6) | (F.col("cols")[0] == "ride_id")))
         # LongRidesFilter.java:30  long seconds = Long.parseLong(cols[5]);
         .withColumn("seconds", java_parse_long(F.col("cols")[5]))
         # LongRidesFilter.java:32  context.write(NullWritable.get(), value);  (map output: key, value)
