@@ -132,6 +132,21 @@ class AggRef(Expr):
     name: str
 
 
+@dataclass(frozen=True)
+class ConfValue(Expr):
+    """A job setting read once per task (`conf.getInt(name, default)`): a script parameter.
+
+    `reader` is the Configuration getter (get, getInt, getLong, getFloat, getDouble, getBoolean);
+    `default` is the value the Java code falls back to, already replaced by the driver's
+    `conf.set*` value when the driver sets one; `var` names the Python variable in the script.
+    """
+
+    name: str
+    reader: str
+    default: Any
+    var: str
+
+
 # ----------------------------------------------------------------------------- dataflow
 
 
@@ -317,6 +332,8 @@ def dump_expr(e: Expr | None) -> str:
         return repr(e.value)
     if isinstance(e, AggRef):
         return f"@{e.name}"
+    if isinstance(e, ConfValue):
+        return f"conf.{e.reader}({e.name!r}, {e.default!r})"
     if isinstance(e, Call):
         tail = "?" if e.on_error == "null" else ""
         return f"{e.op}{tail}({', '.join(dump_expr(a) for a in e.args)})"

@@ -79,11 +79,47 @@ def wrap_int(c: Column) -> Column:
     return F.when(low >= 2147483648, low - 4294967296).otherwise(low).cast("int")
 ''')
 
-_h("java_int_div", '''
-def java_int_div(a: Column, b: Column) -> Column:
-    """Java int division truncates toward zero (Spark's `/` gives a double); MIN_VALUE / -1 wraps."""
-    return wrap_int(F.call_function("div", a, b))
+_h("java_int_arith", '''
+def _col(v) -> Column:
+    return v if isinstance(v, Column) else F.lit(v)
+
+
+def java_int_add(a, b) -> Column:
+    """int + int with Java's wrap-around (Spark's ANSI mode would raise on overflow)."""
+    return wrap_int(_col(a).cast("bigint") + _col(b))
+
+
+def java_int_sub(a, b) -> Column:
+    """int - int with Java's wrap-around."""
+    return wrap_int(_col(a).cast("bigint") - _col(b))
+
+
+def java_int_mul(a, b) -> Column:
+    """int * int with Java's wrap-around."""
+    return wrap_int(_col(a).cast("bigint") * _col(b))
 ''', ("wrap_int",))
+
+_h("java_long_arith", '''
+def java_long_add(a, b) -> Column:
+    """long + long with Java's wrap-around (computed exactly in DECIMAL, then wrapped)."""
+    return wrap_long(_col(a).cast("decimal(20,0)") + _col(b))
+
+
+def java_long_sub(a, b) -> Column:
+    """long - long with Java's wrap-around."""
+    return wrap_long(_col(a).cast("decimal(20,0)") - _col(b))
+
+
+def java_long_mul(a, b) -> Column:
+    """long * long with Java's wrap-around."""
+    return wrap_long(_col(a).cast("decimal(20,0)") * _col(b))
+''', ("wrap_long", "java_int_arith"))
+
+_h("java_int_div", '''
+def java_int_div(a, b) -> Column:
+    """Java int division truncates toward zero (Spark's `/` gives a double); MIN_VALUE / -1 wraps."""
+    return wrap_int(F.call_function("div", _col(a), _col(b)))
+''', ("wrap_int", "java_int_arith"))
 
 _h("java_div_double", '''
 def java_div_double(a: Column, b: Column) -> Column:
@@ -246,10 +282,11 @@ def wrap_long(c: Column) -> Column:
 """)
 
 _h("java_long_div", """
-def java_long_div(a: Column, b: Column) -> Column:
+def java_long_div(a, b) -> Column:
     \"\"\"Java long division: truncates toward zero; Long.MIN_VALUE / -1 wraps to Long.MIN_VALUE.\"\"\"
+    a, b = _col(a), _col(b)
     return F.when(b == -1, wrap_long(-a.cast("decimal(20,0)"))).otherwise(F.call_function("div", a, b))
-""", ("wrap_long",))
+""", ("wrap_long", "java_int_arith"))
 
 _h("java_parse_float", """
 def java_parse_float(s: Column, *, skip_bad_record: bool = False) -> Column:
@@ -257,6 +294,38 @@ def java_parse_float(s: Column, *, skip_bad_record: bool = False) -> Column:
     value = F.when(s.rlike(JAVA_DOUBLE), s.try_cast("float"))
     return value if skip_bad_record else fail_where_java_throws(value, s, "NumberFormatException")
 """, ("java_parse_double", "fail_where_java_throws"))
+
+
+_h("hadoop_setting", """
+def hadoop_setting(conf: dict[str, str] | None, name: str, default, getter: str = "get"):
+    \"\"\"Configuration.get*(name, default) as Hadoop reads it: trimmed numbers, 0x hex, true/false.\"\"\"
+    raw = (conf or {}).get(name)
+    if raw is None:
+        return default
+    if getter in ("getInt", "getLong"):
+        text = raw.strip()
+        negative = text.startswith("-")
+        digits = text[1:] if negative else text
+        value = int(digits[2:], 16) if digits.lower().startswith("0x") else int(digits)
+        return -value if negative else value
+    if getter in ("getFloat", "getDouble"):
+        return float(raw.strip())
+    if getter == "getBoolean":
+        text = raw.strip().lower()
+        return True if text == "true" else False if text == "false" else default
+    return raw.strip() if getter == "getTrimmed" else raw
+
+
+def settings(defines: list[str]) -> dict[str, str]:
+    \"\"\"`-D name=value` options, as Hadoop's GenericOptionsParser reads them.\"\"\"
+    out = {}
+    for d in defines:
+        name, sep, value = d.partition("=")
+        if not sep:
+            raise SystemExit(f"-D {d}: expected name=value")
+        out[name] = value
+    return out
+""")
 
 
 def helper_source(names: set[str]) -> str:

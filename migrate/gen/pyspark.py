@@ -35,6 +35,7 @@ class ExprWriter:
 
     def __init__(self) -> None:
         self.helpers: set[str] = set()
+        self.settings: dict[str, ConfValue] = {}  # script variable -> the job setting it holds
 
     def __call__(self, e: Expr | None) -> str:
         if e is None:
@@ -46,6 +47,10 @@ class ExprWriter:
 
     def visit_Col(self, e: Col) -> str:
         return f'F.col("{e.name}")'
+
+    def visit_ConfValue(self, e: ConfValue) -> str:
+        self.settings[e.var] = e
+        return f"F.lit({e.var})" + {"long": '.cast("bigint")', "float": '.cast("float")'}.get(e.jtype, "")
 
     def visit_AggRef(self, e: AggRef) -> str:
         return f'F.col("{agg_column(e.name)}")'
@@ -109,19 +114,11 @@ class ExprWriter:
         """int/long + - * / with Java's two's-complement wrap-around (JLS 15.17, 15.18)."""
         if isinstance(e.left, Lit) and isinstance(e.right, Lit):
             return f"F.lit({_fold(e)})"
-        if e.op == "/":
-            helper = "java_int_div" if e.jtype == "int" else "java_long_div"
-            self.helpers.add(helper)
-            return f"{helper}({a}, {b})"
-        if e.jtype == "int":
-            self.helpers.add("wrap_int")
-            wide = a if isinstance(e.left, Lit) else f'{a}.cast("bigint")'
-            right = self.operand(e.right, e.left)
-            return f"wrap_int({wide} {e.op} {right})" if not isinstance(e.left, Lit) else \
-                f"wrap_int({a}.cast(\"bigint\") {e.op} {b})"
-        self.helpers.add("wrap_long")
-        wide = f'{a}.cast("decimal(20,0)")'
-        return f"wrap_long({wide} {e.op} {self.operand(e.right, e.left)})"
+        name = {"+": "add", "-": "sub", "*": "mul", "/": "div"}[e.op]
+        helper = f"java_{e.jtype}_{name}"
+        self.helpers.add("java_int_div" if helper == "java_int_div" else "java_long_div" if helper == "java_long_div"
+                         else f"java_{e.jtype}_arith")
+        return f"{helper}({self.operand(e.left, e.right)}, {self.operand(e.right, e.left)})"
 
     def visit_Call(self, e: Call) -> str:
         args = e.args
@@ -383,6 +380,12 @@ def build_body(plan: Plan, x: ExprWriter) -> ScriptParts:
         out.append("return map_output")
     else:
         out.append("return map_output")
+    if x.settings:
+        x.helpers.add("hadoop_setting")
+        lines = ["# Job settings (Hadoop Configuration): `-D name=value` on the command line overrides the default"]
+        for var, c in sorted(x.settings.items()):
+            lines.append(f"{var} = hadoop_setting(conf, {c.name!r}, {c.default!r}, {c.reader!r})")
+        out[0:0] = lines + [""]
     parts.helpers = ""
     return parts
 
@@ -481,8 +484,11 @@ def render_script(plan: Plan, header: dict, hand_work: list[HandWork]) -> str:
     text = _ENV.get_template("job.py.j2").render(
         plan=plan, header=header, body=parts.body, helpers=helpers, uses_window=uses_window,
         slots=slots, options=[p for p in plan.params if p.position is None], sink=plan.sink,
-        build_args=", ".join(f"{p}: str" for p in plan.source.params), hand_work=hand_work,
-        build_call=", ".join(f"args.{p}" for p in plan.source.params),
+        build_args=", ".join(f"{p}: str" for p in plan.source.params) + (", conf: dict[str, str] | None = None"
+                                                                          if x.settings else ""),
+        hand_work=hand_work,
+        build_call=", ".join(f"args.{p}" for p in plan.source.params) + (", conf=settings(args.defines)"
+                                                                          if x.settings else ""),
         sort_column="_sort_key" if _has_sort_key(plan) else "key",
     )
     return format_code(text)

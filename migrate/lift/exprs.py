@@ -102,6 +102,8 @@ class Scope:
     caught: frozenset[str] = frozenset()
     file: str = ""  # the Java file, for the origin of every lifted expression
     notes: list[str] = field(default_factory=list)  # assumptions the lift made, for the report
+    methods: dict[str, list] = field(default_factory=dict)  # helper methods of the class, for inlining
+    depth: int = 0
 
     def on_error(self, op: str) -> str:
         exc = THROWS.get(op)
@@ -305,8 +307,8 @@ def _invocation(node: T.MethodInvocation, scope: Scope) -> Expr:
             raise Unsupported(node, f"StringTokenizer.{m}() outside a token loop")
         base = _binding_value(recv, node, q)
         return _selectors(_method(base, node, scope), node.selectors or [], scope, node)
-    if q == "" and m in scope.env and isinstance(scope.env[m], Opaque):
-        raise Unsupported(node, f"call of {m}()")
+    if q in ("", "this") and m in scope.methods:
+        return _selectors(inline_call(node, scope), node.selectors or [], scope, node)
     raise Unsupported(node, f"call `{(q + '.') if q else ''}{m}(...)` is not lifted",
                       "inline the helper by hand, or express it with pyspark.sql.functions")
 
@@ -505,3 +507,72 @@ def write_argument(a, scope: Scope) -> Expr | None:
     if isinstance(a, T.ClassCreator) and a.type.name.split(".")[-1] in WRITABLE_OF:
         return writable_creator(a, scope).content
     return lift(a, scope)
+
+
+JAVA_TYPES = {"int": "int", "long": "long", "double": "double", "float": "float", "boolean": "boolean",
+              "String": "String", "Integer": "int", "Long": "long", "Double": "double", "Float": "float",
+              "Boolean": "boolean", "char": "char"}
+
+
+def _java_type(t) -> str | None:
+    name = JAVA_TYPES.get(getattr(t, "name", ""))
+    if name and getattr(t, "dimensions", None):
+        return name + "[]"
+    return name
+
+
+def inline_call(node: T.MethodInvocation, scope: Scope) -> Expr:
+    """A call of a helper method of the same class, inlined: its body must be locals, ifs and returns."""
+    candidates = [d for d in scope.methods[node.member] if len(d.parameters) == len(node.arguments or [])]
+    if len(candidates) != 1:
+        raise Unsupported(node, f"helper {node.member}() has no single overload with {len(node.arguments or [])} arguments")
+    decl = candidates[0]
+    if scope.depth > 8:
+        raise Unsupported(node, f"helper {node.member}() calls itself too deeply to inline")
+    env = dict(scope.env)
+    for p, a in zip(decl.parameters, node.arguments or []):
+        want = _java_type(p.type)
+        v = lift(a, scope)
+        if want is None:
+            raise Unsupported(node, f"helper {decl.name}() takes a {getattr(p.type, 'name', '?')}")
+        env[p.name] = _widen(v, want) if v.jtype != want and {v.jtype, want} <= NUMERIC else v
+    inner = Scope(env, scope.caught, scope.file, scope.notes, scope.methods, scope.depth + 1)
+    result = _body_value(list(decl.body or []), inner, decl)
+    want = _java_type(decl.return_type) if decl.return_type is not None else None
+    if want is None:
+        raise Unsupported(node, f"helper {decl.name}() does not return a value the converter follows")
+    return _widen(result, want) if result.jtype != want and {result.jtype, want} <= NUMERIC else result
+
+
+def _body_value(stmts: list, scope: Scope, decl) -> Expr:
+    """The value a helper returns: locals are bound, `if (c) return a; ... return b;` becomes c ? a : b."""
+    for i, st in enumerate(stmts):
+        if isinstance(st, T.LocalVariableDeclaration):
+            for d in st.declarators:
+                if d.initializer is None:
+                    raise Unsupported(st, f"helper {decl.name}(): local without a value")
+                v = lift(d.initializer, scope)
+                want = _java_type(st.type) or v.jtype
+                scope.env[d.name] = _widen(v, want) if v.jtype != want and {v.jtype, want} <= NUMERIC else v
+            continue
+        if isinstance(st, T.ReturnStatement) and st.expression is not None:
+            return lift(st.expression, scope)
+        if isinstance(st, T.IfStatement):
+            c = lift(st.condition, scope)
+            then = _body_value(_block_of(st.then_statement), Scope(dict(scope.env), scope.caught, scope.file,
+                                                                 scope.notes, scope.methods, scope.depth), decl)
+            rest = _block_of(st.else_statement) if st.else_statement is not None else stmts[i + 1:]
+            other = _body_value(rest, Scope(dict(scope.env), scope.caught, scope.file, scope.notes, scope.methods,
+                                            scope.depth), decl)
+            t = then.jtype if then.jtype == other.jtype else promote(then.jtype, other.jtype) \
+                if {then.jtype, other.jtype} <= NUMERIC else None
+            if t is None:
+                raise Unsupported(st, f"helper {decl.name}() returns different types on its branches")
+            return Cond(t, c, _widen(then, t), _widen(other, t))
+        raise Unsupported(st, f"helper {decl.name}() does more than compute a value (pure helpers are inlined)",
+                          "inline it by hand, or keep it as a Python function over Columns")
+    raise Unsupported(decl, f"helper {decl.name}() can end without returning a value")
+
+
+def _block_of(st) -> list:
+    return list(st.statements) if isinstance(st, T.BlockStatement) else [st]

@@ -10,8 +10,9 @@ from migrate.java.hadoop_api import KNOWN_CLASSES, WRITABLE_TYPES
 from migrate.java.index import ClassIndex, ClassInfo, node_lines
 from migrate.java.source import logical_sloc
 from migrate.lift.builtin import IDENTITY_MAPPERS, IDENTITY_REDUCERS, SUM_REDUCERS, library_mapper, library_reducer
+from migrate.lift.config import task_constants
 from migrate.lift.limits import explain
-from migrate.lift.mapper import MapBodyLifter
+from migrate.lift.mapper import MapBodyLifter, class_constants
 from migrate.lift.reducer import FoldLifter
 from migrate.plan import (AggRef, Cast, Col, Explode, Filter, Group, HandWork, Identity, Param, Plan,
                           Project, Sink, Source, Span, Step)
@@ -111,7 +112,7 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
     skip_first = False
     mcls = index.get(mapper_fq)
     if mcls is not None and "mapper" in mcls.roles:
-        steps, skip_first = _lift_mapper(mcls, fmt, hand, notes, index)
+        steps, skip_first = _lift_mapper(mcls, fmt, hand, notes, index, spec.conf)
     elif mapper_fq in KNOWN_CLASSES or mapper_fq in IDENTITY_MAPPERS:
         lib_steps, why = library_mapper(mapper_fq, fmt, spec.conf)
         if lib_steps is None:
@@ -226,16 +227,23 @@ def _method_hand_work(owner: ClassInfo, m, category: str, reason: str, suggestio
                     owner.file.lines[start - 1].strip(), profile, sloc)
 
 
-def _lift_mapper(mcls: ClassInfo, fmt: str, hand: list[HandWork], notes: list[str], index: ClassIndex):
+def _lift_mapper(mcls: ClassInfo, fmt: str, hand: list[HandWork], notes: list[str], index: ClassIndex,
+                 driver_conf: dict[str, str]):
     owner, m = _find_method(mcls, index, "map", (3, 4))
     if m is None:
         hand.append(HandWork("map-logic", mcls.span, f"{mcls.name} has no map() method the converter could find",
                              "write the map step by hand", mcls.file.lines[mcls.line_start - 1].strip(), "P2", mcls.sloc))
         return [], False
+    settings, problems = task_constants(owner, driver_conf, class_constants(owner, index))
+    for line, reason in problems:
+        hand.append(HandWork("task-lifecycle", Span(owner.file.path, line, line), reason,
+                             "settings become script parameters (-D name=value); other per-task work needs a rewrite",
+                             owner.file.lines[line - 1].strip() if line else "", "P1", 1))
     hand.extend(_lifecycle(owner, "of the mapper runs once per task; its logic is not converted in this version",
-                           "settings become script parameters; per-task state needs a rewrite", "P1"))
+                           "settings become script parameters; per-task state needs a rewrite", "P1",
+                           skip=("setup", "configure")))  # read above by task_constants
     lifter = MapBodyLifter(owner, m, "String" if fmt == "keyvalue" else "offset", "String", owner.api or "mapreduce",
-                           index)
+                           index, settings)
     res = lifter.run()
     for h in res.hand_work:
         sloc = logical_sloc(owner.file.lines[h.origin.line_start - 1 : node_lines(m)[1]])
@@ -252,10 +260,12 @@ def _named(owner: ClassInfo, h: HandWork, sloc: int) -> HandWork:
     return HandWork(lim.category, h.origin, f"{lim.reason} ({h.reason})", lim.suggestion, h.snippet, lim.profile, sloc)
 
 
-def _lifecycle(owner: ClassInfo, what: str, suggestion: str, profile: str) -> list[HandWork]:
+def _lifecycle(owner: ClassInfo, what: str, suggestion: str, profile: str, skip=()) -> list[HandWork]:
     """setup()/configure()/cleanup()/close() that do more than call super: hand work."""
     out = []
     for name in ("setup", "configure", "cleanup", "close"):
+        if name in skip:
+            continue
         lm = _method(owner, name, (0, 1))
         if lm is not None and _does_something(lm):
             out.append(_method_hand_work(owner, lm, "task-lifecycle", f"{name}() {what}", suggestion, profile))

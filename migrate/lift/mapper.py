@@ -97,7 +97,7 @@ class MapBodyLifter:
     """Symbolic evaluation of one map() method."""
 
     def __init__(self, cls: ClassInfo, method: T.MethodDeclaration, key_type: str, value_type: str, api: str,
-                 index=None):
+                 index=None, settings: dict | None = None):
         self.cls, self.method, self.api = cls, method, api
         self.file = cls.file.path
         self.steps: list[Step] = []
@@ -114,8 +114,11 @@ class MapBodyLifter:
         self.columns = {"value"}
         self.loop_locals: list[set[str]] = []
         self.if_nodes: list = []  # enclosing if statements (for comments on the filters they become)
+        self.field_names = {d.name for f in cls.fields() for d in f.declarators}
+        self.locals: set[str] = set()
         env: dict[str, object] = {}
         env.update(class_constants(cls, index))
+        env.update(settings or {})  # fields set once per task from the job configuration
         params = [p.name for p in method.parameters]
         self.key_param = params[0] if params else None
         if len(params) >= 2:
@@ -128,7 +131,7 @@ class MapBodyLifter:
         self.emit_target = params[2] if len(params) >= 3 else None
         for p in params[2:]:
             env[p] = Opaque("the task context")
-        self.scope = Scope(env, file=self.file)
+        self.scope = Scope(env, file=self.file, methods=helper_methods(cls, index))
 
     # ------------------------------------------------------------------ driving
     def run(self) -> MapResult:
@@ -214,6 +217,7 @@ class MapBodyLifter:
         return n
 
     def _declare(self, s, d, guard) -> None:
+        self.locals.add(d.name)
         tname = getattr(s.type, "name", "")
         dims = len(getattr(s.type, "dimensions", None) or []) + len(d.dimensions or [])
         if d.initializer is None:
@@ -318,6 +322,9 @@ class MapBodyLifter:
         self._assign_value(s, target.member, value, guard)
 
     def _assign_value(self, s, name: str, value_node, guard) -> None:
+        if name in self.field_names and name not in self.locals:
+            raise Unsupported(s, f"assignment to the field `{name}`: a field keeps state across records",
+                              "per-record state is fine; state across records needs a window or an aggregation")
         old = self.scope.env.get(name)
         if not isinstance(old, (Col, Lit, Call)):
             raise Unsupported(s, f"assignment to `{name}`, which is not a local the converter follows "
@@ -567,3 +574,20 @@ def fold_constant(e: Expr) -> Expr:
             return Lit(e.jtype, v)
     return e
 
+
+
+LIFECYCLE_METHODS = {"map", "reduce", "setup", "cleanup", "configure", "close", "run"}
+
+
+def helper_methods(cls: ClassInfo, index=None) -> dict[str, list]:
+    """Methods of the class (and static ones of its outer classes) that a body may call and inline."""
+    out: dict[str, list] = {}
+    c: ClassInfo | None = cls
+    first = True
+    while c is not None:
+        for m in c.node.body:
+            if isinstance(m, T.MethodDeclaration) and m.name not in LIFECYCLE_METHODS and (first or "static" in m.modifiers):
+                out.setdefault(m.name, []).append(m)
+        c = index.get(c.outer) if index is not None and c.outer else None
+        first = False
+    return out

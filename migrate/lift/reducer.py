@@ -16,7 +16,7 @@ from javalang import tree as T
 from migrate.java.index import ClassInfo, node_lines
 from migrate.lift.exprs import (WRITABLE_OF, Opaque, Scope, Unsupported, Writable, lift, widen, writable_creator,
                                 writable_set, write_argument)
-from migrate.lift.mapper import class_constants
+from migrate.lift.mapper import class_constants, helper_methods
 from migrate.plan import NUMERIC, Agg, AggRef, BoolOp, Col, Expr, Group, HandWork, Lit, Span
 
 _MIN_OF = {"int": -2147483648, "long": -9223372036854775808, "double": float("-inf"), "float": float("-inf")}
@@ -40,7 +40,7 @@ class FoldLifter:
         self.emit_target = params[2] if len(params) > 2 else None
         for p in params[2:]:
             env[p] = Opaque("the task context")
-        self.scope = Scope(env, file=self.file)
+        self.scope = Scope(env, file=self.file, methods=helper_methods(cls, index))
         self.accs: dict[str, tuple[str, Lit]] = {}
         self.aggs: dict[str, Agg] = {}
         self.seen_loop = False

@@ -248,3 +248,32 @@ def test_writable_field_set_and_written_under_the_same_guard_is_fine(tmp_path):
       if (s.startsWith("a")) { word.set(s); context.write(word, new IntWritable(1)); }""",
                    fields="private Text word = new Text();")
     assert job.status == "converted"
+
+
+def test_settings_read_in_setup_become_parameters_with_the_driver_default(tmp_path):
+    job, dump = _plan(tmp_path, """
+      String s = value.toString();
+      if (s.length() < minLen) return;
+      context.write(new Text(s.substring(0, minLen)), new IntWritable(1));""",
+                      fields="""private int minLen;
+    protected void setup(Context context) { minLen = context.getConfiguration().getInt("min.len", 3); }""",
+                      extra_driver='job.getConfiguration().setInt("min.len", 5);')
+    assert job.status == "converted"
+    assert "conf.getInt('min.len', 5)" in dump  # Hadoop: the driver's set() wins over the code's default
+
+
+def test_setup_doing_more_than_reading_settings_is_hand_work(tmp_path):
+    job, _ = _plan(tmp_path, "context.write(value, new IntWritable(1));",
+                   fields="protected void setup(Context context) { System.out.println(\"hi\"); }")
+    assert [h.category for h in job.plan.hand_work] == ["task-lifecycle"]
+
+
+def test_pure_helper_methods_are_inlined_and_impure_ones_are_not(tmp_path):
+    job, dump = _plan(tmp_path, """
+      context.write(new Text(norm(value.toString())), new IntWritable(1));""",
+                      fields='private static String norm(String s) { String t = s.trim(); if (t.isEmpty()) return "-"; return t; }')
+    assert "(is_empty(trim(value)) ? '-' : trim(value))" in dump and job.status == "converted"
+    job, _ = _plan(tmp_path / "b", """
+      context.write(new Text(log(value.toString())), new IntWritable(1));""",
+                   fields='private String log(String s) { System.out.println(s); return s; }')
+    assert job.status == "partial"

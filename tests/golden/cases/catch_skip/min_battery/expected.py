@@ -119,7 +119,7 @@ def main(argv: list[str] | None = None) -> int:
         action="append",
         default=[],
         metavar="NAME=VALUE",
-        help="Hadoop generic option; accepted so old command lines still parse",
+        help="a job setting, as Hadoop's GenericOptionsParser takes it (settings this job does not read are ignored)",
     )
     parser.add_argument(
         "--dry-run", action="store_true", help="run the whole job but write nothing"

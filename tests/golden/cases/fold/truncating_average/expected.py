@@ -59,6 +59,31 @@ def java_parse_long(s: Column, *, skip_bad_record: bool = False) -> Column:
     return value if skip_bad_record else fail_where_java_throws(value, s, "NumberFormatException")
 
 
+def wrap_int(c: Column) -> Column:
+    """Java int overflow wraps around (keeps the low 32 bits); Spark widens or raises instead."""
+    low = c.cast("bigint").bitwiseAND(F.lit(4294967295))
+    return F.when(low >= 2147483648, low - 4294967296).otherwise(low).cast("int")
+
+
+def _col(v) -> Column:
+    return v if isinstance(v, Column) else F.lit(v)
+
+
+def java_int_add(a, b) -> Column:
+    """int + int with Java's wrap-around (Spark's ANSI mode would raise on overflow)."""
+    return wrap_int(_col(a).cast("bigint") + _col(b))
+
+
+def java_int_sub(a, b) -> Column:
+    """int - int with Java's wrap-around."""
+    return wrap_int(_col(a).cast("bigint") - _col(b))
+
+
+def java_int_mul(a, b) -> Column:
+    """int * int with Java's wrap-around."""
+    return wrap_int(_col(a).cast("bigint") * _col(b))
+
+
 def wrap_long(c: Column) -> Column:
     """Java long overflow wraps around; c is an exact integral value (DECIMAL(38,0))."""
     offset = F.lit("9223372036854775808").cast("decimal(38,0)")
@@ -66,8 +91,9 @@ def wrap_long(c: Column) -> Column:
     return (F.pmod(c.cast("decimal(38,0)") + offset, modulus) - offset).cast("bigint")
 
 
-def java_long_div(a: Column, b: Column) -> Column:
+def java_long_div(a, b) -> Column:
     """Java long division: truncates toward zero; Long.MIN_VALUE / -1 wraps to Long.MIN_VALUE."""
+    a, b = _col(a), _col(b)
     return F.when(b == -1, wrap_long(-a.cast("decimal(20,0)"))).otherwise(
         F.call_function("div", a, b)
     )
@@ -136,7 +162,7 @@ def main(argv: list[str] | None = None) -> int:
         action="append",
         default=[],
         metavar="NAME=VALUE",
-        help="Hadoop generic option; accepted so old command lines still parse",
+        help="a job setting, as Hadoop's GenericOptionsParser takes it (settings this job does not read are ignored)",
     )
     parser.add_argument(
         "--dry-run", action="store_true", help="run the whole job but write nothing"
