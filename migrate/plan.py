@@ -182,6 +182,16 @@ class Explode(Step):
 
 
 @dataclass(frozen=True)
+class Count(Step):
+    """A Hadoop counter update: adds `amount` for every row where `cond` holds (None: every row)."""
+
+    group: str
+    name: str
+    cond: Expr | None
+    amount: Expr
+
+
+@dataclass(frozen=True)
 class Emit:
     """One `context.write` / `output.collect`: key and value expressions, optional guard.
 
@@ -372,6 +382,8 @@ def _dump_step(s: Step) -> str:
         return f"Filter {dump_expr(s.cond)}"
     if isinstance(s, Explode):
         return f"Explode {s.name} <- {dump_expr(s.array)}"
+    if isinstance(s, Count):
+        return f"Count {s.group}:{s.name} += {dump_expr(s.amount)} where {dump_expr(s.cond)}"
     if isinstance(s, Project):
         lines = ["Project"]
         for e in s.emits:

@@ -328,6 +328,42 @@ def settings(defines: list[str]) -> dict[str, str]:
 """)
 
 
+_h("hadoop_counters", """
+class HadoopCounters:
+    \"\"\"Hadoop counters, computed with DataFrame.observe in the same pass as the job's own work.\"\"\"
+
+    def __init__(self) -> None:
+        self._parts: list[tuple[str, str, Observation]] = []
+
+    def add(self, group: str, name: str, rows: Column | None = None, amount=1):
+        \"\"\"A DataFrame.transform step adding `amount` to the counter for each row where `rows` holds.\"\"\"
+        observation = Observation(f"counter_{len(self._parts)}")
+        self._parts.append((group, name, observation))
+        value = amount if isinstance(amount, Column) else F.lit(amount)
+        counted = value if rows is None else F.when(rows, value).otherwise(0)
+        metric = F.coalesce(F.sum(counted), F.lit(0)).cast("bigint").alias("value")
+        return lambda df: df.observe(observation, metric)
+
+    def totals(self) -> dict[tuple[str, str], int]:
+        \"\"\"(group, name) -> value; read after the job's action has run.\"\"\"
+        out: dict[tuple[str, str], int] = {}
+        for group, name, observation in self._parts:
+            out[(group, name)] = out.get((group, name), 0) + int(observation.get["value"])
+        return out
+
+    def report(self, stream=None) -> None:
+        \"\"\"Print the counters in the layout of Hadoop's job log.\"\"\"
+        stream = stream or sys.stderr
+        totals = self.totals()
+        print(f"Counters: {len(totals)}", file=stream)
+        for group in sorted({g for g, _ in totals}):
+            print(f"\\t{group}", file=stream)
+            for (g, name), value in sorted(totals.items()):
+                if g == group:
+                    print(f"\\t\\t{name}={value}", file=stream)
+""")
+
+
 def helper_source(names: set[str]) -> str:
     """Source of the named helpers and their dependencies, in a stable order."""
     wanted: list[str] = []

@@ -8,8 +8,7 @@ from pathlib import Path
 import black
 import jinja2
 
-from migrate.plan import (INTEGRAL, Agg, AggRef, Arith, BoolOp, Call, Cast, Col, Compare, Cond, Explode, Expr,
-                          Filter, Group, HandWork, Identity, Let, Lit, Plan, Project, Step)
+from migrate.plan import (INTEGRAL, Agg, AggRef, Arith, BoolOp, Call, Cast, Col, Compare, Cond, ConfValue, Count, Explode, Expr, Filter, Group, HandWork, Identity, Let, Lit, Plan, Project, Step)
 
 SPARK_TYPES = {"int": "int", "long": "bigint", "double": "double", "float": "float", "boolean": "boolean",
                "String": "string"}
@@ -36,6 +35,7 @@ class ExprWriter:
     def __init__(self) -> None:
         self.helpers: set[str] = set()
         self.settings: dict[str, ConfValue] = {}  # script variable -> the job setting it holds
+        self.counters = False  # the plan updates Hadoop counters
 
     def __call__(self, e: Expr | None) -> str:
         if e is None:
@@ -232,6 +232,8 @@ class ExprWriter:
             return f"F.when({bare(self(args[0]))}, {self(args[1])}).otherwise({self(args[2])})"
         if op == "is_not_null":
             return f"{self(args[0])}.isNotNull()"
+        if op == "is_null":
+            return f"{self(args[0])}.isNull()"
         raise TypeError(f"the generator has no spelling for operation {op!r}")
 
 
@@ -380,6 +382,8 @@ def build_body(plan: Plan, x: ExprWriter) -> ScriptParts:
         out.append("return map_output")
     else:
         out.append("return map_output")
+    if x.counters:
+        out.insert(0, "counters = counters if counters is not None else HadoopCounters()")
     if x.settings:
         x.helpers.add("hadoop_setting")
         lines = ["# Job settings (Hadoop Configuration): `-D name=value` on the command line overrides the default"]
@@ -412,6 +416,12 @@ def _step_code(s: Step, x: ExprWriter) -> list[str]:
         return [where + "  (one row per element)", f".withColumn(\"{s.name}\", F.explode({x(s.array)}))"]
     if isinstance(s, Project):
         return _project_code(s, x)
+    if isinstance(s, Count):
+        x.helpers.add("hadoop_counters")
+        x.counters = True
+        rows = f", {bare(x(s.cond))}" if s.cond is not None else ", None"
+        amount = "" if isinstance(s.amount, Lit) and s.amount.value == 1 else f", {x.operand(s.amount, s.amount)}"
+        return [where + "  (counted in the same pass)", f".transform(counters.add({s.group!r}, {s.name!r}{rows}{amount}))"]
     raise TypeError(f"the generator has no handler for {type(s).__name__}")
 
 
@@ -484,11 +494,13 @@ def render_script(plan: Plan, header: dict, hand_work: list[HandWork]) -> str:
     text = _ENV.get_template("job.py.j2").render(
         plan=plan, header=header, body=parts.body, helpers=helpers, uses_window=uses_window,
         slots=slots, options=[p for p in plan.params if p.position is None], sink=plan.sink,
-        build_args=", ".join(f"{p}: str" for p in plan.source.params) + (", conf: dict[str, str] | None = None"
-                                                                          if x.settings else ""),
+        build_args=", ".join(f"{p}: str" for p in plan.source.params)
+        + (", conf: dict[str, str] | None = None" if x.settings else "")
+        + (", counters: HadoopCounters | None = None" if x.counters else ""),
         hand_work=hand_work,
-        build_call=", ".join(f"args.{p}" for p in plan.source.params) + (", conf=settings(args.defines)"
-                                                                          if x.settings else ""),
+        build_call=", ".join(f"args.{p}" for p in plan.source.params)
+        + (", conf=settings(args.defines)" if x.settings else "") + (", counters=counters" if x.counters else ""),
+        counters=x.counters,
         sort_column="_sort_key" if _has_sort_key(plan) else "key",
     )
     return format_code(text)

@@ -55,6 +55,12 @@ def node_lines(node) -> tuple[int, int]:
     return (min(lines), max(lines))
 
 
+def _binary(fqcn: str, pkg: str) -> str:
+    """pkg.Outer.Inner -> pkg.Outer$Inner (the JVM's binary class name)."""
+    rest = fqcn[len(pkg) + 1:] if pkg else fqcn
+    return (pkg + "." if pkg else "") + rest.replace(".", "$")
+
+
 def _class_end(file: ParsedFile, start: int, fallback: int) -> int:
     """The line of the class's closing brace: brace-count from its declaration line."""
     depth, seen = 0, False
@@ -76,11 +82,15 @@ class ClassIndex:
     def __init__(self, files: list[ParsedFile]):
         self.classes: dict[str, ClassInfo] = {}
         self.imports: dict[str, list[javalang.tree.Import]] = {}
+        self.enums: dict[str, str] = {}  # fully qualified name -> binary name (Outer$Inner), for counters
         for f in files:
             pkg = f.tree.package.name if f.tree.package else ""
             for t in f.tree.types:
                 if isinstance(t, javalang.tree.ClassDeclaration):
                     self._add(f, pkg, t, None)
+                elif isinstance(t, javalang.tree.EnumDeclaration):
+                    fq = f"{pkg}.{t.name}" if pkg else t.name
+                    self.enums[fq] = fq
 
     def _add(self, f: ParsedFile, pkg: str, node, outer: ClassInfo | None) -> None:
         fq = f"{outer.fqcn}.{node.name}" if outer else (f"{pkg}.{node.name}" if pkg else node.name)
@@ -92,6 +102,8 @@ class ClassIndex:
         for member in node.body:
             if isinstance(member, javalang.tree.ClassDeclaration):
                 self._add(f, pkg, member, info)
+            elif isinstance(member, javalang.tree.EnumDeclaration):
+                self.enums[f"{fq}.{member.name}"] = f"{_binary(fq, pkg)}${member.name}"
 
     def __iter__(self):
         return iter(sorted(self.classes.values(), key=lambda c: (c.file.path, c.line_start)))
@@ -108,6 +120,18 @@ class ClassIndex:
         if base is None:
             return None
         return f"{base}.{rest}" if rest else base
+
+    def enum_binary_name(self, simple: str, ctx: ClassInfo) -> str | None:
+        """The binary name (pkg.Outer$Enum) of an enum visible from ctx, as Hadoop names counter groups."""
+        c: ClassInfo | None = ctx
+        while c is not None:
+            if f"{c.fqcn}.{simple}" in self.enums:
+                return self.enums[f"{c.fqcn}.{simple}"]
+            c = self.get(c.outer)
+        for fq, binary in sorted(self.enums.items()):
+            if fq.rsplit(".", 1)[-1] == simple and (fq.startswith(ctx.package + ".") or not ctx.package):
+                return binary
+        return None
 
     def _resolve_simple(self, name: str, ctx: ClassInfo) -> str | None:
         c: ClassInfo | None = ctx

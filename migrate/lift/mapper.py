@@ -7,7 +7,7 @@ that skips the record (→ NULL-on-error + filter), Writable fields set and writ
 `if (key.get() == 0) return;` on TextInputFormat (→ drop each file's first line).
 Produces: Let / Filter / Explode / Project steps. Caveats: a statement it cannot prove it
 understood stops the lift there and becomes a HandWork item; state across records,
-setup()/cleanup() logic and counters are hand work in this version.
+cleanup() logic is hand work in this version; counters become Count steps (lift.counters).
 """
 from __future__ import annotations
 
@@ -18,8 +18,10 @@ from javalang import tree as T
 from migrate.java.index import ClassInfo, node_lines
 from migrate.lift.exprs import (CATCH_ALL, WRITABLE_OF, Opaque, Scope, Tokenizer, Unsupported, Writable, lift,
                                 widen, writable_creator, writable_set, write_argument)
-from migrate.plan import BoolOp, Call, Col, Compare, Emit, Explode, Expr, Filter, HandWork, Let, Lit, Project, Span, Step
+from migrate.lift.counters import counter_update, is_counter_call
+from migrate.plan import BoolOp, Call, Col, Compare, Count, Emit, Explode, Expr, Filter, HandWork, Let, Lit, Project, Span, Step
 
+SKIP_NOTE = "catch: skip the record"
 _DECLARED = {"int": "int", "long": "long", "double": "double", "float": "float", "boolean": "boolean",
              "String": "String", "Integer": "int", "Long": "long", "Double": "double"}
 LOG_RECEIVERS = {"System.out", "System.err", "LOG", "log", "logger", "LOGGER"}
@@ -33,7 +35,6 @@ class MapResult:
     hand_work: list[HandWork]
     skip_first_line: bool = False
     notes: list[str] = field(default_factory=list)
-    counters: list[str] = field(default_factory=list)
 
 
 def _and(a: Expr | None, b: Expr | None) -> Expr | None:
@@ -53,6 +54,8 @@ def _or(a: Expr | None, b: Expr | None) -> Expr | None:
 def _not(a: Expr) -> Expr:
     if isinstance(a, BoolOp) and a.op == "!":
         return a.args[0]
+    if isinstance(a, Call) and a.op == "is_not_null":
+        return Call("boolean", "is_null", a.args)
     if isinstance(a, Compare):
         flip = {"<": ">=", ">=": "<", ">": "<=", "<=": ">", "==": "!=", "!=": "=="}
         if a.left.jtype not in ("double", "float"):  # NaN makes !(a < b) differ from a >= b
@@ -98,13 +101,12 @@ class MapBodyLifter:
 
     def __init__(self, cls: ClassInfo, method: T.MethodDeclaration, key_type: str, value_type: str, api: str,
                  index=None, settings: dict | None = None):
-        self.cls, self.method, self.api = cls, method, api
+        self.cls, self.method, self.api, self.index = cls, method, api, index
         self.file = cls.file.path
         self.steps: list[Step] = []
         self.emit_list: list[Emit] = []
         self.hand: list[HandWork] = []
         self.notes: list[str] = []
-        self.counters: list[str] = []
         self.dead: Expr | None = None  # rows for which an earlier `return` already fired
         self.loop_depth = 0
         self.after_loop = False
@@ -149,7 +151,7 @@ class MapBodyLifter:
             else:
                 self.steps.append(Project(self._span(self.method), "map output", tuple(self.emit_list)))
         notes = self.notes + [n for n in self.scope.notes if n not in self.notes]
-        return MapResult(self.steps, self.hand, self.skip_first_line, notes, self.counters)
+        return MapResult(self.steps, self.hand, self.skip_first_line, notes)
 
     def _hand(self, category: str, line: int, reason: str, suggestion: str, profile: str = "P1") -> None:
         snippet = self.cls.file.lines[line - 1].strip() if 0 < line <= len(self.cls.file.lines) else ""
@@ -260,7 +262,7 @@ class MapBodyLifter:
         self.scope.env[name] = Col(e.jtype, col)
         if risky:
             present = Call("boolean", "is_not_null", (Col(e.jtype, col),))
-            self.steps.append(Filter(self._span(node), "catch: skip the record", present if g is None else _or(_not(g), present)))
+            self.steps.append(Filter(self._span(node), SKIP_NOTE, present if g is None else _or(_not(g), present)))
 
     def _tokens(self, creator: T.ClassCreator) -> Expr:
         args = [lift(a, self.scope) for a in creator.arguments or []]
@@ -281,11 +283,9 @@ class MapBodyLifter:
             if q in LOG_RECEIVERS or q.split(".")[0] in ("System",) and m.startswith("print"):
                 self.notes.append(f"{self.file}:{self._line(s)} logging call `{q}.{m}` is not carried over")
                 return
-            if m == "incrCounter" or any(isinstance(x, T.MethodInvocation) and x.member == "increment" for x in e.selectors or []) \
-                    or m == "getCounter":
-                self.counters.append(self._note(s))
-                self._hand("counter", self._line(s), "Hadoop counter; the script does not report it yet",
-                           "count the rows with a separate aggregation, or an accumulator", "P1")
+            if is_counter_call(e):
+                cu = counter_update(e, self.scope, self.cls, self.index)
+                self.steps.append(Count(self._span(s), self._note(s), cu.group, cu.name, self._eff(guard), cu.amount))
                 return
             if m in ("progress", "setStatus"):
                 return
@@ -487,6 +487,7 @@ class MapBodyLifter:
             raise Unsupported(s, "try with finally or resources is not lifted")
         kinds: set[str] = set()
         skips = True
+        catch_counters: list = []  # counters bumped for every record the try block threw on
         for c in s.catches or []:
             kinds.update(n.split(".")[-1] for n in c.parameter.types)
             body = c.block or []
@@ -497,11 +498,8 @@ class MapBodyLifter:
                         (st.expression.qualifier or "") in LOG_RECEIVERS:
                     self.notes.append(f"{self.file}:{self._line(st)} logging in a catch block is not carried over")
                     continue
-                if isinstance(st, T.StatementExpression) and isinstance(st.expression, T.MethodInvocation) and \
-                        (st.expression.member in ("incrCounter", "getCounter") or any(
-                            getattr(x, "member", "") == "increment" for x in st.expression.selectors or [])):
-                    self._hand("counter", self._line(st), "Hadoop counter of skipped records; the script does not report it yet",
-                               "count the rows the filter drops with a separate aggregation", "P1")
+                if isinstance(st, T.StatementExpression) and is_counter_call(st.expression):
+                    catch_counters.append((st, counter_update(st.expression, self.scope, self.cls, self.index)))
                     continue
                 raise Unsupported(st, "catch block does more than skip the record")
             returns = any(isinstance(st, T.ReturnStatement) for st in body)
@@ -512,14 +510,30 @@ class MapBodyLifter:
         saved, self.caught = self.caught, self.caught | frozenset(kinds)
         saved_emitted, self.in_try_emitted = self.in_try_emitted, False
         self.scope.caught = self.caught
+        first_step, first_emit = len(self.steps), len(self.emit_list)
         try:
             self._scoped(s.block, guard)
         finally:
             self.caught, self.in_try_emitted = saved, saved_emitted
             self.scope.caught = self.caught
+        if catch_counters:
+            self._count_skipped(s, catch_counters, first_step, first_emit)
         if self.caught_all(kinds):
             self.notes.append(f"{self.file}:{self._line(s)} catch of {', '.join(sorted(kinds))}: records are skipped exactly "
                               "where parsing or indexing would have thrown")
+
+    def _count_skipped(self, s, counters, first_step: int, first_emit: int) -> None:
+        """A counter in the catch block counts the records the try block threw on: the rows that
+        each catch-and-skip filter of that block removes."""
+        if any(_has_null_on_error(e.key) or _has_null_on_error(e.value) for e in self.emit_list[first_emit:]):
+            raise Unsupported(s, "a counter in the catch block of a try that also writes: not lifted yet")
+        out: list[Step] = []
+        for step in self.steps[first_step:]:
+            if isinstance(step, Filter) and step.note == SKIP_NOTE:
+                for st, cu in counters:
+                    out.append(Count(self._span(st), self._note(st), cu.group, cu.name, _not(step.cond), cu.amount))
+            out.append(step)
+        self.steps[first_step:] = out
 
     @staticmethod
     def caught_all(kinds) -> bool:

@@ -38,6 +38,7 @@ def build_report(jobs: list[tuple[JobResult, str]], errors: list[ParseFailure], 
                            "reason": h.reason, "suggestion": h.suggestion, "snippet": h.snippet,
                            "profile": h.profile, "sloc": h.sloc} for h in job.plan.hand_work],
             "notes": list(job.plan.notes),
+            "counters": counters_of(job),
             "sloc": {"total": eff.sloc_total, "automatic": eff.sloc_auto, "hand": eff.sloc_manual},
             "effort_hours": round(est["jobs"][script], 2),
         })
@@ -60,6 +61,20 @@ def build_report(jobs: list[tuple[JobResult, str]], errors: list[ParseFailure], 
     }
 
 
+def counters_of(job: JobResult) -> list[dict]:
+    """What each Hadoop counter counted, from the plan's Count steps."""
+    from migrate.plan import Count, dump_expr
+
+    out = []
+    for s in job.plan.map_steps:
+        if isinstance(s, Count):
+            rows = f"records where {dump_expr(s.cond)}" if s.cond is not None else "every record that reaches this line"
+            amount = "" if dump_expr(s.amount) == "1" else f", adding {dump_expr(s.amount)} each"
+            out.append({"group": s.group, "name": s.name, "file": s.origin.file, "line": s.origin.line_start,
+                        "counts": rows + amount})
+    return out
+
+
 def to_json(report: dict) -> str:
     return json.dumps(report, indent=2, ensure_ascii=False, sort_keys=False) + "\n"
 
@@ -79,7 +94,7 @@ def to_markdown(report: dict) -> str:
     out += ["", f"Estimated effort for the repository: **{e['hours']:.1f} h** "
                 f"(range {e['range_hours'][0]:.1f} to {e['range_hours'][1]:.1f} h). {e['caveat']}", ""]
     for j in report["jobs"]:
-        if not j["hand_work"] and not j["notes"]:
+        if not j["hand_work"] and not j["notes"] and not j["counters"]:
             continue
         out += [f"## {j['name']} ({j['status']})", ""]
         for h in j["hand_work"]:
@@ -88,6 +103,8 @@ def to_markdown(report: dict) -> str:
                     f"  - suggestion: {h['suggestion']}"]
         for n in j["notes"]:
             out.append(f"- note: {n}")
+        for c in j["counters"]:
+            out.append(f"- counter `{c['group']}:{c['name']}` (`{c['file']}:{c['line']}`) counts {c['counts']}")
         out.append("")
     if report["errors"]:
         out += ["## Files not read", ""]

@@ -58,7 +58,8 @@ class RunResult:
 
 def run_job(classes: Path, driver: str, args: list[str], cwd: Path, timeout: float = 600) -> RunResult:
     """`java -cp classes:<jars>/* Driver args…` in local mode (mapreduce.framework.name=local is the default)."""
+    logging = Path(__file__).with_name("log4j2-hadoop.properties")  # so the job log shows its counters
     cmd = ["java", "-Xmx1g", "-Duser.timezone=UTC", "-Duser.language=en", "-Duser.country=US",
-           "-cp", run_classpath(classes), driver, *args]
+           f"-Dlog4j2.configurationFile={logging}", "-cp", run_classpath(classes), driver, *args]
     p = subprocess.run(cmd, capture_output=True, text=True, cwd=cwd, timeout=timeout)
     return RunResult(p.returncode, p.stdout + p.stderr)

@@ -19,8 +19,21 @@ def _job(report: dict, driver: str) -> dict:
     return found[0]
 
 
+def parse_counters(log: str) -> dict[tuple[str, str], int]:
+    """Counters from a Hadoop job log (a TAB-indented group line, then TAB TAB name=value lines)."""
+    out, group = {}, None
+    for line in log.splitlines():
+        if line.startswith("\t\t") and group is not None and "=" in line:
+            name, _, value = line.strip("\t").rpartition("=")
+            if value.strip().lstrip("-").isdigit():
+                out[(group, name)] = int(value)
+        elif line.startswith("\t") and not line.startswith("\t\t"):
+            group = line.strip()
+    return out
+
+
 @pytest.mark.parametrize("run", RUNS, ids=[r["driver"].rsplit(".", 1)[-1] for r in RUNS])
-def test_converted_job_matches_hadoop_output(run, converted_samples, hadoop_classes, spark, tmp_path):
+def test_converted_job_matches_hadoop_output(run, converted_samples, hadoop_classes, spark, tmp_path, capsys):
     out_dir, report = converted_samples
     job = _job(report, run["driver"])
     if job["status"] != "converted":
@@ -37,6 +50,13 @@ def test_converted_job_matches_hadoop_output(run, converted_samples, hadoop_clas
     cmp = compare_outputs(hadoop_out, spark_out)
     assert cmp.original_lines > 0, "the sample produced no output: the test would prove nothing"
     assert cmp.same, cmp.first_difference
+    if job["counters"]:  # the counters the job log showed, against the script's report
+        hadoop_counters = parse_counters(ran.log)
+        spark_counters = parse_counters(capsys.readouterr().err)
+        for c in job["counters"]:
+            key = (c["group"], c["name"])
+            assert key in hadoop_counters, f"Hadoop did not report {key}"
+            assert spark_counters.get(key) == hadoop_counters[key], key
 
 
 def test_partial_jobs_fail_loudly(converted_samples, spark, tmp_path):

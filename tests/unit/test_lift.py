@@ -277,3 +277,45 @@ def test_pure_helper_methods_are_inlined_and_impure_ones_are_not(tmp_path):
       context.write(new Text(log(value.toString())), new IntWritable(1));""",
                    fields='private String log(String s) { System.out.println(s); return s; }')
     assert job.status == "partial"
+
+
+def test_old_api_reporter_counters_are_counted(tmp_path):
+    src = HEADER_OLD + """
+public class OldJob {
+  enum Bad { SHORT }
+  public static class M extends MapReduceBase implements Mapper<LongWritable, Text, Text, IntWritable> {
+    public void map(LongWritable k, Text v, OutputCollector<Text, IntWritable> out, Reporter reporter) throws IOException {
+      String[] f = v.toString().split(",");
+      if (f.length < 2) { reporter.incrCounter(Bad.SHORT, 1); return; }
+      reporter.incrCounter("rows", "good", 1);
+      out.collect(new Text(f[0]), new IntWritable(1));
+    }
+  }
+  public static void main(String[] args) throws Exception {
+    JobConf conf = new JobConf(OldJob.class);
+    conf.setMapperClass(M.class);
+    conf.setNumReduceTasks(0);
+    conf.setOutputKeyClass(Text.class);
+    conf.setOutputValueClass(IntWritable.class);
+    FileInputFormat.setInputPaths(conf, new Path(args[0]));
+    FileOutputFormat.setOutputPath(conf, new Path(args[1]));
+    JobClient.runJob(conf);
+  }
+}
+"""
+    from tests.helpers import scan_text
+
+    scan = scan_text(tmp_path, {"OldJob.java": src})
+    (job,) = scan.jobs
+    dump = dump_plan(job.plan)
+    assert job.status == "converted"
+    assert "Count OldJob$Bad:SHORT += 1 where (size(f) < 2)" in dump  # Hadoop names the group by the enum's binary name
+    assert "Count rows:good += 1 where null" in dump
+
+
+HEADER_OLD = """
+import java.io.IOException;
+import org.apache.hadoop.fs.Path;
+import org.apache.hadoop.io.*;
+import org.apache.hadoop.mapred.*;
+"""
