@@ -364,6 +364,60 @@ class HadoopCounters:
 """)
 
 
+_h("sdf_parse", r'''
+def _sdf_regex(pattern: str) -> tuple[str, list[str]]:
+    """A regex over the numeric fields of a SimpleDateFormat pattern, and the letter of each group."""
+    regex, letters, i = "^", [], 0
+    while i < len(pattern):
+        c = pattern[i]
+        if c == "'":
+            j = pattern.index("'", i + 1)
+            regex += re.escape("'" if j == i + 1 else pattern[i + 1 : j])
+            i = j + 1
+        elif c.isalpha():
+            while i < len(pattern) and pattern[i] == c:
+                i += 1
+            regex += r"(\d+)"
+            letters.append(c)
+        else:
+            regex += re.escape(c)
+            i += 1
+    return regex, letters
+
+
+def sdf_parse(s: Column, pattern: str, *, lenient: bool = True, skip_bad_record: bool = False) -> Column:
+    """SimpleDateFormat(pattern).parse(s) in the session time zone (the JVM's zone in Java).
+
+    Lenient, as Java's default: out-of-range fields roll over (Feb 30 is Mar 1, 25:70 is 02:10 the
+    next day) and text after the pattern is ignored. The wall-clock time is computed without a time
+    zone, then placed in the session zone; a wall-clock time that occurs twice (the autumn DST
+    change) is the later instant, as GregorianCalendar resolves it.
+    """
+    regex, letters = _sdf_regex(pattern)
+
+    def part(letter: str, default: int) -> Column:
+        if letter not in letters:
+            return F.lit(default)
+        return F.regexp_extract(s, regex, letters.index(letter) + 1).cast("int")
+
+    year, month, day = part("y", 1970), part("M", 1), part("d", 1)
+    hour, minute, second = part("H", 0), part("m", 0), part("s", 0)
+    if lenient:  # calendar arithmetic on dates and whole seconds: no time zone takes part
+        date = F.date_add(F.add_months(F.make_date(year, F.lit(1), F.lit(1)), month - 1), day - 1)
+        seconds = F.unix_date(date).cast("bigint") * 86400 + hour * 3600 + minute * 60 + second
+        wall = F.timestamp_seconds(seconds)
+    else:
+        wall = F.try_make_timestamp(year, month, day, hour, minute, second, F.lit("UTC"))
+    instant = F.to_utc_timestamp(wall, F.current_timezone())
+    later = instant + F.expr("INTERVAL 1 HOUR")
+    same_wall_clock = F.date_format(later, "yyyy-MM-dd HH:mm:ss") == F.date_format(instant, "yyyy-MM-dd HH:mm:ss")
+    value = F.when(s.rlike(regex) & wall.isNotNull(), F.when(same_wall_clock, later).otherwise(instant))
+    if skip_bad_record:
+        return value
+    return F.when(value.isNotNull(), value).otherwise(F.raise_error(F.concat(F.lit('ParseException: Unparseable date: "'), s, F.lit('"'))))
+''')
+
+
 def helper_source(names: set[str]) -> str:
     """Source of the named helpers and their dependencies, in a stable order."""
     wanted: list[str] = []

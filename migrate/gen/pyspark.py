@@ -36,6 +36,7 @@ class ExprWriter:
         self.helpers: set[str] = set()
         self.settings: dict[str, ConfValue] = {}  # script variable -> the job setting it holds
         self.counters = False  # the plan updates Hadoop counters
+        self.dates = False  # the plan reads or writes dates in the JVM's time zone
 
     def __call__(self, e: Expr | None) -> str:
         if e is None:
@@ -226,6 +227,21 @@ class ExprWriter:
             return f"wrap_int({self(args[0])})"
         if op == "double_to_float":
             return f'{self(args[0])}.cast("float")'
+        if op == "date_parse":
+            self.helpers.add("sdf_parse")
+            self.dates = True
+            lenient = "" if args[2].value else ", lenient=False"
+            return f"sdf_parse({self(args[0])}, {args[1].value!r}{lenient}{skip})"
+        if op == "date_millis":
+            return f"F.unix_millis({self(args[0])})"
+        if op == "date_field":
+            self.dates = True
+            fn = {"year": "F.year({})", "month": "(F.month({}) - 1)", "day": "F.dayofmonth({})", "hour": "F.hour({})",
+                  "minute": "F.minute({})", "second": "F.second({})", "day_of_week": "F.dayofweek({})"}[args[1].value]
+            return fn.format(self(args[0]))
+        if op == "date_format":
+            self.dates = True
+            return f"F.date_format({self(args[0])}, {args[1].value!r})"
         if op == "guarded":
             return f"F.when({bare(self(args[0]))}, {self(args[1])})"
         if op == "if_else":
@@ -500,7 +516,7 @@ def render_script(plan: Plan, header: dict, hand_work: list[HandWork]) -> str:
         hand_work=hand_work,
         build_call=", ".join(f"args.{p}" for p in plan.source.params)
         + (", conf=settings(args.defines)" if x.settings else "") + (", counters=counters" if x.counters else ""),
-        counters=x.counters,
+        counters=x.counters, dates=x.dates,
         sort_column="_sort_key" if _has_sort_key(plan) else "key",
     )
     return format_code(text)

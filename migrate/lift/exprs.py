@@ -36,9 +36,9 @@ class Unsupported(Exception):
 THROWS = {"parse_int": "NumberFormatException", "parse_long": "NumberFormatException",
           "parse_double": "NumberFormatException", "parse_float": "NumberFormatException",
           "index": "ArrayIndexOutOfBoundsException", "substring": "StringIndexOutOfBoundsException",
-          "char_at": "StringIndexOutOfBoundsException"}
+          "char_at": "StringIndexOutOfBoundsException", "date_parse": "ParseException"}
 CATCH_ALL = {"Exception", "RuntimeException", "Throwable", "IllegalArgumentException"}
-_SUPERS = {"NumberFormatException": {"IllegalArgumentException"},
+_SUPERS = {"ParseException": {"Exception"}, "NumberFormatException": {"IllegalArgumentException"},
            "ArrayIndexOutOfBoundsException": {"IndexOutOfBoundsException"},
            "StringIndexOutOfBoundsException": {"IndexOutOfBoundsException"}}
 
@@ -301,6 +301,26 @@ def _invocation(node: T.MethodInvocation, scope: Scope) -> Expr:
         return Call("double", "pow", (_widen(a, "double"), _widen(b, "double")))
     if q and "." not in q and q in scope.env:
         recv = scope.env[q]
+        from migrate.lift import dates
+
+        if isinstance(recv, dates.DateFormat):
+            if m == "parse" and len(args) == 1:
+                arg = lift(args[0], scope)
+                if arg.jtype != "String":
+                    raise Unsupported(node, "parse of a value that is not a String")
+                return _selectors(dates.parse(recv, arg, scope.on_error("date_parse")), node.selectors or [], scope, node)
+            if m == "format" and len(args) == 1:
+                d = lift(args[0], scope)
+                if d.jtype != "Date":
+                    raise Unsupported(node, "format of something that is not a Date")
+                return _selectors(dates.format_(recv, d, node), node.selectors or [], scope, node)
+            raise Unsupported(node, f"SimpleDateFormat.{m}() is not lifted")
+        if isinstance(recv, dates.CalendarVar):
+            if m == "get" and len(args) == 1 and isinstance(args[0], T.MemberReference) and args[0].qualifier == "Calendar":
+                if recv.date is None:
+                    raise Unsupported(node, "Calendar read before setTime() in this record")
+                return dates.field(recv.date, args[0].member, node)
+            raise Unsupported(node, f"Calendar.{m}() is not lifted")
         if isinstance(recv, Tokenizer):
             if m == "nextToken" and recv.current is not None:
                 return _selectors(recv.current, node.selectors or [], scope, node)
@@ -321,6 +341,10 @@ def _method(recv: Expr, node: T.MethodInvocation, scope: Scope) -> Expr:
         return to_string(recv)
     if m == "get" and not a and t in NUMERIC | {"boolean"}:
         return recv  # IntWritable.get() and friends
+    if t == "Date" and m == "getTime" and not a:
+        from migrate.lift import dates
+
+        return dates.millis(recv)
     if m in UNBOX and not a and t in NUMERIC:
         want = UNBOX[m]
         if promote(t, want) != want:

@@ -18,12 +18,13 @@ from javalang import tree as T
 from migrate.java.index import ClassInfo, node_lines
 from migrate.lift.exprs import (CATCH_ALL, WRITABLE_OF, Opaque, Scope, Tokenizer, Unsupported, Writable, lift,
                                 widen, writable_creator, writable_set, write_argument)
+from migrate.lift import dates
 from migrate.lift.counters import counter_update, is_counter_call
 from migrate.plan import BoolOp, Call, Col, Compare, Count, Emit, Explode, Expr, Filter, HandWork, Let, Lit, Project, Span, Step
 
 SKIP_NOTE = "catch: skip the record"
 _DECLARED = {"int": "int", "long": "long", "double": "double", "float": "float", "boolean": "boolean",
-             "String": "String", "Integer": "int", "Long": "long", "Double": "double"}
+             "String": "String", "Integer": "int", "Long": "long", "Double": "double", "Date": "Date"}
 LOG_RECEIVERS = {"System.out", "System.err", "LOG", "log", "logger", "LOGGER"}
 
 
@@ -237,6 +238,10 @@ class MapBodyLifter:
         if tname in WRITABLE_OF and isinstance(init, T.ClassCreator):
             self.scope.env[d.name] = writable_creator(init, self.scope)
             return
+        made = date_object(init, s)
+        if made is not None:
+            self.scope.env[d.name] = made
+            return
         e = lift(init, self.scope)
         declared = _DECLARED.get(tname)
         if declared is None:
@@ -288,6 +293,15 @@ class MapBodyLifter:
                 self.steps.append(Count(self._span(s), self._note(s), cu.group, cu.name, self._eff(guard), cu.amount))
                 return
             if m in ("progress", "setStatus"):
+                return
+            target = self.scope.env.get(q)
+            if isinstance(target, dates.DateFormat) and m == "setLenient" and len(e.arguments) == 1:
+                raise Unsupported(s, "setLenient() inside map() changes the parser between records")
+            if isinstance(target, dates.CalendarVar) and m == "setTime" and len(e.arguments) == 1:
+                d = lift(e.arguments[0], self.scope)
+                if d.jtype != "Date" or self._eff(guard) is not None:
+                    raise Unsupported(s, "Calendar.setTime of something other than a Date, or under a condition")
+                target.date = d
                 return
             if q in self.scope.env and isinstance(self.scope.env[q], Writable) and m == "set" and len(e.arguments) == 1:
                 w = self.scope.env[q]
@@ -563,6 +577,14 @@ def class_constants(cls: ClassInfo, index=None) -> dict[str, object]:
                     continue
                 w.field = True
                 env[d.name] = w
+                continue
+            try:
+                made = date_object(init, f)
+            except Unsupported:
+                made = None
+            if made is not None:
+                env[d.name] = made
+                continue
             elif init is not None and ("final" in f.modifiers):
                 try:
                     e = lift(init, Scope(dict(env)))
@@ -572,6 +594,23 @@ def class_constants(cls: ClassInfo, index=None) -> dict[str, object]:
                 if isinstance(e, Lit):
                     env[d.name] = e
     return env
+
+
+def date_object(init, node):
+    """`new SimpleDateFormat("...")` or `Calendar.getInstance()` -> a date binding, else None."""
+    if isinstance(init, T.ClassCreator) and init.type.name == "SimpleDateFormat":
+        args = init.arguments or []
+        if len(args) != 1 or not (isinstance(args[0], T.Literal) and args[0].value.startswith('"')):
+            raise Unsupported(node, "SimpleDateFormat with a locale or a computed pattern is not lifted yet")
+        from migrate.java.literals import string_value
+
+        pattern = string_value(args[0].value)
+        dates.check_parse_pattern(pattern, node)
+        return dates.DateFormat(pattern)
+    if isinstance(init, T.MethodInvocation) and init.qualifier == "Calendar" and init.member == "getInstance" \
+            and not init.arguments:
+        return dates.CalendarVar()
+    return None
 
 
 def fold_constant(e: Expr) -> Expr:

@@ -7,11 +7,15 @@ Original classes:
     mapper       net.brindleharbour.reports.PeakHourByStation.HourMapper  (PeakHourByStation.java:27-49)
     reducer      org.apache.hadoop.mapreduce.lib.reduce.IntSumReducer  (ships with Hadoop)
 
-What it computes: per key: sum of the mapper's values, sorted by key. Shapes: filter, sum per key.
-Status: partial — 1 hand-work item(s), listed in report.md.
+What it computes: per key: sum of the mapper's values, sorted by key. Shapes: filter, parse and emit, sum per key.
+Status: converted.
 
 Usage (the same positional arguments as the original driver):
     spark-submit peak_hour_by_station.py [options]
+
+Time zone: SimpleDateFormat and Calendar used the original JVM's default zone. This script uses
+Spark's session zone (--time-zone; by default this JVM's own zone): run it where the old job ran,
+or pass the old zone explicitly.
 
 Semantics kept from Java/Hadoop: see the helper docstrings. Java int/long overflow in
 row arithmetic raises an error here (ANSI mode) instead of wrapping silently.
@@ -23,9 +27,11 @@ output with the original job's output on a representative sample of real data.
 from __future__ import annotations
 
 import argparse
+import re
 import sys
 
 from pyspark.sql import Column, DataFrame, SparkSession
+from pyspark.sql import Observation
 from pyspark.sql import functions as F
 
 
@@ -44,19 +50,107 @@ def wrap_int(c: Column) -> Column:
     return F.when(low >= 2147483648, low - 4294967296).otherwise(low).cast("int")
 
 
-def build(spark: SparkSession, input_path: str) -> DataFrame:
+class HadoopCounters:
+    """Hadoop counters, computed with DataFrame.observe in the same pass as the job's own work."""
+
+    def __init__(self) -> None:
+        self._parts: list[tuple[str, str, Observation]] = []
+
+    def add(self, group: str, name: str, rows: Column | None = None, amount=1):
+        """A DataFrame.transform step adding `amount` to the counter for each row where `rows` holds."""
+        observation = Observation(f"counter_{len(self._parts)}")
+        self._parts.append((group, name, observation))
+        value = amount if isinstance(amount, Column) else F.lit(amount)
+        counted = value if rows is None else F.when(rows, value).otherwise(0)
+        metric = F.coalesce(F.sum(counted), F.lit(0)).cast("bigint").alias("value")
+        return lambda df: df.observe(observation, metric)
+
+    def totals(self) -> dict[tuple[str, str], int]:
+        """(group, name) -> value; read after the job's action has run."""
+        out: dict[tuple[str, str], int] = {}
+        for group, name, observation in self._parts:
+            out[(group, name)] = out.get((group, name), 0) + int(observation.get["value"])
+        return out
+
+    def report(self, stream=None) -> None:
+        """Print the counters in the layout of Hadoop's job log."""
+        stream = stream or sys.stderr
+        totals = self.totals()
+        print(f"Counters: {len(totals)}", file=stream)
+        for group in sorted({g for g, _ in totals}):
+            print(f"\t{group}", file=stream)
+            for (g, name), value in sorted(totals.items()):
+                if g == group:
+                    print(f"\t\t{name}={value}", file=stream)
+
+
+def _sdf_regex(pattern: str) -> tuple[str, list[str]]:
+    """A regex over the numeric fields of a SimpleDateFormat pattern, and the letter of each group."""
+    regex, letters, i = "^", [], 0
+    while i < len(pattern):
+        c = pattern[i]
+        if c == "'":
+            j = pattern.index("'", i + 1)
+            regex += re.escape("'" if j == i + 1 else pattern[i + 1 : j])
+            i = j + 1
+        elif c.isalpha():
+            while i < len(pattern) and pattern[i] == c:
+                i += 1
+            regex += r"(\d+)"
+            letters.append(c)
+        else:
+            regex += re.escape(c)
+            i += 1
+    return regex, letters
+
+
+def sdf_parse(
+    s: Column, pattern: str, *, lenient: bool = True, skip_bad_record: bool = False
+) -> Column:
+    """SimpleDateFormat(pattern).parse(s) in the session time zone (the JVM's zone in Java).
+
+    Lenient, as Java's default: out-of-range fields roll over (Feb 30 is Mar 1, 25:70 is 02:10 the
+    next day) and text after the pattern is ignored. The wall-clock time is computed without a time
+    zone, then placed in the session zone; a wall-clock time that occurs twice (the autumn DST
+    change) is the later instant, as GregorianCalendar resolves it.
+    """
+    regex, letters = _sdf_regex(pattern)
+
+    def part(letter: str, default: int) -> Column:
+        if letter not in letters:
+            return F.lit(default)
+        return F.regexp_extract(s, regex, letters.index(letter) + 1).cast("int")
+
+    year, month, day = part("y", 1970), part("M", 1), part("d", 1)
+    hour, minute, second = part("H", 0), part("m", 0), part("s", 0)
+    if lenient:  # calendar arithmetic on dates and whole seconds: no time zone takes part
+        date = F.date_add(F.add_months(F.make_date(year, F.lit(1), F.lit(1)), month - 1), day - 1)
+        seconds = F.unix_date(date).cast("bigint") * 86400 + hour * 3600 + minute * 60 + second
+        wall = F.timestamp_seconds(seconds)
+    else:
+        wall = F.try_make_timestamp(year, month, day, hour, minute, second, F.lit("UTC"))
+    instant = F.to_utc_timestamp(wall, F.current_timezone())
+    later = instant + F.expr("INTERVAL 1 HOUR")
+    same_wall_clock = F.date_format(later, "yyyy-MM-dd HH:mm:ss") == F.date_format(
+        instant, "yyyy-MM-dd HH:mm:ss"
+    )
+    value = F.when(
+        s.rlike(regex) & wall.isNotNull(), F.when(same_wall_clock, later).otherwise(instant)
+    )
+    if skip_bad_record:
+        return value
+    return F.when(value.isNotNull(), value).otherwise(
+        F.raise_error(F.concat(F.lit('ParseException: Unparseable date: "'), s, F.lit('"')))
+    )
+
+
+def build(
+    spark: SparkSession, input_path: str, counters: HadoopCounters | None = None
+) -> DataFrame:
     """The job's output rows as columns `key` and `value`, before the text layout."""
+    counters = counters if counters is not None else HadoopCounters()
     # TextInputFormat: one row per line, column `value` (LF, CRLF and CR end a line)
     lines = spark.read.text(input_path)
-
-    # HAND WORK: this job is not complete. Until the items below are written by hand the
-    # script refuses to run; the steps after this are only the part mrlift could lift.
-    # PeakHourByStation.java:38  Date started;
-    #   why: date and time parsing is not converted in this version (`started` of type Date is declared without a value)
-    #   try: F.to_timestamp(col, pattern) and F.hour/F.dayofweek; pin spark.sql.session.timeZone to the old JVM zone
-    raise NotImplementedError(
-        "hand work needed: PeakHourByStation.java:38 date and time parsing is not converted in this version (`started` of type Date is declared without a value)"
-    )
 
     # Map side: narrow, row by row (no shuffle) — PeakHourByStation.java
     map_output = (
@@ -65,6 +159,27 @@ def build(spark: SparkSession, input_path: str) -> DataFrame:
         .withColumn("f", java_split(F.col("value"), ","))
         # PeakHourByStation.java:35  if (f[0].equals("ride_id")) {
         .where(F.col("f")[0] != "ride_id")
+        # PeakHourByStation.java:40  started = format.parse(f[4]);
+        .withColumn(
+            "started", sdf_parse(F.col("f")[4], "yyyy-MM-dd HH:mm:ss", skip_bad_record=True)
+        )
+        # PeakHourByStation.java:42  context.getCounter(Quality.BAD_TIMESTAMP).increment(1);  (counted in the same pass)
+        .transform(
+            counters.add(
+                "net.brindleharbour.reports.PeakHourByStation$Quality",
+                "BAD_TIMESTAMP",
+                F.col("started").isNull(),
+            )
+        )
+        # PeakHourByStation.java:40  catch: skip the record
+        .where(F.col("started").isNotNull())
+        # PeakHourByStation.java:46  int hour = calendar.get(Calendar.HOUR_OF_DAY);
+        .withColumn("hour", F.hour(F.col("started")))
+        # PeakHourByStation.java:47  context.write(new Text(f[2] + "@" + hour), ONE);  (map output: key, value)
+        .select(
+            F.concat(F.col("f")[2], F.lit("@"), F.col("hour").cast("string")).alias("key"),
+            F.lit(1).alias("value"),
+        )
     )
 
     # Reduce side: wide — rows are shuffled so all values of a key meet (IntSumReducer (ships with Hadoop))
@@ -121,6 +236,12 @@ def main(argv: list[str] | None = None) -> int:
         help="a job setting, as Hadoop's GenericOptionsParser takes it (settings this job does not read are ignored)",
     )
     parser.add_argument(
+        "--time-zone",
+        default=None,
+        help="the time zone the original JVM ran in (SimpleDateFormat and Calendar used it); "
+        "default: this JVM's own zone, which is Spark's session default",
+    )
+    parser.add_argument(
         "--dry-run", action="store_true", help="run the whole job but write nothing"
     )
     parser.add_argument(
@@ -132,11 +253,17 @@ def main(argv: list[str] | None = None) -> int:
         .config("spark.sql.ansi.enabled", "true")  # errors where Java throws, never silent NULLs
         .getOrCreate()
     )
-    result = build(spark, args.input_path)
+    if (
+        args.time_zone
+    ):  # dates are read and printed in this zone, as the original JVM's default zone
+        spark.conf.set("spark.sql.session.timeZone", args.time_zone)
+    counters = HadoopCounters()
+    result = build(spark, args.input_path, counters=counters)
     if args.explain:
         result.explain(mode="formatted")
         return 0
     write_text_output(result, args.output_path, dry_run=args.dry_run)
+    counters.report()  # the same counters the Hadoop job printed, on stderr
     return 0
 
 

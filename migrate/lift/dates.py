@@ -1,0 +1,120 @@
+"""Dates: SimpleDateFormat parse/format, Date.getTime(), Calendar fields.
+
+Recognises: `new SimpleDateFormat("<numeric pattern>")` held in a field or local (lenient, as
+Java's default, or after `setLenient(false)`), `fmt.parse(s)` inside a try that catches
+ParseException, `d.getTime()`, `Calendar.getInstance()` + `cal.setTime(d)` + `cal.get(Calendar.X)`
+for YEAR, MONTH, DAY_OF_MONTH/DATE, HOUR_OF_DAY, MINUTE, SECOND, DAY_OF_WEEK, and
+`fmt.format(d)` for the same pattern letters.
+Produces: plan calls date_parse / date_millis / date_field / date_format; the script pins
+Spark's session time zone to a setting that defaults to the JVM's own zone, which is what the
+original JVM used when it ran on the same machine.
+Caveats: only the pattern letters y M d H m s (and S for format) with separators between
+numeric fields; text fields (MMM, EEE, a, z) and abutting numbers are declined. Julian-calendar
+dates before 1582 are not reproduced (Spark is proleptic Gregorian).
+"""
+from __future__ import annotations
+
+import re
+from dataclasses import dataclass
+
+from migrate.lift.exprs import Unsupported
+from migrate.plan import Call, Expr, Lit
+
+PARSE_LETTERS = set("yMdHms")
+FORMAT_LETTERS = set("yMdHmsS")
+CALENDAR_FIELDS = {"YEAR": "year", "MONTH": "month", "DAY_OF_MONTH": "day", "DATE": "day", "HOUR_OF_DAY": "hour",
+                   "MINUTE": "minute", "SECOND": "second", "DAY_OF_WEEK": "day_of_week"}
+
+
+@dataclass
+class DateFormat:
+    """A java.text.SimpleDateFormat object: its pattern and whether parsing is lenient."""
+
+    pattern: str
+    lenient: bool = True
+
+
+@dataclass
+class CalendarVar:
+    """A java.util.Calendar object and the Date it was last set to in this record."""
+
+    date: Expr | None = None
+
+
+def pattern_tokens(pattern: str) -> list[tuple[str, str]]:
+    """SimpleDateFormat pattern -> [("field", "yyyy") | ("text", "-")], quotes resolved."""
+    out, i = [], 0
+    while i < len(pattern):
+        c = pattern[i]
+        if c == "'":
+            j = pattern.find("'", i + 1)
+            if j < 0:
+                raise ValueError("unclosed quote")
+            out.append(("text", "'" if j == i + 1 else pattern[i + 1 : j]))
+            i = j + 1
+        elif c.isalpha():
+            j = i
+            while j < len(pattern) and pattern[j] == c:
+                j += 1
+            out.append(("field", pattern[i:j]))
+            i = j
+        else:
+            out.append(("text", c))
+            i += 1
+    return out
+
+
+def check_parse_pattern(pattern: str, node) -> None:
+    tokens = pattern_tokens(pattern)
+    prev_field = False
+    for kind, v in tokens:
+        if kind == "field":
+            if v[0] not in PARSE_LETTERS:
+                raise Unsupported(node, f"date pattern letter {v[0]!r} in {pattern!r} is not lifted yet",
+                                  "parse with F.to_timestamp(col, pattern) by hand and check a sample")
+            if prev_field:
+                raise Unsupported(node, f"date pattern {pattern!r} has numbers without a separator; Java's "
+                                        "lenient parse reads those by width", "check a sample by hand")
+            prev_field = True
+        else:
+            prev_field = False
+    if not any(k == "field" and v[0] == "y" for k, v in tokens):
+        raise Unsupported(node, f"date pattern {pattern!r} without a year is not lifted")
+
+
+def check_format_pattern(pattern: str, node) -> None:
+    for kind, v in pattern_tokens(pattern):
+        if kind == "field" and v[0] not in FORMAT_LETTERS:
+            raise Unsupported(node, f"date format letter {v[0]!r} in {pattern!r} is not lifted yet")
+
+
+def spark_format_pattern(pattern: str) -> str:
+    """SimpleDateFormat pattern -> Spark datetime pattern for the supported letters (same meaning)."""
+    out = []
+    for kind, v in pattern_tokens(pattern):
+        if kind == "field":
+            out.append(v)
+        elif re.fullmatch(r"[-:/ .,T_]", v) or v == "":
+            out.append(v)
+        else:
+            out.append("'" + v.replace("'", "''") + "'")
+    return "".join(out)
+
+
+def parse(fmt: DateFormat, s: Expr, on_error: str) -> Expr:
+    return Call("Date", "date_parse", (s, Lit("String", fmt.pattern), Lit("boolean", fmt.lenient)), on_error)
+
+
+def millis(d: Expr) -> Expr:
+    return Call("long", "date_millis", (d,))
+
+
+def field(d: Expr, name: str, node) -> Expr:
+    if name not in CALENDAR_FIELDS:
+        raise Unsupported(node, f"Calendar.{name} is not lifted yet")
+    return Call("int", "date_field", (d, Lit("String", CALENDAR_FIELDS[name])))
+
+
+def format_(fmt: DateFormat, d: Expr, node) -> Expr:
+    check_format_pattern(fmt.pattern, node)
+    return Call("String", "date_format", (d, Lit("String", spark_format_pattern(fmt.pattern))))
