@@ -35,8 +35,8 @@ class JobResult:
     def status(self) -> str:
         if not self.plan.hand_work:
             return "converted"
-        lifted = [s for s in self.plan.map_steps if isinstance(s, Project)]
-        return "partial" if lifted or self.plan.reduce is not None else "not_converted"
+        # partial: some steps were lifted and the script stops at a stub; not_converted: nothing was
+        return "partial" if self.plan.map_steps or self.plan.reduce is not None else "not_converted"
 
 
 def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
