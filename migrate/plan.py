@@ -281,6 +281,7 @@ class Source:
     fmt: str = "text"  # "text" | "keyvalue"
     skip_first_line: bool = False  # `if (key.get() == 0) return;`: drop each file's first line
     split_commas: tuple[bool, ...] = ()  # per param: FileInputFormat's String overloads split on commas
+    file_name: bool = False  # the mapper reads its input split's file name
     origin: Span = NO_SPAN
 
 

@@ -348,6 +348,9 @@ def build_body(plan: Plan, x: ExprWriter) -> ScriptParts:
     else:
         out.append("# TextInputFormat: one row per line, column `value` (LF, CRLF and CR end a line)")
         out.append(f"lines = {read}")
+    if src.file_name:
+        out.append("# the mapper reads its input split's file name: Spark's file metadata holds it")
+        out.append('lines = lines.withColumn("input_file_name", F.col("_metadata.file_name"))')
     if src.skip_first_line:
         x.helpers.add("drop_first_line_per_file")
         parts.uses_window = True

@@ -15,7 +15,7 @@ from dataclasses import dataclass, field, replace
 from javalang import tree as T
 
 from migrate.java.literals import number_value, string_value
-from migrate.plan import INTEGRAL, NO_SPAN, NUMERIC, Arith, BoolOp, Call, Cast, Compare, Cond, Expr, Lit, Span
+from migrate.plan import INTEGRAL, NO_SPAN, NUMERIC, Arith, BoolOp, Call, Cast, Col, Compare, Cond, Expr, Lit, Span
 
 
 class Unsupported(Exception):
@@ -146,30 +146,51 @@ def _lift(node, scope: Scope) -> Expr:
         for op in reversed(pre):
             inner = _prefix(op, inner, node)
         return inner
+    sels = list(getattr(node, "selectors", None) or [])  # `"x".equals(s)`, `(a + b).trim()`, `((T) o).m()`
     if isinstance(node, T.Literal):
-        return _literal(node)
+        return _selectors(_literal(node), sels, scope, node)
     if isinstance(node, T.MemberReference):
         base = _member(node, scope)
         return _selectors(base, node.selectors or [], scope, node)
     if isinstance(node, T.MethodInvocation):
         return _invocation(node, scope)
     if isinstance(node, T.BinaryOperation):
-        return _binary(node, scope)
+        return _selectors(_binary(node, scope), sels, scope, node)
     if isinstance(node, T.TernaryExpression):
         c = _bool(lift(node.condition, scope), node)
         a, b = lift(node.if_true, scope), lift(node.if_false, scope)
         t = a.jtype if a.jtype == b.jtype else promote(a.jtype, b.jtype) if {a.jtype, b.jtype} <= NUMERIC else None
         if t is None:
             raise Unsupported(node, f"conditional mixes {a.jtype} and {b.jtype}")
-        return Cond(t, c, _widen(a, t), _widen(b, t))
+        return _selectors(Cond(t, c, _widen(a, t), _widen(b, t)), sels, scope, node)
     if isinstance(node, T.Cast):
-        return _cast(node, scope)
+        if _is_input_split(node):
+            return _input_file_name(node, sels)
+        return _selectors(_cast(node, scope), sels, scope, node)
     if isinstance(node, T.ClassCreator):
         w = writable_creator(node, scope)
         if w is not None and w.content is not None:
             return _selectors(w.content, node.selectors or [], scope, node)
         raise Unsupported(node, f"`new {node.type.name}(...)` inside an expression")
     raise Unsupported(node, f"Java expression {type(node).__name__} is not lifted yet")
+
+
+INPUT_FILE_NAME = "input_file_name"
+
+
+def _is_input_split(node: T.Cast) -> bool:
+    e = node.expression
+    return getattr(node.type, "name", "") == "FileSplit" and isinstance(e, T.MethodInvocation) \
+        and e.member == "getInputSplit" and not e.arguments
+
+
+def _input_file_name(node, sels) -> Expr:
+    """`((FileSplit) context.getInputSplit()).getPath().getName()`: the name of the file being read."""
+    names = [getattr(x, "member", None) for x in sels]
+    if names == ["getPath", "getName"]:
+        return Col("String", INPUT_FILE_NAME)
+    raise Unsupported(node, "only the input split's file name (getPath().getName()) is lifted",
+                      "F.col('_metadata.file_path') holds the full path, written as Spark writes URLs")
 
 
 def _without_prefix(node):

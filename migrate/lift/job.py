@@ -175,11 +175,28 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
     sink = Sink("output_path", out_key_t, out_val_t, sorted_by_key=reduce is not None and spec.reduces >= 1,
                 overwrite=spec.deletes_output, separator=sep, origin=spec.origin)
     splits = tuple(ref.split_commas for ref in spec.inputs) or (False,)
-    source = Source(tuple(input_params), fmt, skip_first, splits, spec.origin)
+    source = Source(tuple(input_params), fmt, skip_first, splits, _reads_file_name(steps), spec.origin)
     plan = Plan(spec.name, source, tuple(steps), reduce, sink, tuple(params), tuple(hand), tuple(dict.fromkeys(shapes)),
                 tuple(notes))
     sloc = sum(c.sloc for c in {index.get(fq) for fq in classes.values()} if c is not None)
     return JobResult(spec, plan, classes, files, sloc, notes)
+
+
+def _reads_file_name(steps: list[Step]) -> bool:
+    """Does any step read the input split's file name (the column lift.exprs names for it)?"""
+    from migrate.lift.exprs import INPUT_FILE_NAME
+    from migrate.plan import Col as _Col
+
+    def walk(x) -> bool:
+        if isinstance(x, _Col) and x.name == INPUT_FILE_NAME:
+            return True
+        if isinstance(x, (list, tuple)):
+            return any(walk(i) for i in x)
+        if hasattr(x, "__dataclass_fields__"):
+            return any(walk(getattr(x, f)) for f in x.__dataclass_fields__ if f != "origin")
+        return False
+
+    return walk(steps)
 
 
 def _param(name: str, ref: PathRef, what: str) -> Param:

@@ -319,3 +319,16 @@ import org.apache.hadoop.fs.Path;
 import org.apache.hadoop.io.*;
 import org.apache.hadoop.mapred.*;
 """
+
+
+def test_selectors_on_literals_parentheses_and_casts_are_not_dropped(tmp_path):
+    # javalang hangs `.equals(...)` of `"x".equals(s)` and `.trim()` of `(a + b).trim()` on the literal or
+    # the parenthesised node; a lifter that ignored them would silently compute something else.
+    job, dump = _plan(tmp_path, """
+      String s = value.toString();
+      if ("skip".equals(s)) return;
+      String t = (s + " ").trim();
+      context.write(new Text(t), new IntWritable("abc".length()));""")
+    assert "Filter ('skip' != value)" in dump
+    assert "Let t = trim(concat(value, ' '))" in dump
+    assert "Emit t -> length('abc')" in dump

@@ -68,7 +68,7 @@ def java_div_double(a: Column, b: Column) -> Column:
 def drop_first_line_per_file(lines: DataFrame) -> DataFrame:
     """`if (key.get() == 0) return;`: drop the line at byte offset 0 of every input file."""
     tagged = lines.select(
-        "value",
+        "*",
         F.col("_metadata.file_path").alias("_file"),
         F.col("_metadata.file_block_start").alias("_block_start"),
         F.monotonically_increasing_id().alias("_row"),
@@ -77,7 +77,7 @@ def drop_first_line_per_file(lines: DataFrame) -> DataFrame:
     return (
         tagged.withColumn("_first", first)
         .where(~((F.col("_block_start") == 0) & (F.col("_row") == F.col("_first"))))
-        .select("value")
+        .drop("_file", "_block_start", "_row", "_first")
     )
 
 
