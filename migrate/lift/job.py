@@ -10,6 +10,7 @@ from migrate.java.hadoop_api import KNOWN_CLASSES, WRITABLE_TYPES
 from migrate.java.index import ClassIndex, ClassInfo, node_lines
 from migrate.java.source import logical_sloc
 from migrate.lift.builtin import IDENTITY_MAPPERS, IDENTITY_REDUCERS, SUM_REDUCERS, library_mapper, library_reducer
+from migrate.lift.combining import flushes_all_entries
 from migrate.lift.config import task_constants
 from migrate.lift.limits import explain
 from migrate.lift.mapper import MapBodyLifter, class_constants
@@ -111,8 +112,9 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
     steps: list[Step] = []
     skip_first = False
     mcls = index.get(mapper_fq)
+    combining: list[str] = []  # Map fields of in-mapper combining, flushed in cleanup()
     if mcls is not None and "mapper" in mcls.roles:
-        steps, skip_first = _lift_mapper(mcls, fmt, hand, notes, index, spec.conf)
+        steps, skip_first = _lift_mapper(mcls, fmt, hand, notes, index, spec.conf, combining)
     elif mapper_fq in KNOWN_CLASSES or mapper_fq in IDENTITY_MAPPERS:
         lib_steps, why = library_mapper(mapper_fq, fmt, spec.conf)
         if lib_steps is None:
@@ -132,6 +134,9 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
     reducer_fq = spec.classes.get("reducer")
     if spec.reduces == 0:
         shapes.append("map only")
+        if combining:
+            add("task-state", mcls.span, "in-mapper combining in a map-only job: one partial sum per input split",
+                "decide whether per-file sums (groupBy file name) are what readers expect", "P2")
     else:
         rcls = index.get(reducer_fq)
         if rcls is not None and "reducer" in rcls.roles:
@@ -147,6 +152,13 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
             add("output-layout", at("setNumReduceTasks"), f"Hadoop split the output over {spec.reduces} part files by key hash; "
                 "the script writes one file sorted by key", "if readers depend on the part files, repartition by key", "P1")
         _check_combiner(spec, reduce, index, add, at("setCombinerClass"))
+        if combining:
+            if _is_plain_sum(reduce):
+                notes.append(f"in-mapper combining ({', '.join(combining)}, flushed in cleanup()) is a partial sum; the "
+                             "reducer sums again, so the script writes every update and lets the reducer sum them")
+            else:
+                add("task-state", mcls.span, "in-mapper combining feeds a reducer that does not just sum: the output "
+                    "would depend on how Hadoop split the input into tasks", "check what the job should compute", "P2")
         comparator_hint = "Window.partitionBy(...).orderBy(...) expresses secondary sort"
         for role, label, calls, hint in (
                 ("partitioner", "custom partitioner", ("setPartitionerClass",),
@@ -245,7 +257,7 @@ def _method_hand_work(owner: ClassInfo, m, category: str, reason: str, suggestio
 
 
 def _lift_mapper(mcls: ClassInfo, fmt: str, hand: list[HandWork], notes: list[str], index: ClassIndex,
-                 driver_conf: dict[str, str]):
+                 driver_conf: dict[str, str], combining_fields: list[str]):
     owner, m = _find_method(mcls, index, "map", (3, 4))
     if m is None:
         hand.append(HandWork("map-logic", mcls.span, f"{mcls.name} has no map() method the converter could find",
@@ -256,12 +268,16 @@ def _lift_mapper(mcls: ClassInfo, fmt: str, hand: list[HandWork], notes: list[st
         hand.append(HandWork("task-lifecycle", Span(owner.file.path, line, line), reason,
                              "settings become script parameters (-D name=value); other per-task work needs a rewrite",
                              owner.file.lines[line - 1].strip() if line else "", "P1", 1))
-    hand.extend(_lifecycle(owner, "of the mapper runs once per task; its logic is not converted in this version",
-                           "settings become script parameters; per-task state needs a rewrite", "P1",
-                           skip=("setup", "configure")))  # read above by task_constants
     lifter = MapBodyLifter(owner, m, "String" if fmt == "keyvalue" else "offset", "String", owner.api or "mapreduce",
                            index, settings)
     res = lifter.run()
+    cleanup = _method(owner, "cleanup", (1,)) or _method(owner, "close", (0,))
+    flushed = bool(res.combining) and all(flushes_all_entries(cleanup, f) for f in res.combining)
+    if flushed:
+        combining_fields.extend(res.combining)
+    hand.extend(_lifecycle(owner, "of the mapper runs once per task; its logic is not converted in this version",
+                           "settings become script parameters; per-task state needs a rewrite", "P1",
+                           skip=("setup", "configure") + (("cleanup", "close") if flushed else ())))
     for h in res.hand_work:
         sloc = logical_sloc(owner.file.lines[h.origin.line_start - 1 : node_lines(m)[1]])
         hand.append(_named(owner, h, max(sloc, 1)))
@@ -310,6 +326,13 @@ def _lift_reducer(rcls: ClassInfo, key_t: str, val_t: str, hand: list[HandWork],
 
 
 _SAFE_COMBINE = {"sum", "min", "max"}
+
+
+def _is_plain_sum(reduce: Step | None) -> bool:
+    """A reducer that writes (key, sum of values): re-summing partial sums cannot change it."""
+    return (isinstance(reduce, Group) and len(reduce.aggs) == 1 and reduce.aggs[0].fn == "sum"
+            and not reduce.aggs[0].init and isinstance(reduce.aggs[0].arg, (Col, Cast)) and reduce.having is None
+            and isinstance(reduce.value_out, AggRef) and isinstance(reduce.key_out, Col) and reduce.key_out.name == "key")
 
 
 def _check_combiner(spec: JobSpec, reduce: Step | None, index: ClassIndex, add, where: Span) -> None:

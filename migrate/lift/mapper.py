@@ -19,6 +19,7 @@ from migrate.java.index import ClassInfo, node_lines
 from migrate.lift.exprs import (CATCH_ALL, WRITABLE_OF, Opaque, Scope, Tokenizer, Unsupported, Writable, lift,
                                 widen, writable_creator, writable_set, write_argument)
 from migrate.lift import dates
+from migrate.lift.combining import combining_update, map_fields
 from migrate.lift.counters import counter_update, is_counter_call
 from migrate.plan import BoolOp, Call, Col, Compare, Count, Emit, Explode, Expr, Filter, HandWork, Let, Lit, Project, Span, Step
 
@@ -36,6 +37,7 @@ class MapResult:
     hand_work: list[HandWork]
     skip_first_line: bool = False
     notes: list[str] = field(default_factory=list)
+    combining: list[str] = field(default_factory=list)  # Map fields summed in map() and flushed in cleanup()
 
 
 def _and(a: Expr | None, b: Expr | None) -> Expr | None:
@@ -118,6 +120,8 @@ class MapBodyLifter:
         self.loop_locals: list[set[str]] = []
         self.if_nodes: list = []  # enclosing if statements (for comments on the filters they become)
         self.field_names = {d.name for f in cls.fields() for d in f.declarators}
+        self.map_fields = map_fields(cls)
+        self.combining: set[str] = set()  # Map fields used for in-mapper combining
         self.locals: set[str] = set()
         env: dict[str, object] = {}
         env.update(class_constants(cls, index))
@@ -152,7 +156,7 @@ class MapBodyLifter:
             else:
                 self.steps.append(Project(self._span(self.method), "map output", tuple(self.emit_list)))
         notes = self.notes + [n for n in self.scope.notes if n not in self.notes]
-        return MapResult(self.steps, self.hand, self.skip_first_line, notes)
+        return MapResult(self.steps, self.hand, self.skip_first_line, notes, sorted(self.combining))
 
     def _hand(self, category: str, line: int, reason: str, suggestion: str, profile: str = "P1") -> None:
         snippet = self.cls.file.lines[line - 1].strip() if 0 < line <= len(self.cls.file.lines) else ""
@@ -287,6 +291,13 @@ class MapBodyLifter:
                 return self._emit(s, e, guard)
             if q in LOG_RECEIVERS or q.split(".")[0] in ("System",) and m.startswith("print"):
                 self.notes.append(f"{self.file}:{self._line(s)} logging call `{q}.{m}` is not carried over")
+                return
+            update = combining_update(e, self.map_fields)
+            if update is not None:
+                k, v = (lift(x, self.scope) for x in update)
+                self.combining.add(q)
+                self.emit_list.append(Emit(self._span(s), self._note(s) + "  (in-mapper combining)", k, v,
+                                           self._eff(guard)))
                 return
             if is_counter_call(e):
                 cu = counter_update(e, self.scope, self.cls, self.index)

@@ -332,3 +332,23 @@ def test_selectors_on_literals_parentheses_and_casts_are_not_dropped(tmp_path):
     assert "Filter ('skip' != value)" in dump
     assert "Let t = trim(concat(value, ' '))" in dump
     assert "Emit t -> length('abc')" in dump
+
+
+def test_in_mapper_combining_is_exact_only_before_a_summing_reducer(tmp_path):
+    fields = """private final Map<String, Integer> seen = new HashMap<>();
+    protected void cleanup(Context context) throws IOException, InterruptedException {
+      for (Map.Entry<String, Integer> e : seen.entrySet()) { context.write(new Text(e.getKey()), new IntWritable(e.getValue())); }
+    }"""
+    body = "      seen.merge(value.toString(), 1, Integer::sum);"
+    summing = SUM_REDUCER % """
+      int s = 0;
+      for (IntWritable v : values) { s += v.get(); }
+      context.write(key, new IntWritable(s));"""
+    job, dump = _plan(tmp_path, body, summing, fields=fields)
+    assert job.status == "converted" and "Emit value -> 1" in dump
+    counting = SUM_REDUCER % """
+      int n = 0;
+      for (IntWritable v : values) { n++; }
+      context.write(key, new IntWritable(n));"""
+    job, _ = _plan(tmp_path / "b", body, counting, fields=fields)
+    assert [h.category for h in job.plan.hand_work] == ["task-state"]  # counts of partial sums depend on the split

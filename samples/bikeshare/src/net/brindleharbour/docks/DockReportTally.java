@@ -17,7 +17,7 @@ import org.apache.hadoop.mapreduce.lib.reduce.IntSumReducer;
 
 /**
  * Status reports per station, tallied inside the mapper (in-mapper combining) and flushed in
- * cleanup(). Needs hand work in this version: the HashMap stands for a count per station.
+ * cleanup(). The HashMap stands for a count per station, which the reducer sums again.
  */
 public class DockReportTally {
     public static class TallyMapper extends Mapper<LongWritable, Text, Text, IntWritable> {
