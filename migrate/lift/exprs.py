@@ -104,6 +104,7 @@ class Scope:
     notes: list[str] = field(default_factory=list)  # assumptions the lift made, for the report
     methods: dict[str, list] = field(default_factory=dict)  # helper methods of the class, for inlining
     depth: int = 0
+    enums: frozenset[str] = frozenset()  # simple names of enum types in the repository
 
     def on_error(self, op: str) -> str:
         exc = THROWS.get(op)
@@ -237,6 +238,8 @@ def _member(node: T.MemberReference, scope: Scope) -> Expr:
     if (q, m) in CONSTANTS:
         v, t = CONSTANTS[(q, m)]
         return Lit(t, v)
+    if q.split(".")[-1] in scope.enums:
+        return Lit("enum", m)  # an enum constant: only its name() / toString() are used as values
     b = scope.env.get(q)
     if b is not None and m == "length":
         arr = _binding_value(b, node, q)
@@ -362,6 +365,8 @@ def _method(recv: Expr, node: T.MethodInvocation, scope: Scope) -> Expr:
         return to_string(recv)
     if m == "get" and not a and t in NUMERIC | {"boolean"}:
         return recv  # IntWritable.get() and friends
+    if t == "enum" and m in ("name", "toString") and not a and isinstance(recv, Lit):
+        return Lit("String", recv.value)
     if t == "Date" and m == "getTime" and not a:
         from migrate.lift import dates
 
@@ -435,8 +440,10 @@ def _check_format(fmt: str, values: list[Expr], node) -> None:
 
 def to_string(e: Expr) -> Expr:
     """Java's String.valueOf / toString of a value (Double.toString for doubles)."""
-    if e.jtype in ("String", "char"):
-        return e if e.jtype == "String" else replace(e, jtype="String") if isinstance(e, Lit) else Call("String", "char_string", (e,))
+    if e.jtype in ("String", "char", "enum"):
+        if e.jtype == "String":
+            return e
+        return replace(e, jtype="String") if isinstance(e, Lit) else Call("String", "char_string", (e,))
     if isinstance(e, Lit) and e.jtype in ("int", "long"):
         return Lit("String", str(e.value))
     if e.jtype in NUMERIC | {"boolean"}:
@@ -467,6 +474,8 @@ def _binary(node: T.BinaryOperation, scope: Scope) -> Expr:
             return Compare("boolean", op, _widen(l, t), _widen(r, t))
         if l.jtype == r.jtype and l.jtype in ("boolean", "char") and op in ("==", "!="):
             return Compare("boolean", op, l, r)
+        if l.jtype == r.jtype == "enum" and op in ("==", "!=") and isinstance(l, Lit) and isinstance(r, Lit):
+            return Lit("boolean", (l.value == r.value) == (op == "=="))
         raise Unsupported(node, f"comparison {op} of {l.jtype} and {r.jtype}")
     raise Unsupported(node, f"operator {op} is not lifted yet")
 
@@ -581,7 +590,7 @@ def inline_call(node: T.MethodInvocation, scope: Scope) -> Expr:
         if want is None:
             raise Unsupported(node, f"helper {decl.name}() takes a {getattr(p.type, 'name', '?')}")
         env[p.name] = _widen(v, want) if v.jtype != want and {v.jtype, want} <= NUMERIC else v
-    inner = Scope(env, scope.caught, scope.file, scope.notes, scope.methods, scope.depth + 1)
+    inner = Scope(env, scope.caught, scope.file, scope.notes, scope.methods, scope.depth + 1, scope.enums)
     result = _body_value(list(decl.body or []), inner, decl)
     want = _java_type(decl.return_type) if decl.return_type is not None else None
     if want is None:
@@ -605,10 +614,11 @@ def _body_value(stmts: list, scope: Scope, decl) -> Expr:
         if isinstance(st, T.IfStatement):
             c = lift(st.condition, scope)
             then = _body_value(_block_of(st.then_statement), Scope(dict(scope.env), scope.caught, scope.file,
-                                                                 scope.notes, scope.methods, scope.depth), decl)
+                                                                 scope.notes, scope.methods, scope.depth,
+                                                                 scope.enums), decl)
             rest = _block_of(st.else_statement) if st.else_statement is not None else stmts[i + 1:]
             other = _body_value(rest, Scope(dict(scope.env), scope.caught, scope.file, scope.notes, scope.methods,
-                                            scope.depth), decl)
+                                            scope.depth, scope.enums), decl)
             t = then.jtype if then.jtype == other.jtype else promote(then.jtype, other.jtype) \
                 if {then.jtype, other.jtype} <= NUMERIC else None
             if t is None:

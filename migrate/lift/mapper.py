@@ -138,7 +138,8 @@ class MapBodyLifter:
         self.emit_target = params[2] if len(params) >= 3 else None
         for p in params[2:]:
             env[p] = Opaque("the task context")
-        self.scope = Scope(env, file=self.file, methods=helper_methods(cls, index))
+        self.scope = Scope(env, file=self.file, methods=helper_methods(cls, index),
+                           enums=frozenset(fq.rsplit(".", 1)[-1] for fq in (index.enums if index else {})))
 
     # ------------------------------------------------------------------ driving
     def run(self) -> MapResult:

@@ -352,3 +352,40 @@ def test_in_mapper_combining_is_exact_only_before_a_summing_reducer(tmp_path):
       context.write(key, new IntWritable(n));"""
     job, _ = _plan(tmp_path / "b", body, counting, fields=fields)
     assert [h.category for h in job.plan.hand_work] == ["task-state"]  # counts of partial sums depend on the split
+
+
+def test_enum_constant_names_are_literals(tmp_path):
+    from tests.helpers import HEADER
+
+    text = HEADER + """
+public class E {
+  enum Kind { SHORT_RIDE, LONG_RIDE }
+  public static class M extends Mapper<LongWritable, Text, Text, IntWritable> {
+    protected void map(LongWritable key, Text value, Context context) throws IOException, InterruptedException {
+      Kind k = value.getLength() > 10 ? Kind.LONG_RIDE : Kind.SHORT_RIDE;
+      context.write(new Text(Kind.LONG_RIDE.name() + "/" + String.valueOf(Kind.SHORT_RIDE)), new IntWritable(1));
+    }
+  }
+  public static void main(String[] args) throws Exception {
+    Job job = Job.getInstance(new Configuration(), "e");
+    job.setMapperClass(M.class);
+    job.setNumReduceTasks(0);
+    job.setOutputKeyClass(Text.class);
+    job.setOutputValueClass(IntWritable.class);
+    FileInputFormat.addInputPath(job, new Path(args[0]));
+    FileOutputFormat.setOutputPath(job, new Path(args[1]));
+    job.waitForCompletion(true);
+  }
+}
+"""
+    from tests.helpers import scan_text
+
+    scan = scan_text(tmp_path, {"E.java": text})
+    (job,) = scan.jobs
+    # an enum-typed local (not a constant) is declined; the constants' names are plain strings
+    assert job.status != "converted" and job.plan.hand_work[0].origin.line_start > 0
+    text2 = text.replace("      Kind k = value.getLength() > 10 ? Kind.LONG_RIDE : Kind.SHORT_RIDE;\n", "")
+    scan = scan_text(tmp_path / "b", {"E.java": text2})
+    (job,) = scan.jobs
+    assert job.status == "converted"
+    assert "Emit 'LONG_RIDE/SHORT_RIDE'" in dump_plan(job.plan) or "concat(concat('LONG_RIDE', '/'), 'SHORT_RIDE')" in dump_plan(job.plan)
