@@ -351,6 +351,8 @@ def _invocation(node: T.MethodInvocation, scope: Scope) -> Expr:
             raise Unsupported(node, f"StringTokenizer.{m}() outside a token loop")
         base = _binding_value(recv, node, q)
         return _selectors(_method(base, node, scope), node.selectors or [], scope, node)
+    if "." in q and q.rsplit(".", 1)[0].split(".")[-1] in scope.enums:  # Kind.LONG_RIDE.name()
+        return _selectors(_method(Lit("enum", q.rsplit(".", 1)[1]), node, scope), node.selectors or [], scope, node)
     if q in ("", "this") and m in scope.methods:
         return _selectors(inline_call(node, scope), node.selectors or [], scope, node)
     raise Unsupported(node, f"call `{(q + '.') if q else ''}{m}(...)` is not lifted",
