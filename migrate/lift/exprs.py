@@ -290,7 +290,7 @@ def _invocation(node: T.MethodInvocation, scope: Scope) -> Expr:
         op = PARSERS[(q, m)]
         return _selectors(Call(PARSED_TYPE[op], op, (s,), scope.on_error(op)), node.selectors or [], scope, node)
     if (q, m) in (("String", "valueOf"), ("Integer", "toString"), ("Long", "toString"), ("Double", "toString"),
-                  ("Float", "toString"), ("Boolean", "toString")) and len(args) == 1:
+                  ("Float", "toString"), ("Boolean", "toString"), ("Character", "toString")) and len(args) == 1:
         return _selectors(to_string(lift(args[0], scope)), node.selectors or [], scope, node)
     if (q, m) == ("String", "format") and args:
         fmt = lift(args[0], scope)
