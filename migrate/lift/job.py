@@ -18,7 +18,6 @@ from migrate.lift.reducer import FoldLifter
 from migrate.plan import (AggRef, Cast, Col, Explode, Filter, Group, HandWork, Identity, Param, Plan,
                           Project, Sink, Source, Span, Step)
 
-LIFECYCLE = {"setup", "cleanup", "configure", "close", "run"}
 
 
 @dataclass
@@ -81,9 +80,6 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
     params.append(_param("output_path", out_ref, "output folder"))
     if out_ref.kind == "unknown":
         add("driver", spec.origin, "the driver's output path could not be read", "pass the output folder by hand")
-    for p in params:
-        if p.position is None and p.default is None:
-            pass
     # ---- formats
     fmt = "text"
     if spec.input_format:

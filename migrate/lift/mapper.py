@@ -96,7 +96,11 @@ def _implies(g: Expr | None, cond: Expr) -> bool:
 
 
 class _Stop(Exception):
-    """Lifting stops: the rest of the body is unreachable (unguarded return) or hand work."""
+    """Lifting stops: the rest of the body is unreachable (an unguarded return)."""
+
+
+class _EndIteration(Exception):
+    """An unguarded `continue`: the rest of this loop body is unreachable."""
 
 
 class MapBodyLifter:
@@ -175,7 +179,6 @@ class MapBodyLifter:
         text = self.cls.file.lines[a - 1].strip() if a else ""
         return text if len(text) <= 90 else text[:87] + "..."
 
-
     def _eff(self, guard: Expr | None) -> Expr | None:
         return _and(guard, _not(self.dead)) if self.dead is not None else guard
 
@@ -213,9 +216,11 @@ class MapBodyLifter:
 
     def _scoped(self, stmts, guard) -> None:
         before = set(self.scope.env)
-        self._block(stmts, guard)
-        for name in set(self.scope.env) - before:
-            del self.scope.env[name]
+        try:
+            self._block(stmts, guard)
+        finally:  # names declared in the block go out of scope, also when it ends early
+            for name in set(self.scope.env) - before:
+                del self.scope.env[name]
 
     def _fresh(self, name: str) -> str:
         n, i = name, 2
@@ -436,7 +441,7 @@ class MapBodyLifter:
         if is_continue and not self.loop_depth:
             raise Unsupported(s, "continue outside a loop")
         if g is None:
-            raise _Stop()
+            raise _EndIteration() if is_continue else _Stop()
         if not self.emit_list:  # nothing written yet for this row: dropping it is exact
             where = self.if_nodes[-1] if self.if_nodes else s
             self.steps.append(Filter(self._span(where), self._note(where), _not(g)))
@@ -456,6 +461,12 @@ class MapBodyLifter:
         self.loop_depth += 1
         self.loop_locals.append(set())
         return col, (body.statements if isinstance(body, T.BlockStatement) else [body])
+
+    def _loop_body(self, stmts) -> None:
+        try:
+            self._scoped(stmts, None)
+        except _EndIteration:
+            pass
 
     def _end_loop(self, saved_dead) -> None:
         self.loop_depth -= 1
@@ -485,7 +496,7 @@ class MapBodyLifter:
         col, stmts = self._loop(s, guard, tok.tokens, var, body)
         tok.current = Col("String", col)
         try:
-            self._scoped(stmts, None)
+            self._loop_body(stmts)
         finally:
             tok.current = None
             self._end_loop(saved_dead)
@@ -503,7 +514,7 @@ class MapBodyLifter:
         self.scope.env[var] = Col(arr.jtype[:-2], col)
         self.loop_locals[-1].add(var)
         try:
-            self._scoped(stmts, None)
+            self._loop_body(stmts)
         finally:
             self.scope.env.pop(var, None)
             self._end_loop(saved_dead)

@@ -389,3 +389,13 @@ public class E {
     (job,) = scan.jobs
     assert job.status == "converted"
     assert "Emit 'LONG_RIDE/SHORT_RIDE'" in dump_plan(job.plan) or "concat(concat('LONG_RIDE', '/'), 'SHORT_RIDE')" in dump_plan(job.plan)
+
+
+def test_trailing_continue_ends_only_the_iteration(tmp_path):
+    job, dump = _plan(tmp_path, """
+      for (String w : value.toString().split(" ")) {
+        if (w.isEmpty()) { continue; }
+        context.write(new Text(w), new IntWritable(1));
+        continue;
+      }""")
+    assert job.status == "converted" and "Emit w -> 1" in dump
