@@ -398,7 +398,7 @@ def sdf_parse(s: Column, pattern: str, *, lenient: bool = True, skip_bad_record:
     def part(letter: str, default: int) -> Column:
         if letter not in letters:
             return F.lit(default)
-        return F.regexp_extract(s, regex, letters.index(letter) + 1).cast("int")
+        return F.regexp_extract(s, regex, letters.index(letter) + 1).try_cast("int")  # "" where no match
 
     year, month, day = part("y", 1970), part("M", 1), part("d", 1)
     hour, minute, second = part("H", 0), part("m", 0), part("s", 0)
@@ -415,6 +415,55 @@ def sdf_parse(s: Column, pattern: str, *, lenient: bool = True, skip_bad_record:
     if skip_bad_record:
         return value
     return F.when(value.isNotNull(), value).otherwise(F.raise_error(F.concat(F.lit('ParseException: Unparseable date: "'), s, F.lit('"'))))
+''')
+
+
+_h("jt_parse", r'''
+def jt_parse(s: Column, pattern: str, *, date_only: bool = False, skip_bad_record: bool = False) -> Column:
+    """LocalDateTime.parse / LocalDate.parse with DateTimeFormatter.ofPattern(pattern), ResolverStyle.SMART.
+
+    Fields have their exact widths and the whole text must match; SMART moves a day-of-month of
+    29-31 past the month's end back to its last day and reads 24:00:00 as the next midnight.
+    No time zone takes part (TIMESTAMP_NTZ / DATE, like java.time's local types).
+    """
+    regex, letters, i = "^", [], 0
+    while i < len(pattern):
+        c = pattern[i]
+        if c == "'":
+            j = pattern.index("'", i + 1)
+            regex += re.escape("'" if j == i + 1 else pattern[i + 1 : j])
+            i = j + 1
+        elif c.isalpha():
+            n = 0
+            while i < len(pattern) and pattern[i] == c:
+                i, n = i + 1, n + 1
+            regex += r"(\d{%d})" % n
+            letters.append("y" if c == "u" else c)
+        else:
+            regex += re.escape(c)
+            i += 1
+    regex += r"\z"
+
+    def part(letter: str, default: int) -> Column:
+        if letter not in letters:
+            return F.lit(default)
+        return F.regexp_extract(s, regex, letters.index(letter) + 1).try_cast("int")  # "" where no match
+
+    year, month, day = part("y", 1970), part("M", 1), part("d", 1)
+    hour, minute, second = part("H", 0), part("m", 0), part("s", 0)
+    end_of_day = (hour == 24) & (minute == 0) & (second == 0)
+    ok = (s.rlike(regex) & month.between(1, 12) & day.between(1, 31) & ((hour <= 23) | end_of_day)
+          & (minute <= 59) & (second <= 59))
+    last_day = F.dayofmonth(F.last_day(F.make_date(year, month, F.lit(1))))
+    day = F.least(day, last_day)
+    if date_only:
+        value = F.when(ok, F.make_date(year, month, day))
+    else:
+        stamp = F.make_timestamp_ntz(year, month, day, F.when(end_of_day, 0).otherwise(hour), minute, second)
+        value = F.when(ok, F.when(end_of_day, stamp + F.expr("INTERVAL 1 DAY")).otherwise(stamp))
+    if skip_bad_record:
+        return value
+    return F.when(value.isNotNull(), value).otherwise(F.raise_error(F.concat(F.lit("DateTimeParseException: Text '"), s, F.lit("' could not be parsed"))))
 ''')
 
 

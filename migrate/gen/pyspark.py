@@ -232,6 +232,14 @@ class ExprWriter:
             self.dates = True
             lenient = "" if args[2].value else ", lenient=False"
             return f"sdf_parse({self(args[0])}, {args[1].value!r}{lenient}{skip})"
+        if op == "jt_parse":
+            self.helpers.add("jt_parse")
+            kind = "" if args[2].value == "LocalDateTime" else ", date_only=True"
+            return f"jt_parse({self(args[0])}, {args[1].value!r}{kind}{skip})"
+        if op == "jt_field":
+            fn = {"year": "F.year({})", "month_value": "F.month({})", "day": "F.dayofmonth({})", "hour": "F.hour({})",
+                  "minute": "F.minute({})", "second": "F.second({})", "iso_day_of_week": "(F.weekday({}) + 1)"}
+            return fn[args[1].value].format(self(args[0]))
         if op == "date_millis":
             return f"F.unix_millis({self(args[0])})"
         if op == "date_field":

@@ -118,3 +118,40 @@ def field(d: Expr, name: str, node) -> Expr:
 def format_(fmt: DateFormat, d: Expr, node) -> Expr:
     check_format_pattern(fmt.pattern, node)
     return Call("String", "date_format", (d, Lit("String", spark_format_pattern(fmt.pattern))))
+
+
+# ----------------------------------------------------------------------------- java.time
+
+JAVA_TIME_LETTERS = {"y": 4, "u": 4, "M": 2, "d": 2, "H": 2, "m": 2, "s": 2}
+JAVA_TIME_GETTERS = {"getYear": "year", "getMonthValue": "month_value", "getDayOfMonth": "day", "getHour": "hour",
+                     "getMinute": "minute", "getSecond": "second"}
+
+
+@dataclass
+class JavaTimeFormat:
+    """A java.time.format.DateTimeFormatter built with ofPattern (ResolverStyle.SMART)."""
+
+    pattern: str
+
+
+def check_java_time_pattern(pattern: str, node) -> None:
+    """Numeric fields of the widths DateTimeFormatter.ofPattern parses exactly (yyyy MM dd HH mm ss)."""
+    for kind, v in pattern_tokens(pattern):
+        if kind == "field" and (v[0] not in JAVA_TIME_LETTERS or len(v) != JAVA_TIME_LETTERS[v[0]]):
+            raise Unsupported(node, f"DateTimeFormatter pattern field {v!r} in {pattern!r} is not lifted yet",
+                              "parse with F.to_timestamp by hand and check a sample")
+
+
+def java_time_parse(kind: str, s: Expr, fmt: JavaTimeFormat, on_error: str) -> Expr:
+    return Call(kind, "jt_parse", (s, Lit("String", fmt.pattern), Lit("String", kind)), on_error)
+
+
+def java_time_field(t: Expr, getter: str) -> Expr:
+    return Call("int", "jt_field", (t, Lit("String", JAVA_TIME_GETTERS[getter])))
+
+
+def java_time_format(t: Expr, fmt: JavaTimeFormat, node) -> Expr:
+    for kind, v in pattern_tokens(fmt.pattern):
+        if kind == "field" and t.jtype == "LocalDate" and v[0] in "Hms":
+            raise Unsupported(node, "formatting a LocalDate with a time field throws in Java")
+    return Call("String", "date_format", (t, Lit("String", spark_format_pattern(fmt.pattern))))

@@ -36,9 +36,11 @@ class Unsupported(Exception):
 THROWS = {"parse_int": "NumberFormatException", "parse_long": "NumberFormatException",
           "parse_double": "NumberFormatException", "parse_float": "NumberFormatException",
           "index": "ArrayIndexOutOfBoundsException", "substring": "StringIndexOutOfBoundsException",
-          "char_at": "StringIndexOutOfBoundsException", "date_parse": "ParseException"}
+          "char_at": "StringIndexOutOfBoundsException", "date_parse": "ParseException",
+          "jt_parse": "DateTimeParseException"}
 CATCH_ALL = {"Exception", "RuntimeException", "Throwable", "IllegalArgumentException"}
-_SUPERS = {"ParseException": {"Exception"}, "NumberFormatException": {"IllegalArgumentException"},
+_SUPERS = {"ParseException": {"Exception"}, "DateTimeParseException": {"DateTimeException"},
+           "NumberFormatException": {"IllegalArgumentException"},
            "ArrayIndexOutOfBoundsException": {"IndexOutOfBoundsException"},
            "StringIndexOutOfBoundsException": {"IndexOutOfBoundsException"}}
 
@@ -292,6 +294,17 @@ def _invocation(node: T.MethodInvocation, scope: Scope) -> Expr:
     if (q, m) in (("String", "valueOf"), ("Integer", "toString"), ("Long", "toString"), ("Double", "toString"),
                   ("Float", "toString"), ("Boolean", "toString"), ("Character", "toString")) and len(args) == 1:
         return _selectors(to_string(lift(args[0], scope)), node.selectors or [], scope, node)
+    if q in ("LocalDateTime", "LocalDate") and m == "parse" and len(args) == 2:
+        from migrate.lift import dates
+
+        fmt = scope.env.get(args[1].member) if isinstance(args[1], T.MemberReference) and not args[1].qualifier else None
+        if isinstance(args[1], T.MethodInvocation) and args[1].qualifier == "DateTimeFormatter":
+            fmt = _java_time_formatter(args[1])
+        if not isinstance(fmt, dates.JavaTimeFormat):
+            raise Unsupported(node, f"{q}.parse with a formatter the converter does not know")
+        text = lift(args[0], scope)
+        return _selectors(dates.java_time_parse(q, text, fmt, scope.on_error("jt_parse")), node.selectors or [],
+                          scope, node)
     if (q, m) == ("String", "format") and args:
         fmt = lift(args[0], scope)
         if not (isinstance(fmt, Lit) and fmt.jtype == "String"):
@@ -361,8 +374,10 @@ def _invocation(node: T.MethodInvocation, scope: Scope) -> Expr:
 
 def _method(recv: Expr, node: T.MethodInvocation, scope: Scope) -> Expr:
     m, args = node.member, node.arguments or []
-    a = [lift(x, scope) for x in args]
     t = recv.jtype
+    if t in ("LocalDateTime", "LocalDate", "DayOfWeek"):
+        return _java_time_method(recv, node, scope)
+    a = [lift(x, scope) for x in args]
     if m == "toString" and not a:
         return to_string(recv)
     if m == "get" and not a and t in NUMERIC | {"boolean"}:
@@ -423,6 +438,44 @@ def _method(recv: Expr, node: T.MethodInvocation, scope: Scope) -> Expr:
     if m == "concat" and len(a) == 1 and a[0].jtype == "String":
         return Call("String", "concat", (recv, a[0]))
     raise Unsupported(node, f"String.{m}(...) is not lifted yet")
+
+
+def _java_time_formatter(call: T.MethodInvocation):
+    """`DateTimeFormatter.ofPattern("...")` -> a JavaTimeFormat (other factories are declined)."""
+    from migrate.lift import dates
+    from migrate.java.literals import string_value
+
+    args = call.arguments or []
+    if call.member != "ofPattern" or len(args) != 1 or not (isinstance(args[0], T.Literal) and args[0].value.startswith('"')):
+        raise Unsupported(call, "DateTimeFormatter other than ofPattern(\"...\") is not lifted yet")
+    pattern = string_value(args[0].value)
+    dates.check_java_time_pattern(pattern, call)
+    return dates.JavaTimeFormat(pattern)
+
+
+def _java_time_method(recv: Expr, node: T.MethodInvocation, scope: Scope) -> Expr:
+    """LocalDateTime / LocalDate getters and format(fmt); DayOfWeek.getValue() (Monday = 1)."""
+    from migrate.lift import dates
+
+    m, args = node.member, node.arguments or []
+    if recv.jtype == "DayOfWeek":
+        if m == "getValue" and not args:
+            return Call("int", "jt_field", (recv.args[0], Lit("String", "iso_day_of_week")))
+        raise Unsupported(node, f"DayOfWeek.{m}() is not lifted")
+    if m in dates.JAVA_TIME_GETTERS and not args:
+        if recv.jtype == "LocalDate" and m in ("getHour", "getMinute", "getSecond"):
+            raise Unsupported(node, f"LocalDate has no {m}()")
+        return dates.java_time_field(recv, m)
+    if m == "getDayOfWeek" and not args:
+        return Call("DayOfWeek", "jt_day_of_week", (recv,))
+    if m == "format" and len(args) == 1:
+        fmt = scope.env.get(args[0].member) if isinstance(args[0], T.MemberReference) and not args[0].qualifier else None
+        if isinstance(args[0], T.MethodInvocation) and args[0].qualifier == "DateTimeFormatter":
+            fmt = _java_time_formatter(args[0])
+        if not isinstance(fmt, dates.JavaTimeFormat):
+            raise Unsupported(node, "format with a formatter the converter does not know")
+        return dates.java_time_format(recv, fmt, node)
+    raise Unsupported(node, f"{recv.jtype}.{m}() is not lifted yet")
 
 
 FORMAT_SPEC = re.compile(r"%(?:(\d+)\$)?([-#+ 0,(]*)(\d+)?(?:\.(\d+))?([a-zA-Z%])")

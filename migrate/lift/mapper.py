@@ -25,7 +25,8 @@ from migrate.plan import BoolOp, Call, Col, Compare, Count, Emit, Explode, Expr,
 
 SKIP_NOTE = "catch: skip the record"
 _DECLARED = {"int": "int", "long": "long", "double": "double", "float": "float", "boolean": "boolean",
-             "String": "String", "Integer": "int", "Long": "long", "Double": "double", "Date": "Date"}
+             "String": "String", "Integer": "int", "Long": "long", "Double": "double", "Date": "Date",
+             "LocalDateTime": "LocalDateTime", "LocalDate": "LocalDate"}
 LOG_RECEIVERS = {"System.out", "System.err", "LOG", "log", "logger", "LOGGER"}
 
 
@@ -633,6 +634,10 @@ def date_object(init, node):
     if isinstance(init, T.MethodInvocation) and init.qualifier == "Calendar" and init.member == "getInstance" \
             and not init.arguments:
         return dates.CalendarVar()
+    if isinstance(init, T.MethodInvocation) and init.qualifier == "DateTimeFormatter":
+        from migrate.lift.exprs import _java_time_formatter
+
+        return _java_time_formatter(init)
     return None
 
 

@@ -182,7 +182,9 @@ def sdf_parse(
     def part(letter: str, default: int) -> Column:
         if letter not in letters:
             return F.lit(default)
-        return F.regexp_extract(s, regex, letters.index(letter) + 1).cast("int")
+        return F.regexp_extract(s, regex, letters.index(letter) + 1).try_cast(
+            "int"
+        )  # "" where no match
 
     year, month, day = part("y", 1970), part("M", 1), part("d", 1)
     hour, minute, second = part("H", 0), part("m", 0), part("s", 0)
