@@ -107,9 +107,12 @@ class ExprWriter:
             return self._integral(e, a, b)
         if e.op == "/" and not (isinstance(e.right, Lit) and e.right.value not in (0, 0.0)):
             self.helpers.add("java_div_double")
-            return f"java_div_double({a}, {b})"
-        left = a if isinstance(e.left, Lit) else self.operand(e.left, e.right)
-        return f"({left} {e.op} {self.operand(e.right, e.left)})"
+            code = f"java_div_double({a}, {b})"
+        else:
+            left = a if isinstance(e.left, Lit) else self.operand(e.left, e.right)
+            code = f"({left} {e.op} {self.operand(e.right, e.left)})"
+        # Spark divides in double; Java divides floats in float (rounding the double result is exact)
+        return f'{code}.cast("float")' if e.jtype == "float" and e.op == "/" else code
 
     def _integral(self, e: Arith, a: str, b: str) -> str:
         """int/long + - * / with Java's two's-complement wrap-around (JLS 15.17, 15.18)."""
@@ -165,6 +168,8 @@ class ExprWriter:
             return f"{self(args[0])}.{meth}({self.operand(args[1], args[0])})"
         if op == "is_empty":
             return f"(F.length({self(args[0])}) == 0)"
+        if op == "utf8_length":
+            return f"F.octet_length({self(args[0])})"
         if op == "length":
             self.helpers.add("java_length")
             return f"java_length({self(args[0])})"

@@ -423,6 +423,8 @@ def _method(recv: Expr, node: T.MethodInvocation, scope: Scope) -> Expr:
         return Call("boolean", "is_blank", (recv,))
     if m == "length" and not a:
         return Call("int", "length", (recv,))
+    if m == "getLength" and not a:  # Text.getLength(): bytes of the UTF-8 encoding
+        return Call("int", "utf8_length", (recv,))
     if m == "substring" and 1 <= len(a) <= 2 and all(x.jtype in ("int",) for x in a):
         return Call("String", "substring", (recv, *a), scope.on_error("substring"))
     if m == "charAt" and len(a) == 1 and a[0].jtype == "int":

@@ -399,3 +399,23 @@ def test_trailing_continue_ends_only_the_iteration(tmp_path):
         continue;
       }""")
     assert job.status == "converted" and "Emit w -> 1" in dump
+
+
+def test_fields_set_in_the_constructor_are_constants(tmp_path):
+    job, dump = _plan(tmp_path, "context.write(new Text(prefix + value.toString()), new IntWritable(1));",
+                      fields='private final String prefix; public M() { prefix = "bh:"; }')
+    assert job.status == "converted" and "concat('bh:', value)" in dump
+
+
+def test_packed_values_split_again_in_the_reducer(tmp_path):
+    red = """  public static class R extends Reducer<Text, Text, Text, Text> {
+    protected void reduce(Text key, Iterable<Text> values, Context context) throws IOException, InterruptedException {
+      long sum = 0; long n = 0;
+      for (Text v : values) { sum += Long.parseLong(v.toString().split(",")[0]); n += Long.parseLong(v.toString().split(",")[1]); }
+      context.write(key, new Text(sum + "," + n));
+    }
+  }"""
+    job, dump = _plan(tmp_path, 'context.write(new Text("k"), new Text(value.toString() + ",1"));', red,
+                      map_out=("Text", "Text"), out=("Text", "Text"))
+    assert job.status == "converted"
+    assert "Agg sum = sum:long(parse_long(index(split(value, ',', 0), 0)))" in dump
