@@ -364,9 +364,14 @@ class HadoopCounters:
 """)
 
 
-_h("sdf_parse", r'''
-def _sdf_regex(pattern: str) -> tuple[str, list[str]]:
-    """A regex over the numeric fields of a SimpleDateFormat pattern, and the letter of each group."""
+_h("date_fields", r'''
+def _date_regex(pattern: str, exact_widths: bool) -> tuple[str, list[str]]:
+    """A regex over the numeric fields of a date pattern, and the pattern letter of each group.
+
+    SimpleDateFormat reads any number of digits and ignores text after the pattern
+    (exact_widths=False); DateTimeFormatter.ofPattern reads as many digits as there are letters
+    and must consume the whole text (exact_widths=True).
+    """
     regex, letters, i = "^", [], 0
     while i < len(pattern):
         c = pattern[i]
@@ -375,16 +380,29 @@ def _sdf_regex(pattern: str) -> tuple[str, list[str]]:
             regex += re.escape("'" if j == i + 1 else pattern[i + 1 : j])
             i = j + 1
         elif c.isalpha():
+            n = 0
             while i < len(pattern) and pattern[i] == c:
-                i += 1
-            regex += r"(\d+)"
-            letters.append(c)
+                i, n = i + 1, n + 1
+            regex += r"(\d{%d})" % n if exact_widths else r"(\d+)"
+            letters.append("y" if c == "u" else c)
         else:
             regex += re.escape(c)
             i += 1
-    return regex, letters
+    return regex + (r"\z" if exact_widths else ""), letters
 
 
+def _date_fields(s: Column, regex: str, letters: list[str]) -> list[Column]:
+    """Year, month, day, hour, minute, second of the text as ints (NULL where it does not match)."""
+
+    def part(letter: str, default: int) -> Column:
+        if letter not in letters:
+            return F.lit(default)
+        return F.regexp_extract(s, regex, letters.index(letter) + 1).try_cast("int")
+
+    return [part("y", 1970), part("M", 1), part("d", 1), part("H", 0), part("m", 0), part("s", 0)]
+''')
+
+_h("sdf_parse", r'''
 def sdf_parse(s: Column, pattern: str, *, lenient: bool = True, skip_bad_record: bool = False) -> Column:
     """SimpleDateFormat(pattern).parse(s) in the session time zone (the JVM's zone in Java).
 
@@ -393,15 +411,8 @@ def sdf_parse(s: Column, pattern: str, *, lenient: bool = True, skip_bad_record:
     zone, then placed in the session zone; a wall-clock time that occurs twice (the autumn DST
     change) is the later instant, as GregorianCalendar resolves it.
     """
-    regex, letters = _sdf_regex(pattern)
-
-    def part(letter: str, default: int) -> Column:
-        if letter not in letters:
-            return F.lit(default)
-        return F.regexp_extract(s, regex, letters.index(letter) + 1).try_cast("int")  # "" where no match
-
-    year, month, day = part("y", 1970), part("M", 1), part("d", 1)
-    hour, minute, second = part("H", 0), part("m", 0), part("s", 0)
+    regex, letters = _date_regex(pattern, exact_widths=False)
+    year, month, day, hour, minute, second = _date_fields(s, regex, letters)
     if lenient:  # calendar arithmetic on dates and whole seconds: no time zone takes part
         date = F.date_add(F.add_months(F.make_date(year, F.lit(1), F.lit(1)), month - 1), day - 1)
         seconds = F.unix_date(date).cast("bigint") * 86400 + hour * 3600 + minute * 60 + second
@@ -415,7 +426,7 @@ def sdf_parse(s: Column, pattern: str, *, lenient: bool = True, skip_bad_record:
     if skip_bad_record:
         return value
     return F.when(value.isNotNull(), value).otherwise(F.raise_error(F.concat(F.lit('ParseException: Unparseable date: "'), s, F.lit('"'))))
-''')
+''', ("date_fields",))
 
 
 _h("jt_parse", r'''
@@ -426,31 +437,8 @@ def jt_parse(s: Column, pattern: str, *, date_only: bool = False, skip_bad_recor
     29-31 past the month's end back to its last day and reads 24:00:00 as the next midnight.
     No time zone takes part (TIMESTAMP_NTZ / DATE, like java.time's local types).
     """
-    regex, letters, i = "^", [], 0
-    while i < len(pattern):
-        c = pattern[i]
-        if c == "'":
-            j = pattern.index("'", i + 1)
-            regex += re.escape("'" if j == i + 1 else pattern[i + 1 : j])
-            i = j + 1
-        elif c.isalpha():
-            n = 0
-            while i < len(pattern) and pattern[i] == c:
-                i, n = i + 1, n + 1
-            regex += r"(\d{%d})" % n
-            letters.append("y" if c == "u" else c)
-        else:
-            regex += re.escape(c)
-            i += 1
-    regex += r"\z"
-
-    def part(letter: str, default: int) -> Column:
-        if letter not in letters:
-            return F.lit(default)
-        return F.regexp_extract(s, regex, letters.index(letter) + 1).try_cast("int")  # "" where no match
-
-    year, month, day = part("y", 1970), part("M", 1), part("d", 1)
-    hour, minute, second = part("H", 0), part("m", 0), part("s", 0)
+    regex, letters = _date_regex(pattern, exact_widths=True)
+    year, month, day, hour, minute, second = _date_fields(s, regex, letters)
     end_of_day = (hour == 24) & (minute == 0) & (second == 0)
     ok = (s.rlike(regex) & month.between(1, 12) & day.between(1, 31) & ((hour <= 23) | end_of_day)
           & (minute <= 59) & (second <= 59))
@@ -464,7 +452,7 @@ def jt_parse(s: Column, pattern: str, *, date_only: bool = False, skip_bad_recor
     if skip_bad_record:
         return value
     return F.when(value.isNotNull(), value).otherwise(F.raise_error(F.concat(F.lit("DateTimeParseException: Text '"), s, F.lit("' could not be parsed"))))
-''')
+''', ("date_fields",))
 
 
 def helper_source(names: set[str]) -> str:

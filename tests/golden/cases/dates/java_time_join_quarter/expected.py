@@ -74,14 +74,12 @@ def java_int_div(a, b) -> Column:
     return wrap_int(F.call_function("div", _col(a), _col(b)))
 
 
-def jt_parse(
-    s: Column, pattern: str, *, date_only: bool = False, skip_bad_record: bool = False
-) -> Column:
-    """LocalDateTime.parse / LocalDate.parse with DateTimeFormatter.ofPattern(pattern), ResolverStyle.SMART.
+def _date_regex(pattern: str, exact_widths: bool) -> tuple[str, list[str]]:
+    """A regex over the numeric fields of a date pattern, and the pattern letter of each group.
 
-    Fields have their exact widths and the whole text must match; SMART moves a day-of-month of
-    29-31 past the month's end back to its last day and reads 24:00:00 as the next midnight.
-    No time zone takes part (TIMESTAMP_NTZ / DATE, like java.time's local types).
+    SimpleDateFormat reads any number of digits and ignores text after the pattern
+    (exact_widths=False); DateTimeFormatter.ofPattern reads as many digits as there are letters
+    and must consume the whole text (exact_widths=True).
     """
     regex, letters, i = "^", [], 0
     while i < len(pattern):
@@ -94,22 +92,36 @@ def jt_parse(
             n = 0
             while i < len(pattern) and pattern[i] == c:
                 i, n = i + 1, n + 1
-            regex += r"(\d{%d})" % n
+            regex += r"(\d{%d})" % n if exact_widths else r"(\d+)"
             letters.append("y" if c == "u" else c)
         else:
             regex += re.escape(c)
             i += 1
-    regex += r"\z"
+    return regex + (r"\z" if exact_widths else ""), letters
+
+
+def _date_fields(s: Column, regex: str, letters: list[str]) -> list[Column]:
+    """Year, month, day, hour, minute, second of the text as ints (NULL where it does not match)."""
 
     def part(letter: str, default: int) -> Column:
         if letter not in letters:
             return F.lit(default)
-        return F.regexp_extract(s, regex, letters.index(letter) + 1).try_cast(
-            "int"
-        )  # "" where no match
+        return F.regexp_extract(s, regex, letters.index(letter) + 1).try_cast("int")
 
-    year, month, day = part("y", 1970), part("M", 1), part("d", 1)
-    hour, minute, second = part("H", 0), part("m", 0), part("s", 0)
+    return [part("y", 1970), part("M", 1), part("d", 1), part("H", 0), part("m", 0), part("s", 0)]
+
+
+def jt_parse(
+    s: Column, pattern: str, *, date_only: bool = False, skip_bad_record: bool = False
+) -> Column:
+    """LocalDateTime.parse / LocalDate.parse with DateTimeFormatter.ofPattern(pattern), ResolverStyle.SMART.
+
+    Fields have their exact widths and the whole text must match; SMART moves a day-of-month of
+    29-31 past the month's end back to its last day and reads 24:00:00 as the next midnight.
+    No time zone takes part (TIMESTAMP_NTZ / DATE, like java.time's local types).
+    """
+    regex, letters = _date_regex(pattern, exact_widths=True)
+    year, month, day, hour, minute, second = _date_fields(s, regex, letters)
     end_of_day = (hour == 24) & (minute == 0) & (second == 0)
     ok = (
         s.rlike(regex)
