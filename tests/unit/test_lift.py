@@ -419,3 +419,21 @@ def test_packed_values_split_again_in_the_reducer(tmp_path):
                       map_out=("Text", "Text"), out=("Text", "Text"))
     assert job.status == "converted"
     assert "Agg sum = sum:long(parse_long(index(split(value, ',', 0), 0)))" in dump
+
+
+def test_side_effects_the_plan_cannot_express_are_named_hand_work(tmp_path):
+    cases = {
+        "wall-clock": "long now = System.currentTimeMillis();\n      context.write(value, new IntWritable((int) now));",
+        "io-in-task": "java.io.BufferedReader r = new java.io.BufferedReader(new java.io.FileReader(\"/etc/x\"));\n"
+                      "      context.write(value, new IntWritable(1));",
+        "randomness": "int r = new java.util.Random().nextInt(3);\n      context.write(value, new IntWritable(r));",
+    }
+    for i, (category, body) in enumerate(cases.items()):
+        job, _ = _plan(tmp_path / str(i), body)
+        assert job.status != "converted"
+        (item,) = job.plan.hand_work
+        assert item.category == category and item.origin.line_start > 0 and item.suggestion, item
+    # static mutable state: a static counter bumped per record
+    job, _ = _plan(tmp_path / "s", "seen++;\n      context.write(value, new IntWritable(seen));",
+                   fields="private static int seen = 0;")
+    assert "state across records" in job.plan.hand_work[0].reason
