@@ -159,10 +159,10 @@ class ExprWriter:
         if op == "to_string":
             return f'{self(args[0])}.cast("string")'
         if op == "concat":
-            parts = []
-            for a in args:  # flatten nested concatenations: "a" + b + "c"
-                parts.extend(a.args if isinstance(a, Call) and a.op == "concat" else [a])
-            return "F.concat(" + ", ".join(self(p) for p in parts) + ")"
+            def flat(a: Expr) -> list[Expr]:  # "a" + b + "c" is one concatenation
+                return [p for x in a.args for p in flat(x)] if isinstance(a, Call) and a.op == "concat" else [a]
+
+            return "F.concat(" + ", ".join(self(p) for p in flat(e)) + ")"
         if op in ("starts_with", "ends_with", "contains"):
             meth = {"starts_with": "startswith", "ends_with": "endswith", "contains": "contains"}[op]
             return f"{self(args[0])}.{meth}({self.operand(args[1], args[0])})"

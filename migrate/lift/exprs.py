@@ -512,7 +512,13 @@ def _binary(node: T.BinaryOperation, scope: Scope) -> Expr:
     op = node.operator
     l, r = lift(node.operandl, scope), lift(node.operandr, scope)
     if op in ("&&", "||"):
-        return BoolOp("boolean", op, (_bool(l, node), _bool(r, node)))
+        l, r = _bool(l, node), _bool(r, node)
+        deciding = op == "||"  # the value that ends the evaluation
+        if isinstance(l, Lit):  # `s == null || ...`: the right side runs only if the left does not decide
+            return l if l.value == deciding else r
+        if isinstance(r, Lit) and r.value != deciding:  # `x || false` is x (x still runs, and may throw)
+            return l
+        return BoolOp("boolean", op, (l, r))
     if op == "+" and "String" in (l.jtype, r.jtype):
         return Call("String", "concat", (to_string(l), to_string(r)))
     if op in ("+", "-", "*", "/", "%"):

@@ -265,7 +265,9 @@ def build(
                         # RidesByWeekdayHour.java:53  context.write(new Text("wd" + weekday + "@" + (hour < 10 ? "0" : "") + hour), ONE);
                         F.struct(
                             F.concat(
-                                F.concat(F.lit("wd"), F.col("weekday").cast("string"), F.lit("@")),
+                                F.lit("wd"),
+                                F.col("weekday").cast("string"),
+                                F.lit("@"),
                                 F.when(F.col("hour") < 10, F.lit("0")).otherwise(F.lit("")),
                                 F.col("hour").cast("string"),
                             ).alias("key"),

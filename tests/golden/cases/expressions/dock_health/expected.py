@@ -195,12 +195,7 @@ def build(spark: SparkSession, input_path: str) -> DataFrame:
     map_output = (
         lines
         # DockHealthLines.java:28  if (line == null || line.startsWith("dock_id") || !line.contains("\t")) {
-        .where(
-            ~(
-                ((F.lit(False) | F.col("value").startswith("dock_id")))
-                | (~(F.col("value").contains("\t")))
-            )
-        )
+        .where(~(F.col("value").startswith("dock_id") | (~(F.col("value").contains("\t")))))
         # DockHealthLines.java:31  String[] f = line.split("\t");
         .withColumn("f", java_split(F.col("value"), "\t"))
         # DockHealthLines.java:32  float bikes = Float.parseFloat(f[3]);
@@ -239,47 +234,25 @@ def build(spark: SparkSession, input_path: str) -> DataFrame:
         .select(
             F.lit(None).cast("string").alias("key"),
             F.concat(
-                F.concat(
-                    F.concat(
-                        F.concat(
-                            F.concat(
-                                F.concat(
-                                    F.concat(
-                                        F.concat(
-                                            F.concat(
-                                                F.concat(
-                                                    java_int_mul(
-                                                        java_parse_int(F.col("f")[0]), 10
-                                                    ).cast("string"),
-                                                    F.lit("|"),
-                                                    F.upper(F.col("f")[1]),
-                                                ),
-                                                F.lit("|"),
-                                                F.col("when"),
-                                            ),
-                                            F.lit("|"),
-                                            F.col("level"),
-                                        ),
-                                        F.lit("|"),
-                                        java_floor(F.col("score")).cast("string"),
-                                    ),
-                                    F.lit("|"),
-                                    java_ceil((F.col("fill") * 10.0)).cast("string"),
-                                ),
-                                F.lit("|"),
-                                F.pow(F.col("free").cast("double"), F.lit(2.0)).cast("string"),
-                            ),
-                            F.lit("|"),
-                            F.greatest(F.col("free"), java_double_to_int(F.col("bikes"))).cast(
-                                "string"
-                            ),
-                        ),
-                        F.lit("|"),
-                        (java_min(F.col("fill"), F.lit(0.75)) * 1.5).cast("string"),
-                    ),
-                    F.lit("|"),
-                    F.when(F.col("evening"), F.lit("evening")).otherwise(F.lit("day")),
-                ),
+                java_int_mul(java_parse_int(F.col("f")[0]), 10).cast("string"),
+                F.lit("|"),
+                F.upper(F.col("f")[1]),
+                F.lit("|"),
+                F.col("when"),
+                F.lit("|"),
+                F.col("level"),
+                F.lit("|"),
+                java_floor(F.col("score")).cast("string"),
+                F.lit("|"),
+                java_ceil((F.col("fill") * 10.0)).cast("string"),
+                F.lit("|"),
+                F.pow(F.col("free").cast("double"), F.lit(2.0)).cast("string"),
+                F.lit("|"),
+                F.greatest(F.col("free"), java_double_to_int(F.col("bikes"))).cast("string"),
+                F.lit("|"),
+                (java_min(F.col("fill"), F.lit(0.75)) * 1.5).cast("string"),
+                F.lit("|"),
+                F.when(F.col("evening"), F.lit("evening")).otherwise(F.lit("day")),
                 F.lit("|"),
                 F.octet_length(F.col("value")).cast("string"),
             ).alias("value"),
