@@ -231,6 +231,10 @@ class FoldLifter:
             if promote(arg.jtype, t) != t:
                 raise Unsupported(st, f"compound assignment narrows a {arg.jtype} into the {t} `{name}`")
             arg = widen(arg, t)
+        if fn == "sum" and t == "float":
+            raise Unsupported(st, f"`{name}` sums floats in float precision; Spark's sum of a float column "
+                                  "works in double and would print other digits",
+                              "decide whether the float rounding matters; if not, declare the sum a double")
         floating = t in ("double", "float")
         if fn in ("max_if", "min_if"):
             fn = (fn[:3] + "_nonnan") if floating else fn[:3]

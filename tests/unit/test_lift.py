@@ -437,3 +437,16 @@ def test_side_effects_the_plan_cannot_express_are_named_hand_work(tmp_path):
     job, _ = _plan(tmp_path / "s", "seen++;\n      context.write(value, new IntWritable(seen));",
                    fields="private static int seen = 0;")
     assert "state across records" in job.plan.hand_work[0].reason
+
+
+def test_float_sum_in_a_reducer_is_declined(tmp_path):
+    red = """  public static class R extends Reducer<Text, FloatWritable, Text, FloatWritable> {
+    protected void reduce(Text key, Iterable<FloatWritable> values, Context context) throws IOException, InterruptedException {
+      float s = 0;
+      for (FloatWritable v : values) { s += v.get(); }
+      context.write(key, new FloatWritable(s));
+    }
+  }"""
+    job, _ = _plan(tmp_path, "context.write(value, new FloatWritable(0.1f));", red,
+                   map_out=("Text", "FloatWritable"), out=("Text", "FloatWritable"))
+    assert job.status == "partial" and "float precision" in job.plan.hand_work[0].reason
