@@ -144,6 +144,10 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
         else:
             add("missing-source", spec.origin, f"reducer {reducer_fq} is neither in the repository nor a Hadoop library class",
                 "add its source to the scanned folder", "P2")
+        if map_key_t in ("double", "float") and reduce is not None:
+            add("key-semantics", spec.origin, f"{map_key_t} map output keys: Hadoop's DoubleWritable/FloatWritable "
+                "compare -0.0 and 0.0 as different keys, Spark groups them together",
+                "group by the key's text (F.col('key').cast('string')) and sort by its number", "P1")
         if spec.reduces > 1:
             add("output-layout", at("setNumReduceTasks"), f"Hadoop split the output over {spec.reduces} part files by key hash; "
                 "the script writes one file sorted by key", "if readers depend on the part files, repartition by key", "P1")

@@ -450,3 +450,10 @@ def test_float_sum_in_a_reducer_is_declined(tmp_path):
     job, _ = _plan(tmp_path, "context.write(value, new FloatWritable(0.1f));", red,
                    map_out=("Text", "FloatWritable"), out=("Text", "FloatWritable"))
     assert job.status == "partial" and "float precision" in job.plan.hand_work[0].reason
+
+
+def test_double_keys_are_declined_for_grouping(tmp_path):
+    # Hadoop source: DoubleWritable.compareTo uses Double.compare, so -0.0 and 0.0 are two keys
+    job, _ = _plan(tmp_path, "context.write(new DoubleWritable(1.0), new IntWritable(1));",
+                   map_out=("DoubleWritable", "IntWritable"), out=("DoubleWritable", "IntWritable"))
+    assert "key-semantics" in [h.category for h in job.plan.hand_work]
