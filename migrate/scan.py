@@ -35,6 +35,10 @@ def scan_repo(root: Path, progress=None) -> RepoScan:
         if progress:
             progress(path)
     index = ClassIndex(files)
+    for kept, ignored in index.duplicates:
+        errors.append(ParseFailure(ignored.file.path, ignored.line_start,
+                                   f"class {ignored.fqcn} is defined again here (first in {kept.file.path}); "
+                                   "only the first definition is converted: scan the modules one at a time"))
     classify(index)
     specs, problems = read_drivers(index)
     for spec in specs:  # roles that only the driver's use reveals

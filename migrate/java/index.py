@@ -83,6 +83,7 @@ class ClassIndex:
         self.classes: dict[str, ClassInfo] = {}
         self.imports: dict[str, list[javalang.tree.Import]] = {}
         self.enums: dict[str, str] = {}  # fully qualified name -> binary name (Outer$Inner), for counters
+        self.duplicates: list[tuple[ClassInfo, ClassInfo]] = []  # (kept, ignored) same name in two files
         for f in files:
             pkg = f.tree.package.name if f.tree.package else ""
             for t in f.tree.types:
@@ -97,6 +98,9 @@ class ClassIndex:
         start = node.position.line if node.position else node_lines(node)[0]
         end = _class_end(f, start, node_lines(node)[1])
         info = ClassInfo(node.name, fq, pkg, f, node, outer.fqcn if outer else None, start, end)
+        if fq in self.classes:  # e.g. two build modules with the same class: keep the first, report the other
+            self.duplicates.append((self.classes[fq], info))
+            return
         self.classes[fq] = info
         self.imports[fq] = list(f.tree.imports)
         for member in node.body:

@@ -98,3 +98,10 @@ def test_reconvert_never_replaces_hand_edits_or_foreign_files(tmp_path):
     assert main(["convert", str(repo), "-o", str(mine), "--force"]) == 0
     assert (mine / "report.md").read_text() == "my notes"
     assert (mine / "report.mrlift-new.md").exists() and (mine / "main.py").exists()
+
+
+def test_a_class_defined_twice_is_reported_not_silently_replaced(tmp_path):
+    scan = scan_text(tmp_path, {"a/Main.java": GOOD, "b/Main.java": GOOD})
+    assert len(scan.jobs) == 1
+    (err,) = scan.errors
+    assert err.path == "b/Main.java" and "defined again" in err.message and "a/Main.java" in err.message
