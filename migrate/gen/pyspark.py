@@ -15,6 +15,39 @@ SPARK_TYPES = {"int": "int", "long": "bigint", "double": "double", "float": "flo
 MIN_VALUE = {"int": -2147483648, "long": -9223372036854775808}
 TEMPLATES = Path(__file__).resolve().parent.parent.parent / "templates"
 
+# Plan operations spelled directly over their spelled arguments: op -> (template, helper needed).
+PLAIN_CALLS = {
+    "size": ("F.size({0})", None),
+    "trim": ("java_trim({0})", "java_trim"),
+    "lower": ("F.lower({0})", None),
+    "upper": ("F.upper({0})", None),
+    "to_string": ('{0}.cast("string")', None),
+    "char_string": ("{0}", None),
+    "is_empty": ("(F.length({0}) == 0)", None),
+    "utf8_length": ("F.octet_length({0})", None),
+    "length": ("java_length({0})", "java_length"),
+    "greatest": ("F.greatest({0}, {1})", None),
+    "least": ("F.least({0}, {1})", None),
+    "index_of": ("java_index_of({0}, {1})", "java_index_of"),
+    "last_index_of": ("java_last_index_of({0}, {1})", "java_last_index_of"),
+    "equals_ignore_case": ("java_equals_ignore_case({0}, {1})", "java_equals_ignore_case"),
+    "java_max": ("java_max({0}, {1})", "java_max_min"),
+    "java_min": ("java_min({0}, {1})", "java_max_min"),
+    "round": ("java_round({0})", "java_round"),
+    "floor": ("java_floor({0})", "java_floor"),
+    "ceil": ("java_ceil({0})", "java_ceil"),
+    "sqrt": ("F.sqrt({0})", None),
+    "rint": ("F.rint({0})", None),
+    "pow": ("F.pow({0}, {1})", None),
+    "double_to_int": ("java_double_to_int({0})", "java_double_to_integral"),
+    "double_to_long": ("java_double_to_long({0})", "java_double_to_integral"),
+    "long_to_int": ("wrap_int({0})", "wrap_int"),
+    "double_to_float": ('{0}.cast("float")', None),
+    "date_millis": ("F.unix_millis({0})", None),
+    "is_not_null": ("{0}.isNotNull()", None),
+    "is_null": ("{0}.isNull()", None),
+}
+
 
 def _templates_dir() -> Path:
     """templates/ at the top of a checkout, or inside the installed wheel (shared-data)."""
@@ -127,6 +160,11 @@ class ExprWriter:
     def visit_Call(self, e: Call) -> str:
         args = e.args
         op = e.op
+        if op in PLAIN_CALLS:
+            template, helper = PLAIN_CALLS[op]
+            if helper:
+                self.helpers.add(helper)
+            return template.format(*(self(a) for a in args))
         skip = ", skip_bad_record=True" if e.on_error == "null" else ""
         if op in ("split", "split_limit"):
             regex = args[1].value
@@ -146,18 +184,9 @@ class ExprWriter:
                 return f"F.get({self(args[0])}, {self(args[1]) if not isinstance(args[1], Lit) else args[1].value})"
             idx = args[1].value if isinstance(args[1], Lit) else self(args[1])
             return f"{self(args[0])}[{idx}]"
-        if op == "size":
-            return f"F.size({self(args[0])})"
-        if op == "trim":
-            self.helpers.add("java_trim")
-            return f"java_trim({self(args[0])})"
-        if op in ("lower", "upper"):
-            return f"F.{op}({self(args[0])})"
         if op in ("parse_int", "parse_long", "parse_double", "parse_float"):
             self.helpers.add("java_" + op)
             return f"java_{op}({self(args[0])}{skip})"
-        if op == "to_string":
-            return f'{self(args[0])}.cast("string")'
         if op == "concat":
             def flat(a: Expr) -> list[Expr]:  # "a" + b + "c" is one concatenation
                 return [p for x in a.args for p in flat(x)] if isinstance(a, Call) and a.op == "concat" else [a]
@@ -166,15 +195,6 @@ class ExprWriter:
         if op in ("starts_with", "ends_with", "contains"):
             meth = {"starts_with": "startswith", "ends_with": "endswith", "contains": "contains"}[op]
             return f"{self(args[0])}.{meth}({self.operand(args[1], args[0])})"
-        if op == "is_empty":
-            return f"(F.length({self(args[0])}) == 0)"
-        if op == "utf8_length":
-            return f"F.octet_length({self(args[0])})"
-        if op == "length":
-            self.helpers.add("java_length")
-            return f"java_length({self(args[0])})"
-        if op in ("greatest", "least"):
-            return f"F.{op}({self(args[0])}, {self(args[1])})"
         if op == "abs":
             if e.jtype in MIN_VALUE:
                 self.helpers.add("java_abs")
@@ -193,15 +213,6 @@ class ExprWriter:
                 return f"java_substring({s_}, {begin}, {end}{skip})"
             end = f", {self(args[2])}" if len(args) > 2 else ""
             return f"java_substring({s_}, {begin}{end}{skip})"
-        if op == "char_string":
-            return self(args[0])
-        if op in ("index_of", "last_index_of"):
-            helper = "java_" + op
-            self.helpers.add(helper)
-            return f"{helper}({self(args[0])}, {self(args[1])})"
-        if op == "equals_ignore_case":
-            self.helpers.add("java_equals_ignore_case")
-            return f"java_equals_ignore_case({self(args[0])}, {self(args[1])})"
         if op == "is_blank":
             return f'{self(args[0])}.rlike(r"^\\p{{javaWhitespace}}*\\z")'
         if op == "matches":
@@ -214,24 +225,6 @@ class ExprWriter:
             return f"F.regexp_replace({self(args[0])}, {args[1].value!r}, {args[2].value!r})"
         if op == "format":
             return f"F.format_string({args[0].value!r}, {', '.join(self(a) for a in args[1:])})"
-        if op in ("java_max", "java_min"):
-            self.helpers.add("java_max_min")
-            return f"{op}({self(args[0])}, {self(args[1])})"
-        if op in ("round", "floor", "ceil"):
-            self.helpers.add("java_" + op)
-            return f"java_{op}({self(args[0])})"
-        if op in ("sqrt", "rint"):
-            return f"F.{op}({self(args[0])})"
-        if op == "pow":
-            return f"F.pow({self(args[0])}, {self(args[1])})"
-        if op in ("double_to_int", "double_to_long"):
-            self.helpers.add("java_double_to_integral")
-            return f"java_{op}({self(args[0])})"
-        if op == "long_to_int":
-            self.helpers.add("wrap_int")
-            return f"wrap_int({self(args[0])})"
-        if op == "double_to_float":
-            return f'{self(args[0])}.cast("float")'
         if op == "date_parse":
             self.helpers.add("sdf_parse")
             self.dates = True
@@ -245,8 +238,6 @@ class ExprWriter:
             fn = {"year": "F.year({})", "month_value": "F.month({})", "day": "F.dayofmonth({})", "hour": "F.hour({})",
                   "minute": "F.minute({})", "second": "F.second({})", "iso_day_of_week": "(F.weekday({}) + 1)"}
             return fn[args[1].value].format(self(args[0]))
-        if op == "date_millis":
-            return f"F.unix_millis({self(args[0])})"
         if op == "date_field":
             self.dates = True
             fn = {"year": "F.year({})", "month": "(F.month({}) - 1)", "day": "F.dayofmonth({})", "hour": "F.hour({})",
@@ -259,10 +250,6 @@ class ExprWriter:
             return f"F.when({bare(self(args[0]))}, {self(args[1])})"
         if op == "if_else":
             return f"F.when({bare(self(args[0]))}, {self(args[1])}).otherwise({self(args[2])})"
-        if op == "is_not_null":
-            return f"{self(args[0])}.isNotNull()"
-        if op == "is_null":
-            return f"{self(args[0])}.isNull()"
         raise TypeError(f"the generator has no spelling for operation {op!r}")
 
 

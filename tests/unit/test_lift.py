@@ -457,3 +457,12 @@ def test_double_keys_are_declined_for_grouping(tmp_path):
     job, _ = _plan(tmp_path, "context.write(new DoubleWritable(1.0), new IntWritable(1));",
                    map_out=("DoubleWritable", "IntWritable"), out=("DoubleWritable", "IntWritable"))
     assert "key-semantics" in [h.category for h in job.plan.hand_work]
+
+
+def test_every_plan_expression_node_has_a_generator_handler():
+    import migrate.plan as P
+    from migrate.gen.pyspark import ExprWriter
+
+    nodes = [c for c in vars(P).values() if isinstance(c, type) and issubclass(c, P.Expr) and c is not P.Expr]
+    missing = [c.__name__ for c in nodes if not hasattr(ExprWriter, f"visit_{c.__name__}")]
+    assert nodes and not missing, missing
