@@ -333,6 +333,19 @@ class Plan:
 # ----------------------------------------------------------------------------- text dump
 
 
+def walk(e: Expr | None):
+    """The expression and every sub-expression in it, depth first."""
+    if e is None:
+        return
+    yield e
+    for a in getattr(e, "args", ()) or ():
+        yield from walk(a)
+    for name in ("left", "right", "arg", "cond", "then", "other"):
+        sub = getattr(e, name, None)
+        if isinstance(sub, Expr):
+            yield from walk(sub)
+
+
 def dump_expr(e: Expr | None) -> str:
     """A compact, stable text form of an expression (used by rule tests)."""
     if e is None:

@@ -153,8 +153,7 @@ class ExprWriter:
             return f"F.lit({_fold(e)})"
         name = {"+": "add", "-": "sub", "*": "mul", "/": "div"}[e.op]
         helper = f"java_{e.jtype}_{name}"
-        self.helpers.add("java_int_div" if helper == "java_int_div" else "java_long_div" if helper == "java_long_div"
-                         else f"java_{e.jtype}_arith")
+        self.helpers.add(helper if e.op == "/" else f"java_{e.jtype}_arith")
         return f"{helper}({self.operand(e.left, e.right)}, {self.operand(e.right, e.left)})"
 
     def visit_Call(self, e: Call) -> str:

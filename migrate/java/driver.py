@@ -113,6 +113,8 @@ class _DriverReader:
         self.order: list[str] = []
         self.submitted: list[str] = []
         self.method_name = "main"
+        self.pending_delete: list[PathRef] = []  # paths deleted before any job names its output
+        self.pending_conf: dict[str, str] = {}  # settings made on a Configuration before the job exists
 
     # -- walking
     def run(self, method: T.MethodDeclaration) -> None:
@@ -236,8 +238,8 @@ class _DriverReader:
             tool = next((a for a in args if isinstance(a, T.ClassCreator)), None)
             if tool is not None:
                 target_cls = self.index.get(self.index.resolve(tool.type.name, self.cls))
-                if target_cls is not None and target_cls is not self.cls or target_cls is self.cls:
-                    runs = [mm for mm in (target_cls.methods("run") if target_cls else []) if len(mm.parameters) == 1]
+                if target_cls is not None:
+                    runs = [mm for mm in target_cls.methods("run") if len(mm.parameters) == 1]
                     if runs:
                         self.method_name = "run"
                         saved = self.env
@@ -258,7 +260,8 @@ class _DriverReader:
             for spec in self.specs.values():
                 if spec.output is not None and p[0] == "path" and p[1] == spec.output:
                     spec.deletes_output = True
-            self.pending_delete = getattr(self, "pending_delete", []) + ([p[1]] if p[0] == "path" else [])
+            if p[0] == "path":
+                self.pending_delete.append(p[1])
             return ("unknown", "bool")
         if recv[0] == "static" and recv[1].split(".")[-1] in ("FileInputFormat", "FileOutputFormat", "TextInputFormat",
                                                                "TextOutputFormat", "KeyValueTextInputFormat"):
@@ -278,7 +281,6 @@ class _DriverReader:
                 if spec is not None and k[0] == "str":
                     spec.conf[k[1]] = str(v[1]) if v[0] in ("str", "int", "lit") else f"<{v[1]}>"
                 elif spec is None and k[0] == "str":
-                    self.pending_conf = getattr(self, "pending_conf", {})
                     self.pending_conf[k[1]] = str(v[1]) if v[0] in ("str", "int", "lit") else f"<{v[1]}>"
             return ("unknown", m)
         if m not in _HARMLESS and recv[0] not in ("unknown", "obj", "static", "self"):
@@ -298,7 +300,7 @@ class _DriverReader:
         api = "mapred" if getattr(getattr(where, "type", None), "name", "") == "JobConf" else "mapreduce"
         spec = JobSpec(self.cls, self.method_name, name or self.cls.name, api,
                        Span(self.cls.file.path, start or self.cls.line_start, end or self.cls.line_end))
-        spec.conf.update(getattr(self, "pending_conf", {}))
+        spec.conf.update(self.pending_conf)
         self.specs[jid] = spec
         self.order.append(jid)
         return ("job", jid)
@@ -307,7 +309,7 @@ class _DriverReader:
         if jid not in self.submitted:
             self.submitted.append(jid)
         spec = self.specs[jid]
-        if spec.output is not None and spec.output in getattr(self, "pending_delete", []):
+        if spec.output is not None and spec.output in self.pending_delete:
             spec.deletes_output = True
 
     def _only_spec(self) -> JobSpec | None:
@@ -367,7 +369,7 @@ class _DriverReader:
                 spec.inputs.append(ref)
         elif m == "setOutputPath" and len(args) > 1:
             spec.output = self._path_ref(self._value(args[1], None), args[1])
-            if spec.output in getattr(self, "pending_delete", []):
+            if spec.output in self.pending_delete:
                 spec.deletes_output = True
         elif m in ("setInputPathFilter", "setInputDirRecursive", "setMinInputSplitSize", "setMaxInputSplitSize",
                    "setCompressOutput", "setOutputCompressorClass"):

@@ -297,11 +297,7 @@ def _invocation(node: T.MethodInvocation, scope: Scope) -> Expr:
     if q in ("LocalDateTime", "LocalDate") and m == "parse" and len(args) == 2:
         from migrate.lift import dates
 
-        fmt = scope.env.get(args[1].member) if isinstance(args[1], T.MemberReference) and not args[1].qualifier else None
-        if isinstance(args[1], T.MethodInvocation) and args[1].qualifier == "DateTimeFormatter":
-            fmt = _java_time_formatter(args[1])
-        if not isinstance(fmt, dates.JavaTimeFormat):
-            raise Unsupported(node, f"{q}.parse with a formatter the converter does not know")
+        fmt = _formatter_argument(args[1], scope, node)
         text = lift(args[0], scope)
         return _selectors(dates.java_time_parse(q, text, fmt, scope.on_error("jt_parse")), node.selectors or [],
                           scope, node)
@@ -455,6 +451,18 @@ def _java_time_formatter(call: T.MethodInvocation):
     return dates.JavaTimeFormat(pattern)
 
 
+def _formatter_argument(arg, scope: Scope, node):
+    """A DateTimeFormatter passed as an argument: a known field/local, or ofPattern("...") written inline."""
+    from migrate.lift import dates
+
+    fmt = scope.env.get(arg.member) if isinstance(arg, T.MemberReference) and not arg.qualifier else None
+    if isinstance(arg, T.MethodInvocation) and arg.qualifier == "DateTimeFormatter":
+        fmt = _java_time_formatter(arg)
+    if not isinstance(fmt, dates.JavaTimeFormat):
+        raise Unsupported(node, "a DateTimeFormatter the converter does not know")
+    return fmt
+
+
 def _java_time_method(recv: Expr, node: T.MethodInvocation, scope: Scope) -> Expr:
     """LocalDateTime / LocalDate getters and format(fmt); DayOfWeek.getValue() (Monday = 1)."""
     from migrate.lift import dates
@@ -471,12 +479,7 @@ def _java_time_method(recv: Expr, node: T.MethodInvocation, scope: Scope) -> Exp
     if m == "getDayOfWeek" and not args:
         return Call("DayOfWeek", "jt_day_of_week", (recv,))
     if m == "format" and len(args) == 1:
-        fmt = scope.env.get(args[0].member) if isinstance(args[0], T.MemberReference) and not args[0].qualifier else None
-        if isinstance(args[0], T.MethodInvocation) and args[0].qualifier == "DateTimeFormatter":
-            fmt = _java_time_formatter(args[0])
-        if not isinstance(fmt, dates.JavaTimeFormat):
-            raise Unsupported(node, "format with a formatter the converter does not know")
-        return dates.java_time_format(recv, fmt, node)
+        return dates.java_time_format(recv, _formatter_argument(args[0], scope, node), node)
     raise Unsupported(node, f"{recv.jtype}.{m}() is not lifted yet")
 
 
@@ -653,7 +656,7 @@ def inline_call(node: T.MethodInvocation, scope: Scope) -> Expr:
         if want is None:
             raise Unsupported(node, f"helper {decl.name}() takes a {getattr(p.type, 'name', '?')}")
         env[p.name] = _widen(v, want) if v.jtype != want and {v.jtype, want} <= NUMERIC else v
-    inner = Scope(env, scope.caught, scope.file, scope.notes, scope.methods, scope.depth + 1, scope.enums)
+    inner = replace(scope, env=env, depth=scope.depth + 1)
     result = _body_value(list(decl.body or []), inner, decl)
     want = _java_type(decl.return_type) if decl.return_type is not None else None
     if want is None:
@@ -676,12 +679,9 @@ def _body_value(stmts: list, scope: Scope, decl) -> Expr:
             return lift(st.expression, scope)
         if isinstance(st, T.IfStatement):
             c = lift(st.condition, scope)
-            then = _body_value(_block_of(st.then_statement), Scope(dict(scope.env), scope.caught, scope.file,
-                                                                 scope.notes, scope.methods, scope.depth,
-                                                                 scope.enums), decl)
+            then = _body_value(_block_of(st.then_statement), replace(scope, env=dict(scope.env)), decl)
             rest = _block_of(st.else_statement) if st.else_statement is not None else stmts[i + 1:]
-            other = _body_value(rest, Scope(dict(scope.env), scope.caught, scope.file, scope.notes, scope.methods,
-                                            scope.depth, scope.enums), decl)
+            other = _body_value(rest, replace(scope, env=dict(scope.env)), decl)
             t = then.jtype if then.jtype == other.jtype else promote(then.jtype, other.jtype) \
                 if {then.jtype, other.jtype} <= NUMERIC else None
             if t is None:

@@ -21,7 +21,8 @@ from migrate.lift.exprs import (CATCH_ALL, WRITABLE_OF, Opaque, Scope, Tokenizer
 from migrate.lift import dates
 from migrate.lift.combining import combining_update, map_fields
 from migrate.lift.counters import counter_update, is_counter_call
-from migrate.plan import BoolOp, Call, Col, Compare, Count, Emit, Explode, Expr, Filter, HandWork, Let, Lit, Project, Span, Step
+from migrate.plan import (BoolOp, Call, Col, Compare, Count, Emit, Explode, Expr, Filter, HandWork, Let, Lit, Project,
+                          Span, Step, walk)
 
 SKIP_NOTE = "catch: skip the record"
 _DECLARED = {"int": "int", "long": "long", "double": "double", "float": "float", "boolean": "boolean",
@@ -69,17 +70,7 @@ def _not(a: Expr) -> Expr:
 
 def _has_null_on_error(e) -> list[Expr]:
     """Sub-expressions that become NULL where Java would have thrown (inside catch-and-skip)."""
-    out = []
-    if isinstance(e, Call) and e.on_error == "null":
-        out.append(e)
-    for name in ("args",):
-        for a in getattr(e, name, ()) or ():
-            out.extend(_has_null_on_error(a))
-    for name in ("left", "right", "arg", "cond", "then", "other"):
-        sub = getattr(e, name, None)
-        if isinstance(sub, Expr):
-            out.extend(_has_null_on_error(sub))
-    return out
+    return [x for x in walk(e) if isinstance(x, Call) and x.on_error == "null"]
 
 
 def _conjuncts(e: Expr | None) -> list[Expr]:

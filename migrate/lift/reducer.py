@@ -17,7 +17,7 @@ from migrate.java.index import ClassInfo, node_lines
 from migrate.lift.exprs import (WRITABLE_OF, Opaque, Scope, Unsupported, Writable, lift, widen, writable_creator,
                                 writable_set, write_argument)
 from migrate.lift.mapper import class_constants, helper_methods
-from migrate.plan import NUMERIC, Agg, AggRef, BoolOp, Col, Expr, Group, HandWork, Lit, Span
+from migrate.plan import NUMERIC, Agg, AggRef, BoolOp, Col, Expr, Group, HandWork, Lit, Span, walk
 
 _MIN_OF = {"int": -2147483648, "long": -9223372036854775808, "double": float("-inf"), "float": float("-inf")}
 _MAX_OF = {"int": 2147483647, "long": 9223372036854775807, "double": float("inf"), "float": float("inf")}
@@ -65,10 +65,10 @@ class FoldLifter:
         node, k, v, guard = self.emits[0]
         a, b = node_lines(self.method)
         if not self.seen_loop:
-            if any(isinstance(x, AggRef) for x in _walk(v)) or any(isinstance(x, AggRef) for x in _walk(k)):
+            if any(isinstance(x, AggRef) for x in walk(v)) or any(isinstance(x, AggRef) for x in walk(k)):
                 raise Unsupported(node, "write depends on accumulators but there is no loop over values")
             return Group(Span(self.file, a, b), "distinct keys", (), k, v, distinct=True, having=guard)
-        used = {x.name for e in (k, v, guard) for x in _walk(e) if isinstance(x, AggRef)}
+        used = {x.name for e in (k, v, guard) for x in walk(e) if isinstance(x, AggRef)}
         aggs = tuple(self.aggs[n] for n in self.aggs if n in used)
         return Group(Span(self.file, a, b), "fold over values", aggs, k, v, having=guard)
 
@@ -247,16 +247,3 @@ class FoldLifter:
 
 def _is_ref(n, name: str) -> bool:
     return isinstance(n, T.MemberReference) and n.member == name and not n.qualifier and not n.selectors
-
-
-def _walk(e):
-    if e is None:
-        return
-    yield e
-    for attr in ("args",):
-        for a in getattr(e, attr, ()) or ():
-            yield from _walk(a)
-    for attr in ("left", "right", "arg", "cond", "then", "other"):
-        sub = getattr(e, attr, None)
-        if isinstance(sub, Expr):
-            yield from _walk(sub)
