@@ -11,7 +11,7 @@ import black
 from migrate.gen.pyspark import render_script
 from migrate.java.source import ParseFailure
 from migrate.lift.job import JobResult
-from migrate.plan import Group, Identity
+from migrate.plan import EachValue, Group, Identity
 from migrate.report.render import build_report, to_json, to_markdown
 from migrate.scan import RepoScan, script_name
 
@@ -81,8 +81,12 @@ def summary(job: JobResult) -> str:
     elif isinstance(r, Group) and r.distinct:
         what = "the distinct keys the mapper emits, sorted"
     elif isinstance(r, Group):
-        fns = ", ".join(sorted({a.fn.split("_")[0] for a in r.aggs})) or "a fold"
-        what = f"per key: {fns} of the mapper's values, sorted by key"
+        fns = ", ".join(sorted({{"any": "any/all", "all": "any/all"}.get(a.fn, a.fn.split("_")[0])
+                                for a in r.aggs})) or "a fold"
+        writes = f", {len(r.emits)} writes per key" if len(r.emits) > 1 else ""
+        what = f"per key: {fns} of the mapper's values{writes}, sorted by key"
+    elif isinstance(r, EachValue):
+        what = "the mapper's values, each written (or filtered) by the reducer as it meets them, sorted by key"
     elif isinstance(r, Identity):
         what = "the mapper's pairs sorted by key"
     else:

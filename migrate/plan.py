@@ -222,7 +222,7 @@ class Agg:
     """One aggregate over the values of a key: sum, count, min, max, …"""
 
     name: str
-    fn: str  # "sum" | "count" | "min" | "max" | "min_nonnan" | "max_nonnan"
+    fn: str  # sum, count, min, max, min_nonnan, max_nonnan, min_nan, any, all, collect_set
     arg: Expr | None
     jtype: str  # Java type of the accumulator (decides overflow wrap)
     init: Any = None  # the accumulator's initial value, folded in when it can matter
@@ -232,17 +232,38 @@ class Agg:
 
 @dataclass(frozen=True)
 class Group(Step):
-    """The shuffle + reduce: group map output by `key`, compute `aggs`, write `output`.
+    """The shuffle + reduce: group map output by `key`, compute `aggs`, then the reducer's writes.
 
-    `output` is the reducer's final write: value expression over AggRef nodes (None =
-    NullWritable). `distinct` marks a reducer that ignores its values.
+    `emits` are the writes after the loop, in Java's order: key and value expressions over
+    AggRef nodes and the key (None = NullWritable), each with the guard it is written under.
+    `distinct` marks a reducer that ignores its values.
     """
 
     aggs: tuple[Agg, ...]
-    key_out: Expr | None
-    value_out: Expr | None
+    emits: tuple[Emit, ...]
     distinct: bool = False
-    having: Expr | None = None  # the reducer writes only when this holds
+    lets: tuple[Let, ...] = ()  # locals computed per value inside the loop: columns before the shuffle
+
+    def __post_init__(self) -> None:
+        if not self.emits:
+            raise ValueError("a Group needs at least one write")
+
+    @property
+    def single(self) -> Emit | None:
+        """The one unguarded write, when the reducer writes exactly once per key."""
+        return self.emits[0] if len(self.emits) == 1 and self.emits[0].guard is None else None
+
+
+@dataclass(frozen=True)
+class EachValue(Step):
+    """A reducer that writes inside its loop over values (identity, filter, per-value map).
+
+    Each emit is evaluated per value (columns `key` and `value`); Hadoop writes them sorted by
+    key, the values of one key in no defined order.
+    """
+
+    emits: tuple[Emit, ...]
+    lets: tuple[Let, ...] = ()
 
 
 @dataclass(frozen=True)
@@ -326,8 +347,8 @@ class Plan:
         if not self.map_steps or not isinstance(self.map_steps[-1], Project):
             if not self.hand_work:
                 raise ValueError("map steps must end in a Project unless hand work stands in for them")
-        if self.reduce is not None and not isinstance(self.reduce, (Group, Identity)):
-            raise ValueError("reduce must be a Group or Identity step")
+        if self.reduce is not None and not isinstance(self.reduce, (Group, Identity, EachValue)):
+            raise ValueError("reduce must be a Group, EachValue or Identity step")
 
 
 # ----------------------------------------------------------------------------- text dump
@@ -406,10 +427,18 @@ def _dump_step(s: Step) -> str:
         return "\n".join(lines)
     if isinstance(s, Group):
         lines = ["Group by key" + (" (distinct)" if s.distinct else "")]
+        lines += [f"    {_dump_step(x)}" for x in s.lets]
         for a in s.aggs:
             lines.append(f"    Agg {a.name} = {a.fn}:{a.jtype}({dump_expr(a.arg)}) init={a.init!r}")
-        having = f" if {dump_expr(s.having)}" if s.having is not None else ""
-        lines.append(f"    Out {dump_expr(s.key_out)} -> {dump_expr(s.value_out)}{having}")
+        for e in s.emits:
+            having = f" if {dump_expr(e.guard)}" if e.guard is not None else ""
+            lines.append(f"    Out {dump_expr(e.key)} -> {dump_expr(e.value)}{having}")
+        return "\n".join(lines)
+    if isinstance(s, EachValue):
+        lines = ["For each value (sorted by key)"] + [f"    {_dump_step(x)}" for x in s.lets]
+        for e in s.emits:
+            g = f" if {dump_expr(e.guard)}" if e.guard is not None else ""
+            lines.append(f"    Emit {dump_expr(e.key)} -> {dump_expr(e.value)}{g}")
         return "\n".join(lines)
     if isinstance(s, Identity):
         return "Identity (sorted by key)"

@@ -8,7 +8,7 @@ from pathlib import Path
 import black
 import jinja2
 
-from migrate.plan import (INTEGRAL, Agg, AggRef, Arith, BoolOp, Call, Cast, Col, Compare, Cond, ConfValue, Count, Explode, Expr, Filter, Group, HandWork, Identity, Let, Lit, Plan, Project, Step)
+from migrate.plan import (INTEGRAL, Agg, AggRef, Arith, BoolOp, Call, Cast, Col, Compare, Cond, ConfValue, Count, EachValue, Emit, Explode, Expr, Filter, Group, HandWork, Identity, Let, Lit, Plan, Project, Step)
 
 SPARK_TYPES = {"int": "int", "long": "bigint", "double": "double", "float": "float", "boolean": "boolean",
                "String": "string"}
@@ -286,6 +286,15 @@ def agg_code(a: Agg, x: ExprWriter) -> str:
     if a.fn == "count":
         core = "F.count(F.lit(1))" if not a.init else f"({init_code} + F.count(F.lit(1)))"
         return f'{core}.cast("int")' if a.jtype == "int" else core
+    if a.fn == "count_if":
+        core = f"F.count_if({bare(arg)})" if not a.init else f"({init_code} + F.count_if({bare(arg)}))"
+        return f'{core}.cast("int")' if a.jtype == "int" else core
+    if a.fn == "count_distinct":  # set.size(): Writable values are never null, so nothing is left out
+        return f'F.count_distinct({arg}).cast("int")'
+    if a.fn in ("any", "all"):
+        if a.init == (a.fn == "any"):  # true || ... / false && ...: decided before the first value
+            return f"F.lit({a.init!r})"
+        return f"F.bool_or({bare(arg)})" if a.fn == "any" else f"F.bool_and({bare(arg)})"
     if a.fn == "max":
         return f"F.max({arg})" if neutral_min else f"F.greatest({init_code}, F.max({arg}))"
     if a.fn == "min":
@@ -375,6 +384,7 @@ def build_body(plan: Plan, x: ExprWriter) -> ScriptParts:
         out.append(f"# Reduce side: wide — rows are shuffled so all values of a key meet ({_where(r.origin)})")
         out.append("result = (")
         out.append("    map_output")
+        out.extend("    " + c for s in r.lets for c in _step_code(s, x))
         if r.distinct:
             out.append("    .select(\"key\")")
             out.append("    .distinct()  # the reducer ignores its values: one row per key")
@@ -385,13 +395,17 @@ def build_body(plan: Plan, x: ExprWriter) -> ScriptParts:
                 out.append(f"        # {_where(a.origin)}  {a.note}")
                 out.append(f"        {agg_code(a, x)}.alias(\"{agg_column(a.name)}\"),")
             out.append("    )")
-        if r.having is not None:
-            out.append(f"    .where({bare(x(r.having))})  # the reducer writes only when this holds")
-        k = r.key_out
-        keep_sort = not (isinstance(k, Col) and k.name == "key")
-        sort = ', F.col("key").alias("_sort_key")' if keep_sort else ""
-        key_code = 'F.col("key")' if not keep_sort else f'{x(k)}.alias("key")'
-        out.append(f"    .select({key_code}, {x(r.value_out)}.alias(\"value\"){sort})")
+        out.extend("    " + c for c in _reduce_writes(r.emits, x))
+        out.append(")")
+        out.append("return result")
+    elif isinstance(r, EachValue):
+        out.append("")
+        out.append(f"# Reduce side: the reducer writes inside its loop over values ({_where(r.origin)});")
+        out.append("# the shuffle only brings the keys together: each value is written as the loop wrote it")
+        out.append("result = (")
+        out.append("    map_output")
+        out.extend("    " + c for s in r.lets for c in _step_code(s, x))
+        out.extend("    " + c for c in _reduce_writes(r.emits, x))
         out.append(")")
         out.append("return result")
     elif isinstance(r, Identity):
@@ -410,6 +424,52 @@ def build_body(plan: Plan, x: ExprWriter) -> ScriptParts:
         out[0:0] = lines + [""]
     parts.helpers = ""
     return parts
+
+
+def _reduce_writes(emits: tuple[Emit, ...], x: ExprWriter) -> list[str]:
+    """The reducer's writes as a select: `key`, `value`, plus the hidden sort columns the writer uses.
+
+    Hadoop writes a reducer's output in reduce-key order, and the writes of one reduce() call in
+    the order they ran: `_sort_key` keeps the reduce key when the written key is another
+    expression, `_write` numbers the writes when there are several.
+    """
+    keeps_key = all(isinstance(e.key, Col) and e.key.name == "key" for e in emits)
+    sort = [] if keeps_key else ['F.col("key").alias("_sort_key")']
+    if len(emits) == 1:
+        e = emits[0]
+        lines = [f"# {_where(e.origin)}  {e.note}" + ("  (written only when the condition holds)" if e.guard is not None else "")]
+        if e.guard is not None:
+            lines.append(f".where({bare(x(e.guard))})")
+        key_code = 'F.col("key")' if keeps_key else f'{x(e.key)}.alias("key")'
+        cols = [key_code, x(e.value) + '.alias("value")'] + sort
+        lines.append(f".select({', '.join(cols)})")
+        return lines
+    lines = [f"# {len(emits)} writes per key: one output row for each write whose condition holds, in Java's order",
+             ".select(", "    F.explode(", "        F.filter(", "            F.array("]
+    for i, e in enumerate(emits):
+        # each write prints its own class's toString(), so the values meet as text
+        k, v = _typed(x, e.key, "String" if not keeps_key else e.key.jtype), _typed(x, e.value, "String")
+        struct = f"F.struct({k}.alias(\"key\"), {v}.alias(\"value\"), F.lit({i}).alias(\"_write\"))"
+        lines.append(f"                # {_where(e.origin)}  {e.note}")
+        lines.append(f"                F.when({bare(x(e.guard))}, {struct}),"
+                     if e.guard is not None else f"                {struct},")
+    lines += ["            ),", "            lambda written: written.isNotNull(),", "        )",
+              "    ).alias(\"written\"),", *("    " + c + "," for c in sort), ")",
+              ".select(" + ", ".join(['"written.key"', '"written.value"'] + (['"_sort_key"'] if sort else [])
+                                     + ['"written._write"']) + ")"]
+    return lines
+
+
+def sort_columns(plan: Plan) -> list[str]:
+    """The columns the writer sorts one reducer's output by (see _reduce_writes)."""
+    r = plan.reduce
+    emits = r.emits if isinstance(r, (Group, EachValue)) else ()
+    cols = ["key"]
+    if emits and not all(isinstance(e.key, Col) and e.key.name == "key" for e in emits):
+        cols = ["_sort_key"]
+    if len(emits) > 1:
+        cols.append("_write")
+    return cols
 
 
 def _stub_lines(items: list[HandWork]) -> list[str]:
@@ -519,14 +579,9 @@ def render_script(plan: Plan, header: dict, hand_work: list[HandWork]) -> str:
         build_call=", ".join(f"args.{p}" for p in plan.source.params)
         + (", conf=settings(args.defines)" if x.settings else "") + (", counters=counters" if x.counters else ""),
         counters=x.counters, dates=x.dates,
-        sort_column="_sort_key" if _has_sort_key(plan) else "key",
+        sort_columns=sort_columns(plan),
     )
     return format_code(text)
-
-
-def _has_sort_key(plan: Plan) -> bool:
-    r = plan.reduce
-    return isinstance(r, Group) and not (isinstance(r.key_out, Col) and r.key_out.name == "key")
 
 
 def format_code(text: str) -> str:

@@ -55,7 +55,7 @@ def library_reducer(fqcn: str | None, key_type: str, value_type: str) -> Step | 
         t = SUM_REDUCERS[fqcn]
         where = Span(f"{fqcn.rsplit('.', 1)[1]} (ships with Hadoop)", 0, 0)
         agg = Agg("sum", "sum", Col(value_type, "value"), t, 0, where, "sum of the values")
-        return Group(where, "sum of values per key", (agg,), Col(key_type, "key"), AggRef(t, "sum"))
+        return Group(where, "sum of values per key", (agg,), (Emit(where, "write(key, sum)", Col(key_type, "key"), AggRef(t, "sum")),))
     if fqcn in IDENTITY_REDUCERS:
         return Identity(LIB, "identity reduce: pairs pass through sorted by key")
     return None

@@ -21,9 +21,9 @@ from migrate.plan import INTEGRAL, NO_SPAN, NUMERIC, Arith, BoolOp, Call, Cast, 
 class Unsupported(Exception):
     """A Java construct no rule understands; carries the line and a reason for the report."""
 
-    def __init__(self, node, reason: str, suggestion: str = ""):
+    def __init__(self, node, reason: str, suggestion: str = "", category: str = ""):
         super().__init__(reason)
-        self.node, self.reason, self.suggestion = node, reason, suggestion
+        self.node, self.reason, self.suggestion, self.category = node, reason, suggestion, category
 
     @property
     def line(self) -> int:

@@ -15,7 +15,7 @@ from migrate.lift.config import task_constants
 from migrate.lift.limits import explain
 from migrate.lift.mapper import MapBodyLifter, class_constants
 from migrate.lift.reducer import FoldLifter
-from migrate.plan import (AggRef, Cast, Col, Explode, Filter, Group, HandWork, Identity, Param, Plan,
+from migrate.plan import (AggRef, Cast, Col, EachValue, Explode, Filter, Group, HandWork, Identity, Param, Plan,
                           Project, Sink, Source, Span, Step)
 
 
@@ -331,8 +331,13 @@ _SAFE_COMBINE = {"sum", "min", "max"}
 def _is_plain_sum(reduce: Step | None) -> bool:
     """A reducer that writes (key, sum of values): re-summing partial sums cannot change it."""
     return (isinstance(reduce, Group) and len(reduce.aggs) == 1 and reduce.aggs[0].fn == "sum"
-            and not reduce.aggs[0].init and isinstance(reduce.aggs[0].arg, (Col, Cast)) and reduce.having is None
-            and isinstance(reduce.value_out, AggRef) and isinstance(reduce.key_out, Col) and reduce.key_out.name == "key")
+            and not reduce.aggs[0].init and isinstance(reduce.aggs[0].arg, (Col, Cast)) and _writes_key_and_agg(reduce))
+
+
+def _writes_key_and_agg(g: Group) -> bool:
+    """The reducer writes (key, one aggregate) once per key, unguarded."""
+    e = g.single
+    return e is not None and isinstance(e.value, AggRef) and isinstance(e.key, Col) and e.key.name == "key"
 
 
 def _check_combiner(spec: JobSpec, reduce: Step | None, index: ClassIndex, add, where: Span) -> None:
@@ -340,11 +345,11 @@ def _check_combiner(spec: JobSpec, reduce: Step | None, index: ClassIndex, add, 
     if comb is None:
         return
     same = comb == spec.classes.get("reducer") or (comb in SUM_REDUCERS and spec.classes.get("reducer") in SUM_REDUCERS)
-    safe = (same and isinstance(reduce, Group) and not reduce.distinct and reduce.having is None and reduce.aggs
+    safe = (same and isinstance(reduce, Group) and not reduce.distinct and reduce.aggs
             and all(a.fn in _SAFE_COMBINE and isinstance(a.arg, (Col, Cast)) for a in reduce.aggs)
             and all(a.fn != "sum" or not a.init for a in reduce.aggs)  # an initial value would be added per combine
-            and isinstance(reduce.value_out, AggRef) and isinstance(reduce.key_out, Col) and reduce.key_out.name == "key")
-    if same and isinstance(reduce, Group) and reduce.distinct and reduce.having is None:
+            and _writes_key_and_agg(reduce))
+    if same and isinstance(reduce, Group) and reduce.distinct and reduce.single is not None:
         safe = True
     if not safe:
         add("combiner", where, f"combiner {comb.rsplit('.', 1)[-1]} may change the result: Hadoop runs it zero or "
@@ -365,6 +370,10 @@ def _check_map_output_types(steps: list[Step], key_t: str, val_t: str, mcls: Cla
                     return
 
 
+_FOLD_SHAPES = {"count_if": "conditional count", "count_distinct": "distinct count per key", "any": "any/all per key",
+                "all": "any/all per key"}
+
+
 def _shapes(steps: list[Step], reduce: Step | None) -> list[str]:
     out = []
     if any(isinstance(s, Explode) for s in steps):
@@ -377,24 +386,26 @@ def _shapes(steps: list[Step], reduce: Step | None) -> list[str]:
     if isinstance(reduce, Group):
         if reduce.distinct:
             out.append("distinct keys")
-        fns = {a.fn.split("_")[0] for a in reduce.aggs}
-        if {"sum", "count"} <= fns and any(x for x in [reduce.value_out] if x is not None and not isinstance(x, AggRef)):
+        fns = {_FOLD_SHAPES.get(a.fn, a.fn.split("_")[0] + " per key") for a in reduce.aggs}
+        if {"sum per key", "count per key"} <= fns and any(e.value is not None and not isinstance(e.value, AggRef)
+                                                           for e in reduce.emits):
             out.append("average per key")
         else:
-            out.extend(f"{f} per key" for f in sorted(fns))
+            out.extend(sorted(fns))
+        if len(reduce.emits) > 1:
+            out.append("several writes per key")
+    if isinstance(reduce, EachValue):
+        out.append("per-value writes in the reducer")
     if isinstance(reduce, Identity):
         out.append("sort by key")
     return out
 
 
 def _sink_types(steps: list[Step], reduce: Step | None, spec: JobSpec) -> tuple[str | None, str | None]:
-    if isinstance(reduce, Group):
-        k = reduce.key_out.jtype if reduce.key_out is not None else None
-        v = reduce.value_out.jtype if reduce.value_out is not None else None
-        return k, v
-    proj = [s for s in steps if isinstance(s, Project)]
-    if proj:
-        e = proj[-1].emits[0]
+    ems = reduce.emits if isinstance(reduce, (Group, EachValue)) else [e for s in steps if isinstance(s, Project)
+                                                                       for e in s.emits][:1]
+    if ems:
+        e = ems[0]
         return (e.key.jtype if e.key is not None else None, e.value.jtype if e.value is not None else None)
     out_k, out_v = _jtype(spec.types.get("out_key", "")), _jtype(spec.types.get("out_value", ""))
     return (None if out_k == "null" else out_k, None if out_v == "null" else out_v)

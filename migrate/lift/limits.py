@@ -22,6 +22,7 @@ class Limit:
     reason: str
     suggestion: str
     profile: str
+    fields_only: bool = False  # a local of this kind in the method is not state across records
 
 
 LIMITS = (
@@ -41,7 +42,8 @@ LIMITS = (
           "load the side data as a DataFrame and join it; call services outside the job", "P3"),
     Limit("task-state", r"\b(HashMap|TreeMap|HashSet|TreeSet|ArrayList|LinkedList|PriorityQueue|Map|List|Set)\s*<",
           "a collection kept across records (in-task state: in-mapper combining, top-N)",
-          "the aggregation or window function the collection stands for (groupBy/agg, Window + row_number)", "P2"),
+          "the aggregation or window function the collection stands for (groupBy/agg, Window + row_number)", "P2",
+          fields_only=True),
     Limit("counter", r"getCounter|incrCounter",
           "Hadoop counters are not reported by the script in this version",
           "count with a separate aggregation over the same DataFrame", "P1"),
@@ -51,13 +53,13 @@ LIMITS = (
 def explain(cls: ClassInfo, line: int) -> Limit | None:
     """The limit behind a failure at `line` of `cls`: the failing line first, then the class's fields."""
     lines = cls.file.lines
-    candidates = [lines[line - 1]] if 0 < line <= len(lines) else []
+    candidates = [(lines[line - 1], False)] if 0 < line <= len(lines) else []
     for f in cls.fields():
         if f.position:
-            candidates.append(lines[f.position.line - 1])
-    for text in candidates:
+            candidates.append((lines[f.position.line - 1], True))
+    for text, is_field in candidates:
         code = text.split("//", 1)[0]
         for lim in LIMITS:
-            if re.search(lim.pattern, code):
+            if (is_field or not lim.fields_only) and re.search(lim.pattern, code):
                 return lim
     return None

@@ -2,31 +2,37 @@
 
 Recognises: accumulators declared before the loop over `values` (for-each or
 `while (values.hasNext())`) and updated once per value: `acc += f(v)` (sum), `acc++`
-(count), `acc = Math.max/min(acc, f(v))` and `if (f(v) > acc) acc = f(v)` (max/min),
-then one write of the key and an expression over the accumulators, optionally guarded
-(→ a filter after the aggregation); a reducer that ignores its values (distinct).
-Produces: a Group step with Agg nodes. Caveats: several updates of one accumulator,
-writes inside the loop, and anything else become HandWork (top-N, collect and secondary
-sort come in later rules).
+(count), both under an `if` (conditional sum/count), `acc = Math.max/min(acc, f(v))` and
+`if (f(v) > acc) acc = f(v)` (max/min), boolean flags (`if (c) flag = true`, `flag |= c`:
+any/all), `set.add(f(v))` read back as `set.size()` (distinct count); then the writes after
+the loop, each under its own guard (→ one output row per write); a loop that writes each
+value (identity, filter, per-value map → EachValue); a reducer that ignores its values
+(distinct).
+Declines, with the reason: an accumulator read inside the loop (its running value), the
+first/last value (Hadoop gives a key's values in no defined order), a second pass over the
+values, writes both inside and after the loop.
 """
 from __future__ import annotations
+
+import copy
 
 from javalang import tree as T
 
 from migrate.java.index import ClassInfo, node_lines
-from migrate.lift.exprs import (WRITABLE_OF, Opaque, Scope, Unsupported, Writable, lift, widen, writable_creator,
-                                writable_set, write_argument)
+from migrate.lift.exprs import (WRITABLE_OF, Opaque, Scope, Unsupported, Writable, lift, promote, widen,
+                                writable_creator, writable_set, write_argument)
 from migrate.lift.mapper import class_constants, helper_methods
-from migrate.plan import NUMERIC, Agg, AggRef, BoolOp, Col, Expr, Group, HandWork, Lit, Span, walk
+from migrate.plan import (NUMERIC, Agg, AggRef, BoolOp, Col, Compare, Cond, EachValue, Emit, Expr, Group,
+                          HandWork, Let, Lit, Span, walk)
 
-_MIN_OF = {"int": -2147483648, "long": -9223372036854775808, "double": float("-inf"), "float": float("-inf")}
-_MAX_OF = {"int": 2147483647, "long": 9223372036854775807, "double": float("inf"), "float": float("inf")}
 _DECLARED = {"int": "int", "long": "long", "double": "double", "float": "float", "Integer": "int", "Long": "long",
              "Double": "double", "boolean": "boolean", "String": "String"}
+_SETS = {"Set", "HashSet", "TreeSet", "LinkedHashSet"}
+_SET_ELEMENTS = {"String": "String", "Integer": "int", "Long": "long"}  # Double sets: -0.0/NaN equality differs
 
 
 class FoldLifter:
-    """Turns one reduce() method into a Group step (or hand work)."""
+    """Turns one reduce() method into a Group or EachValue step (or hand work)."""
 
     def __init__(self, cls: ClassInfo, method: T.MethodDeclaration, key_type: str, value_type: str, index=None):
         self.cls, self.method = cls, method
@@ -43,36 +49,77 @@ class FoldLifter:
         self.scope = Scope(env, file=self.file, methods=helper_methods(cls, index),
                            enums=frozenset(fq.rsplit(".", 1)[-1] for fq in (index.enums if index else {})))
         self.accs: dict[str, tuple[str, Lit]] = {}
+        self.sets: dict[str, str] = {}  # name -> element type
         self.aggs: dict[str, Agg] = {}
         self.seen_loop = False
-        self.emits: list[tuple[object, Expr | None, Expr | None, Expr | None]] = []
+        self.emits: list[Emit] = []  # writes after the loop (or without one)
+        self.loop_emits: list[Emit] = []  # writes inside the loop, once per value
+        self.lets: list[Let] = []  # locals of the loop body: per-value columns
 
-    def run(self) -> tuple[Group | None, list[HandWork]]:
+    def run(self) -> tuple[Group | EachValue | None, list[HandWork]]:
         try:
-            group = self._lift()
-            return group, []
+            return self._lift(), []
         except Unsupported as u:
             line = u.line or node_lines(self.method)[0]
             snippet = self.cls.file.lines[line - 1].strip() if line else ""
-            return None, [HandWork("reduce-logic", Span(self.file, line, line), u.reason,
+            return None, [HandWork(u.category or "reduce-logic", Span(self.file, line, line), u.reason,
                                    u.suggestion or "express the fold with groupBy().agg(...) by hand", snippet, "P2")]
 
-    def _lift(self) -> Group:
+    def _lift(self) -> Group | EachValue:
         for s in self.method.body or []:
             self._stmt(s, None)
-        if len(self.emits) != 1:
-            raise Unsupported(self.method, f"reduce() writes {len(self.emits)} times per key; one write is lifted")
-        node, k, v, guard = self.emits[0]
         a, b = node_lines(self.method)
+        span = Span(self.file, a, b)
+        if self.loop_emits:
+            if self.emits or self.aggs:
+                raise Unsupported(self.method, "reduce() writes both inside its loop over values and after it")
+            return EachValue(span, "writes inside the loop over values", tuple(self.loop_emits), tuple(self.lets))
+        if not self.emits:
+            raise Unsupported(self.method, "reduce() writes nothing itself (is the output written in cleanup()?)",
+                              "see the top-N rule: a structure filled in reduce() and written in cleanup()")
+        refs = {x.name for e in self.emits for side in (e.key, e.value, e.guard) for x in walk(side)
+                if isinstance(x, AggRef)}
         if not self.seen_loop:
-            if any(isinstance(x, AggRef) for x in walk(v)) or any(isinstance(x, AggRef) for x in walk(k)):
-                raise Unsupported(node, "write depends on accumulators but there is no loop over values")
-            return Group(Span(self.file, a, b), "distinct keys", (), k, v, distinct=True, having=guard)
-        used = {x.name for e in (k, v, guard) for x in walk(e) if isinstance(x, AggRef)}
-        aggs = tuple(self.aggs[n] for n in self.aggs if n in used)
-        return Group(Span(self.file, a, b), "fold over values", aggs, k, v, having=guard)
+            if refs:
+                raise Unsupported(self.method, "write depends on accumulators but there is no loop over values")
+            return Group(span, "distinct keys", (), tuple(self.emits), distinct=True)
+        aggs = tuple(self.aggs[n] for n in self.aggs if n in refs)
+        return Group(span, "fold over values", aggs, tuple(self.emits), lets=tuple(self.lets))
 
     # ------------------------------------------------------------------ statements outside the loop
+    def _rewrite(self, node):
+        """A copy of `node` with `values.next()` and `set.size()` replaced by names the scope binds."""
+        def swap(n):
+            if isinstance(n, T.MethodInvocation) and not n.arguments:
+                name = "__next__" if (n.qualifier, n.member) == (self.values, "next") else None
+                if n.qualifier in self.sets and n.member == "size" and not n.selectors:
+                    name = f"__size_{n.qualifier}"
+                if name:
+                    return T.MemberReference(member=name, qualifier="", selectors=n.selectors or [],
+                                             prefix_operators=n.prefix_operators or [], postfix_operators=[])
+            for attr in getattr(n, "attrs", ()):
+                v = getattr(n, attr, None)
+                if isinstance(v, T.Node):
+                    setattr(n, attr, swap(v))
+                elif isinstance(v, list):
+                    setattr(n, attr, [swap(x) if isinstance(x, T.Node) else x for x in v])
+            return n
+
+        return swap(copy.deepcopy(node))
+
+    def _expr(self, node) -> Expr:
+        return lift(self._rewrite(node), self.scope)
+
+    def _write(self, s, guard: Expr | None) -> Emit | None:
+        """A `context.write(k, v)` / `output.collect(k, v)` statement as an Emit, else None."""
+        e = s.expression if isinstance(s, T.StatementExpression) else None
+        if not (isinstance(e, T.MethodInvocation) and e.qualifier == self.emit_target
+                and e.member in ("write", "collect")):
+            return None
+        k, v = (write_argument(self._rewrite(x), self.scope) for x in e.arguments)
+        a, b = node_lines(s)
+        return Emit(Span(self.file, a, b), self.cls.file.lines[a - 1].strip() if a else "", k, v, guard)
+
     def _stmt(self, s, guard) -> None:
         if isinstance(s, T.LocalVariableDeclaration):
             tname = getattr(s.type, "name", "")
@@ -80,9 +127,12 @@ class FoldLifter:
                 if tname in WRITABLE_OF and isinstance(d.initializer, T.ClassCreator):
                     self.scope.env[d.name] = writable_creator(d.initializer, self.scope)
                     continue
+                if tname in _SETS and isinstance(d.initializer, T.ClassCreator) and not self.seen_loop:
+                    self._declare_set(s, d)
+                    continue
                 if d.initializer is None:
                     raise Unsupported(s, f"`{d.name}` declared without a value")
-                e = lift(d.initializer, self.scope)
+                e = self._expr(d.initializer)
                 t = _DECLARED.get(tname)
                 if t is None:
                     raise Unsupported(s, f"local of type {tname} in reduce()")
@@ -91,39 +141,50 @@ class FoldLifter:
                     if not isinstance(e, Lit):
                         raise Unsupported(s, "accumulator initialised from something other than a constant")
                     self.accs[d.name] = (t, e)
-                    self.scope.env[d.name] = e
-                else:
-                    self.scope.env[d.name] = e
+                self.scope.env[d.name] = e
         elif isinstance(s, (T.ForStatement, T.WhileStatement)):
             if self.seen_loop:
                 raise Unsupported(s, "a second loop over values: Hadoop's values can be iterated once")
             self.seen_loop = True
             self._loop(s)
             for name, (t, init) in self.accs.items():
+                self.scope.env[name] = AggRef(t, name) if name in self.aggs else init
+            for name in self.sets:
+                self.scope.env.pop(name, None)
                 if name in self.aggs:
-                    self.scope.env[name] = AggRef(t, name)
+                    self.scope.env[f"__size_{name}"] = AggRef("int", name)
         elif isinstance(s, T.StatementExpression):
-            e = s.expression
-            if isinstance(e, T.MethodInvocation) and e.qualifier == self.emit_target and e.member in ("write", "collect"):
-                k, v = (write_argument(x, self.scope) for x in e.arguments)
-                self.emits.append((s, k, v, guard))
+            emit = self._write(s, guard)
+            if emit is not None:
+                self.emits.append(emit)
                 return
+            e = s.expression
             if isinstance(e, T.MethodInvocation) and e.member == "set" and isinstance(self.scope.env.get(e.qualifier), Writable):
                 w = self.scope.env[e.qualifier]
                 if guard is not None:
                     raise Unsupported(s, "Writable set under a condition in reduce()")
-                w.content = writable_set(w, lift(e.arguments[0], self.scope), e)
+                w.content = writable_set(w, self._expr(e.arguments[0]), e)
                 return
             raise Unsupported(s, "statement in reduce() is not lifted")
         elif isinstance(s, T.IfStatement) and self.seen_loop:
-            c = lift(s.condition, self.scope)
-            if s.else_statement is not None:
-                raise Unsupported(s, "if/else around the reducer's write")
-            body = s.then_statement.statements if isinstance(s.then_statement, T.BlockStatement) else [s.then_statement]
-            for x in body:
-                self._stmt(x, c if guard is None else BoolOp("boolean", "&&", (guard, c)))
+            c = self._expr(s.condition)
+            for branch, cond in ((s.then_statement, c), (s.else_statement, BoolOp("boolean", "!", (c,)))):
+                for x in _block(branch):
+                    self._stmt(x, cond if guard is None else BoolOp("boolean", "&&", (guard, cond)))
+        elif isinstance(s, T.ReturnStatement) and s.expression is None and s is (self.method.body or [None])[-1]:
+            return
         else:
             raise Unsupported(s, f"{type(s).__name__} in reduce() is not lifted")
+
+    def _declare_set(self, s, d) -> None:
+        args = getattr(s.type, "arguments", None) or []
+        elem = getattr(getattr(args[0], "type", None), "name", "") if len(args) == 1 else ""
+        if elem not in _SET_ELEMENTS or d.initializer.arguments:
+            raise Unsupported(s, f"a set of {elem or 'unknown type'} in reduce(); sets of String, Integer and Long "
+                                 "are read (Java's Double equality keeps -0.0 and 0.0 apart, Spark's does not)")
+        self.sets[d.name] = _SET_ELEMENTS[elem]
+        self.scope.env[d.name] = Opaque(f"the set `{d.name}` (only its size() is read)")
+
 
     # ------------------------------------------------------------------ the loop over values
     def _loop(self, s) -> None:
@@ -133,101 +194,149 @@ class FoldLifter:
                     and ctl.iterable.member == self.values and not ctl.iterable.qualifier):
                 raise Unsupported(s, "loop that is not over the reducer's values")
             self.scope.env[ctl.var.declarators[0].name] = Col(self.value_type, "value")
-            body = s.body.statements if isinstance(s.body, T.BlockStatement) else [s.body]
         else:
             c = s.condition
             if not (isinstance(c, T.MethodInvocation) and c.qualifier == self.values and c.member == "hasNext"):
                 raise Unsupported(s, "while loop that is not `while (values.hasNext())`")
-            body = s.body.statements if isinstance(s.body, T.BlockStatement) else [s.body]
-            nexts = [n for st in body for _, n in st if isinstance(n, T.MethodInvocation) and n.qualifier == self.values
-                     and n.member == "next"]
+            nexts = [n for st in _block(s.body) for _, n in st if isinstance(n, T.MethodInvocation)
+                     and n.qualifier == self.values and n.member == "next"]
             if len(nexts) != 1:
                 raise Unsupported(s, "the loop does not take exactly one value per iteration")
             self.scope.env["__next__"] = Col(self.value_type, "value")
-        for st in body:
-            self._update(st)
+        for name in self.accs:  # inside the loop an accumulator holds a running value no column has
+            self.scope.env[name] = Opaque(f"the running value of `{name}` (read inside the loop over values)")
+        for st in _block(s.body):
+            self._update(st, None)
 
-    def _value_expr(self, node) -> Expr:
-        """Lift an expression that may contain `values.next()`."""
-        import copy
-
-        def swap(n):
-            if isinstance(n, T.MethodInvocation) and n.qualifier == self.values and n.member == "next":
-                m = T.MemberReference(member="__next__", qualifier="", selectors=n.selectors or [],
-                                      prefix_operators=n.prefix_operators or [], postfix_operators=[])
-                return m
-            for attr in getattr(n, "attrs", ()):
-                v = getattr(n, attr, None)
-                if isinstance(v, T.Node):
-                    setattr(n, attr, swap(v))
-                elif isinstance(v, list):
-                    setattr(n, attr, [swap(x) if isinstance(x, T.Node) else x for x in v])
-            return n
-
-        return lift(swap(copy.deepcopy(node)), self.scope)
-
-    def _update(self, st) -> None:
+    def _update(self, st, guard: Expr | None) -> None:
         if isinstance(st, T.LocalVariableDeclaration):
+            if guard is not None:
+                raise Unsupported(st, "a local declared under a condition inside the loop over values")
             for d in st.declarators:
-                e = self._value_expr(d.initializer)
+                e = self._expr(d.initializer)
                 t = _DECLARED.get(getattr(st.type, "name", ""), e.jtype)
-                self.scope.env[d.name] = widen(e, t) if e.jtype in NUMERIC and t in NUMERIC else e
+                e = widen(e, t) if e.jtype in NUMERIC and t in NUMERIC else e
+                if isinstance(e, (Col, Lit)):
+                    self.scope.env[d.name] = e
+                    continue
+                col = d.name if d.name not in ("key", "value") and d.name not in self.accs else f"{d.name}_v"
+                a, b = node_lines(st)
+                self.lets.append(Let(Span(self.file, a, b), self.cls.file.lines[a - 1].strip() if a else "", col, e))
+                self.scope.env[d.name] = Col(e.jtype, col)
+            return
+        emit = self._write(st, guard)
+        if emit is not None:
+            self.loop_emits.append(emit)
             return
         if isinstance(st, T.StatementExpression):
             e = st.expression
             if isinstance(e, T.MemberReference) and set((e.postfix_operators or []) + (e.prefix_operators or [])) == {"++"}:
-                return self._agg(st, e.member, "count", None)
+                return self._agg(st, e.member, "count", None, guard)
+            if isinstance(e, T.MethodInvocation) and e.qualifier in self.sets and e.member == "add" and len(e.arguments) == 1:
+                if guard is not None:
+                    raise Unsupported(st, "a set filled under a condition")
+                return self._agg(st, e.qualifier, "count_distinct", self._expr(e.arguments[0]))
             if isinstance(e, T.Assignment) and isinstance(e.expressionl, T.MemberReference):
-                name = e.expressionl.member
-                if e.type == "+=":
-                    rhs = self._value_expr(e.value)
-                    if isinstance(rhs, Lit) and rhs.value == 1:
-                        return self._agg(st, name, "count", None)
-                    return self._agg(st, name, "sum", rhs)
-                if e.type == "=":
-                    v = e.value
-                    if isinstance(v, T.BinaryOperation) and v.operator == "+" and _is_ref(v.operandl, name):
-                        rhs = self._value_expr(v.operandr)
-                        if isinstance(rhs, Lit) and rhs.value == 1:
-                            return self._agg(st, name, "count", None)
-                        return self._agg(st, name, "sum", rhs)
-                    if isinstance(v, T.MethodInvocation) and v.qualifier == "Math" and v.member in ("max", "min"):
-                        a, b = v.arguments
-                        other = b if _is_ref(a, name) else a if _is_ref(b, name) else None
-                        if other is not None:
-                            return self._agg(st, name, v.member, self._value_expr(other))
+                return self._assignment(st, e, guard)
         if isinstance(st, T.IfStatement) and st.else_statement is None:
-            body = st.then_statement.statements if isinstance(st.then_statement, T.BlockStatement) else [st.then_statement]
-            c = st.condition
-            if len(body) == 1 and isinstance(body[0], T.StatementExpression) and isinstance(body[0].expression, T.Assignment) \
-                    and body[0].expression.type == "=" and isinstance(c, T.BinaryOperation):
-                name = body[0].expression.expressionl.member
-                val = self._value_expr(body[0].expression.value)
-                op = c.operator
-                if _is_ref(c.operandr, name):
-                    lhs = self._value_expr(c.operandl)
-                elif _is_ref(c.operandl, name):
-                    lhs = self._value_expr(c.operandr)
-                    op = {"<": ">", ">": "<", "<=": ">=", ">=": "<="}.get(op, op)
-                else:
-                    lhs = None
-                if lhs is not None and lhs == val and op in (">", ">=", "<", "<="):
-                    fn = "max" if op in (">", ">=") else "min"
-                    return self._agg(st, name, fn + "_if", val)
+            body = _block(st.then_statement)
+            if guard is None and self._compare_and_keep(st, body):
+                return
+            c = self._expr(st.condition)
+            for x in body:
+                self._update(x, c if guard is None else BoolOp("boolean", "&&", (guard, c)))
+            return
         raise Unsupported(st, "statement in the loop over values is not a recognised accumulator update",
                           "write the aggregation by hand: groupBy('key').agg(...)")
 
-    def _agg(self, st, name: str, fn: str, arg: Expr | None) -> None:
+    def _assignment(self, st, e: T.Assignment, guard: Expr | None) -> None:
+        name = e.expressionl.member
         if name not in self.accs:
+            raise Unsupported(st, f"`{name}` is assigned in the loop but was not initialised before it")
+        t = self.accs[name][0]
+        v = e.value
+        if t == "boolean":
+            return self._flag(st, name, e, guard)
+        if e.type == "+=":
+            rhs = self._expr(v)
+            return self._agg(st, name, "count", None, guard) if _is_one(rhs) else self._agg(st, name, "sum", rhs, guard)
+        if e.type == "=":
+            if isinstance(v, T.BinaryOperation) and v.operator == "+" and _is_ref(v.operandl, name):
+                rhs = self._expr(v.operandr)
+                return self._agg(st, name, "count", None, guard) if _is_one(rhs) else self._agg(st, name, "sum", rhs, guard)
+            if isinstance(v, T.MethodInvocation) and v.qualifier == "Math" and v.member in ("max", "min") and guard is None:
+                a, b = v.arguments
+                other = b if _is_ref(a, name) else a if _is_ref(b, name) else None
+                if other is not None:
+                    return self._agg(st, name, v.member, self._expr(other))
+            if not any(_is_ref(n, name) for _, n in v):
+                raise Unsupported(st, f"`{name}` keeps the last value assigned in the loop; Hadoop gives the values "
+                                      "of a key in no defined order (no secondary sort here), so the original "
+                                      "output was not deterministic", "if any value will do, use F.max or F.min; "
+                                      "if the order matters, sort the values (secondary sort) and use F.max_by",
+                                  category="value-order")
+        raise Unsupported(st, f"update of `{name}` is not a recognised accumulator update",
+                          "write the aggregation by hand: groupBy('key').agg(...)")
+
+    def _flag(self, st, name: str, e: T.Assignment, guard: Expr | None) -> None:
+        """Boolean accumulators: any (`f = true` under a guard, `f |= c`, `f = f || c`) and all."""
+        v = e.value
+        if isinstance(v, T.Literal) and v.value in ("true", "false") and e.type == "=" and guard is not None:
+            return self._agg(st, name, "any" if v.value == "true" else "all",
+                             guard if v.value == "true" else BoolOp("boolean", "!", (guard,)))
+        if guard is None and e.type in ("|=", "&="):
+            return self._agg(st, name, "any" if e.type == "|=" else "all", self._expr(v))
+        if guard is None and e.type == "=" and isinstance(v, T.BinaryOperation) and v.operator in ("||", "&&"):
+            fn = "any" if v.operator == "||" else "all"
+            if _is_ref(v.operandr, name):  # c || flag: c is evaluated for every value, as in Spark
+                return self._agg(st, name, fn, self._expr(v.operandl))
+            if _is_ref(v.operandl, name):  # flag || c: Java stops evaluating c once the flag is set
+                c = self._expr(v.operandr)
+                if any(not isinstance(x, (Col, Lit, Compare, BoolOp)) for x in walk(c)):
+                    raise Unsupported(st, f"`{name} {v.operator} ...` skips the right side once decided; it computes "
+                                          "something that may fail where Java never evaluated it",
+                                      f"write it as `if (...) {name} = ...;` if every value may be evaluated")
+                return self._agg(st, name, fn, c)
+        raise Unsupported(st, f"update of the flag `{name}` is not a recognised any/all accumulator")
+
+    def _compare_and_keep(self, st, body) -> bool:
+        """`if (f(v) > acc) acc = f(v);` → max (min for <)."""
+        c = st.condition
+        if not (len(body) == 1 and isinstance(body[0], T.StatementExpression)
+                and isinstance(body[0].expression, T.Assignment) and body[0].expression.type == "="
+                and isinstance(body[0].expression.expressionl, T.MemberReference) and isinstance(c, T.BinaryOperation)):
+            return False
+        name = body[0].expression.expressionl.member
+        op = c.operator
+        if _is_ref(c.operandr, name):
+            side = c.operandl
+        elif _is_ref(c.operandl, name):
+            side = c.operandr
+            op = {"<": ">", ">": "<", "<=": ">=", ">=": "<="}.get(op, op)
+        else:
+            return False
+        if op not in (">", ">=", "<", "<=") or name not in self.accs:
+            return False
+        val = self._expr(body[0].expression.value)
+        if self._expr(side) != val:
+            return False
+        self._agg(st, name, ("max" if op in (">", ">=") else "min") + "_if", val)
+        return True
+
+    def _agg(self, st, name: str, fn: str, arg: Expr | None, guard: Expr | None = None) -> None:
+        if name not in self.accs and name not in self.sets:
             raise Unsupported(st, f"`{name}` is updated in the loop but was not initialised before it")
         if name in self.aggs:
             raise Unsupported(st, f"`{name}` is updated twice per value")
-        t, init = self.accs[name]
-        if arg is not None and arg.jtype not in NUMERIC:
+        t, init = self.accs.get(name) or ("int", Lit("int", 0))
+        if fn in ("any", "all"):
+            pass
+        elif fn == "count_distinct":
+            if arg.jtype != self.sets[name]:
+                raise Unsupported(st, f"a {arg.jtype} added to a set of {self.sets[name]}")
+        elif arg is not None and arg.jtype not in NUMERIC:
             raise Unsupported(st, f"aggregate over a {arg.jtype}")
-        if arg is not None and arg.jtype != t:
-            from migrate.lift.exprs import promote
-
+        elif arg is not None and arg.jtype != t:
             if promote(arg.jtype, t) != t:
                 raise Unsupported(st, f"compound assignment narrows a {arg.jtype} into the {t} `{name}`")
             arg = widen(arg, t)
@@ -235,6 +344,13 @@ class FoldLifter:
             raise Unsupported(st, f"`{name}` sums floats in float precision; Spark's sum of a float column "
                                   "works in double and would print other digits",
                               "decide whether the float rounding matters; if not, declare the sum a double")
+        if guard is not None:  # a conditional update: sum of the value where it holds, count of the rows
+            if fn == "sum":
+                arg = Cond(t, guard, arg, Lit(t, 0))
+            elif fn == "count":
+                fn, arg = "count_if", guard
+            else:
+                raise Unsupported(st, f"{fn} under a condition")
         floating = t in ("double", "float")
         if fn in ("max_if", "min_if"):
             fn = (fn[:3] + "_nonnan") if floating else fn[:3]
@@ -242,7 +358,17 @@ class FoldLifter:
             fn = "min_nan"  # Math.min returns NaN once any value is NaN
         a, b = node_lines(st)
         snippet = self.cls.file.lines[a - 1].strip() if a else ""
-        self.aggs[name] = Agg(name, fn, arg, t, init.value, Span(self.file, a, b), snippet)
+        self.aggs[name] = Agg(name, fn, arg, "int" if fn == "count_distinct" else t, init.value, Span(self.file, a, b), snippet)
+
+
+def _block(st) -> list:
+    if st is None:
+        return []
+    return list(st.statements) if isinstance(st, T.BlockStatement) else [st]
+
+
+def _is_one(e: Expr) -> bool:
+    return isinstance(e, Lit) and e.value == 1
 
 
 def _is_ref(n, name: str) -> bool:

@@ -78,13 +78,13 @@ def build(spark: SparkSession, input_path: str) -> DataFrame:
 
     # Reduce side: wide — rows are shuffled so all values of a key meet (MinBatteryLevel.java:41)
     result = (
-        map_output.groupBy("key")
-        .agg(
+        map_output.groupBy("key").agg(
             # MinBatteryLevel.java:46  lowest = Math.min(lowest, values.next().get());
             F.when(F.bool_or(F.isnan(F.col("value"))), F.lit(float("nan")))
             .otherwise(F.least(F.lit(1.7976931348623157e308), F.min(F.col("value"))))
             .alias("lowest"),
         )
+        # MinBatteryLevel.java:48  out.collect(bike, new DoubleWritable(lowest));
         .select(F.col("key"), F.col("lowest").alias("value"))
     )
     return result

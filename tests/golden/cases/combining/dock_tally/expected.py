@@ -63,11 +63,11 @@ def build(spark: SparkSession, input_path: str) -> DataFrame:
 
     # Reduce side: wide — rows are shuffled so all values of a key meet (IntSumReducer (ships with Hadoop))
     result = (
-        map_output.groupBy("key")
-        .agg(
+        map_output.groupBy("key").agg(
             # IntSumReducer (ships with Hadoop)  sum of the values
             wrap_int(F.sum(F.col("value"))).alias("sum"),
         )
+        # IntSumReducer (ships with Hadoop)  write(key, sum)
         .select(F.col("key"), F.col("sum").alias("value"))
     )
     return result

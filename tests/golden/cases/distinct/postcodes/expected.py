@@ -64,8 +64,8 @@ def build(spark: SparkSession, input_path: str) -> DataFrame:
 
     # Reduce side: wide — rows are shuffled so all values of a key meet (DistinctMemberPostcodes.java:29)
     result = (
-        map_output.select("key")
-        .distinct()  # the reducer ignores its values: one row per key
+        map_output.select("key").distinct()  # the reducer ignores its values: one row per key
+        # DistinctMemberPostcodes.java:32  context.write(postcode, NullWritable.get());
         .select(F.col("key"), F.lit(None).cast("string").alias("value"))
     )
     return result

@@ -98,13 +98,13 @@ def build(spark: SparkSession, input_path: str) -> DataFrame:
 
     # Reduce side: wide — rows are shuffled so all values of a key meet (AverageDurationReducer.java:11)
     result = (
-        map_output.groupBy("key")
-        .agg(
+        map_output.groupBy("key").agg(
             # AverageDurationReducer.java:17  sum += d.get();
             F.sum(F.col("value").cast("bigint")).alias("sum"),
             # AverageDurationReducer.java:18  count++;
             F.count(F.lit(1)).cast("int").alias("count"),
         )
+        # AverageDurationReducer.java:20  context.write(station, new DoubleWritable((double) sum / count));
         .select(
             F.col("key"),
             java_div_double(F.col("sum").cast("double"), F.col("count").cast("double")).alias(

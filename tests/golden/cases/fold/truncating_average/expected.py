@@ -121,13 +121,13 @@ def build(spark: SparkSession, input_path: str) -> DataFrame:
 
     # Reduce side: wide — rows are shuffled so all values of a key meet (AverageHoursToClose.java:44)
     result = (
-        map_output.groupBy("key")
-        .agg(
+        map_output.groupBy("key").agg(
             # AverageHoursToClose.java:49  total += values.next().get();
             F.sum(F.col("value")).alias("total"),
             # AverageHoursToClose.java:50  tickets += 1;
             F.count(F.lit(1)).alias("tickets"),
         )
+        # AverageHoursToClose.java:52  output.collect(key, new LongWritable(total / tickets));
         .select(F.col("key"), java_long_div(F.col("total"), F.col("tickets")).alias("value"))
     )
     return result

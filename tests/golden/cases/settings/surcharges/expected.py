@@ -225,11 +225,11 @@ def build(spark: SparkSession, input_path: str, conf: dict[str, str] | None = No
 
     # Reduce side: wide — rows are shuffled so all values of a key meet (LongSumReducer (ships with Hadoop))
     result = (
-        map_output.groupBy("key")
-        .agg(
+        map_output.groupBy("key").agg(
             # LongSumReducer (ships with Hadoop)  sum of the values
             F.sum(F.col("value")).alias("sum"),
         )
+        # LongSumReducer (ships with Hadoop)  write(key, sum)
         .select(F.col("key"), F.col("sum").alias("value"))
     )
     return result

@@ -60,11 +60,11 @@ def build(spark: SparkSession, input_path: str) -> DataFrame:
 
     # Reduce side: wide — rows are shuffled so all values of a key meet (RiderFeedbackWordCount.java:39)
     result = (
-        map_output.groupBy("key")
-        .agg(
+        map_output.groupBy("key").agg(
             # RiderFeedbackWordCount.java:44  sum += c.get();
             wrap_int(F.sum(F.col("value"))).alias("sum"),
         )
+        # RiderFeedbackWordCount.java:47  context.write(key, total);
         .select(F.col("key"), F.col("sum").alias("value"))
     )
     return result
