@@ -11,7 +11,7 @@ import black
 from migrate.gen.pyspark import render_script
 from migrate.java.source import ParseFailure
 from migrate.lift.job import JobResult
-from migrate.plan import EachValue, Group, Identity
+from migrate.plan import EachValue, Group, Identity, TopN
 from migrate.report.render import build_report, to_json, to_markdown
 from migrate.scan import RepoScan, script_name
 
@@ -85,6 +85,10 @@ def summary(job: JobResult) -> str:
                                 for a in r.aggs})) or "a fold"
         writes = f", {len(r.emits)} writes per key" if len(r.emits) > 1 else ""
         what = f"per key: {fns} of the mapper's values{writes}, sorted by key"
+    elif isinstance(r, TopN):
+        per = " per reduce task" if r.partition is not None else ""
+        what = (f"the entries of a TreeMap kept to the {r.n} {'largest' if r.keep_largest else 'smallest'} map keys"
+                f"{per} ({r.fold.emits[0].note}), written in cleanup()")
     elif isinstance(r, EachValue):
         what = "the mapper's values, each written (or filtered) by the reducer as it meets them, sorted by key"
     elif isinstance(r, Identity):

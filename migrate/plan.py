@@ -267,6 +267,28 @@ class EachValue(Step):
 
 
 @dataclass(frozen=True)
+class TopN(Step):
+    """Top-N across keys: a TreeMap field filled in reduce() and written in cleanup().
+
+    `fold` is reduce()'s fold; its one emit is the `put` (map key -> map value). A TreeMap
+    keeps one entry per map key and the last put wins; reduce() runs in key order, so of the
+    keys that share a map key the greatest stays. The map is trimmed to the `n` largest (or
+    smallest) map keys after every put, which leaves exactly the n largest (smallest) distinct
+    map keys. cleanup() runs `writes` over the columns `tm_key` and `tm_value`, walking the map
+    up or down. With a custom partitioner each reduce task (`partition`, of `partitions`)
+    keeps its own map.
+    """
+
+    fold: Group
+    n: int
+    keep_largest: bool
+    descending: bool
+    writes: tuple[Emit, ...]
+    partition: Expr | None = None
+    partitions: int = 1
+
+
+@dataclass(frozen=True)
 class Identity(Step):
     """Hadoop's identity reducer: every map output pair passes through, sorted by key."""
 
@@ -295,6 +317,18 @@ class HandWork:
 
 
 @dataclass(frozen=True)
+class Finding:
+    """What the original does that a reviewer should know: the script reproduces it (that is
+    parity), and the team decides whether to keep it (a latent bug: ties dropped, state that is
+    right only with one reduce task, a reduce() Hadoop never calls)."""
+
+    category: str
+    origin: Span
+    message: str
+    suggestion: str
+
+
+@dataclass(frozen=True)
 class Source:
     """The job's input: text lines (TextInputFormat) or key/value lines (KeyValueTextInputFormat)."""
 
@@ -317,6 +351,7 @@ class Sink:
     overwrite: bool
     separator: str = "\t"
     origin: Span = NO_SPAN
+    partition: Expr | None = None  # with several reduce tasks: the task (part file) of a key, over `key`
 
 
 @dataclass(frozen=True)
@@ -342,13 +377,14 @@ class Plan:
     hand_work: tuple[HandWork, ...] = ()
     shapes: tuple[str, ...] = ()
     notes: tuple[str, ...] = ()
+    findings: tuple[Finding, ...] = ()
 
     def __post_init__(self) -> None:
         if not self.map_steps or not isinstance(self.map_steps[-1], Project):
             if not self.hand_work:
                 raise ValueError("map steps must end in a Project unless hand work stands in for them")
-        if self.reduce is not None and not isinstance(self.reduce, (Group, Identity, EachValue)):
-            raise ValueError("reduce must be a Group, EachValue or Identity step")
+        if self.reduce is not None and not isinstance(self.reduce, (Group, Identity, EachValue, TopN)):
+            raise ValueError("reduce must be a Group, EachValue, TopN or Identity step")
 
 
 # ----------------------------------------------------------------------------- text dump
@@ -407,6 +443,8 @@ def dump_plan(plan: Plan) -> str:
     out.append(f"  Sink {k.param} key={k.key_type} value={k.value_type} sorted={k.sorted_by_key} overwrite={k.overwrite}")
     for h in plan.hand_work:
         out.append(f"  HandWork {h.category} @{h.origin}: {h.reason}")
+    for f in plan.findings:
+        out.append(f"  Finding {f.category} @{f.origin}: {f.message}")
     return "\n".join(out) + "\n"
 
 
@@ -439,6 +477,14 @@ def _dump_step(s: Step) -> str:
         for e in s.emits:
             g = f" if {dump_expr(e.guard)}" if e.guard is not None else ""
             lines.append(f"    Emit {dump_expr(e.key)} -> {dump_expr(e.value)}{g}")
+        return "\n".join(lines)
+    if isinstance(s, TopN):
+        part = f" per reduce task ({s.partitions}, by {dump_expr(s.partition)})" if s.partition is not None else ""
+        lines = [_dump_step(s.fold).replace("Group by key", "TopN fold per key"),
+                 f"    Keep {s.n} {'largest' if s.keep_largest else 'smallest'} map keys{part}, "
+                 f"written {'descending' if s.descending else 'ascending'}"]
+        for e in s.writes:
+            lines.append(f"    Write {dump_expr(e.key)} -> {dump_expr(e.value)}")
         return "\n".join(lines)
     if isinstance(s, Identity):
         return "Identity (sorted by key)"

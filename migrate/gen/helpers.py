@@ -455,6 +455,52 @@ def jt_parse(s: Column, pattern: str, *, date_only: bool = False, skip_bad_recor
 ''', ("date_fields",))
 
 
+_h("hadoop_partition", '''
+def _int32(u: Column) -> Column:
+    """An unsigned 32-bit value (0 <= u < 2**32, bigint) as the Java int with those bits."""
+    return F.when(u >= 2**31, u - 2**32).otherwise(u).cast("int")
+
+
+def _fold_hash(units: Column, start: int) -> Column:
+    """h = 31 * h + unit over an array of ints, with Java's 32-bit int wrap-around."""
+    return _int32(F.aggregate(units, F.lit(start).cast("bigint"), lambda h, u: F.pmod(h * 31 + u, F.lit(2**32))))
+
+
+def _hex_units(s: Column, charset: str, width: int) -> Column:
+    """The code units of a string in `charset`, `width` hex digits each, as unsigned ints."""
+    hexed = F.hex(F.encode(s, charset))
+    return F.transform(F.regexp_extract_all(hexed, F.lit("(" + "." * width + ")"), 1),
+                       lambda h: F.conv(h, 16, 10).cast("int"))
+
+
+def text_hash(s: Column) -> Column:
+    """Text.hashCode(): WritableComparator.hashBytes over the UTF-8 bytes (signed), starting at 1."""
+    signed = F.transform(_hex_units(s, "UTF-8", 2), lambda b: F.when(b > 127, b - 256).otherwise(b))
+    return _fold_hash(signed, 1)
+
+
+def string_hash(s: Column) -> Column:
+    """String.hashCode(): s[0]*31^(n-1) + ... over the UTF-16 code units, starting at 0."""
+    return _fold_hash(_hex_units(s, "UTF-16BE", 4), 0)
+
+
+def first_code_unit(s: Column) -> Column:
+    """s.charAt(0) as an int (a UTF-16 code unit); the job fails on "" where Java throws."""
+    unit = F.element_at(_hex_units(s, "UTF-16BE", 4), 1)
+    return F.when(F.length(s) > 0, unit).otherwise(F.raise_error(F.lit("StringIndexOutOfBoundsException")))
+
+
+def long_hash(v: Column) -> Column:
+    """LongWritable.hashCode(): (int) value, the low 32 bits (not Long.hashCode's high-low XOR)."""
+    return _int32(F.pmod(v, F.lit(2**32)))
+
+
+def partition_of(hash_code: Column, reduce_tasks: int) -> Column:
+    """(hashCode & Integer.MAX_VALUE) % numReduceTasks: the reduce task (part file) of a key."""
+    return hash_code.bitwiseAND(F.lit(2147483647)) % reduce_tasks
+''')
+
+
 def helper_source(names: set[str]) -> str:
     """Source of the named helpers and their dependencies, in a stable order."""
     wanted: list[str] = []

@@ -8,7 +8,7 @@ from pathlib import Path
 import black
 import jinja2
 
-from migrate.plan import (INTEGRAL, Agg, AggRef, Arith, BoolOp, Call, Cast, Col, Compare, Cond, ConfValue, Count, EachValue, Emit, Explode, Expr, Filter, Group, HandWork, Identity, Let, Lit, Plan, Project, Step)
+from migrate.plan import (INTEGRAL, Agg, AggRef, Arith, BoolOp, Call, Cast, Col, Compare, Cond, ConfValue, Count, EachValue, Emit, Explode, Expr, Filter, Group, HandWork, Identity, Let, Lit, Plan, Project, Step, TopN)
 
 SPARK_TYPES = {"int": "int", "long": "bigint", "double": "double", "float": "float", "boolean": "boolean",
                "String": "string"}
@@ -46,6 +46,12 @@ PLAIN_CALLS = {
     "date_millis": ("F.unix_millis({0})", None),
     "is_not_null": ("{0}.isNotNull()", None),
     "is_null": ("{0}.isNull()", None),
+    "text_hash": ("text_hash({0})", "hadoop_partition"),
+    "string_hash": ("string_hash({0})", "hadoop_partition"),
+    "first_code_unit": ("first_code_unit({0})", "hadoop_partition"),
+    "int_hash": ("{0}", None),
+    "long_hash": ("long_hash({0})", "hadoop_partition"),
+    "partition_of": ("partition_of({0}, {1})", "hadoop_partition"),
 }
 
 
@@ -384,18 +390,12 @@ def build_body(plan: Plan, x: ExprWriter) -> ScriptParts:
         out.append(f"# Reduce side: wide — rows are shuffled so all values of a key meet ({_where(r.origin)})")
         out.append("result = (")
         out.append("    map_output")
-        out.extend("    " + c for s in r.lets for c in _step_code(s, x))
         if r.distinct:
             out.append("    .select(\"key\")")
             out.append("    .distinct()  # the reducer ignores its values: one row per key")
         else:
-            out.append("    .groupBy(\"key\")")
-            out.append("    .agg(")
-            for a in r.aggs:
-                out.append(f"        # {_where(a.origin)}  {a.note}")
-                out.append(f"        {agg_code(a, x)}.alias(\"{agg_column(a.name)}\"),")
-            out.append("    )")
-        out.extend("    " + c for c in _reduce_writes(r.emits, x))
+            out.extend("    " + c for c in _fold_code(r, x))
+        out.extend("    " + c for c in _reduce_writes(r.emits, x, plan.sink.partition))
         out.append(")")
         out.append("return result")
     elif isinstance(r, EachValue):
@@ -405,9 +405,12 @@ def build_body(plan: Plan, x: ExprWriter) -> ScriptParts:
         out.append("result = (")
         out.append("    map_output")
         out.extend("    " + c for s in r.lets for c in _step_code(s, x))
-        out.extend("    " + c for c in _reduce_writes(r.emits, x))
+        out.extend("    " + c for c in _reduce_writes(r.emits, x, plan.sink.partition))
         out.append(")")
         out.append("return result")
+    elif isinstance(r, TopN):
+        out.extend(_top_n_code(r, x))
+        parts.uses_window = True
     elif isinstance(r, Identity):
         out.append("")
         out.append("# Reduce side: Hadoop's identity reducer — pairs pass through; the writer sorts by key")
@@ -426,7 +429,49 @@ def build_body(plan: Plan, x: ExprWriter) -> ScriptParts:
     return parts
 
 
-def _reduce_writes(emits: tuple[Emit, ...], x: ExprWriter) -> list[str]:
+def _fold_code(g: Group, x: ExprWriter) -> list[str]:
+    """`.groupBy("key").agg(...)` for a fold, with the per-value columns computed before it."""
+    lines = [c for s in g.lets for c in _step_code(s, x)]
+    lines += ['.groupBy("key")', ".agg("]
+    for a in g.aggs:
+        lines.append(f"    # {_where(a.origin)}  {a.note}")
+        lines.append(f"    {agg_code(a, x)}.alias(\"{agg_column(a.name)}\"),")
+    return lines + [")"]
+
+
+def _top_n_code(r: TopN, x: ExprWriter) -> list[str]:
+    """Per-key fold → one entry per map key (the last put wins) → the N kept entries → cleanup()'s writes."""
+    put = r.fold.emits[0]
+    part = r.partition is not None
+    by = '"_partition", "tm_key"' if part else '"tm_key"'
+    task = "each reduce task's" if part else "the"
+    lines = ["", f"# Reduce side: wide — rows are shuffled so all values of a key meet ({_where(r.fold.origin)})",
+             "per_key = (", "    map_output"]
+    lines += ["    " + c for c in _fold_code(r.fold, x)]
+    lines.append(f"    # {_where(put.origin)}  {put.note}  (the TreeMap entry of this key)")
+    cols = ['"key"', f'{x(put.key)}.alias("tm_key")', f'{x(put.value)}.alias("tm_value")']
+    if part:
+        cols.append(f'{x(r.partition)}.alias("_partition")')
+    lines += [f"    .select({', '.join(cols)})", ")",
+              "# A TreeMap keeps one entry per map key and a later put replaces it. reduce() meets the keys",
+              "# in sorted order, so of keys that tie on the map key only the greatest stays, as in the original.",
+              f'entries = per_key.groupBy({by}).agg(F.max_by("tm_value", "key").alias("tm_value"))',
+              f"# trimmed after every put: {task} {r.n} {'largest' if r.keep_largest else 'smallest'} map keys remain; "
+              f"cleanup() writes them {'from the largest down' if r.descending else 'from the smallest up'}"]
+    order = 'F.col("tm_key").desc()' if r.keep_largest else 'F.col("tm_key")'
+    window = (f'Window.partitionBy("_partition").orderBy({order})' if part else f"Window.orderBy({order})")
+    rank = "F.row_number().over(kept)"
+    walk = 'F.col("_kept")' if r.keep_largest == r.descending else f'F.lit({r.n} + 1) - F.col("_kept")'
+    (w,) = r.writes
+    lines += [f"kept = {window}", "result = (", "    entries",
+              f'    .withColumn("_kept", {rank})', f'    .where(F.col("_kept") <= {r.n})',
+              f"    # {_where(w.origin)}  {w.note}",
+              f'    .select({x(w.key)}.alias("key"), {x(w.value)}.alias("value"), '
+              + ('"_partition", ' if part else "") + f'{walk}.alias("_write"))', ")", "return result"]
+    return lines
+
+
+def _reduce_writes(emits: tuple[Emit, ...], x: ExprWriter, partition: Expr | None = None) -> list[str]:
     """The reducer's writes as a select: `key`, `value`, plus the hidden sort columns the writer uses.
 
     Hadoop writes a reducer's output in reduce-key order, and the writes of one reduce() call in
@@ -435,6 +480,8 @@ def _reduce_writes(emits: tuple[Emit, ...], x: ExprWriter) -> list[str]:
     """
     keeps_key = all(isinstance(e.key, Col) and e.key.name == "key" for e in emits)
     sort = [] if keeps_key else ['F.col("key").alias("_sort_key")']
+    if partition is not None:  # the reduce task (part file) each key went to, as Hadoop chose it
+        sort.insert(0, f'{x(partition)}.alias("_partition")')
     if len(emits) == 1:
         e = emits[0]
         lines = [f"# {_where(e.origin)}  {e.note}" + ("  (written only when the condition holds)" if e.guard is not None else "")]
@@ -455,7 +502,9 @@ def _reduce_writes(emits: tuple[Emit, ...], x: ExprWriter) -> list[str]:
                      if e.guard is not None else f"                {struct},")
     lines += ["            ),", "            lambda written: written.isNotNull(),", "        )",
               "    ).alias(\"written\"),", *("    " + c + "," for c in sort), ")",
-              ".select(" + ", ".join(['"written.key"', '"written.value"'] + (['"_sort_key"'] if sort else [])
+              ".select(" + ", ".join(['"written.key"', '"written.value"']
+                                     + (['"_sort_key"'] if not keeps_key else [])
+                                     + (['"_partition"'] if partition is not None else [])
                                      + ['"written._write"']) + ")"]
     return lines
 
@@ -463,13 +512,15 @@ def _reduce_writes(emits: tuple[Emit, ...], x: ExprWriter) -> list[str]:
 def sort_columns(plan: Plan) -> list[str]:
     """The columns the writer sorts one reducer's output by (see _reduce_writes)."""
     r = plan.reduce
+    if isinstance(r, TopN):  # cleanup() wrote in map order, one reduce task after another
+        return ["_partition", "_write"] if r.partition is not None else ["_write"]
     emits = r.emits if isinstance(r, (Group, EachValue)) else ()
     cols = ["key"]
     if emits and not all(isinstance(e.key, Col) and e.key.name == "key" for e in emits):
         cols = ["_sort_key"]
     if len(emits) > 1:
         cols.append("_write")
-    return cols
+    return (["_partition"] if plan.sink.partition is not None else []) + cols
 
 
 def _stub_lines(items: list[HandWork]) -> list[str]:
@@ -580,6 +631,8 @@ def render_script(plan: Plan, header: dict, hand_work: list[HandWork]) -> str:
         + (", conf=settings(args.defines)" if x.settings else "") + (", counters=counters" if x.counters else ""),
         counters=x.counters, dates=x.dates,
         sort_columns=sort_columns(plan),
+        sort_note=("cleanup() wrote the kept entries in map order, one reduce task after another: the same here"
+                   if isinstance(plan.reduce, TopN) else "One reducer wrote one file sorted by key: the same here"),
     )
     return format_code(text)
 

@@ -1,7 +1,7 @@
 """Assemble one job's Plan from its JobSpec: source, map steps, reduce fold, sink, hand work."""
 from __future__ import annotations
 
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 
 from javalang import tree as T
 
@@ -14,9 +14,12 @@ from migrate.lift.combining import flushes_all_entries
 from migrate.lift.config import task_constants
 from migrate.lift.limits import explain
 from migrate.lift.mapper import MapBodyLifter, class_constants
+from migrate.lift.exprs import Unsupported
 from migrate.lift.reducer import FoldLifter
-from migrate.plan import (AggRef, Cast, Col, EachValue, Explode, Filter, Group, HandWork, Identity, Param, Plan,
-                          Project, Sink, Source, Span, Step)
+from migrate.lift.partitioning import custom_partition, hash_partition
+from migrate.lift.topn import lift_top_n, top_n_findings
+from migrate.plan import (AggRef, Cast, Col, EachValue, Explode, Expr, Filter, Finding, Group, HandWork, Identity, Param, Plan,
+                          Project, Sink, Source, Span, Step, TopN)
 
 
 
@@ -42,6 +45,7 @@ class JobResult:
 def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
     hand: list[HandWork] = []
     notes: list[str] = []
+    findings: list[Finding] = []
     shapes: list[str] = []
     classes = {"driver": spec.driver.fqcn, **spec.classes}
     files = {"driver": spec.driver.span}
@@ -127,6 +131,7 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
     _check_map_output_types(steps, map_key_t, map_val_t, mcls, add)
     # ---- reduce side
     reduce: Step | None = None
+    partition: Expr | None = None  # with several reduce tasks: the task of each key
     reducer_fq = spec.classes.get("reducer")
     if spec.reduces == 0:
         shapes.append("map only")
@@ -136,7 +141,7 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
     else:
         rcls = index.get(reducer_fq)
         if rcls is not None and "reducer" in rcls.roles:
-            reduce = _lift_reducer(rcls, map_key_t, map_val_t, hand, index)
+            reduce = _lift_reducer(rcls, map_key_t, map_val_t, hand, index, findings, spec.reduces)
         elif reducer_fq in KNOWN_CLASSES or reducer_fq in IDENTITY_REDUCERS:
             reduce = library_reducer(reducer_fq, map_key_t, map_val_t)
             if reduce is None:
@@ -148,9 +153,23 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
             add("key-semantics", spec.origin, f"{map_key_t} map output keys: Hadoop's DoubleWritable/FloatWritable "
                 "compare -0.0 and 0.0 as different keys, Spark groups them together",
                 "group by the key's text (F.col('key').cast('string')) and sort by its number", "P1")
-        if spec.reduces > 1:
-            add("output-layout", at("setNumReduceTasks"), f"Hadoop split the output over {spec.reduces} part files by key hash; "
-                "the script writes one file sorted by key", "if readers depend on the part files, repartition by key", "P1")
+        if spec.reduces > 1 and reduce is not None:
+            partition, why = _partition_of(spec, index, map_key_t, reduce)
+            if partition is None and isinstance(reduce, TopN):
+                add("per-task-state", at("setNumReduceTasks"), f"the top-N is kept per reduce task ({spec.reduces} "
+                    f"tasks) and which task gets which key is not known: {why}",
+                    "rank per task with Window.partitionBy(<task of the key>), or decide one overall top-N is meant", "P2")
+            elif partition is None:
+                add("output-layout", at("setNumReduceTasks"), f"Hadoop split the output over {spec.reduces} part "
+                    f"files ({why}); the script writes one file sorted by key",
+                    "if readers depend on the part files, repartition by the same rule", "P1")
+            else:
+                findings.append(Finding("output-layout", at("setNumReduceTasks"), f"Hadoop wrote {spec.reduces} part "
+                                        "files, each sorted by key; the script writes one file holding the same lines in "
+                                        "the same order (the part files one after another)",
+                                        "readers that open part files by name need the folder read as a whole"))
+                if isinstance(reduce, TopN):
+                    reduce = replace(reduce, partition=partition, partitions=spec.reduces)
         _check_combiner(spec, reduce, index, add, at("setCombinerClass"))
         if combining:
             if _is_plain_sum(reduce):
@@ -167,6 +186,8 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
                  comparator_hint),
                 ("grouping_comparator", "custom grouping (secondary sort)",
                  ("setGroupingComparatorClass", "setOutputValueGroupingComparator"), comparator_hint)):
+            if role == "partitioner" and partition is not None:
+                continue  # reproduced: which part file (task) each key went to
             if role in spec.classes:
                 add("secondary-sort" if role != "partitioner" else "partitioner", at(*calls),
                     f"{label} {spec.classes[role].rsplit('.', 1)[-1]} is not converted", hint, "P2",
@@ -185,13 +206,30 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
     shapes.extend(_shapes(steps if mcls is not None else [], reduce))
     out_key_t, out_val_t = _sink_types(steps, reduce, spec)
     sink = Sink("output_path", out_key_t, out_val_t, sorted_by_key=reduce is not None and spec.reduces >= 1,
-                overwrite=spec.deletes_output, separator=sep, origin=spec.origin)
+                overwrite=spec.deletes_output, separator=sep, origin=spec.origin,
+                partition=partition if spec.reduces > 1 and not isinstance(reduce, Identity) else None)
     splits = tuple(ref.split_commas for ref in spec.inputs) or (False,)
     source = Source(tuple(input_params), fmt, skip_first, splits, _reads_file_name(steps), spec.origin)
     plan = Plan(spec.name, source, tuple(steps), reduce, sink, tuple(params), tuple(hand), tuple(dict.fromkeys(shapes)),
-                tuple(notes))
+                tuple(notes), tuple(findings))
     sloc = sum(c.sloc for c in {index.get(fq) for fq in classes.values()} if c is not None)
     return JobResult(spec, plan, classes, files, sloc, notes)
+
+
+def _partition_of(spec: JobSpec, index: ClassIndex, key_t: str, reduce: Step) -> tuple[Expr | None, str]:
+    """The reduce task of each key (an expression over `key`), or None and why not."""
+    if isinstance(reduce, Identity):
+        return None, "identity reducer"
+    fq = spec.classes.get("partitioner")
+    try:
+        if fq is None or fq.endswith(".HashPartitioner"):
+            return hash_partition(key_t, spec.reduces, spec.driver.node), ""
+        cls = index.get(fq)
+        if cls is None:
+            return None, f"partitioner {fq.rsplit('.', 1)[-1]} is not in the repository"
+        return custom_partition(cls, key_t, spec.reduces), ""
+    except Unsupported as u:
+        return None, u.reason
 
 
 def _reads_file_name(steps: list[Step]) -> bool:
@@ -311,16 +349,29 @@ def _does_something(m) -> bool:
                for s in body)
 
 
-def _lift_reducer(rcls: ClassInfo, key_t: str, val_t: str, hand: list[HandWork], index: ClassIndex) -> Step | None:
+def _lift_reducer(rcls: ClassInfo, key_t: str, val_t: str, hand: list[HandWork], index: ClassIndex,
+                  findings: list[Finding], reduces: int) -> Step | None:
     owner, m = _find_method(rcls, index, "reduce", (3, 4))
     if m is None:
         return Identity(rcls.span, "reducer without reduce(): identity")
+    a, b = node_lines(m)
+    sloc = logical_sloc(owner.file.lines[(m.position.line if m.position else a) - 1 : b])
+    try:
+        top = lift_top_n(owner, m, key_t, val_t, index, FoldLifter)
+    except Unsupported as u:
+        line = u.line or a
+        hand.append(HandWork("top-n", Span(owner.file.path, line, line), u.reason,
+                             u.suggestion or "Window.orderBy(...) with row_number() <= N", owner.file.lines[line - 1].strip(),
+                             "P2", sloc))
+        return None
     hand.extend(_lifecycle(owner, "of the reducer is not converted in this version",
-                           "per-task state (top-N in cleanup, side outputs) needs a rewrite", "P2"))
+                           "per-task state (top-N in cleanup, side outputs) needs a rewrite", "P2",
+                           skip=("cleanup",) if top is not None else ()))
+    if top is not None:
+        findings.extend(top_n_findings(top, top.fold.emits[0].origin, reduces))
+        return top
     group, items = FoldLifter(owner, m, key_t, val_t, index).run()
     if items:
-        a, b = node_lines(m)
-        sloc = logical_sloc(owner.file.lines[(m.position.line if m.position else a) - 1 : b])
         hand.extend(_named(owner, h, sloc) for h in items)
     return group
 
@@ -396,13 +447,18 @@ def _shapes(steps: list[Step], reduce: Step | None) -> list[str]:
             out.append("several writes per key")
     if isinstance(reduce, EachValue):
         out.append("per-value writes in the reducer")
+    if isinstance(reduce, TopN):
+        out.append("top-N" + (" per reduce task" if reduce.partition is not None else ""))
     if isinstance(reduce, Identity):
         out.append("sort by key")
     return out
 
 
 def _sink_types(steps: list[Step], reduce: Step | None, spec: JobSpec) -> tuple[str | None, str | None]:
-    ems = reduce.emits if isinstance(reduce, (Group, EachValue)) else [e for s in steps if isinstance(s, Project)
+    if isinstance(reduce, TopN):
+        ems = list(reduce.writes)
+    else:
+        ems = reduce.emits if isinstance(reduce, (Group, EachValue)) else [e for s in steps if isinstance(s, Project)
                                                                        for e in s.emits][:1]
     if ems:
         e = ems[0]

@@ -34,8 +34,10 @@ _SET_ELEMENTS = {"String": "String", "Integer": "int", "Long": "long"}  # Double
 class FoldLifter:
     """Turns one reduce() method into a Group or EachValue step (or hand work)."""
 
-    def __init__(self, cls: ClassInfo, method: T.MethodDeclaration, key_type: str, value_type: str, index=None):
+    def __init__(self, cls: ClassInfo, method: T.MethodDeclaration, key_type: str, value_type: str, index=None,
+                 collector=None):
         self.cls, self.method = cls, method
+        self.collector = collector  # a rule for statements filling a field across keys (lift.topn)
         self.file = cls.file.path
         self.key_type, self.value_type = key_type, value_type
         params = [p.name for p in method.parameters]
@@ -74,6 +76,8 @@ class FoldLifter:
             if self.emits or self.aggs:
                 raise Unsupported(self.method, "reduce() writes both inside its loop over values and after it")
             return EachValue(span, "writes inside the loop over values", tuple(self.loop_emits), tuple(self.lets))
+        if self.collector is not None:
+            self.emits = self.collector.finish(self)
         if not self.emits:
             raise Unsupported(self.method, "reduce() writes nothing itself (is the output written in cleanup()?)",
                               "see the top-N rule: a structure filled in reduce() and written in cleanup()")
@@ -121,6 +125,8 @@ class FoldLifter:
         return Emit(Span(self.file, a, b), self.cls.file.lines[a - 1].strip() if a else "", k, v, guard)
 
     def _stmt(self, s, guard) -> None:
+        if self.collector is not None and self.seen_loop and self.collector.statement(s, guard, self):
+            return
         if isinstance(s, T.LocalVariableDeclaration):
             tname = getattr(s.type, "name", "")
             for d in s.declarators:

@@ -38,6 +38,9 @@ def build_report(jobs: list[tuple[JobResult, str]], errors: list[ParseFailure], 
                            "reason": h.reason, "suggestion": h.suggestion, "snippet": h.snippet,
                            "profile": h.profile, "sloc": h.sloc} for h in job.plan.hand_work],
             "notes": list(job.plan.notes),
+            "findings": [{"category": f.category, "file": f.origin.file, "line": f.origin.line_start,
+                          "finding": f.message, "suggestion": f.suggestion} for f in job.plan.findings],
+            "aggregates": aggregates_of(job),
             "counters": counters_of(job),
             "sloc": {"total": eff.sloc_total, "automatic": eff.sloc_auto, "hand": eff.sloc_manual},
             "effort_hours": round(est["jobs"][script], 2),
@@ -59,6 +62,26 @@ def build_report(jobs: list[tuple[JobResult, str]], errors: list[ParseFailure], 
             "caveat": EFFORT_CAVEAT,
         },
     }
+
+
+AGGREGATE_WORDS = {"sum": "F.sum", "count": "F.count", "count_if": "F.count_if (conditional count)",
+                   "min": "F.min", "max": "F.max", "min_nan": "F.min, NaN if any value is NaN (Math.min)",
+                   "min_nonnan": "F.min over non-NaN values (`<` comparison)",
+                   "max_nonnan": "F.max over non-NaN values (`>` comparison)", "any": "F.bool_or",
+                   "all": "F.bool_and", "count_distinct": "F.count_distinct (set size)"}
+
+
+def aggregates_of(job: JobResult) -> list[dict]:
+    """Each reducer accumulator and the aggregate it became, with its Java line."""
+    from migrate.plan import Group, TopN, dump_expr
+
+    r = job.plan.reduce
+    fold = r.fold if isinstance(r, TopN) else r
+    if not isinstance(fold, Group):
+        return []
+    return [{"accumulator": a.name, "java_type": a.jtype, "aggregate": AGGREGATE_WORDS.get(a.fn, a.fn),
+             "over": dump_expr(a.arg) if a.arg is not None else "every value", "file": a.origin.file,
+             "line": a.origin.line_start, "java": a.note} for a in fold.aggs]
 
 
 def counters_of(job: JobResult) -> list[dict]:
@@ -94,13 +117,19 @@ def to_markdown(report: dict) -> str:
     out += ["", f"Estimated effort for the repository: **{e['hours']:.1f} h** "
                 f"(range {e['range_hours'][0]:.1f} to {e['range_hours'][1]:.1f} h). {e['caveat']}", ""]
     for j in report["jobs"]:
-        if not j["hand_work"] and not j["notes"] and not j["counters"]:
+        if not (j["hand_work"] or j["notes"] or j["counters"] or j["findings"] or j["aggregates"]):
             continue
         out += [f"## {j['name']} ({j['status']})", ""]
         for h in j["hand_work"]:
             out += [f"- **{h['category']}** at `{h['file']}:{h['line']}`: {h['reason']}",
                     f"  - code: `{h['snippet']}`" if h["snippet"] else "  - code: (see file)",
                     f"  - suggestion: {h['suggestion']}"]
+        for f in j["findings"]:
+            out += [f"- **finding: {f['category']}** at `{f['file']}:{f['line']}`: {f['finding']}",
+                    f"  - to decide: {f['suggestion']}"]
+        for a in j["aggregates"]:
+            out.append(f"- accumulator `{a['accumulator']}` ({a['java_type']}, `{a['file']}:{a['line']}` "
+                       f"`{a['java']}`) became {a['aggregate']} over `{a['over']}`")
         for n in j["notes"]:
             out.append(f"- note: {n}")
         for c in j["counters"]:

@@ -49,6 +49,7 @@ public class LongRideLog {
         conf.setJobName("long ride log");
         conf.setMapperClass(StationDurationMapper.class);
         conf.setReducerClass(OverTwentyMinutes.class);
+        conf.setNumReduceTasks(3);
         conf.setOutputKeyClass(Text.class);
         conf.setOutputValueClass(IntWritable.class);
         FileInputFormat.setInputPaths(conf, new Path(args[0]));

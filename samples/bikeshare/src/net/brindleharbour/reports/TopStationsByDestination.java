@@ -21,7 +21,7 @@ import org.apache.hadoop.util.ToolRunner;
 
 /**
  * The three most popular destinations, computed per reducer and emitted in cleanup().
- * Needs hand work: a TreeMap keyed by count (ties overwrite each other!) and a custom partitioner.
+ * A TreeMap keyed by count (ties overwrite each other!), one per reduce task, split by a custom partitioner.
  */
 public class TopStationsByDestination extends Configured implements Tool {
 
