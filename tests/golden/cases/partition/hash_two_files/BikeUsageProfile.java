@@ -76,6 +76,7 @@ public class BikeUsageProfile {
         job.setJarByClass(BikeUsageProfile.class);
         job.setMapperClass(RideMapper.class);
         job.setReducerClass(ProfileReducer.class);
+        job.setNumReduceTasks(2);  // two part files, split by the key hash
         job.setOutputKeyClass(Text.class);
         job.setOutputValueClass(Text.class);
         FileInputFormat.addInputPath(job, new Path(args[0]));

@@ -3,7 +3,7 @@
 PySpark DataFrame version of the Hadoop MapReduce job "bike usage profile", written by mrlift.
 
 Original classes:
-    driver       net.brindleharbour.fleet.BikeUsageProfile  (BikeUsageProfile.java:21-85)
+    driver       net.brindleharbour.fleet.BikeUsageProfile  (BikeUsageProfile.java:21-86)
     mapper       net.brindleharbour.fleet.BikeUsageProfile.RideMapper  (BikeUsageProfile.java:23-37)
     reducer      net.brindleharbour.fleet.BikeUsageProfile.ProfileReducer  (BikeUsageProfile.java:39-72)
 
@@ -15,6 +15,9 @@ Usage (the same positional arguments as the original driver):
 
 Semantics kept from Java/Hadoop: see the helper docstrings. Java int/long overflow in
 row arithmetic raises an error here (ANSI mode) instead of wrapping silently.
+
+Findings (the original does this and so does this script; decide whether to keep it):
+    BikeUsageProfile.java:79  [output-layout] Hadoop wrote 2 part files, each sorted by key; the script writes one file holding the same lines in the same order (the part files one after another)
 
 Verify this script on real data before it replaces the production job: compare its
 output with the original job's output on a representative sample of real data.
@@ -112,6 +115,58 @@ def java_long_div(a, b) -> Column:
     return F.when(b == -1, wrap_long(-a.cast("decimal(20,0)"))).otherwise(
         F.call_function("div", a, b)
     )
+
+
+def _int32(u: Column) -> Column:
+    """An unsigned 32-bit value (0 <= u < 2**32, bigint) as the Java int with those bits."""
+    return F.when(u >= 2**31, u - 2**32).otherwise(u).cast("int")
+
+
+def _fold_hash(units: Column, start: int) -> Column:
+    """h = 31 * h + unit over an array of ints, with Java's 32-bit int wrap-around."""
+    return _int32(
+        F.aggregate(
+            units, F.lit(start).cast("bigint"), lambda h, u: F.pmod(h * 31 + u, F.lit(2**32))
+        )
+    )
+
+
+def _hex_units(s: Column, charset: str, width: int) -> Column:
+    """The code units of a string in `charset`, `width` hex digits each, as unsigned ints."""
+    hexed = F.hex(F.encode(s, charset))
+    return F.transform(
+        F.regexp_extract_all(hexed, F.lit("(" + "." * width + ")"), 1),
+        lambda h: F.conv(h, 16, 10).cast("int"),
+    )
+
+
+def text_hash(s: Column) -> Column:
+    """Text.hashCode(): WritableComparator.hashBytes over the UTF-8 bytes (signed), starting at 1."""
+    signed = F.transform(_hex_units(s, "UTF-8", 2), lambda b: F.when(b > 127, b - 256).otherwise(b))
+    return _fold_hash(signed, 1)
+
+
+def string_hash(s: Column) -> Column:
+    """String.hashCode(): s[0]*31^(n-1) + ... over the UTF-16 code units, starting at 0."""
+    return _fold_hash(_hex_units(s, "UTF-16BE", 4), 0)
+
+
+def first_code_unit(s: Column) -> Column:
+    """s.charAt(0) as an int (a UTF-16 code unit); the job fails on "" where Java throws."""
+    unit = F.element_at(_hex_units(s, "UTF-16BE", 4), 1)
+    return F.when(F.length(s) > 0, unit).otherwise(
+        F.raise_error(F.lit("StringIndexOutOfBoundsException"))
+    )
+
+
+def long_hash(v: Column) -> Column:
+    """LongWritable.hashCode(): (int) value, the low 32 bits (not Long.hashCode's high-low XOR)."""
+    return _int32(F.pmod(v, F.lit(2**32)))
+
+
+def partition_of(hash_code: Column, reduce_tasks: int) -> Column:
+    """(hashCode & Integer.MAX_VALUE) % numReduceTasks: the reduce task (part file) of a key."""
+    return hash_code.bitwiseAND(F.lit(2147483647)) % reduce_tasks
 
 
 def build(spark: SparkSession, input_path: str) -> DataFrame:
@@ -216,8 +271,9 @@ def build(spark: SparkSession, input_path: str) -> DataFrame:
                     lambda written: written.isNotNull(),
                 )
             ).alias("written"),
+            partition_of(text_hash(F.col("key")), F.lit(2)).alias("_partition"),
         )
-        .select("written.key", "written.value", "written._write")
+        .select("written.key", "written.value", "_partition", "written._write")
     )
     return result
 
@@ -228,7 +284,7 @@ def write_text_output(result: DataFrame, output_path: str, *, dry_run: bool = Fa
     A NULL side (NullWritable) is left out together with its separator.
     """
     # One reducer wrote one file sorted by key: the same here (wide: one shuffle into one partition).
-    rows = result.repartition(1).sortWithinPartitions("key", "_write")
+    rows = result.repartition(1).sortWithinPartitions("_partition", "key", "_write")
     lines = rows.where(F.col("key").isNotNull() | F.col("value").isNotNull()).select(
         F.concat_ws("\t", F.col("key").cast("string"), F.col("value").cast("string")).alias("value")
     )
