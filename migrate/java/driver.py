@@ -41,6 +41,7 @@ class JobSpec:
     deletes_output: bool = False
     unread: list[tuple[int, str]] = field(default_factory=list)  # (line, call text) the reader skipped
     call_lines: dict[str, int] = field(default_factory=dict)  # job method name -> line of the call
+    replaced: list[tuple[int, str, str, str]] = field(default_factory=list)  # (line, call, earlier, later) class
     extra: list[tuple[str, int, str]] = field(default_factory=list)  # (category, line, text) needing hand work
 
     @property
@@ -323,7 +324,10 @@ class _DriverReader:
         if m in ("getConfiguration",):
             return ("conf", None)
         if m in _JOB_CALLS and args:
-            spec.classes[_JOB_CALLS[m]] = self._class_arg(args[0])
+            role, cls = _JOB_CALLS[m], self._class_arg(args[0])
+            if spec.classes.get(role) not in (None, cls):  # Hadoop keeps the last call's class
+                spec.replaced.append((line, m, spec.classes[role], cls))
+            spec.classes[role] = cls
         elif m in _TYPE_CALLS and args:
             spec.types[_TYPE_CALLS[m]] = self._class_arg(args[0])
         elif m in ("setInputFormatClass", "setInputFormat") and args:

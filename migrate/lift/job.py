@@ -195,6 +195,16 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
     for category, line, text in spec.extra:
         add(category, Span(drv, line, line), f"{text} is not converted in this version",
             "see the DataFrame join/union equivalents in DEVELOPERS.md", "P2")
+    if spec.reduces != 0 and "reducer" not in spec.classes:
+        for c in index:
+            if "reducer" in c.roles and c.file.path == spec.driver.file.path and c.fqcn != spec.classes.get("combiner"):
+                findings.append(Finding("reducer-not-registered", c.span, f"{c.name} is a reducer in the driver's "
+                                        "file, but the driver never calls setReducerClass: Hadoop runs the identity "
+                                        "reducer; so does the script", f"register {c.name} if it was meant to run"))
+    for line, call, earlier, later in spec.replaced:
+        findings.append(Finding("set-twice", Span(drv, line, line), f"`{call}` is called again: Hadoop uses the last "
+                                f"class, {later.rsplit('.', 1)[-1]}, not {earlier.rsplit('.', 1)[-1]}; so does the script",
+                                "delete the call that does not count, so readers of the driver are not misled"))
     for line, call in spec.unread:
         notes.append(f"{drv}:{line} driver call `{call}` was not read")
     if isinstance(reduce, Identity):
@@ -205,6 +215,15 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
     # ---- shapes and the sink
     shapes.extend(_shapes(steps if mcls is not None else [], reduce))
     out_key_t, out_val_t = _sink_types(steps, reduce, spec)
+    for what, declared_fq, written in (("key", spec.types.get("out_key"), out_key_t),
+                                       ("value", spec.types.get("out_value"), out_val_t)):
+        declared = _jtype(declared_fq) if declared_fq else None
+        if declared not in (None, "?") and written is not None and declared != written and (spec.output_format or "TextOutputFormat").endswith("TextOutputFormat"):
+            findings.append(Finding("declared-type", at("setOutputKeyClass" if what == "key" else "setOutputValueClass"),
+                                    f"the job declares {declared_fq.rsplit('.', 1)[-1]} output {what}s but writes "
+                                    f"{written} ones; TextOutputFormat prints whatever is written, so the output is "
+                                    "the written values' text, in the original and in the script",
+                                    "declare the class that is written (a binary output format would fail)"))
     sink = Sink("output_path", out_key_t, out_val_t, sorted_by_key=reduce is not None and spec.reduces >= 1,
                 overwrite=spec.deletes_output, separator=sep, origin=spec.origin,
                 partition=partition if spec.reduces > 1 and not isinstance(reduce, Identity) else None)
@@ -301,6 +320,15 @@ def _lift_mapper(mcls: ClassInfo, fmt: str, hand: list[HandWork], notes: list[st
         hand.append(HandWork("map-logic", mcls.span, f"{mcls.name} has no map() method the converter could find",
                              "write the map step by hand", mcls.file.lines[mcls.line_start - 1].strip(), "P2", mcls.sloc))
         return [], False
+    why = not_an_override(owner, m, "Mapper")
+    if why is not None:
+        line = m.position.line if m.position else owner.line_start
+        hand.append(HandWork("map-not-called", Span(owner.file.path, line, line),
+                             f"{owner.name}.map() does not override Mapper.map ({why}): Hadoop runs the identity "
+                             "mapper, which passes on each line's byte offset; Spark's text source has no offsets",
+                             "fix the signature if the map logic was meant to run; otherwise decide what the job is for",
+                             owner.file.lines[line - 1].strip(), "P2", owner.sloc))
+        return [], False
     settings, problems = task_constants(owner, driver_conf, class_constants(owner, index))
     for line, reason in problems:
         hand.append(HandWork("task-lifecycle", Span(owner.file.path, line, line), reason,
@@ -349,11 +377,48 @@ def _does_something(m) -> bool:
                for s in body)
 
 
+def not_an_override(cls: ClassInfo, m, base: str) -> str | None:
+    """Why a new-API map()/reduce() does not override the framework's method (None: it does, or unknown).
+
+    Without @Override, javac accepts a method whose parameter types differ from Mapper.map(KEYIN,
+    VALUEIN, Context) / Reducer.reduce(KEYIN, Iterable<VALUEIN>, Context) as an overload, and
+    Hadoop silently runs the inherited identity method instead.
+    """
+    ext = cls.node.extends
+    if cls.api != "mapreduce" or ext is None or ext.name.rsplit(".", 1)[-1] != base or len(ext.arguments or []) != 4:
+        return None
+    k_in, v_in = (getattr(a.type, "name", "") for a in ext.arguments[:2])
+    if len(m.parameters) != 3:
+        return f"{m.name}() takes {len(m.parameters)} parameters"
+    p_key, p_vals, p_ctx = (p.type for p in m.parameters)
+    ctx = p_ctx.name.rsplit(".", 1)[-1] if p_ctx.sub_type is None else p_ctx.sub_type.name
+    if ctx != "Context":
+        return f"its last parameter is of type {p_ctx.name}, not the {base}'s Context"
+    if p_key.name != k_in:
+        return f"its key parameter is a {p_key.name} where the class declares {k_in}"
+    if base == "Mapper":
+        return None if p_vals.name == v_in else f"its value parameter is a {p_vals.name} where the class declares {v_in}"
+    inner = [getattr(a.type, "name", "") for a in p_vals.arguments or []]
+    if p_vals.name != "Iterable" or inner != [v_in]:
+        got = p_vals.name + (f"<{', '.join(inner)}>" if inner else "")
+        return f"its values parameter is of type {got}, not Iterable<{v_in}>"
+    return None
+
+
 def _lift_reducer(rcls: ClassInfo, key_t: str, val_t: str, hand: list[HandWork], index: ClassIndex,
                   findings: list[Finding], reduces: int) -> Step | None:
     owner, m = _find_method(rcls, index, "reduce", (3, 4))
     if m is None:
         return Identity(rcls.span, "reducer without reduce(): identity")
+    why = not_an_override(owner, m, "Reducer")
+    if why is not None:
+        line = m.position.line if m.position else owner.line_start
+        findings.append(Finding("reduce-not-called", Span(owner.file.path, line, line),
+                                f"{owner.name}.reduce() does not override Reducer.reduce ({why}): Hadoop never calls "
+                                "it and runs the identity reducer, so the original writes every map output pair "
+                                "sorted by key; the script does the same",
+                                "fix the signature (and add @Override) if the reduce logic was meant to run"))
+        return Identity(owner.span, "reduce() is never called: identity")
     a, b = node_lines(m)
     sloc = logical_sloc(owner.file.lines[(m.position.line if m.position else a) - 1 : b])
     try:
