@@ -295,8 +295,10 @@ class Identity(Step):
 
 # Hand work that leaves the script unable to compute the original's output: the generated
 # script stops with NotImplementedError until it is done. Other items (counters, file layout,
-# chaining) leave the output right but the job incomplete.
-ADVISORY_CATEGORIES = {"counter", "output-layout", "partitioner", "chained-jobs", "driver", "input-output-options"}
+# chaining) leave the output right but the job incomplete; an unsound combiner leaves the script
+# computing the true answer where the original's depended on how often the combiner ran.
+ADVISORY_CATEGORIES = {"counter", "output-layout", "partitioner", "chained-jobs", "driver", "input-output-options",
+                       "combiner"}  # the script computes the reducer over all values: the true answer
 
 
 @dataclass(frozen=True)

@@ -386,6 +386,8 @@ class _DriverReader:
             sub = e.type.sub_type
             while sub is not None:
                 name, sub = f"{name}.{sub.name}", sub.sub_type
+            if e.qualifier:  # a qualified class literal, `org.example.Foo.class`
+                name = f"{e.qualifier}.{name}"
             return self.index.resolve(name, self.cls) or name
         v = self._value(e, None)
         return f"<{v[1]}>"

@@ -170,7 +170,7 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
                                         "readers that open part files by name need the folder read as a whole"))
                 if isinstance(reduce, TopN):
                     reduce = replace(reduce, partition=partition, partitions=spec.reduces)
-        _check_combiner(spec, reduce, index, add, at("setCombinerClass"))
+        _check_combiner(spec, reduce, index, add, notes, at("setCombinerClass"), map_key_t, map_val_t)
         if combining:
             if _is_plain_sum(reduce):
                 notes.append(f"in-mapper combining ({', '.join(combining)}, flushed in cleanup()) is a partial sum; the "
@@ -456,21 +456,57 @@ def _writes_key_and_agg(g: Group) -> bool:
     return e is not None and isinstance(e.value, AggRef) and isinstance(e.key, Col) and e.key.name == "key"
 
 
-def _check_combiner(spec: JobSpec, reduce: Step | None, index: ClassIndex, add, where: Span) -> None:
+def _partial_aggregate(g: Step | None) -> str | None:
+    """The aggregate a reducer applies to the values when partial results of it can be merged by
+    itself (sum, min, max over the value, written as (key, aggregate)), or "distinct"; else None."""
+    if not isinstance(g, Group):
+        return None
+    if g.distinct:
+        return "distinct" if g.single is not None else None
+    if not (_writes_key_and_agg(g) and len(g.aggs) == 1):
+        return None
+    a = g.aggs[0]
+    fn = a.fn.split("_")[0]
+    if fn not in _SAFE_COMBINE or not (isinstance(a.arg, Col) and a.arg.name == "value" or
+                                       isinstance(a.arg, Cast) and isinstance(a.arg.arg, Col)):
+        return None
+    return None if fn == "sum" and a.init else fn  # an initial value would be added once per combine
+
+
+def _check_combiner(spec: JobSpec, reduce: Step | None, index: ClassIndex, add, notes: list[str], where: Span,
+                    key_t: str, val_t: str) -> None:
+    """A combiner is sound when it is a partial form of the reducer's own aggregate (Hadoop may run
+    it zero or more times per map task); then Spark needs nothing for it."""
     comb = spec.classes.get("combiner")
     if comb is None:
         return
-    same = comb == spec.classes.get("reducer") or (comb in SUM_REDUCERS and spec.classes.get("reducer") in SUM_REDUCERS)
-    safe = (same and isinstance(reduce, Group) and not reduce.distinct and reduce.aggs
-            and all(a.fn in _SAFE_COMBINE and isinstance(a.arg, (Col, Cast)) for a in reduce.aggs)
-            and all(a.fn != "sum" or not a.init for a in reduce.aggs)  # an initial value would be added per combine
-            and _writes_key_and_agg(reduce))
-    if same and isinstance(reduce, Group) and reduce.distinct and reduce.single is not None:
-        safe = True
-    if not safe:
-        add("combiner", where, f"combiner {comb.rsplit('.', 1)[-1]} may change the result: Hadoop runs it zero or "
-            "more times, so the original output depends on it", "check whether the combiner is a partial aggregate of the "
-            "reducer; if so drop it (Spark combines partial aggregates itself)", "P2", _sloc_of(index, comb))
+    name = comb.rsplit(".", 1)[-1]
+    reducer = spec.classes.get("reducer")
+    r_fn = _partial_aggregate(reduce)
+    c_fn, what = None, "its reduce() could not be read"
+    if comb == reducer:
+        c_fn, what = r_fn, "it is the reducer itself"
+    elif comb in SUM_REDUCERS:
+        c_fn, what = "sum", "it sums the values"
+    else:
+        ccls = index.get(comb)
+        owner, m = _find_method(ccls, index, "reduce", (3, 4)) if ccls is not None else (None, None)
+        if m is not None and not_an_override(owner, m, "Reducer") is None:
+            g, items = FoldLifter(owner, m, key_t, val_t, index).run()
+            c_fn = _partial_aggregate(g) if not items else None
+            what = f"it computes the {c_fn} of the values" if c_fn else "it is not a plain sum, min or max of the values"
+    if r_fn is not None and c_fn == r_fn:
+        form = "passes on each key once, as the reducer does" if r_fn == "distinct" else \
+            f"is a partial {r_fn} of the values the reducer aggregates"
+        notes.append(f"combiner {name} {form} ({what}); Spark's groupBy merges partial aggregates itself, so there "
+                     "is nothing to convert for it")
+        return
+    add("combiner", where, f"combiner {name} is not a partial form of the reducer's aggregate ({what}; the reducer "
+        f"{'computes the ' + r_fn if r_fn else 'is not a plain sum, min or max'}): Hadoop runs a combiner zero or "
+        "more times per map task, so the original output depended on how the input was split and spilled; the "
+        "script computes the reducer over all the values, as if the combiner never ran",
+        "decide whether the true answer (the script's) is wanted or the old numbers must be kept; then drop the "
+        "combiner", "P2", _sloc_of(index, comb))
 
 
 def _check_map_output_types(steps: list[Step], key_t: str, val_t: str, mcls: ClassInfo | None, add) -> None:
