@@ -133,6 +133,21 @@ class AggRef(Expr):
 
 
 @dataclass(frozen=True)
+class StructNew(Expr):
+    """A custom Writable made from its fields (`new StationHour(s, h)`): a struct column."""
+
+    items: tuple[tuple[str, Expr], ...]
+
+
+@dataclass(frozen=True)
+class Field(Expr):
+    """One field of a custom Writable held in a struct column (`key.station`)."""
+
+    base: Expr
+    name: str
+
+
+@dataclass(frozen=True)
 class ConfValue(Expr):
     """A job setting read once per task (`conf.getInt(name, default)`): a script parameter.
 
@@ -354,6 +369,7 @@ class Sink:
     separator: str = "\t"
     origin: Span = NO_SPAN
     partition: Expr | None = None  # with several reduce tasks: the task (part file) of a key, over `key`
+    sort_key: Expr | None = None  # a custom key's compareTo order as a sortable expression, over `key`
 
 
 @dataclass(frozen=True)
@@ -399,7 +415,9 @@ def walk(e: Expr | None):
     yield e
     for a in getattr(e, "args", ()) or ():
         yield from walk(a)
-    for name in ("left", "right", "arg", "cond", "then", "other"):
+    for _, item in getattr(e, "items", ()) or ():
+        yield from walk(item)
+    for name in ("left", "right", "arg", "cond", "then", "other", "base"):
         sub = getattr(e, name, None)
         if isinstance(sub, Expr):
             yield from walk(sub)
@@ -430,6 +448,10 @@ def dump_expr(e: Expr | None) -> str:
         return f"({dump_expr(e.cond)} ? {dump_expr(e.then)} : {dump_expr(e.other)})"
     if isinstance(e, Cast):
         return f"({e.jtype}) {dump_expr(e.arg)}"
+    if isinstance(e, StructNew):
+        return "{" + ", ".join(f"{k}: {dump_expr(v)}" for k, v in e.items) + "}"
+    if isinstance(e, Field):
+        return f"{dump_expr(e.base)}.{e.name}"
     raise TypeError(f"no dump for {type(e).__name__}")
 
 

@@ -8,7 +8,7 @@ from pathlib import Path
 import black
 import jinja2
 
-from migrate.plan import (INTEGRAL, Agg, AggRef, Arith, BoolOp, Call, Cast, Col, Compare, Cond, ConfValue, Count, EachValue, Emit, Explode, Expr, Filter, Group, HandWork, Identity, Let, Lit, Plan, Project, Step, TopN)
+from migrate.plan import (INTEGRAL, Agg, AggRef, Arith, BoolOp, Call, Cast, Col, Compare, Cond, ConfValue, Count, EachValue, Emit, Explode, Expr, Filter, Group, HandWork, Identity, Let, Lit, Plan, Project, Step, StructNew, TopN, Field)
 
 SPARK_TYPES = {"int": "int", "long": "bigint", "double": "double", "float": "float", "boolean": "boolean",
                "String": "string"}
@@ -52,6 +52,10 @@ PLAIN_CALLS = {
     "int_hash": ("{0}", None),
     "long_hash": ("long_hash({0})", "hadoop_partition"),
     "partition_of": ("partition_of({0}, {1})", "hadoop_partition"),
+    # String.compareTo orders UTF-16 code units; Spark orders strings by UTF-8 bytes (they differ
+    # past U+FFFF): the UTF-16BE bytes of a string sort as compareTo does
+    "utf16_order": ('F.encode({0}, "UTF-16BE")', None),
+    "negate": ("(-{0})", None),
 }
 
 
@@ -91,6 +95,12 @@ class ExprWriter:
     def visit_ConfValue(self, e: ConfValue) -> str:
         self.settings[e.var] = e
         return f"F.lit({e.var})" + {"long": '.cast("bigint")', "float": '.cast("float")'}.get(e.jtype, "")
+
+    def visit_StructNew(self, e: StructNew) -> str:
+        return "F.struct(" + ", ".join(f'{self(v)}.alias("{k}")' for k, v in e.items) + ")"
+
+    def visit_Field(self, e: Field) -> str:
+        return f'{self(e.base)}["{e.name}"]'
 
     def visit_AggRef(self, e: AggRef) -> str:
         return f'F.col("{agg_column(e.name)}")'
@@ -395,7 +405,7 @@ def build_body(plan: Plan, x: ExprWriter) -> ScriptParts:
             out.append("    .distinct()  # the reducer ignores its values: one row per key")
         else:
             out.extend("    " + c for c in _fold_code(r, x))
-        out.extend("    " + c for c in _reduce_writes(r.emits, x, plan.sink.partition))
+        out.extend("    " + c for c in _reduce_writes(r.emits, x, plan.sink.partition, plan.sink.sort_key))
         out.append(")")
         out.append("return result")
     elif isinstance(r, EachValue):
@@ -405,7 +415,7 @@ def build_body(plan: Plan, x: ExprWriter) -> ScriptParts:
         out.append("result = (")
         out.append("    map_output")
         out.extend("    " + c for s in r.lets for c in _step_code(s, x))
-        out.extend("    " + c for c in _reduce_writes(r.emits, x, plan.sink.partition))
+        out.extend("    " + c for c in _reduce_writes(r.emits, x, plan.sink.partition, plan.sink.sort_key))
         out.append(")")
         out.append("return result")
     elif isinstance(r, TopN):
@@ -471,15 +481,20 @@ def _top_n_code(r: TopN, x: ExprWriter) -> list[str]:
     return lines
 
 
-def _reduce_writes(emits: tuple[Emit, ...], x: ExprWriter, partition: Expr | None = None) -> list[str]:
+F_KEY = 'F.col("key")'
+
+
+def _reduce_writes(emits: tuple[Emit, ...], x: ExprWriter, partition: Expr | None = None,
+                   sort_key: Expr | None = None) -> list[str]:
     """The reducer's writes as a select: `key`, `value`, plus the hidden sort columns the writer uses.
 
     Hadoop writes a reducer's output in reduce-key order, and the writes of one reduce() call in
     the order they ran: `_sort_key` keeps the reduce key when the written key is another
     expression, `_write` numbers the writes when there are several.
     """
-    keeps_key = all(isinstance(e.key, Col) and e.key.name == "key" for e in emits)
-    sort = [] if keeps_key else ['F.col("key").alias("_sort_key")']
+    keeps_key = all(isinstance(e.key, Col) and e.key.name == "key" for e in emits) and sort_key is None
+    # a custom key sorts as its compareTo() does, not as Spark orders the struct
+    sort = [] if keeps_key else [f'{x(sort_key) if sort_key is not None else F_KEY}.alias("_sort_key")']
     if partition is not None:  # the reduce task (part file) each key went to, as Hadoop chose it
         sort.insert(0, f'{x(partition)}.alias("_partition")')
     if len(emits) == 1:
@@ -516,7 +531,8 @@ def sort_columns(plan: Plan) -> list[str]:
         return ["_partition", "_write"] if r.partition is not None else ["_write"]
     emits = r.emits if isinstance(r, (Group, EachValue)) else ()
     cols = ["key"]
-    if emits and not all(isinstance(e.key, Col) and e.key.name == "key" for e in emits):
+    if emits and (plan.sink.sort_key is not None or not all(isinstance(e.key, Col) and e.key.name == "key"
+                                                          for e in emits)):
         cols = ["_sort_key"]
     if len(emits) > 1:
         cols.append("_write")

@@ -107,6 +107,7 @@ class Scope:
     methods: dict[str, list] = field(default_factory=dict)  # helper methods of the class, for inlining
     depth: int = 0
     enums: frozenset[str] = frozenset()  # simple names of enum types in the repository
+    structs: dict = field(default_factory=dict)  # custom Writables (fqcn and simple name -> StructInfo)
 
     def on_error(self, op: str) -> str:
         exc = THROWS.get(op)
@@ -170,6 +171,9 @@ def _lift(node, scope: Scope) -> Expr:
         if _is_input_split(node):
             return _input_file_name(node, sels)
         return _selectors(_cast(node, scope), sels, scope, node)
+    if isinstance(node, T.ClassCreator) and node.type.name in scope.structs:
+        info = _struct(scope, node.type.name, node)
+        return _selectors(info.construct(node, scope), node.selectors or [], scope, node)
     if isinstance(node, T.ClassCreator):
         w = writable_creator(node, scope)
         if w is not None and w.content is not None:
@@ -243,6 +247,10 @@ def _member(node: T.MemberReference, scope: Scope) -> Expr:
     if q.split(".")[-1] in scope.enums:
         return Lit("enum", m)  # an enum constant: only its name() / toString() are used as values
     b = scope.env.get(q)
+    if isinstance(b, Expr) and b.jtype in scope.structs:  # a public field of a custom Writable
+        info = _struct(scope, b.jtype, node)
+        if m in info.fields:
+            return info.field_of(b, m)
     if b is not None and m == "length":
         arr = _binding_value(b, node, q)
         if arr.jtype.endswith("[]"):
@@ -368,9 +376,18 @@ def _invocation(node: T.MethodInvocation, scope: Scope) -> Expr:
                       "inline the helper by hand, or express it with pyspark.sql.functions")
 
 
+def _struct(scope: Scope, name: str, node):
+    info = scope.structs.get(name)
+    if isinstance(info, Unsupported):
+        raise Unsupported(node, info.reason, info.suggestion)
+    return info
+
+
 def _method(recv: Expr, node: T.MethodInvocation, scope: Scope) -> Expr:
     m, args = node.member, node.arguments or []
     t = recv.jtype
+    if t in scope.structs:  # getters, toString() and helpers of a custom Writable, inlined
+        return _struct(scope, t, node).call(recv, m, [lift(x, scope) for x in args], node, scope)
     if t in ("LocalDateTime", "LocalDate", "DayOfWeek"):
         return _java_time_method(recv, node, scope)
     a = [lift(x, scope) for x in args]
@@ -498,8 +515,10 @@ def _check_format(fmt: str, values: list[Expr], node) -> None:
             raise Unsupported(node, f"String.format conversion %{conv} of a {v.jtype} is not lifted")
 
 
-def to_string(e: Expr) -> Expr:
+def to_string(e: Expr, scope: Scope | None = None) -> Expr:
     """Java's String.valueOf / toString of a value (Double.toString for doubles)."""
+    if scope is not None and e.jtype in scope.structs:
+        return _struct(scope, e.jtype, None).to_string(e, scope)
     if e.jtype in ("String", "char", "enum"):
         if e.jtype == "String":
             return e
@@ -523,7 +542,7 @@ def _binary(node: T.BinaryOperation, scope: Scope) -> Expr:
             return l
         return BoolOp("boolean", op, (l, r))
     if op == "+" and "String" in (l.jtype, r.jtype):
-        return Call("String", "concat", (to_string(l), to_string(r)))
+        return Call("String", "concat", (to_string(l, scope), to_string(r, scope)))
     if op in ("+", "-", "*", "/", "%"):
         if l.jtype not in NUMERIC or r.jtype not in NUMERIC:
             raise Unsupported(node, f"arithmetic {op} on {l.jtype} and {r.jtype}")

@@ -14,11 +14,12 @@ from migrate.lift.combining import flushes_all_entries
 from migrate.lift.config import task_constants
 from migrate.lift.limits import explain
 from migrate.lift.mapper import MapBodyLifter, class_constants
-from migrate.lift.exprs import Unsupported
+from migrate.lift.exprs import Scope, Unsupported, to_string
+from migrate.lift.writables import is_struct, structs_of
 from migrate.lift.reducer import FoldLifter
 from migrate.lift.partitioning import custom_partition, hash_partition
 from migrate.lift.topn import lift_top_n, top_n_findings
-from migrate.plan import (AggRef, Cast, Col, EachValue, Explode, Expr, Filter, Finding, Group, HandWork, Identity, Param, Plan,
+from migrate.plan import (AggRef, Cast, Col, EachValue, Emit, Explode, Expr, Filter, Finding, Group, HandWork, Identity, Param, Plan,
                           Project, Sink, Source, Span, Step, TopN)
 
 
@@ -102,11 +103,15 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
     # ---- map output types (Hadoop falls back to the job output types)
     map_key_fq = spec.types.get("map_key", spec.types.get("out_key", "org.apache.hadoop.io.LongWritable"))
     map_val_fq = spec.types.get("map_value", spec.types.get("out_value", "org.apache.hadoop.io.Text"))
-    map_key_t, map_val_t = _jtype(map_key_fq), _jtype(map_val_fq)
+    structs = structs_of(index)
+    map_key_t, map_val_t = _jtype(map_key_fq, structs), _jtype(map_val_fq, structs)
     for what, fq, t in (("map output key", map_key_fq, map_key_t), ("map output value", map_val_fq, map_val_t)):
         if t == "?":
-            add("custom-writable", spec.origin, f"{what} class {fq.rsplit('.', 1)[-1]} is a custom Writable",
-                "model its fields as struct columns", "P1", _sloc_of(index, fq))
+            why = structs.get(fq)
+            detail = f": {why.reason}" if isinstance(why, Unsupported) else ""
+            add("custom-writable", spec.origin, f"{what} class {fq.rsplit('.', 1)[-1]} is a custom Writable{detail}",
+                (why.suggestion if isinstance(why, Unsupported) and why.suggestion else "model its fields as struct columns"),
+                "P1", _sloc_of(index, fq))
     # ---- mapper
     mapper_fq = spec.classes.get("mapper")
     steps: list[Step] = []
@@ -214,6 +219,14 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
                      "fixes; the last digit can differ between runs of either")
     # ---- shapes and the sink
     shapes.extend(_shapes(steps if mcls is not None else [], reduce))
+    steps, reduce = _struct_output_text(steps, reduce, structs, add, spec.origin)
+    sort_key = None
+    if is_struct(map_key_t) and reduce is not None and not isinstance(reduce, TopN):
+        try:
+            sort_key = structs[map_key_t].sort_key(Col(map_key_t, "key"), spec.driver.node)
+        except Unsupported as u:
+            add("custom-writable", spec.origin, f"the output is sorted by {map_key_t.split('.')[-1]}.compareTo: "
+                f"{u.reason}", u.suggestion or "sort by the compared fields by hand", "P1")
     out_key_t, out_val_t = _sink_types(steps, reduce, spec)
     for what, declared_fq, written in (("key", spec.types.get("out_key"), out_key_t),
                                        ("value", spec.types.get("out_value"), out_val_t)):
@@ -226,13 +239,40 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
                                     "declare the class that is written (a binary output format would fail)"))
     sink = Sink("output_path", out_key_t, out_val_t, sorted_by_key=reduce is not None and spec.reduces >= 1,
                 overwrite=spec.deletes_output, separator=sep, origin=spec.origin,
-                partition=partition if spec.reduces > 1 and not isinstance(reduce, Identity) else None)
+                partition=partition if spec.reduces > 1 and not isinstance(reduce, Identity) else None,
+                sort_key=sort_key)
     splits = tuple(ref.split_commas for ref in spec.inputs) or (False,)
     source = Source(tuple(input_params), fmt, skip_first, splits, _reads_file_name(steps), spec.origin)
     plan = Plan(spec.name, source, tuple(steps), reduce, sink, tuple(params), tuple(hand), tuple(dict.fromkeys(shapes)),
                 tuple(notes), tuple(findings))
     sloc = sum(c.sloc for c in {index.get(fq) for fq in classes.values()} if c is not None)
     return JobResult(spec, plan, classes, files, sloc, notes)
+
+
+def _struct_output_text(steps: list[Step], reduce: Step | None, structs: dict, add, where: Span):
+    """TextOutputFormat prints a custom Writable with its toString(): final writes become that text."""
+    scope = Scope({}, structs=structs)
+
+    def text(e: Emit) -> Emit:
+        k = to_string(e.key, scope) if e.key is not None and is_struct(e.key.jtype) else e.key
+        v = to_string(e.value, scope) if e.value is not None and is_struct(e.value.jtype) else e.value
+        return replace(e, key=k, value=v) if (k, v) != (e.key, e.value) else e
+
+    try:
+        if isinstance(reduce, (Group, EachValue)):
+            reduce = replace(reduce, emits=tuple(text(e) for e in reduce.emits))
+        elif isinstance(reduce, TopN):
+            reduce = replace(reduce, writes=tuple(text(e) for e in reduce.writes))
+        elif reduce is None:
+            steps = [replace(s, emits=tuple(text(e) for e in s.emits)) if isinstance(s, Project) else s for s in steps]
+        elif isinstance(reduce, Identity) and any(is_struct(e.key.jtype) or is_struct(e.value.jtype)
+                                                  for s in steps if isinstance(s, Project) for e in s.emits
+                                                  if e.key is not None and e.value is not None):
+            raise Unsupported(None, "the identity reducer writes a custom Writable")
+    except Unsupported as u:
+        add("custom-writable", where, f"the output text of a custom Writable: {u.reason}",
+            u.suggestion or "format its fields with F.concat by hand", "P1")
+    return steps, reduce
 
 
 def _partition_of(spec: JobSpec, index: ClassIndex, key_t: str, reduce: Step) -> tuple[Expr | None, str]:
@@ -276,7 +316,10 @@ def _param(name: str, ref: PathRef, what: str) -> Param:
     return Param(name, f"{what} (the driver computed it: {ref.text})", None, None)
 
 
-def _jtype(fq: str) -> str:
+def _jtype(fq: str, structs: dict | None = None) -> str:
+    info = (structs or {}).get(fq)
+    if info is not None and not isinstance(info, Unsupported):
+        return info.jtype
     if fq in WRITABLE_TYPES:
         t = WRITABLE_TYPES[fq]
         return "null" if t is None else t
@@ -516,14 +559,18 @@ def _check_map_output_types(steps: list[Step], key_t: str, val_t: str, mcls: Cla
             for side, declared, what in ((e.key, key_t, "key"), (e.value, val_t, "value")):
                 got = side.jtype if side is not None else "null"
                 if declared not in ("?", got) and not (got == "null" and declared != "null") and mcls is not None:
-                    add("type-mismatch", e.origin, f"the mapper writes a {got} {what} where the driver declares "
-                        f"{declared}; Hadoop fails such a task (\"Type mismatch in {what} from map\")",
+                    add("type-mismatch", e.origin, f"the mapper writes a {_label(got)} {what} where the driver "
+                        f"declares {_label(declared)}; Hadoop fails such a task (\"Type mismatch in {what} from map\")",
                         "fix the declared class or the written value, then convert again", "P1")
                     return
 
 
 _FOLD_SHAPES = {"count_if": "conditional count", "count_distinct": "distinct count per key", "any": "any/all per key",
                 "all": "any/all per key"}
+
+
+def _label(jtype: str) -> str:
+    return jtype.removeprefix("struct:").rsplit(".", 1)[-1] if is_struct(jtype) else jtype
 
 
 def _shapes(steps: list[Step], reduce: Step | None) -> list[str]:

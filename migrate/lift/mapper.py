@@ -16,6 +16,7 @@ from dataclasses import dataclass, field
 from javalang import tree as T
 
 from migrate.java.index import ClassInfo, node_lines
+from migrate.lift.writables import structs_of
 from migrate.lift.exprs import (CATCH_ALL, WRITABLE_OF, Opaque, Scope, Tokenizer, Unsupported, Writable, lift,
                                 widen, writable_creator, writable_set, write_argument)
 from migrate.lift import dates
@@ -135,7 +136,8 @@ class MapBodyLifter:
         for p in params[2:]:
             env[p] = Opaque("the task context")
         self.scope = Scope(env, file=self.file, methods=helper_methods(cls, index),
-                           enums=frozenset(fq.rsplit(".", 1)[-1] for fq in (index.enums if index else {})))
+                           enums=frozenset(fq.rsplit(".", 1)[-1] for fq in (index.enums if index else {})),
+                           structs=structs_of(index))
 
     # ------------------------------------------------------------------ driving
     def run(self) -> MapResult:

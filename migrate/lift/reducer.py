@@ -19,6 +19,7 @@ import copy
 from javalang import tree as T
 
 from migrate.java.index import ClassInfo, node_lines
+from migrate.lift.writables import structs_of
 from migrate.lift.exprs import (WRITABLE_OF, Opaque, Scope, Unsupported, Writable, lift, promote, widen,
                                 writable_creator, writable_set, write_argument)
 from migrate.lift.mapper import class_constants, helper_methods
@@ -49,7 +50,8 @@ class FoldLifter:
         for p in params[2:]:
             env[p] = Opaque("the task context")
         self.scope = Scope(env, file=self.file, methods=helper_methods(cls, index),
-                           enums=frozenset(fq.rsplit(".", 1)[-1] for fq in (index.enums if index else {})))
+                           enums=frozenset(fq.rsplit(".", 1)[-1] for fq in (index.enums if index else {})),
+                           structs=structs_of(index))
         self.accs: dict[str, tuple[str, Lit]] = {}
         self.sets: dict[str, str] = {}  # name -> element type
         self.aggs: dict[str, Agg] = {}

@@ -25,9 +25,29 @@ public class PartitionHashes {
             System.out.println(i + "\t" + t.hashCode() + "\t" + s.hashCode() + "\t" + first + "\t"
                     + hp.getPartition(t, null, 7));
         }
+        List<String> sorted = new java.util.ArrayList<>();
+        for (String hex : lines) {
+            byte[] b = new byte[hex.length() / 2];
+            for (int j = 0; j < b.length; j++) {
+                b[j] = (byte) Integer.parseInt(hex.substring(2 * j, 2 * j + 2), 16);
+            }
+            sorted.add(new String(b, StandardCharsets.UTF_8));
+        }
+        java.util.Collections.sort(sorted);  // String.compareTo
+        for (String s : sorted) {
+            System.out.println("sorted\t" + lines.indexOf(toHex(s)));
+        }
         for (String a : args[1].split(",")) {
             long v = Long.parseLong(a);
             System.out.println("long\t" + v + "\t" + new LongWritable(v).hashCode());
         }
+    }
+
+    private static String toHex(String s) {
+        StringBuilder out = new StringBuilder();
+        for (byte x : s.getBytes(StandardCharsets.UTF_8)) {
+            out.append(String.format("%02x", x));
+        }
+        return out.toString();
     }
 }

@@ -1,0 +1,302 @@
+"""Custom Writable / WritableComparable classes used as keys or values: fields → struct columns.
+
+Recognises: a class with role "writable" whose fields are String, Text, int, long, double,
+boolean (or their Writables), all serialised by write() and read back by readFields();
+constructors that only assign fields from their parameters (`this.a = a;`, `a = new Text(s);`);
+getters and toString() that compute a value from the fields (inlined, like helper methods);
+compareTo() as a chain of `int c = X.compareTo(o.X); if (c != 0) return c; ... return
+Integer.compare(y, o.y);` (or the ternary form, or the arguments swapped for descending).
+Produces: StructNew / Field expressions (jtype "struct:<fqcn>"); the key's toString() as the
+output text; a sort key whose Spark order is compareTo's order (String.compareTo compares
+UTF-16 code units: the field is sorted by its UTF-16BE bytes; Text compares UTF-8 bytes, which
+is Spark's own string order).
+Declines: fields it cannot type, fields not serialised, compareTo that skips a field (Hadoop
+would group keys that differ in it), subtraction as comparison (overflows), doubles in
+compareTo, descending strings.
+"""
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+from javalang import tree as T
+
+from migrate.java.index import ClassIndex, ClassInfo
+from migrate.lift.exprs import WRITABLE_OF, Scope, Unsupported, lift, widen, writable_creator
+from migrate.plan import Call, Cast, Expr, Field, StructNew
+
+STRUCT = "struct:"
+_FIELD_TYPES = {"String": "String", "Text": "String", "int": "int", "long": "long", "double": "double",
+                "boolean": "boolean", "IntWritable": "int", "LongWritable": "long", "DoubleWritable": "double",
+                "BooleanWritable": "boolean", "Integer": "int", "Long": "long"}
+_COMPARES = {("Integer", "compare"): "int", ("Long", "compare"): "long"}
+
+
+def is_struct(jtype: str) -> bool:
+    return jtype.startswith(STRUCT)
+
+
+@dataclass
+class StructInfo:
+    cls: ClassInfo
+    fields: dict[str, str]  # name -> Java value type, in declaration order
+    text_fields: set[str]
+    order: tuple[tuple[str, bool], ...] = ()  # compareTo: (field, ascending), most significant first
+    no_order: str = ""  # why compareTo was not read ("" when it was)
+    methods: dict[str, list] = field(default_factory=dict)
+
+    @property
+    def jtype(self) -> str:
+        return STRUCT + self.cls.fqcn
+
+    def construct(self, node: T.ClassCreator, scope: Scope) -> Expr:
+        args = [lift(a, scope) for a in node.arguments or []]
+        ctors = [c for c in self.cls.node.constructors if len(c.parameters) == len(args)]
+        if len(ctors) != 1:
+            raise Unsupported(node, f"new {self.cls.name}(...) with {len(args)} arguments: no single constructor")
+        ctor = ctors[0]
+        env = {p.name: a for p, a in zip(ctor.parameters, args)}
+        values: dict[str, Expr] = {}
+        inner = Scope(env, file=scope.file, enums=scope.enums)
+        for s in ctor.body or []:
+            e = s.expression if isinstance(s, T.StatementExpression) else None
+            if isinstance(e, T.SuperConstructorInvocation) or isinstance(s, T.SuperConstructorInvocation):
+                continue
+            target = _assigned_field(e, self.fields)
+            if target is None:
+                raise Unsupported(s, f"the {self.cls.name} constructor does more than assign fields")
+            v = e.value
+            if isinstance(v, T.ClassCreator) and v.type.name in WRITABLE_OF:
+                got = writable_creator(v, inner).content
+            else:
+                got = lift(v, inner)
+            values[target] = self._typed(got, target, s)
+        for name, t in self.fields.items():  # fields the constructor leaves alone keep Java's defaults
+            values.setdefault(name, _default(t))
+        return StructNew(self.jtype, tuple(values.items()))
+
+    def _typed(self, e: Expr, name: str, node) -> Expr:
+        want = self.fields[name]
+        if e.jtype == want:
+            return e
+        if {e.jtype, want} <= {"int", "long", "double"}:
+            return widen(e, want)
+        raise Unsupported(node, f"a {e.jtype} assigned to the {want} field `{name}`")
+
+    def field_of(self, base: Expr, name: str) -> Expr:
+        return Field(self.fields[name], base, name)
+
+    def call(self, base: Expr, name: str, args: list[Expr], node, scope: Scope) -> Expr:
+        """A method of the class (getter, toString, helper) inlined with its fields read from `base`."""
+        from migrate.lift.exprs import _body_value, _java_type
+
+        ms = [m for m in self.cls.methods(name) if len(m.parameters) == len(args)]
+        if len(ms) != 1 or ms[0].body is None:
+            raise Unsupported(node, f"{self.cls.name}.{name}() with {len(args)} arguments is not one plain method")
+        m = ms[0]
+        env: dict[str, object] = {f: self.field_of(base, f) for f in self.fields}
+        for p, a in zip(m.parameters, args):
+            env[p.name] = a
+        inner = Scope(env, file=self.cls.file.path, enums=scope.enums, depth=scope.depth + 1,
+                      structs=scope.structs)
+        out = _body_value(list(m.body), inner, m)
+        want = _java_type(m.return_type) if m.return_type is not None else None
+        if want is None:
+            raise Unsupported(node, f"{self.cls.name}.{name}() does not return a value the converter follows")
+        return widen(out, want) if out.jtype != want else out
+
+    def to_string(self, base: Expr, scope: Scope) -> Expr:
+        if not self.cls.methods("toString"):
+            raise Unsupported(self.cls.node, f"{self.cls.name} has no toString(): Java prints ClassName@hash, "
+                                             "which no script can reproduce")
+        return self.call(base, "toString", [], self.cls.node, scope)
+
+    def sort_key(self, base: Expr, where) -> Expr:
+        """An expression whose Spark ordering is compareTo's (for sorting the reducer's output)."""
+        if self.no_order:
+            raise Unsupported(where, self.no_order)
+        terms = []
+        for name, asc in self.order:
+            t = self.fields[name]
+            f = self.field_of(base, name)
+            if t == "String" and name not in self.text_fields:
+                if not asc:
+                    raise Unsupported(where, f"{self.cls.name}.compareTo sorts `{name}` descending")
+                terms.append((name, Call("binary", "utf16_order", (f,))))
+            elif t == "String":
+                if not asc:
+                    raise Unsupported(where, f"{self.cls.name}.compareTo sorts `{name}` descending")
+                terms.append((name, f))
+            else:  # numbers: descending as the negated long (no int overflow)
+                terms.append((name, f if asc else Call("long", "negate", (Cast("long", f),))))
+        return StructNew("struct:sort", tuple(terms))
+
+
+def _default(t: str) -> Expr:
+    from migrate.plan import Lit
+
+    return Lit(t, {"String": "", "int": 0, "long": 0, "double": 0.0, "boolean": False}[t])
+
+
+def _assigned_field(e, names) -> str | None:
+    if not (isinstance(e, T.Assignment) and e.type == "="):
+        return None
+    lhs = e.expressionl
+    if isinstance(lhs, T.This) and lhs.selectors and isinstance(lhs.selectors[0], T.MemberReference):
+        name = lhs.selectors[0].member
+    elif isinstance(lhs, T.MemberReference) and lhs.qualifier in ("", "this", None):
+        name = lhs.member
+    else:
+        return None
+    return name if name in names else None
+
+
+def read_struct(cls: ClassInfo) -> StructInfo:
+    """The fields of a custom Writable and what its methods mean, or Unsupported saying why not."""
+    typed: dict[str, str] = {}
+    text: set[str] = set()
+    for f in cls.fields():
+        if "static" in (f.modifiers or set()):
+            continue
+        tname = getattr(f.type, "name", "")
+        if tname not in _FIELD_TYPES or getattr(f.type, "dimensions", None):
+            raise Unsupported(f, f"{cls.name} has a field of type {tname}; fields of String, Text, int, long, "
+                                 "double and boolean (or their Writables) are read", "model it as a struct column by hand")
+        for d in f.declarators:
+            typed[d.name] = _FIELD_TYPES[tname]
+            if tname == "Text":
+                text.add(d.name)
+    if not typed:
+        raise Unsupported(cls.node, f"{cls.name} has no fields to carry")
+    for method in ("write", "readFields"):
+        ms = [m for m in cls.methods(method) if len(m.parameters) == 1]
+        if not ms:
+            raise Unsupported(cls.node, f"{cls.name} has no {method}()")
+        named = {n.member for _, n in ms[0] if isinstance(n, T.MemberReference)} | \
+                {n.qualifier for _, n in ms[0] if isinstance(n, T.MethodInvocation) and n.qualifier}
+        missing = [f for f in typed if f not in named]
+        if missing:
+            raise Unsupported(ms[0], f"{cls.name}.{method}() does not carry `{missing[0]}`: after the shuffle it "
+                                     "would hold a stale or default value")
+    info = StructInfo(cls, typed, text)
+    try:
+        info.order = _compare_order(cls, typed)
+    except Unsupported as u:
+        info.no_order = u.reason
+    return info
+
+
+def _compare_order(cls: ClassInfo, typed: dict[str, str]) -> tuple[tuple[str, bool], ...]:
+    ms = [m for m in cls.methods("compareTo") if len(m.parameters) == 1]
+    if not ms:
+        raise Unsupported(cls.node, f"{cls.name} has no compareTo(): it cannot be a key")
+    m = ms[0]
+    other = m.parameters[0].name
+    order: list[tuple[str, bool]] = []
+    pending: dict[str, tuple[str, bool]] = {}
+    body = list(m.body or [])
+    for i, s in enumerate(body):
+        last = i == len(body) - 1
+        if isinstance(s, T.LocalVariableDeclaration) and len(s.declarators) == 1:
+            d = s.declarators[0]
+            pending[d.name] = _term(d.initializer, other, typed, cls)
+            continue
+        if isinstance(s, T.IfStatement) and s.else_statement is None and _is_nonzero_test(s.condition, pending):
+            ret = s.then_statement.statements[0] if isinstance(s.then_statement, T.BlockStatement) \
+                and len(s.then_statement.statements) == 1 else s.then_statement
+            if isinstance(ret, T.ReturnStatement) and isinstance(ret.expression, T.MemberReference) \
+                    and ret.expression.member == s.condition.operandl.member:
+                order.append(pending.pop(ret.expression.member))
+                continue
+        if isinstance(s, T.ReturnStatement) and last:
+            order.extend(_returned(s.expression, other, typed, cls, pending))
+            break
+        raise Unsupported(s, f"{cls.name}.compareTo is not a chain of field comparisons")
+    names = [n for n, _ in order]
+    if len(set(names)) != len(names):
+        raise Unsupported(m, f"{cls.name}.compareTo compares a field twice")
+    skipped = [f for f in typed if f not in names]
+    if skipped:
+        raise Unsupported(m, f"{cls.name}.compareTo ignores `{skipped[0]}`: Hadoop would group keys that differ "
+                             "only in it, and which one reduce() sees depends on the value order",
+                          "a grouping comparator expresses this; group by the compared fields by hand")
+    return tuple(order)
+
+
+def _returned(e, other, typed, cls, pending) -> list[tuple[str, bool]]:
+    if isinstance(e, T.TernaryExpression) and _is_nonzero_test(e.condition, pending) \
+            and isinstance(e.if_true, T.MemberReference) and e.if_true.member == e.condition.operandl.member:
+        return [pending.pop(e.if_true.member)] + _returned(e.if_false, other, typed, cls, pending)
+    if isinstance(e, T.MemberReference) and e.member in pending:
+        return [pending.pop(e.member)]
+    return [_term(e, other, typed, cls)]
+
+
+def _is_nonzero_test(c, pending) -> bool:
+    return (isinstance(c, T.BinaryOperation) and c.operator == "!=" and isinstance(c.operandl, T.MemberReference)
+            and c.operandl.member in pending and isinstance(c.operandr, T.Literal) and c.operandr.value == "0")
+
+
+def _term(e, other: str, typed: dict[str, str], cls: ClassInfo) -> tuple[str, bool]:
+    """One comparison of a field of `this` with the same field of `other`: (field, ascending)."""
+    negated = "-" in (getattr(e, "prefix_operators", None) or [])
+    if isinstance(e, T.BinaryOperation) and e.operator == "-":
+        raise Unsupported(e, f"{cls.name}.compareTo subtracts fields: that overflows for large values, so its "
+                             "order is not a sort order", "use Integer.compare / Long.compare")
+    pair = None
+    if isinstance(e, T.MethodInvocation) and (e.qualifier, e.member) in _COMPARES and len(e.arguments) == 2:
+        pair = e.arguments
+    elif isinstance(e, T.MethodInvocation) and e.member == "compareTo" and len(e.arguments) == 1:
+        pair = [T.MemberReference(member=e.qualifier.split(".")[-1],
+                                  qualifier=e.qualifier.rsplit(".", 1)[0] if "." in e.qualifier else ""),
+                e.arguments[0]]
+    if pair is None:
+        raise Unsupported(e, f"{cls.name}.compareTo compares something other than fields")
+    a, b = (_side(x, other, typed) for x in pair)
+    if a is None or b is None or a[0] != b[0] or a[1] == b[1]:
+        raise Unsupported(e, f"{cls.name}.compareTo does not compare one field of this with the same field of {other}")
+    name, mine = a
+    if typed[name] in ("double", "boolean"):
+        raise Unsupported(e, f"{cls.name}.compareTo orders the {typed[name]} `{name}`; that order is not proven "
+                             "equal to Spark's")
+    return name, mine != negated
+
+
+def _side(n, other: str, typed) -> tuple[str, bool] | None:
+    """(field, is this object's) for `f`, `this.f`, `o.f`, `getF()`-free forms only."""
+    if isinstance(n, T.MemberReference):
+        if n.qualifier in ("", None, "this") and n.member in typed:
+            return n.member, True
+        if n.qualifier == other and n.member in typed:
+            return n.member, False
+    if isinstance(n, T.This) and n.selectors and isinstance(n.selectors[0], T.MemberReference):
+        name = n.selectors[0].member
+        return (name, True) if name in typed else None
+    return None
+
+
+def struct_infos(index: ClassIndex) -> dict[str, StructInfo | Unsupported]:
+    """Every custom Writable in the repository, read or with the reason it was not."""
+    out: dict[str, StructInfo | Unsupported] = {}
+    for c in index:
+        if "writable" in c.roles:
+            try:
+                out[c.fqcn] = read_struct(c)
+            except Unsupported as u:
+                out[c.fqcn] = u
+    return out
+
+
+def structs_of(index: ClassIndex | None) -> dict:
+    """Lookup of custom Writables by fqcn, simple name and struct jtype (what Scope.structs holds); cached."""
+    if index is None:
+        return {}
+    cached = getattr(index, "_structs", None)
+    if cached is None:
+        cached = {}
+        for fq, info in struct_infos(index).items():
+            cached[fq] = info
+            cached.setdefault(fq.rsplit(".", 1)[-1], info)
+            if isinstance(info, StructInfo):
+                cached[info.jtype] = info
+        index._structs = cached
+    return cached

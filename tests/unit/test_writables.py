@@ -1,0 +1,101 @@
+"""Custom Writable keys and values: struct columns, toString() as the output text, compareTo()
+as the output order; and the classes the reader must decline.
+
+Facts relied on: Hadoop sorts map output keys with the key class's compareTo() when no raw
+comparator is registered, and groups keys for which it returns 0 (WritableComparator javadoc);
+a Writable carries across the shuffle only what write() writes and readFields() reads (Writable
+javadoc); TextOutputFormat prints toString() (TextOutputFormat source); String.compareTo compares
+UTF-16 code units (String javadoc); Text compares bytes (Text.Comparator).
+"""
+from __future__ import annotations
+
+from migrate.plan import dump_plan
+from tests.helpers import HEADER, scan_text
+
+KEY = HEADER + """
+public class Slot implements WritableComparable<Slot> {
+  private String station; private int hour;
+  public Slot() {}
+  public Slot(String s, int h) { this.station = s; this.hour = h; }
+  public void write(DataOutput out) throws IOException { out.writeUTF(station); out.writeInt(hour); }
+  public void readFields(DataInput in) throws IOException { station = in.readUTF(); hour = in.readInt(); }
+  public int compareTo(Slot o) { %s }
+  public String toString() { return station + "/" + hour; }
+}
+""".replace("import java.io.IOException;", "import java.io.*;")
+JOB = HEADER + """
+public class Main {
+  public static class M extends Mapper<LongWritable, Text, Slot, IntWritable> {
+    protected void map(LongWritable k, Text v, Context c) throws IOException, InterruptedException {
+      String[] f = v.toString().split(",");
+      c.write(new Slot(f[0], Integer.parseInt(f[1])), new IntWritable(1));
+    }
+  }
+  public static class R extends Reducer<Slot, IntWritable, Slot, IntWritable> {
+    protected void reduce(Slot k, Iterable<IntWritable> vs, Context c) throws IOException, InterruptedException {
+      int n = 0; for (IntWritable v : vs) n += v.get();
+      c.write(k, new IntWritable(n));
+    }
+  }
+  public static void main(String[] args) throws Exception {
+    Job job = Job.getInstance(new Configuration(), "slots");
+    job.setMapperClass(M.class); job.setReducerClass(R.class);
+    job.setOutputKeyClass(Slot.class); job.setOutputValueClass(IntWritable.class);
+    FileInputFormat.addInputPath(job, new Path(args[0])); FileOutputFormat.setOutputPath(job, new Path(args[1]));
+    System.exit(job.waitForCompletion(true) ? 0 : 1);
+  }
+}
+"""
+CHAIN = "int c = station.compareTo(o.station); if (c != 0) return c; return Integer.compare(hour, o.hour);"
+
+
+def _job(tmp_path, compare=CHAIN, key=KEY):
+    scan = scan_text(tmp_path, {"Slot.java": key % compare, "Main.java": JOB})
+    assert not scan.errors, scan.errors
+    (job,) = scan.jobs
+    return job
+
+
+def test_composite_key_becomes_a_struct_printed_by_to_string_and_sorted_by_compare_to(tmp_path):
+    job = _job(tmp_path)
+    assert job.status == "converted", job.plan.hand_work
+    dump = dump_plan(job.plan)
+    assert "Emit {station: index(f, 0), hour: parse_int(index(f, 1))} -> 1" in dump
+    assert "Out concat(concat(key.station, '/'), to_string(key.hour)) -> @n" in dump
+    # String.compareTo: UTF-16 order, then the hour as a number
+    assert job.plan.sink.sort_key is not None
+    from migrate.plan import dump_expr
+
+    assert dump_expr(job.plan.sink.sort_key) == "{station: utf16_order(key.station), hour: key.hour}"
+
+
+def test_descending_and_ternary_chains_are_read(tmp_path):
+    job = _job(tmp_path, "int c = station.compareTo(o.station); return c != 0 ? c : Integer.compare(o.hour, hour);")
+    from migrate.plan import dump_expr
+
+    assert dump_expr(job.plan.sink.sort_key) == "{station: utf16_order(key.station), hour: negate((long) key.hour)}"
+
+
+def _declined(job, text):
+    items = [h for h in job.plan.hand_work if h.category == "custom-writable"]
+    assert items and text in items[0].reason, [(h.category, h.reason) for h in job.plan.hand_work]
+    assert job.status != "converted"
+
+
+def test_compare_to_that_ignores_a_field_is_declined(tmp_path):
+    _declined(_job(tmp_path, "return station.compareTo(o.station);"), "ignores `hour`")
+
+
+def test_compare_by_subtraction_is_declined(tmp_path):
+    _declined(_job(tmp_path, "int c = station.compareTo(o.station); if (c != 0) return c; return hour - o.hour;"),
+              "subtracts fields")
+
+
+def test_a_field_that_is_not_serialised_is_declined(tmp_path):
+    key = KEY.replace("out.writeInt(hour);", "")
+    _declined(_job(tmp_path, key=key), "write() does not carry `hour`")
+
+
+def test_a_key_without_to_string_is_declined(tmp_path):
+    key = KEY.replace('public String toString() { return station + "/" + hour; }', "")
+    _declined(_job(tmp_path, key=key), "no toString()")
