@@ -369,7 +369,9 @@ class Sink:
     separator: str = "\t"
     origin: Span = NO_SPAN
     partition: Expr | None = None  # with several reduce tasks: the task (part file) of a key, over `key`
-    sort_key: Expr | None = None  # a custom key's compareTo order as a sortable expression, over `key`
+    # a custom key's order (compareTo or a sort comparator): (expression over `key`, ascending), most
+    # significant first
+    sort_terms: tuple[tuple[Expr, bool], ...] = ()
 
 
 @dataclass(frozen=True)

@@ -55,7 +55,6 @@ PLAIN_CALLS = {
     # String.compareTo orders UTF-16 code units; Spark orders strings by UTF-8 bytes (they differ
     # past U+FFFF): the UTF-16BE bytes of a string sort as compareTo does
     "utf16_order": ('F.encode({0}, "UTF-16BE")', None),
-    "negate": ("(-{0})", None),
 }
 
 
@@ -405,7 +404,7 @@ def build_body(plan: Plan, x: ExprWriter) -> ScriptParts:
             out.append("    .distinct()  # the reducer ignores its values: one row per key")
         else:
             out.extend("    " + c for c in _fold_code(r, x))
-        out.extend("    " + c for c in _reduce_writes(r.emits, x, plan.sink.partition, plan.sink.sort_key))
+        out.extend("    " + c for c in _reduce_writes(r.emits, x, plan.sink.partition, plan.sink.sort_terms))
         out.append(")")
         out.append("return result")
     elif isinstance(r, EachValue):
@@ -415,7 +414,7 @@ def build_body(plan: Plan, x: ExprWriter) -> ScriptParts:
         out.append("result = (")
         out.append("    map_output")
         out.extend("    " + c for s in r.lets for c in _step_code(s, x))
-        out.extend("    " + c for c in _reduce_writes(r.emits, x, plan.sink.partition, plan.sink.sort_key))
+        out.extend("    " + c for c in _reduce_writes(r.emits, x, plan.sink.partition, plan.sink.sort_terms))
         out.append(")")
         out.append("return result")
     elif isinstance(r, TopN):
@@ -481,20 +480,34 @@ def _top_n_code(r: TopN, x: ExprWriter) -> list[str]:
     return lines
 
 
-F_KEY = 'F.col("key")'
+def _hidden_sort(emits: tuple[Emit, ...], terms: tuple) -> list[tuple[str, bool]]:
+    """Names (and directions) of the hidden columns the reduce output is sorted by, after `_partition`.
+
+    Hadoop writes a reducer's output in reduce-key order: `key` itself when it is written as is;
+    `_sort_key` (the reduce key) when another expression is written; `_sort_1`, `_sort_2`, ... when
+    the key is a custom Writable sorted by its compareTo() or a sort comparator.
+    """
+    if terms:
+        return [(f"_sort_{i}", asc) for i, (_, asc) in enumerate(terms, 1)]
+    if all(isinstance(e.key, Col) and e.key.name == "key" for e in emits):
+        return [("key", True)]
+    return [("_sort_key", True)]
 
 
 def _reduce_writes(emits: tuple[Emit, ...], x: ExprWriter, partition: Expr | None = None,
-                   sort_key: Expr | None = None) -> list[str]:
+                   terms: tuple = ()) -> list[str]:
     """The reducer's writes as a select: `key`, `value`, plus the hidden sort columns the writer uses.
 
     Hadoop writes a reducer's output in reduce-key order, and the writes of one reduce() call in
     the order they ran: `_sort_key` keeps the reduce key when the written key is another
     expression, `_write` numbers the writes when there are several.
     """
-    keeps_key = all(isinstance(e.key, Col) and e.key.name == "key" for e in emits) and sort_key is None
-    # a custom key sorts as its compareTo() does, not as Spark orders the struct
-    sort = [] if keeps_key else [f'{x(sort_key) if sort_key is not None else F_KEY}.alias("_sort_key")']
+    hidden = _hidden_sort(emits, terms)
+    keeps_key = hidden == [("key", True)]
+    if terms:  # a custom key sorts as its compareTo() or sort comparator does, not as Spark orders the struct
+        sort = [f'{x(e)}.alias("{name}")' for (e, _), (name, _) in zip(terms, hidden)]
+    else:
+        sort = [] if keeps_key else ['F.col("key").alias("_sort_key")']
     if partition is not None:  # the reduce task (part file) each key went to, as Hadoop chose it
         sort.insert(0, f'{x(partition)}.alias("_partition")')
     if len(emits) == 1:
@@ -518,25 +531,23 @@ def _reduce_writes(emits: tuple[Emit, ...], x: ExprWriter, partition: Expr | Non
     lines += ["            ),", "            lambda written: written.isNotNull(),", "        )",
               "    ).alias(\"written\"),", *("    " + c + "," for c in sort), ")",
               ".select(" + ", ".join(['"written.key"', '"written.value"']
-                                     + (['"_sort_key"'] if not keeps_key else [])
+                                     + ([f'"{n}"' for n, _ in hidden] if not keeps_key else [])
                                      + (['"_partition"'] if partition is not None else [])
                                      + ['"written._write"']) + ")"]
     return lines
 
 
 def sort_columns(plan: Plan) -> list[str]:
-    """The columns the writer sorts one reducer's output by (see _reduce_writes)."""
+    """The writer's sort of one reducer's output, as code (see _hidden_sort)."""
     r = plan.reduce
     if isinstance(r, TopN):  # cleanup() wrote in map order, one reduce task after another
-        return ["_partition", "_write"] if r.partition is not None else ["_write"]
+        return ['"_partition"', '"_write"'] if r.partition is not None else ['"_write"']
     emits = r.emits if isinstance(r, (Group, EachValue)) else ()
-    cols = ["key"]
-    if emits and (plan.sink.sort_key is not None or not all(isinstance(e.key, Col) and e.key.name == "key"
-                                                          for e in emits)):
-        cols = ["_sort_key"]
+    cols = [f'"{n}"' if asc else f'F.col("{n}").desc()' for n, asc in _hidden_sort(emits, plan.sink.sort_terms)] \
+        if emits else ['"key"']
     if len(emits) > 1:
-        cols.append("_write")
-    return (["_partition"] if plan.sink.partition is not None else []) + cols
+        cols.append('"_write"')
+    return (['"_partition"'] if plan.sink.partition is not None else []) + cols
 
 
 def _stub_lines(items: list[HandWork]) -> list[str]:

@@ -220,10 +220,10 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
     # ---- shapes and the sink
     shapes.extend(_shapes(steps if mcls is not None else [], reduce))
     steps, reduce = _struct_output_text(steps, reduce, structs, add, spec.origin)
-    sort_key = None
+    sort_terms = ()
     if is_struct(map_key_t) and reduce is not None and not isinstance(reduce, TopN):
         try:
-            sort_key = structs[map_key_t].sort_key(Col(map_key_t, "key"), spec.driver.node)
+            sort_terms = structs[map_key_t].sort_terms(Col(map_key_t, "key"), spec.driver.node)
         except Unsupported as u:
             add("custom-writable", spec.origin, f"the output is sorted by {map_key_t.split('.')[-1]}.compareTo: "
                 f"{u.reason}", u.suggestion or "sort by the compared fields by hand", "P1")
@@ -240,7 +240,7 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
     sink = Sink("output_path", out_key_t, out_val_t, sorted_by_key=reduce is not None and spec.reduces >= 1,
                 overwrite=spec.deletes_output, separator=sep, origin=spec.origin,
                 partition=partition if spec.reduces > 1 and not isinstance(reduce, Identity) else None,
-                sort_key=sort_key)
+                sort_terms=sort_terms)
     splits = tuple(ref.split_commas for ref in spec.inputs) or (False,)
     source = Source(tuple(input_params), fmt, skip_first, splits, _reads_file_name(steps), spec.origin)
     plan = Plan(spec.name, source, tuple(steps), reduce, sink, tuple(params), tuple(hand), tuple(dict.fromkeys(shapes)),

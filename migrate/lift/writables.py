@@ -22,7 +22,7 @@ from javalang import tree as T
 
 from migrate.java.index import ClassIndex, ClassInfo
 from migrate.lift.exprs import WRITABLE_OF, Scope, Unsupported, lift, widen, writable_creator
-from migrate.plan import Call, Cast, Expr, Field, StructNew
+from migrate.plan import Call, Expr, Field, StructNew
 
 STRUCT = "struct:"
 _FIELD_TYPES = {"String": "String", "Text": "String", "int": "int", "long": "long", "double": "double",
@@ -110,25 +110,17 @@ class StructInfo:
                                              "which no script can reproduce")
         return self.call(base, "toString", [], self.cls.node, scope)
 
-    def sort_key(self, base: Expr, where) -> Expr:
-        """An expression whose Spark ordering is compareTo's (for sorting the reducer's output)."""
-        if self.no_order:
+    def sort_terms(self, base: Expr, where, order=None) -> tuple[tuple[Expr, bool], ...]:
+        """(expression, ascending) terms whose Spark order is compareTo's (or the given order's)."""
+        if order is None and self.no_order:
             raise Unsupported(where, self.no_order)
         terms = []
-        for name, asc in self.order:
-            t = self.fields[name]
+        for name, asc in (order if order is not None else self.order):
             f = self.field_of(base, name)
-            if t == "String" and name not in self.text_fields:
-                if not asc:
-                    raise Unsupported(where, f"{self.cls.name}.compareTo sorts `{name}` descending")
-                terms.append((name, Call("binary", "utf16_order", (f,))))
-            elif t == "String":
-                if not asc:
-                    raise Unsupported(where, f"{self.cls.name}.compareTo sorts `{name}` descending")
-                terms.append((name, f))
-            else:  # numbers: descending as the negated long (no int overflow)
-                terms.append((name, f if asc else Call("long", "negate", (Cast("long", f),))))
-        return StructNew("struct:sort", tuple(terms))
+            # String.compareTo orders UTF-16 code units; Text orders UTF-8 bytes, which is Spark's order
+            utf16 = self.fields[name] == "String" and name not in self.text_fields
+            terms.append((Call("binary", "utf16_order", (f,)) if utf16 else f, asc))
+        return tuple(terms)
 
 
 def _default(t: str) -> Expr:
@@ -190,15 +182,50 @@ def _compare_order(cls: ClassInfo, typed: dict[str, str]) -> tuple[tuple[str, bo
     if not ms:
         raise Unsupported(cls.node, f"{cls.name} has no compareTo(): it cannot be a key")
     m = ms[0]
-    other = m.parameters[0].name
+    order = compare_chain(list(m.body or []), "this", m.parameters[0].name, typed, _getters(cls, typed), cls.name, m)
+    skipped = [f for f in typed if f not in {n for n, _ in order}]
+    if skipped:
+        raise Unsupported(m, f"{cls.name}.compareTo ignores `{skipped[0]}`: Hadoop would group keys that differ "
+                             "only in it, and which one reduce() sees depends on the value order",
+                          "a grouping comparator expresses this; group by the compared fields by hand")
+    return order
+
+
+def _getters(cls: ClassInfo, typed: dict[str, str]) -> dict[str, str]:
+    """Getter name -> field, for methods whose body is `return field;`."""
+    out = {}
+    for m in cls.node.methods:
+        body = m.body or []
+        if not m.parameters and len(body) == 1 and isinstance(body[0], T.ReturnStatement):
+            e = body[0].expression
+            if isinstance(e, T.MemberReference) and e.qualifier in ("", None, "this") and e.member in typed:
+                out[m.name] = e.member
+            elif isinstance(e, T.This) and e.selectors and getattr(e.selectors[0], "member", None) in typed:
+                out[m.name] = e.selectors[0].member
+    return out
+
+
+def compare_chain(body: list, left: str, right: str, typed: dict[str, str], getters: dict[str, str], owner: str,
+                  where) -> tuple[tuple[str, bool], ...]:
+    """A comparison method's body as (field, ascending) terms, most significant first.
+
+    `left`/`right` name the two objects compared ("this" for compareTo). Locals of the same
+    class cast from the parameters (`Slot x = (Slot) a;`) stand for them.
+    """
+    alias = {left: left, right: right}
     order: list[tuple[str, bool]] = []
     pending: dict[str, tuple[str, bool]] = {}
-    body = list(m.body or [])
+    ctx = (alias, typed, getters, owner, left)
     for i, s in enumerate(body):
         last = i == len(body) - 1
         if isinstance(s, T.LocalVariableDeclaration) and len(s.declarators) == 1:
             d = s.declarators[0]
-            pending[d.name] = _term(d.initializer, other, typed, cls)
+            init = d.initializer
+            if isinstance(init, T.Cast) and isinstance(init.expression, T.MemberReference) \
+                    and init.expression.member in alias:
+                alias[d.name] = alias[init.expression.member]
+            else:
+                pending[d.name] = _term(init, ctx)
             continue
         if isinstance(s, T.IfStatement) and s.else_statement is None and _is_nonzero_test(s.condition, pending):
             ret = s.then_statement.statements[0] if isinstance(s.then_statement, T.BlockStatement) \
@@ -208,27 +235,22 @@ def _compare_order(cls: ClassInfo, typed: dict[str, str]) -> tuple[tuple[str, bo
                 order.append(pending.pop(ret.expression.member))
                 continue
         if isinstance(s, T.ReturnStatement) and last:
-            order.extend(_returned(s.expression, other, typed, cls, pending))
+            order.extend(_returned(s.expression, ctx, pending))
             break
-        raise Unsupported(s, f"{cls.name}.compareTo is not a chain of field comparisons")
+        raise Unsupported(s, f"{owner}'s comparison is not a chain of field comparisons")
     names = [n for n, _ in order]
-    if len(set(names)) != len(names):
-        raise Unsupported(m, f"{cls.name}.compareTo compares a field twice")
-    skipped = [f for f in typed if f not in names]
-    if skipped:
-        raise Unsupported(m, f"{cls.name}.compareTo ignores `{skipped[0]}`: Hadoop would group keys that differ "
-                             "only in it, and which one reduce() sees depends on the value order",
-                          "a grouping comparator expresses this; group by the compared fields by hand")
+    if not order or len(set(names)) != len(names):
+        raise Unsupported(where, f"{owner}'s comparison compares a field twice, or nothing")
     return tuple(order)
 
 
-def _returned(e, other, typed, cls, pending) -> list[tuple[str, bool]]:
+def _returned(e, ctx, pending) -> list[tuple[str, bool]]:
     if isinstance(e, T.TernaryExpression) and _is_nonzero_test(e.condition, pending) \
             and isinstance(e.if_true, T.MemberReference) and e.if_true.member == e.condition.operandl.member:
-        return [pending.pop(e.if_true.member)] + _returned(e.if_false, other, typed, cls, pending)
+        return [pending.pop(e.if_true.member)] + _returned(e.if_false, ctx, pending)
     if isinstance(e, T.MemberReference) and e.member in pending:
         return [pending.pop(e.member)]
-    return [_term(e, other, typed, cls)]
+    return [_term(e, ctx)]
 
 
 def _is_nonzero_test(c, pending) -> bool:
@@ -236,42 +258,75 @@ def _is_nonzero_test(c, pending) -> bool:
             and c.operandl.member in pending and isinstance(c.operandr, T.Literal) and c.operandr.value == "0")
 
 
-def _term(e, other: str, typed: dict[str, str], cls: ClassInfo) -> tuple[str, bool]:
-    """One comparison of a field of `this` with the same field of `other`: (field, ascending)."""
+def _term(e, ctx) -> tuple[str, bool]:
+    """One comparison of a field of the left object with the same field of the right: (field, ascending)."""
+    alias, typed, getters, owner, _ = ctx
     negated = "-" in (getattr(e, "prefix_operators", None) or [])
     if isinstance(e, T.BinaryOperation) and e.operator == "-":
-        raise Unsupported(e, f"{cls.name}.compareTo subtracts fields: that overflows for large values, so its "
+        raise Unsupported(e, f"{owner} subtracts fields to compare them: that overflows for large values, so its "
                              "order is not a sort order", "use Integer.compare / Long.compare")
     pair = None
     if isinstance(e, T.MethodInvocation) and (e.qualifier, e.member) in _COMPARES and len(e.arguments) == 2:
         pair = e.arguments
     elif isinstance(e, T.MethodInvocation) and e.member == "compareTo" and len(e.arguments) == 1:
-        pair = [T.MemberReference(member=e.qualifier.split(".")[-1],
-                                  qualifier=e.qualifier.rsplit(".", 1)[0] if "." in e.qualifier else ""),
-                e.arguments[0]]
+        q = e.qualifier or ""
+        if q:  # `station.compareTo(o.station)` / `x.station.compareTo(...)` / `x.getStation().compareTo(...)`
+            recv = T.MemberReference(member=q.split(".")[-1], qualifier=q.rsplit(".", 1)[0] if "." in q else "")
+        else:  # `x.getStation().compareTo(...)` parses as a selector chain on the invocation
+            recv = None
+        pair = [recv, e.arguments[0]] if recv is not None else None
+    if pair is None and isinstance(e, T.MethodInvocation) and e.selectors:
+        sel = e.selectors[-1]
+        if isinstance(sel, T.MethodInvocation) and sel.member == "compareTo" and len(sel.arguments) == 1:
+            head = T.MethodInvocation(member=e.member, qualifier=e.qualifier, arguments=e.arguments,
+                                      selectors=e.selectors[:-1])
+            pair = [head, sel.arguments[0]]
     if pair is None:
-        raise Unsupported(e, f"{cls.name}.compareTo compares something other than fields")
-    a, b = (_side(x, other, typed) for x in pair)
+        raise Unsupported(e, f"{owner} compares something other than fields")
+    a, b = (_side(x, ctx) for x in pair)
     if a is None or b is None or a[0] != b[0] or a[1] == b[1]:
-        raise Unsupported(e, f"{cls.name}.compareTo does not compare one field of this with the same field of {other}")
-    name, mine = a
+        raise Unsupported(e, f"{owner} does not compare one field of one object with the same field of the other")
+    name, is_left = a
     if typed[name] in ("double", "boolean"):
-        raise Unsupported(e, f"{cls.name}.compareTo orders the {typed[name]} `{name}`; that order is not proven "
-                             "equal to Spark's")
-    return name, mine != negated
+        raise Unsupported(e, f"{owner} orders the {typed[name]} `{name}`; that order is not proven equal to Spark's")
+    return name, is_left != negated
 
 
-def _side(n, other: str, typed) -> tuple[str, bool] | None:
-    """(field, is this object's) for `f`, `this.f`, `o.f`, `getF()`-free forms only."""
-    if isinstance(n, T.MemberReference):
-        if n.qualifier in ("", None, "this") and n.member in typed:
-            return n.member, True
-        if n.qualifier == other and n.member in typed:
-            return n.member, False
+def _side(n, ctx) -> tuple[str, bool] | None:
+    """(field, is the left object) for `f`, `this.f`, `x.f`, `x.getF()`."""
+    alias, typed, getters, _, left = ctx
+
+    def who(q: str | None) -> str | None:
+        return alias.get(q) if q and q != "this" else ("this" if "this" in alias else None)
+
+    if isinstance(n, T.MemberReference) and n.member in typed:
+        w = who(n.qualifier)
+        return (n.member, w == left) if w is not None else None
+    if isinstance(n, T.MethodInvocation) and not n.arguments and n.member in getters and not n.selectors:
+        w = who(n.qualifier)
+        return (getters[n.member], w == left) if w is not None else None
     if isinstance(n, T.This) and n.selectors and isinstance(n.selectors[0], T.MemberReference):
         name = n.selectors[0].member
-        return (name, True) if name in typed else None
+        return (name, "this" == left) if name in typed else None
     return None
+
+
+def read_comparator(cls: ClassInfo, structs: dict) -> tuple[StructInfo, tuple[tuple[str, bool], ...]]:
+    """A WritableComparator subclass over a custom key: the key it compares and its order."""
+    ms = [m for m in cls.methods("compare") if len(m.parameters) == 2]
+    if not ms:
+        raise Unsupported(cls.node, f"{cls.name} has no compare(a, b) over deserialised keys (raw byte comparators "
+                                    "are not read)", "express the order with orderBy over the key's fields")
+    m = ms[0]
+    casts = [n.type.name for _, n in m if isinstance(n, T.Cast) and n.type.name in structs]
+    ptypes = [p.type.name for p in m.parameters if p.type.name in structs]
+    names = set(casts) | set(ptypes)
+    info = structs.get(next(iter(names))) if len(names) == 1 else None
+    if not isinstance(info, StructInfo):
+        raise Unsupported(m, f"{cls.name}.compare() does not compare one custom key class the converter read")
+    a, b = (p.name for p in m.parameters)
+    order = compare_chain(list(m.body or []), a, b, info.fields, _getters(info.cls, info.fields), cls.name, m)
+    return info, order
 
 
 def struct_infos(index: ClassIndex) -> dict[str, StructInfo | Unsupported]:

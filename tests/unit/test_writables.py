@@ -63,17 +63,18 @@ def test_composite_key_becomes_a_struct_printed_by_to_string_and_sorted_by_compa
     assert "Emit {station: index(f, 0), hour: parse_int(index(f, 1))} -> 1" in dump
     assert "Out concat(concat(key.station, '/'), to_string(key.hour)) -> @n" in dump
     # String.compareTo: UTF-16 order, then the hour as a number
-    assert job.plan.sink.sort_key is not None
     from migrate.plan import dump_expr
 
-    assert dump_expr(job.plan.sink.sort_key) == "{station: utf16_order(key.station), hour: key.hour}"
+    assert [(dump_expr(e), asc) for e, asc in job.plan.sink.sort_terms] == [("utf16_order(key.station)", True),
+                                                                            ("key.hour", True)]
 
 
 def test_descending_and_ternary_chains_are_read(tmp_path):
     job = _job(tmp_path, "int c = station.compareTo(o.station); return c != 0 ? c : Integer.compare(o.hour, hour);")
     from migrate.plan import dump_expr
 
-    assert dump_expr(job.plan.sink.sort_key) == "{station: utf16_order(key.station), hour: negate((long) key.hour)}"
+    assert [(dump_expr(e), asc) for e, asc in job.plan.sink.sort_terms] == [("utf16_order(key.station)", True),
+                                                                            ("key.hour", False)]
 
 
 def _declined(job, text):

@@ -177,10 +177,8 @@ def build(spark: SparkSession, input_path: str) -> DataFrame:
                 ).cast("string"),
                 F.lit(" min mean"),
             ).alias("value"),
-            F.struct(
-                F.encode(F.col("key")["station"], "UTF-16BE").alias("station"),
-                F.col("key")["hour"].alias("hour"),
-            ).alias("_sort_key"),
+            F.encode(F.col("key")["station"], "UTF-16BE").alias("_sort_1"),
+            F.col("key")["hour"].alias("_sort_2"),
         )
     )
     return result
@@ -192,7 +190,7 @@ def write_text_output(result: DataFrame, output_path: str, *, dry_run: bool = Fa
     A NULL side (NullWritable) is left out together with its separator.
     """
     # One reducer wrote one file sorted by key: the same here (wide: one shuffle into one partition).
-    rows = result.repartition(1).sortWithinPartitions("_sort_key")
+    rows = result.repartition(1).sortWithinPartitions("_sort_1", "_sort_2")
     lines = rows.where(F.col("key").isNotNull() | F.col("value").isNotNull()).select(
         F.concat_ws("\t", F.col("key").cast("string"), F.col("value").cast("string")).alias("value")
     )
