@@ -15,7 +15,7 @@ from migrate.lift.config import task_constants
 from migrate.lift.limits import explain
 from migrate.lift.mapper import MapBodyLifter, class_constants
 from migrate.lift.exprs import Scope, Unsupported, to_string
-from migrate.lift.writables import is_struct, structs_of
+from migrate.lift.writables import is_struct, read_comparator, structs_of
 from migrate.lift.reducer import FoldLifter
 from migrate.lift.partitioning import custom_partition, hash_partition
 from migrate.lift.topn import lift_top_n, top_n_findings
@@ -137,6 +137,7 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
     # ---- reduce side
     reduce: Step | None = None
     partition: Expr | None = None  # with several reduce tasks: the task of each key
+    key_order = None  # a sort comparator's order of a custom key (None: its compareTo)
     reducer_fq = spec.classes.get("reducer")
     if spec.reduces == 0:
         shapes.append("map only")
@@ -183,20 +184,20 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
             else:
                 add("task-state", mcls.span, "in-mapper combining feeds a reducer that does not just sum: the output "
                     "would depend on how Hadoop split the input into tasks", "check what the job should compute", "P2")
-        comparator_hint = "Window.partitionBy(...).orderBy(...) expresses secondary sort"
-        for role, label, calls, hint in (
-                ("partitioner", "custom partitioner", ("setPartitionerClass",),
-                 "only the split into part files changes; repartition by the same rule if readers depend on it"),
-                ("sort_comparator", "custom sort order", ("setSortComparatorClass", "setOutputKeyComparatorClass"),
-                 comparator_hint),
-                ("grouping_comparator", "custom grouping (secondary sort)",
-                 ("setGroupingComparatorClass", "setOutputValueGroupingComparator"), comparator_hint)):
-            if role == "partitioner" and partition is not None:
-                continue  # reproduced: which part file (task) each key went to
-            if role in spec.classes:
-                add("secondary-sort" if role != "partitioner" else "partitioner", at(*calls),
-                    f"{label} {spec.classes[role].rsplit('.', 1)[-1]} is not converted", hint, "P2",
-                    _sloc_of(index, spec.classes[role]))
+        if "partitioner" in spec.classes and partition is None:
+            add("partitioner", at("setPartitionerClass"), f"custom partitioner "
+                f"{spec.classes['partitioner'].rsplit('.', 1)[-1]} is not converted",
+                "only the split into part files changes; repartition by the same rule if readers depend on it", "P2",
+                _sloc_of(index, spec.classes["partitioner"]))
+        key_order = _secondary_sort(spec, index, structs, map_key_t, reduce, add, at)
+        if key_order is not None:
+            shapes.append("secondary sort")
+            notes.append("the values reach reduce() in the sort comparator's order; the script sorts its output by "
+                         "the same fields, in the same directions (values with equal keys: in no defined order)")
+        if isinstance(reduce, TopN) and is_struct(map_key_t):
+            add("top-n", reduce.fold.emits[0].origin, "the TreeMap keeps the last of tied entries, and which is last "
+                "follows the custom key's compareTo order; that tie rule is not reproduced for custom keys",
+                "rank with Window.orderBy(...) and decide how ties should be broken", "P2")
     for category, line, text in spec.extra:
         add(category, Span(drv, line, line), f"{text} is not converted in this version",
             "see the DataFrame join/union equivalents in DEVELOPERS.md", "P2")
@@ -219,11 +220,11 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
                      "fixes; the last digit can differ between runs of either")
     # ---- shapes and the sink
     shapes.extend(_shapes(steps if mcls is not None else [], reduce))
-    steps, reduce = _struct_output_text(steps, reduce, structs, add, spec.origin)
+    steps, reduce = _struct_output_text(steps, reduce, structs, add, spec.origin, spec.reduces == 0)
     sort_terms = ()
     if is_struct(map_key_t) and reduce is not None and not isinstance(reduce, TopN):
         try:
-            sort_terms = structs[map_key_t].sort_terms(Col(map_key_t, "key"), spec.driver.node)
+            sort_terms = structs[map_key_t].sort_terms(Col(map_key_t, "key"), spec.driver.node, key_order)
         except Unsupported as u:
             add("custom-writable", spec.origin, f"the output is sorted by {map_key_t.split('.')[-1]}.compareTo: "
                 f"{u.reason}", u.suggestion or "sort by the compared fields by hand", "P1")
@@ -249,7 +250,7 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
     return JobResult(spec, plan, classes, files, sloc, notes)
 
 
-def _struct_output_text(steps: list[Step], reduce: Step | None, structs: dict, add, where: Span):
+def _struct_output_text(steps: list[Step], reduce: Step | None, structs: dict, add, where: Span, map_only: bool):
     """TextOutputFormat prints a custom Writable with its toString(): final writes become that text."""
     scope = Scope({}, structs=structs)
 
@@ -263,7 +264,7 @@ def _struct_output_text(steps: list[Step], reduce: Step | None, structs: dict, a
             reduce = replace(reduce, emits=tuple(text(e) for e in reduce.emits))
         elif isinstance(reduce, TopN):
             reduce = replace(reduce, writes=tuple(text(e) for e in reduce.writes))
-        elif reduce is None:
+        elif reduce is None and map_only:
             steps = [replace(s, emits=tuple(text(e) for e in s.emits)) if isinstance(s, Project) else s for s in steps]
         elif isinstance(reduce, Identity) and any(is_struct(e.key.jtype) or is_struct(e.value.jtype)
                                                   for s in steps if isinstance(s, Project) for e in s.emits
@@ -273,6 +274,60 @@ def _struct_output_text(steps: list[Step], reduce: Step | None, structs: dict, a
         add("custom-writable", where, f"the output text of a custom Writable: {u.reason}",
             u.suggestion or "format its fields with F.concat by hand", "P1")
     return steps, reduce
+
+
+_COMPARATOR_CALLS = {"sort_comparator": ("setSortComparatorClass", "setOutputKeyComparatorClass"),
+                     "grouping_comparator": ("setGroupingComparatorClass", "setOutputValueGroupingComparator")}
+
+
+def _secondary_sort(spec: JobSpec, index: ClassIndex, structs: dict, key_t: str, reduce: Step | None, add, at):
+    """Sort and grouping comparators over a custom key (secondary sort): the order of the reduce
+    input, or hand work saying why it was not read. Returns the sort order, or None for compareTo's."""
+    roles = [r for r in ("sort_comparator", "grouping_comparator") if r in spec.classes]
+    if not roles:
+        return None
+    hint = "Window.partitionBy(natural key).orderBy(secondary field) expresses a secondary sort"
+
+    def decline(role: str, reason: str) -> None:
+        name = spec.classes[role].rsplit(".", 1)[-1]
+        add("secondary-sort", at(*_COMPARATOR_CALLS[role]), f"{role.replace('_', ' ')} {name}: {reason}", hint, "P2",
+            _sloc_of(index, spec.classes[role]))
+
+    if not is_struct(key_t):
+        for r in roles:
+            decline(r, f"a comparator over {key_t} keys is not read (only comparators of a custom key are)")
+        return None
+    orders = {}
+    for r in roles:
+        cls = index.get(spec.classes[r])
+        try:
+            if cls is None:
+                raise Unsupported(None, "its source is not in the repository")
+            info, orders[r] = read_comparator(cls, structs)
+            if info.jtype != key_t:
+                raise Unsupported(None, f"it compares {info.cls.name}, not the map output key")
+        except Unsupported as u:
+            decline(r, u.reason)
+            return None
+    info = structs[key_t]
+    sort = orders.get("sort_comparator") or (info.order if not info.no_order else None)
+    if sort is None:
+        decline(roles[0], info.no_order)
+        return None
+    group = orders.get("grouping_comparator", sort)
+    fields = [n for n, _ in sort]
+    if [n for n, _ in group] != fields[:len(group)]:
+        decline(roles[-1], "the grouping comparator's fields are not the first fields of the sort order, so "
+                           "Hadoop's groups would not be contiguous")
+        return None
+    spans_keys = len(group) < len(info.fields)  # one reduce() call sees several distinct keys
+    if spans_keys and not isinstance(reduce, (EachValue, Identity)):
+        decline(roles[-1], f"reduce() folds a group that spans several keys (it compares only "
+                           f"{', '.join(n for n, _ in group)}): the key it sees changes as the values are read, and "
+                           "which values come first follows the sort order; only reducers that write inside their "
+                           "loop over values are converted")
+        return None
+    return sort
 
 
 def _partition_of(spec: JobSpec, index: ClassIndex, key_t: str, reduce: Step) -> tuple[Expr | None, str]:
@@ -286,7 +341,7 @@ def _partition_of(spec: JobSpec, index: ClassIndex, key_t: str, reduce: Step) ->
         cls = index.get(fq)
         if cls is None:
             return None, f"partitioner {fq.rsplit('.', 1)[-1]} is not in the repository"
-        return custom_partition(cls, key_t, spec.reduces), ""
+        return custom_partition(cls, key_t, spec.reduces, structs_of(index)), ""
     except Unsupported as u:
         return None, u.reason
 

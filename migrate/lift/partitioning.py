@@ -8,7 +8,8 @@ cleanup(), is kept per task as in the original).
 Recognises: the default HashPartitioner, `(key.hashCode() & Integer.MAX_VALUE) % numReduceTasks`
 (Hadoop's HashPartitioner source), for Text, IntWritable and LongWritable keys; and custom
 partitioners whose getPartition() is `return (X & Integer.MAX_VALUE) % numPartitions;` with X
-one of `key.hashCode()`, `key.toString().hashCode()`, `key.toString().charAt(0)`, `key.get()`.
+one of `key.hashCode()`, `key.toString().hashCode()`, `key.toString().charAt(0)`, `key.get()`,
+and for a custom key `key.getF().hashCode()` of a String or Text field (secondary sort).
 Produces: an int expression over the column `key` (Call "partition_of"). Declines anything else.
 """
 from __future__ import annotations
@@ -31,7 +32,7 @@ def hash_partition(key_t: str, reduces: int, where) -> Expr:
     return Call("int", "partition_of", (Call("int", op, (Col(key_t, "key"),)), Lit("int", reduces)))
 
 
-def custom_partition(cls: ClassInfo, key_t: str, reduces: int) -> Expr:
+def custom_partition(cls: ClassInfo, key_t: str, reduces: int, structs: dict | None = None) -> Expr:
     ms = [m for m in cls.methods("getPartition") if len(m.parameters) == 3]
     if not ms:
         raise Unsupported(cls.node, f"{cls.name} has no getPartition(key, value, numPartitions)")
@@ -43,7 +44,7 @@ def custom_partition(cls: ClassInfo, key_t: str, reduces: int) -> Expr:
     if isinstance(e, T.BinaryOperation) and e.operator == "%" and _is_ref(e.operandr, num):
         masked = e.operandl
         if isinstance(masked, T.BinaryOperation) and masked.operator == "&" and _is_max_int(masked.operandr):
-            x = _hashed(masked.operandl, key, key_t)
+            x = _hashed(masked.operandl, key, key_t, structs or {})
             if x is not None:
                 return Call("int", "partition_of", (x, Lit("int", reduces)))
     raise Unsupported(ret or m, f"{cls.name}.getPartition() is not `(X & Integer.MAX_VALUE) % numPartitions` over "
@@ -51,13 +52,22 @@ def custom_partition(cls: ClassInfo, key_t: str, reduces: int) -> Expr:
                       "compute the task number as a column and sort by it, then by key")
 
 
-def _hashed(n, key: str, key_t: str) -> Expr | None:
+def _hashed(n, key: str, key_t: str, structs: dict) -> Expr | None:
     """X in `(X & MAX_VALUE) % n`, over the key."""
     if not (isinstance(n, T.MethodInvocation) and n.qualifier == key):
         return None
     sels = [(s.member, [getattr(a, "value", None) for a in s.arguments or []])
             for s in n.selectors or [] if isinstance(s, T.MethodInvocation)]
     k = Col(key_t, "key")
+    info = structs.get(key_t)
+    if info is not None and not isinstance(info, Unsupported):  # a custom key: `key.getStation().hashCode()`
+        from migrate.lift.writables import getters
+
+        name = getters(info).get(n.member)
+        if name is not None and sels == [("hashCode", [])] and info.fields[name] == "String":
+            op = "text_hash" if name in info.text_fields else "string_hash"
+            return Call("int", op, (info.field_of(k, name),))
+        return None
     if n.member == "hashCode" and not sels and key_t in _WRITABLE_HASH:
         return Call("int", _WRITABLE_HASH[key_t], (k,))
     if n.member == "get" and not sels and key_t == "int":

@@ -16,6 +16,7 @@ compareTo, descending strings.
 """
 from __future__ import annotations
 
+import copy
 from dataclasses import dataclass, field
 
 from javalang import tree as T
@@ -99,7 +100,8 @@ class StructInfo:
         inner = Scope(env, file=self.cls.file.path, enums=scope.enums, depth=scope.depth + 1,
                       structs=scope.structs)
         out = _body_value(list(m.body), inner, m)
-        want = _java_type(m.return_type) if m.return_type is not None else None
+        rname = getattr(m.return_type, "name", "")
+        want = _FIELD_TYPES.get(rname) or (_java_type(m.return_type) if m.return_type is not None else None)
         if want is None:
             raise Unsupported(node, f"{self.cls.name}.{name}() does not return a value the converter follows")
         return widen(out, want) if out.jtype != want else out
@@ -191,6 +193,10 @@ def _compare_order(cls: ClassInfo, typed: dict[str, str]) -> tuple[tuple[str, bo
     return order
 
 
+def getters(info: StructInfo) -> dict[str, str]:
+    return _getters(info.cls, info.fields)
+
+
 def _getters(cls: ClassInfo, typed: dict[str, str]) -> dict[str, str]:
     """Getter name -> field, for methods whose body is `return field;`."""
     out = {}
@@ -275,11 +281,11 @@ def _term(e, ctx) -> tuple[str, bool]:
         else:  # `x.getStation().compareTo(...)` parses as a selector chain on the invocation
             recv = None
         pair = [recv, e.arguments[0]] if recv is not None else None
-    if pair is None and isinstance(e, T.MethodInvocation) and e.selectors:
+    if pair is None and isinstance(e, (T.MethodInvocation, T.Cast)) and e.selectors:
         sel = e.selectors[-1]
         if isinstance(sel, T.MethodInvocation) and sel.member == "compareTo" and len(sel.arguments) == 1:
-            head = T.MethodInvocation(member=e.member, qualifier=e.qualifier, arguments=e.arguments,
-                                      selectors=e.selectors[:-1])
+            head = copy.copy(e)
+            head.selectors = e.selectors[:-1]
             pair = [head, sel.arguments[0]]
     if pair is None:
         raise Unsupported(e, f"{owner} compares something other than fields")
@@ -308,6 +314,11 @@ def _side(n, ctx) -> tuple[str, bool] | None:
     if isinstance(n, T.This) and n.selectors and isinstance(n.selectors[0], T.MemberReference):
         name = n.selectors[0].member
         return (name, "this" == left) if name in typed else None
+    if isinstance(n, T.Cast) and isinstance(n.expression, T.MemberReference) and len(n.selectors or []) == 1:
+        w, sel = alias.get(n.expression.member), n.selectors[0]  # `((Slot) a).getStation()`, `((Slot) a).station`
+        name = getters.get(sel.member) if isinstance(sel, T.MethodInvocation) and not sel.arguments else \
+            sel.member if isinstance(sel, T.MemberReference) and sel.member in typed else None
+        return (name, w == left) if w is not None and name is not None else None
     return None
 
 
