@@ -658,10 +658,22 @@ def render_script(plan: Plan, header: dict, hand_work: list[HandWork]) -> str:
         + (", conf=settings(args.defines)" if x.settings else "") + (", counters=counters" if x.counters else ""),
         counters=x.counters, dates=x.dates,
         sort_columns=sort_columns(plan),
+        tasks=_tasks(plan),
         sort_note=("cleanup() wrote the kept entries in map order, one reduce task after another: the same here"
                    if isinstance(plan.reduce, TopN) else "One reducer wrote one file sorted by key: the same here"),
     )
     return format_code(text)
+
+
+def _tasks(plan: Plan) -> int:
+    """The original's reduce task count when the script knows the task of every row (else 0)."""
+    r = plan.reduce
+    if plan.sink.partition is None:
+        return 0
+    if isinstance(r, TopN):
+        return r.partitions
+    call = plan.sink.partition  # partition_of(hash, Lit(n))
+    return int(call.args[1].value)
 
 
 def format_code(text: str) -> str:

@@ -171,9 +171,10 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
                     "if readers depend on the part files, repartition by the same rule", "P1")
             else:
                 findings.append(Finding("output-layout", at("setNumReduceTasks"), f"Hadoop wrote {spec.reduces} part "
-                                        "files, each sorted by key; the script writes one file holding the same lines in "
-                                        "the same order (the part files one after another)",
-                                        "readers that open part files by name need the folder read as a whole"))
+                                        "files, each sorted by key; by default the script writes one file holding the same "
+                                        "lines in the same order (the part files one after another); with --task-files "
+                                        f"it writes {spec.reduces} files, each holding what one reduce task wrote",
+                                        "keep --task-files if readers open part files by name"))
                 if isinstance(reduce, TopN):
                     reduce = replace(reduce, partition=partition, partitions=spec.reduces)
         _check_combiner(spec, reduce, index, add, notes, at("setCombinerClass"), map_key_t, map_val_t)

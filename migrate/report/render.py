@@ -38,6 +38,8 @@ def build_report(jobs: list[tuple[JobResult, str]], errors: list[ParseFailure], 
                            "reason": h.reason, "suggestion": h.suggestion, "snippet": h.snippet,
                            "profile": h.profile, "sloc": h.sloc} for h in job.plan.hand_work],
             "notes": list(job.plan.notes),
+            "reduce_tasks": job.spec.reduces,
+            "task_files": job.plan.sink.partition is not None,  # the script can write one file per task
             "findings": [{"category": f.category, "file": f.origin.file, "line": f.origin.line_start,
                           "finding": f.message, "suggestion": f.suggestion} for f in job.plan.findings],
             "aggregates": aggregates_of(job),

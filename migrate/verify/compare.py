@@ -36,7 +36,11 @@ def _by_key(lines: list[bytes], separator: bytes) -> list[tuple[bytes, Counter]]
 
 def compare_outputs(original: Path, converted: Path, *, within_key_any_order: bool = False,
                     separator: bytes = b"\t") -> Comparison:
-    a, b = output_bytes(original), output_bytes(converted)
+    return compare_bytes(output_bytes(original), output_bytes(converted), within_key_any_order=within_key_any_order,
+                         separator=separator)
+
+
+def compare_bytes(a: bytes, b: bytes, *, within_key_any_order: bool = False, separator: bytes = b"\t") -> Comparison:
     la, lb = a.split(b"\n"), b.split(b"\n")
     diff = ""
     if within_key_any_order:

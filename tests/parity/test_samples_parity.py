@@ -5,7 +5,7 @@ from __future__ import annotations
 import pytest
 
 from tests.conftest import SAMPLES, load_script, sample_runs
-from migrate.verify.compare import compare_outputs, output_bytes
+from migrate.verify.compare import compare_bytes, compare_outputs, output_bytes
 from migrate.verify.hadoop import run_job
 from migrate.plan import ADVISORY_CATEGORIES
 
@@ -59,6 +59,14 @@ def test_converted_job_matches_hadoop_output(run, converted_samples, hadoop_clas
     cmp = compare_outputs(hadoop_out, spark_out, within_key_any_order=run.get("values_order") == "undefined")
     assert cmp.original_lines > 0, "the sample produced no output: the test would prove nothing"
     assert cmp.same, cmp.first_difference
+    if job["task_files"]:  # --task-files: the same lines in the same part file as each Hadoop reduce task
+        per_task = tmp_path / "spark_tasks"
+        assert script.main([str(per_task) if a == str(spark_out) else a for a in spark_args] + ["--task-files"]) == 0
+        tasks_h, tasks_s = _by_task(hadoop_out), _by_task(per_task)
+        assert sorted(tasks_h) == sorted(tasks_s) and len(tasks_h) > 1
+        for t in tasks_h:
+            same = compare_bytes(tasks_h[t], tasks_s[t], within_key_any_order=run.get("values_order") == "undefined")
+            assert same.same, f"task {t}: {same.first_difference}"
     if job["counters"]:  # the counters the job log showed, against the script's report
         hadoop_counters = parse_counters(ran.log)
         spark_counters = parse_counters(capsys.readouterr().err)
@@ -66,6 +74,18 @@ def test_converted_job_matches_hadoop_output(run, converted_samples, hadoop_clas
             key = (c["group"], c["name"])
             assert key in hadoop_counters, f"Hadoop did not report {key}"
             assert spark_counters.get(key) == hadoop_counters[key], key
+
+
+def _by_task(folder) -> dict[int, bytes]:
+    """Non-empty part files by task number (Hadoop part-r-00001, Spark part-00001-<uuid>.txt)."""
+    from migrate.verify.compare import part_files
+
+    out = {}
+    for p in part_files(folder):
+        data = p.read_bytes()
+        if data:
+            out[int(p.name.split("-")[-1 if p.name.startswith("part-r-") else 1].split(".")[0])] = data
+    return out
 
 
 def test_partial_jobs_fail_loudly(converted_samples, spark, tmp_path):

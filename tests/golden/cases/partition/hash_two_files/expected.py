@@ -17,7 +17,7 @@ Semantics kept from Java/Hadoop: see the helper docstrings. Java int/long overfl
 row arithmetic raises an error here (ANSI mode) instead of wrapping silently.
 
 Findings (the original does this and so does this script; decide whether to keep it):
-    BikeUsageProfile.java:79  [output-layout] Hadoop wrote 2 part files, each sorted by key; the script writes one file holding the same lines in the same order (the part files one after another)
+    BikeUsageProfile.java:79  [output-layout] Hadoop wrote 2 part files, each sorted by key; by default the script writes one file holding the same lines in the same order (the part files one after another); with --task-files it writes 2 files, each holding what one reduce task wrote
 
 Verify this script on real data before it replaces the production job: compare its
 output with the original job's output on a representative sample of real data.
@@ -278,13 +278,27 @@ def build(spark: SparkSession, input_path: str) -> DataFrame:
     return result
 
 
-def write_text_output(result: DataFrame, output_path: str, *, dry_run: bool = False) -> None:
+def write_text_output(
+    result: DataFrame, output_path: str, *, dry_run: bool = False, task_files: bool = False
+) -> None:
     """Lay rows out as Hadoop's TextOutputFormat: key, TAB, value as Java's toString prints them.
 
     A NULL side (NullWritable) is left out together with its separator.
     """
-    # One reducer wrote one file sorted by key: the same here (wide: one shuffle into one partition).
-    rows = result.repartition(1).sortWithinPartitions("_partition", "key", "_write")
+    if task_files:
+        # One file per original reduce task, like Hadoop's part-r-00000 to part-r-00001: each row
+        # goes to the file of its `_partition`, and each file is sorted as that task sorted it.
+        by_task = (
+            result.rdd.keyBy(lambda row: row["_partition"])
+            .partitionBy(2, lambda task: task)
+            .values()
+        )
+        rows = result.sparkSession.createDataFrame(by_task, result.schema).sortWithinPartitions(
+            "key", "_write"
+        )
+    else:
+        # The 2 part files one after another, in one file (wide: one shuffle into one partition).
+        rows = result.repartition(1).sortWithinPartitions("_partition", "key", "_write")
     lines = rows.where(F.col("key").isNotNull() | F.col("value").isNotNull()).select(
         F.concat_ws("\t", F.col("key").cast("string"), F.col("value").cast("string")).alias("value")
     )
@@ -310,6 +324,11 @@ def main(argv: list[str] | None = None) -> int:
         help="a job setting, as Hadoop's GenericOptionsParser takes it (settings this job does not read are ignored)",
     )
     parser.add_argument(
+        "--task-files",
+        action="store_true",
+        help="write one file per original reduce task (2), as Hadoop did, instead of one file",
+    )
+    parser.add_argument(
         "--dry-run", action="store_true", help="run the whole job but write nothing"
     )
     parser.add_argument(
@@ -325,7 +344,7 @@ def main(argv: list[str] | None = None) -> int:
     if args.explain:
         result.explain(mode="formatted")
         return 0
-    write_text_output(result, args.output_path, dry_run=args.dry_run)
+    write_text_output(result, args.output_path, dry_run=args.dry_run, task_files=args.task_files)
     return 0
 
 

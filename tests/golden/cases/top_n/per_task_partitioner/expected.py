@@ -20,7 +20,7 @@ row arithmetic raises an error here (ANSI mode) instead of wrapping silently.
 Findings (the original does this and so does this script; decide whether to keep it):
     TopStationsByDestination.java:56  [ties-dropped] the TreeMap keeps one entry per map key: keys whose map keys tie overwrite each other, so the original keeps only the greatest key of each tie and may write fewer than 3 distinct keys; the script does the same
     TopStationsByDestination.java:56  [per-task-state] the TreeMap lives in one reduce task: with 3 reduce tasks the original writes a top 3 per task (per partition), not one overall; the script does the same
-    TopStationsByDestination.java:77  [output-layout] Hadoop wrote 3 part files, each sorted by key; the script writes one file holding the same lines in the same order (the part files one after another)
+    TopStationsByDestination.java:77  [output-layout] Hadoop wrote 3 part files, each sorted by key; by default the script writes one file holding the same lines in the same order (the part files one after another); with --task-files it writes 3 files, each holding what one reduce task wrote
 
 Verify this script on real data before it replaces the production job: compare its
 output with the original job's output on a representative sample of real data.
@@ -153,13 +153,27 @@ def build(spark: SparkSession, input_path: str) -> DataFrame:
     return result
 
 
-def write_text_output(result: DataFrame, output_path: str, *, dry_run: bool = False) -> None:
+def write_text_output(
+    result: DataFrame, output_path: str, *, dry_run: bool = False, task_files: bool = False
+) -> None:
     """Lay rows out as Hadoop's TextOutputFormat: key, TAB, value as Java's toString prints them.
 
     A NULL side (NullWritable) is left out together with its separator.
     """
-    # cleanup() wrote the kept entries in map order, one reduce task after another: the same here (wide: one shuffle into one partition).
-    rows = result.repartition(1).sortWithinPartitions("_partition", "_write")
+    if task_files:
+        # One file per original reduce task, like Hadoop's part-r-00000 to part-r-00002: each row
+        # goes to the file of its `_partition`, and each file is sorted as that task sorted it.
+        by_task = (
+            result.rdd.keyBy(lambda row: row["_partition"])
+            .partitionBy(3, lambda task: task)
+            .values()
+        )
+        rows = result.sparkSession.createDataFrame(by_task, result.schema).sortWithinPartitions(
+            "_write"
+        )
+    else:
+        # The 3 part files one after another, in one file (wide: one shuffle into one partition).
+        rows = result.repartition(1).sortWithinPartitions("_partition", "_write")
     lines = rows.where(F.col("key").isNotNull() | F.col("value").isNotNull()).select(
         F.concat_ws("\t", F.col("key").cast("string"), F.col("value").cast("string")).alias("value")
     )
@@ -185,6 +199,11 @@ def main(argv: list[str] | None = None) -> int:
         help="a job setting, as Hadoop's GenericOptionsParser takes it (settings this job does not read are ignored)",
     )
     parser.add_argument(
+        "--task-files",
+        action="store_true",
+        help="write one file per original reduce task (3), as Hadoop did, instead of one file",
+    )
+    parser.add_argument(
         "--dry-run", action="store_true", help="run the whole job but write nothing"
     )
     parser.add_argument(
@@ -200,7 +219,7 @@ def main(argv: list[str] | None = None) -> int:
     if args.explain:
         result.explain(mode="formatted")
         return 0
-    write_text_output(result, args.output_path, dry_run=args.dry_run)
+    write_text_output(result, args.output_path, dry_run=args.dry_run, task_files=args.task_files)
     return 0
 
 
