@@ -258,6 +258,7 @@ class Group(Step):
     emits: tuple[Emit, ...]
     distinct: bool = False
     lets: tuple[Let, ...] = ()  # locals computed per value inside the loop: columns before the shuffle
+    first_keys: int | None = None  # an instance counter caps the output: only each task's first N keys write
 
     def __post_init__(self) -> None:
         if not self.emits:
@@ -490,7 +491,8 @@ def _dump_step(s: Step) -> str:
             lines.append(f"    Emit {dump_expr(e.key)} -> {dump_expr(e.value)}{g}")
         return "\n".join(lines)
     if isinstance(s, Group):
-        lines = ["Group by key" + (" (distinct)" if s.distinct else "")]
+        lines = ["Group by key" + (" (distinct)" if s.distinct else "")
+                 + (f" (first {s.first_keys} keys of each task)" if s.first_keys is not None else "")]
         lines += [f"    {_dump_step(x)}" for x in s.lets]
         for a in s.aggs:
             lines.append(f"    Agg {a.name} = {a.fn}:{a.jtype}({dump_expr(a.arg)}) init={a.init!r}")

@@ -404,6 +404,9 @@ def build_body(plan: Plan, x: ExprWriter) -> ScriptParts:
             out.append("    .distinct()  # the reducer ignores its values: one row per key")
         else:
             out.extend("    " + c for c in _fold_code(r, x))
+        if r.first_keys is not None:
+            out.extend("    " + c for c in _first_keys_code(r, plan, x))
+            parts.uses_window = True
         out.extend("    " + c for c in _reduce_writes(r.emits, x, plan.sink.partition, plan.sink.sort_terms))
         out.append(")")
         out.append("return result")
@@ -446,6 +449,17 @@ def _fold_code(g: Group, x: ExprWriter) -> list[str]:
         lines.append(f"    # {_where(a.origin)}  {a.note}")
         lines.append(f"    {agg_code(a, x)}.alias(\"{agg_column(a.name)}\"),")
     return lines + [")"]
+
+
+def _first_keys_code(r: Group, plan: Plan, x: ExprWriter) -> list[str]:
+    """An instance counter in the reducer: only the first N keys each reduce task meets may write."""
+    order = [f"{x(e)}{'' if asc else '.desc()'}" for e, asc in plan.sink.sort_terms] or ['F.col("key")']
+    window = "Window" + (f".partitionBy({x(plan.sink.partition)})" if plan.sink.partition is not None else "")
+    task = "each reduce task" if plan.sink.partition is not None else "the reduce task"
+    return [f"# {_where(r.origin)}  an instance counter lets only the first {r.first_keys} keys {task} meets "
+            "write (keys reach reduce() in sorted order)",
+            f'.withColumn("_key_number", F.row_number().over({window}.orderBy({", ".join(order)})))',
+            f'.where(F.col("_key_number") <= {r.first_keys})']
 
 
 def _top_n_code(r: TopN, x: ExprWriter) -> list[str]:

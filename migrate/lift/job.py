@@ -161,8 +161,9 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
                 "group by the key's text (F.col('key').cast('string')) and sort by its number", "P1")
         if spec.reduces > 1 and reduce is not None:
             partition, why = _partition_of(spec, index, map_key_t, reduce)
-            if partition is None and isinstance(reduce, TopN):
-                add("per-task-state", at("setNumReduceTasks"), f"the top-N is kept per reduce task ({spec.reduces} "
+            capped = isinstance(reduce, Group) and reduce.first_keys is not None
+            if partition is None and (isinstance(reduce, TopN) or capped):
+                add("per-task-state", at("setNumReduceTasks"), f"the reducer's state is kept per reduce task ({spec.reduces} "
                     f"tasks) and which task gets which key is not known: {why}",
                     "rank per task with Window.partitionBy(<task of the key>), or decide one overall top-N is meant", "P2")
             elif partition is None:
@@ -537,6 +538,11 @@ def _lift_reducer(rcls: ClassInfo, key_t: str, val_t: str, hand: list[HandWork],
     group, items = FoldLifter(owner, m, key_t, val_t, index).run()
     if items:
         hand.extend(_named(owner, h, sloc) for h in items)
+    if isinstance(group, Group) and group.first_keys is not None:
+        findings.append(Finding("per-task-state", group.origin, f"an instance counter lets only the first "
+                                f"{group.first_keys} keys write: that is per reduce task ({reduces} here), in key "
+                                "order, not a top-N by any value; the script does the same",
+                                "if a top-N by a value was meant, rank with Window.orderBy(value) and row_number()"))
     return group
 
 

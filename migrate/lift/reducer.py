@@ -29,6 +29,7 @@ from migrate.plan import (NUMERIC, Agg, AggRef, BoolOp, Col, Compare, Cond, Each
 _DECLARED = {"int": "int", "long": "long", "double": "double", "float": "float", "Integer": "int", "Long": "long",
              "Double": "double", "boolean": "boolean", "String": "String"}
 _SETS = {"Set", "HashSet", "TreeSet", "LinkedHashSet"}
+_IN_ARRIVAL_ORDER = {"List", "ArrayList", "LinkedList", "StringBuilder", "StringBuffer", "Deque", "ArrayDeque"}
 _SET_ELEMENTS = {"String": "String", "Integer": "int", "Long": "long"}  # Double sets: -0.0/NaN equality differs
 
 
@@ -43,6 +44,12 @@ class FoldLifter:
         self.key_type, self.value_type = key_type, value_type
         params = [p.name for p in method.parameters]
         env: dict[str, object] = dict(class_constants(cls, index))
+        # fields that change are state carried from one key to the next (and per reduce task)
+        self.state_fields = {d.name: d for f in cls.fields() for d in f.declarators
+                             if d.name not in env and "static" not in (f.modifiers or set())}
+        for name in self.state_fields:
+            env.setdefault(name, Opaque(f"the field `{name}`, kept from one reduce() call to the next"))
+        self.cap: tuple[str, int, Span] | None = None  # `if (written < N) { ...; written++; }`
         env[params[0]] = Col(key_type, "key")
         self.values = params[1]
         env[params[1]] = Opaque("the values of the key")
@@ -88,9 +95,11 @@ class FoldLifter:
         if not self.seen_loop:
             if refs:
                 raise Unsupported(self.method, "write depends on accumulators but there is no loop over values")
-            return Group(span, "distinct keys", (), tuple(self.emits), distinct=True)
+            return Group(span, "distinct keys", (), tuple(self.emits), distinct=True,
+                         first_keys=self.cap[1] if self.cap else None)
         aggs = tuple(self.aggs[n] for n in self.aggs if n in refs)
-        return Group(span, "fold over values", aggs, tuple(self.emits), lets=tuple(self.lets))
+        return Group(span, "fold over values", aggs, tuple(self.emits), lets=tuple(self.lets),
+                     first_keys=self.cap[1] if self.cap else None)
 
     # ------------------------------------------------------------------ statements outside the loop
     def _rewrite(self, node):
@@ -138,6 +147,16 @@ class FoldLifter:
                 if tname in _SETS and isinstance(d.initializer, T.ClassCreator) and not self.seen_loop:
                     self._declare_set(s, d)
                     continue
+                if tname in _IN_ARRIVAL_ORDER:
+                    raise Unsupported(s, f"`{d.name}` ({tname}) gathers the values in the order they reach reduce(), "
+                                         "which Hadoop does not define without a secondary sort, so the original's "
+                                         "output was not deterministic",
+                                      "F.array_join(F.array_sort(F.collect_list(...)), sep) if sorted order will do",
+                                      category="value-order")
+                if tname == "PriorityQueue":
+                    raise Unsupported(s, f"`{d.name}` is a PriorityQueue: which of equal elements it gives up first "
+                                         "depends on the heap's history", "Window.orderBy(...) with row_number() <= N, "
+                                                                         "with an explicit tie-breaker", category="top-n")
                 if d.initializer is None:
                     raise Unsupported(s, f"`{d.name}` declared without a value")
                 e = self._expr(d.initializer)
@@ -167,6 +186,12 @@ class FoldLifter:
                 self.emits.append(emit)
                 return
             e = s.expression
+            changed = _changed_name(e)
+            if changed in self.state_fields:
+                raise Unsupported(s, f"`{changed}` is a field of the reducer: it carries state from one key to the "
+                                     "next (across reduce() calls), and each reduce task has its own",
+                                  "a window over the keys in order (Window.orderBy('key')) expresses running state",
+                                  category="task-state")
             if isinstance(e, T.MethodInvocation) and e.member == "set" and isinstance(self.scope.env.get(e.qualifier), Writable):
                 w = self.scope.env[e.qualifier]
                 if guard is not None:
@@ -174,6 +199,8 @@ class FoldLifter:
                 w.content = writable_set(w, self._expr(e.arguments[0]), e)
                 return
             raise Unsupported(s, "statement in reduce() is not lifted")
+        elif isinstance(s, T.IfStatement) and guard is None and self._output_cap(s):
+            return
         elif isinstance(s, T.IfStatement) and self.seen_loop:
             c = self._expr(s.condition)
             for branch, cond in ((s.then_statement, c), (s.else_statement, BoolOp("boolean", "!", (c,)))):
@@ -183,6 +210,30 @@ class FoldLifter:
             return
         else:
             raise Unsupported(s, f"{type(s).__name__} in reduce() is not lifted")
+
+    def _output_cap(self, s: T.IfStatement) -> bool:
+        """`if (written < N) { <writes>; written++; }` over a field that starts at 0: the first N keys."""
+        c = s.condition
+        body = _block(s.then_statement)
+        if not (s.else_statement is None and isinstance(c, T.BinaryOperation) and c.operator == "<"
+                and isinstance(c.operandl, T.MemberReference) and c.operandl.member in self.state_fields and body):
+            return False
+        name = c.operandl.member
+        init = self.state_fields[name].initializer
+        n = lift(c.operandr, self.scope)
+        last = body[-1]
+        if not (isinstance(n, Lit) and n.jtype == "int" and isinstance(last, T.StatementExpression)
+                and _changed_name(last.expression) == name and _increments(last.expression)
+                and (init is None or getattr(init, "value", None) == "0") and self.cap is None):
+            return False
+        uses = sum(1 for m in self.cls.node.methods for _, x in m if isinstance(x, T.MemberReference) and x.member == name)
+        if uses != 2:  # read in the test and bumped once: nothing else looks at it
+            return False
+        for x in body[:-1]:
+            self._stmt(x, None)
+        a, _ = node_lines(s)
+        self.cap = (name, n.value, Span(self.file, a, a))
+        return True
 
     def _declare_set(self, s, d) -> None:
         args = getattr(s.type, "arguments", None) or []
@@ -373,6 +424,22 @@ def _block(st) -> list:
     if st is None:
         return []
     return list(st.statements) if isinstance(st, T.BlockStatement) else [st]
+
+
+def _changed_name(e) -> str | None:
+    """The plain name an expression statement assigns or increments, if any."""
+    if isinstance(e, T.Assignment) and isinstance(e.expressionl, T.MemberReference):
+        return e.expressionl.member
+    if isinstance(e, T.Assignment) and isinstance(e.expressionl, T.This) and e.expressionl.selectors:
+        return getattr(e.expressionl.selectors[0], "member", None)
+    if isinstance(e, T.MemberReference) and {"++", "--"} & set((e.postfix_operators or []) + (e.prefix_operators or [])):
+        return e.member
+    return None
+
+
+def _increments(e) -> bool:
+    return (isinstance(e, T.MemberReference) and "++" in (e.postfix_operators or []) + (e.prefix_operators or [])) or \
+        (isinstance(e, T.Assignment) and e.type == "+=" and getattr(e.value, "value", None) == "1")
 
 
 def _is_one(e: Expr) -> bool:

@@ -108,3 +108,41 @@ def test_declared_output_class_that_differs_from_the_written_one(tmp_path):
     job = _job(tmp_path, "context.write(value, new IntWritable(1));", red, out=("Text", "IntWritable"))
     f = _finding(job, "declared-type")
     assert "declares IntWritable output values but writes String" in f.message
+
+
+COUNTING = """  public static class R extends Reducer<Text, IntWritable, Text, IntWritable> {
+    private int written = 0;
+    protected void reduce(Text key, Iterable<IntWritable> values, Context context) throws IOException, InterruptedException {
+      int n = 0; for (IntWritable v : values) n += v.get();
+      %s
+    }
+  }"""
+
+
+def test_instance_counter_cap_is_the_first_keys_of_each_task(tmp_path):
+    job = _job(tmp_path, "context.write(value, new IntWritable(1));",
+               COUNTING % "if (written < 3) { context.write(key, new IntWritable(n)); written++; }",
+               extra_driver="job.setNumReduceTasks(2);")
+    assert job.plan.reduce.first_keys == 3 and job.status == "converted"
+    assert "per reduce task (2 here)" in _finding(job, "per-task-state").message
+    assert job.plan.sink.partition is not None  # Text keys: Hadoop's HashPartitioner is reproduced
+
+
+def test_other_state_across_keys_is_declined(tmp_path):
+    job = _job(tmp_path, "context.write(value, new IntWritable(1));",
+               COUNTING % "written += n; context.write(key, new IntWritable(n));")
+    (item,) = [h for h in job.plan.hand_work if h.category == "task-state"]
+    assert "carries state from one key to the next" in item.reason and item.blocking
+
+
+def test_values_gathered_in_arrival_order_are_declined(tmp_path):
+    red = """  public static class R extends Reducer<Text, Text, Text, Text> {
+    protected void reduce(Text key, Iterable<Text> values, Context context) throws IOException, InterruptedException {
+      StringBuilder all = new StringBuilder();
+      for (Text v : values) { all.append(v.toString()).append(','); }
+      context.write(key, new Text(all.toString()));
+    }
+  }"""
+    job = _job(tmp_path, "context.write(value, value);", red, map_out=("Text", "Text"), out=("Text", "Text"))
+    (item,) = [h for h in job.plan.hand_work if h.category == "value-order"]
+    assert "not deterministic" in item.reason and "array_sort" in item.suggestion
