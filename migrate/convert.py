@@ -11,7 +11,7 @@ import black
 from migrate.gen.pyspark import render_script
 from migrate.java.source import ParseFailure
 from migrate.lift.job import JobResult
-from migrate.plan import EachValue, Group, Identity, TopN
+from migrate.plan import EachValue, Group, Identity, TopN, TopPerKey
 from migrate.report.render import build_report, to_json, to_markdown
 from migrate.scan import RepoScan, script_name
 
@@ -89,6 +89,9 @@ def summary(job: JobResult) -> str:
         per = " per reduce task" if r.partition is not None else ""
         what = (f"the entries of a TreeMap kept to the {r.n} {'largest' if r.keep_largest else 'smallest'} map keys"
                 f"{per} ({r.fold.emits[0].note}), written in cleanup()")
+    elif isinstance(r, TopPerKey):
+        what = (f"per key, the {r.n} {'largest' if r.keep_largest else 'smallest'} distinct values kept in a "
+                "TreeSet, written in set order, sorted by key")
     elif isinstance(r, EachValue):
         what = "the mapper's values, each written (or filtered) by the reducer as it meets them, sorted by key"
     elif isinstance(r, Identity):

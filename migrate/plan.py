@@ -305,6 +305,23 @@ class TopN(Step):
 
 
 @dataclass(frozen=True)
+class TopPerKey(Step):
+    """Top-N per key: a TreeSet local to reduce(), trimmed to N inside the loop, then written.
+
+    A TreeSet keeps each distinct `elem` (over `value`) once; trimming after every add leaves
+    the n largest (or smallest) distinct ones; the loop after it runs `writes` over the column
+    `tm_key` walking the set up or down.
+    """
+
+    elem: Expr
+    n: int
+    keep_largest: bool
+    descending: bool
+    writes: tuple[Emit, ...]
+    lets: tuple[Let, ...] = ()
+
+
+@dataclass(frozen=True)
 class Identity(Step):
     """Hadoop's identity reducer: every map output pair passes through, sorted by key."""
 
@@ -404,8 +421,8 @@ class Plan:
         if not self.map_steps or not isinstance(self.map_steps[-1], Project):
             if not self.hand_work:
                 raise ValueError("map steps must end in a Project unless hand work stands in for them")
-        if self.reduce is not None and not isinstance(self.reduce, (Group, Identity, EachValue, TopN)):
-            raise ValueError("reduce must be a Group, EachValue, TopN or Identity step")
+        if self.reduce is not None and not isinstance(self.reduce, (Group, Identity, EachValue, TopN, TopPerKey)):
+            raise ValueError("reduce must be a Group, EachValue, TopN, TopPerKey or Identity step")
 
 
 # ----------------------------------------------------------------------------- text dump
@@ -513,6 +530,12 @@ def _dump_step(s: Step) -> str:
                  f"written {'descending' if s.descending else 'ascending'}"]
         for e in s.writes:
             lines.append(f"    Write {dump_expr(e.key)} -> {dump_expr(e.value)}")
+        return "\n".join(lines)
+    if isinstance(s, TopPerKey):
+        lines = ["TopPerKey"] + [f"    {_dump_step(x)}" for x in s.lets]
+        lines.append(f"    Keep {s.n} {'largest' if s.keep_largest else 'smallest'} distinct {dump_expr(s.elem)}, "
+                     f"written {'descending' if s.descending else 'ascending'}")
+        lines += [f"    Write {dump_expr(e.key)} -> {dump_expr(e.value)}" for e in s.writes]
         return "\n".join(lines)
     if isinstance(s, Identity):
         return "Identity (sorted by key)"

@@ -8,7 +8,7 @@ from pathlib import Path
 import black
 import jinja2
 
-from migrate.plan import (INTEGRAL, Agg, AggRef, Arith, BoolOp, Call, Cast, Col, Compare, Cond, ConfValue, Count, EachValue, Emit, Explode, Expr, Filter, Group, HandWork, Identity, Let, Lit, Plan, Project, Step, StructNew, TopN, Field)
+from migrate.plan import (INTEGRAL, Agg, AggRef, Arith, BoolOp, Call, Cast, Col, Compare, Cond, ConfValue, Count, EachValue, Emit, Explode, Expr, Filter, Group, HandWork, Identity, Let, Lit, Plan, Project, Step, StructNew, TopN, TopPerKey, Field)
 
 SPARK_TYPES = {"int": "int", "long": "bigint", "double": "double", "float": "float", "boolean": "boolean",
                "String": "string"}
@@ -423,6 +423,9 @@ def build_body(plan: Plan, x: ExprWriter) -> ScriptParts:
     elif isinstance(r, TopN):
         out.extend(_top_n_code(r, x))
         parts.uses_window = True
+    elif isinstance(r, TopPerKey):
+        out.extend(_top_per_key_code(r, x, plan.sink.partition))
+        parts.uses_window = True
     elif isinstance(r, Identity):
         out.append("")
         out.append("# Reduce side: Hadoop's identity reducer — pairs pass through; the writer sorts by key")
@@ -449,6 +452,32 @@ def _fold_code(g: Group, x: ExprWriter) -> list[str]:
         lines.append(f"    # {_where(a.origin)}  {a.note}")
         lines.append(f"    {agg_code(a, x)}.alias(\"{agg_column(a.name)}\"),")
     return lines + [")"]
+
+
+def _top_per_key_code(r: TopPerKey, x: ExprWriter, partition: Expr | None) -> list[str]:
+    """Distinct values per key → the N kept by the trimmed TreeSet → the writes of the loop over it."""
+    order = Call("binary", "utf16_order", (Col("String", "tm_key"),)) if r.elem.jtype == "String" else Col(r.elem.jtype, "tm_key")
+    order_code = x(order) + (".desc()" if r.keep_largest else "")
+    walk = 'F.col("_kept")' if r.keep_largest == r.descending else f'F.lit({r.n} + 1) - F.col("_kept")'
+    (w,) = r.writes
+    hidden = _hidden_sort((w,), ())
+    extra = [f'{x(partition)}.alias("_partition")'] if partition is not None else []
+    if hidden != [("key", True)]:
+        extra.append('F.col("key").alias("_sort_key")')
+    cols = [f'{x(w.key)}.alias("key")', f'{x(w.value)}.alias("value")', *extra, f'{walk}.alias("_write")']
+    lines = ["", f"# Reduce side: wide — rows are shuffled so all values of a key meet ({_where(r.origin)})",
+             "# a TreeSet keeps each distinct value once, in sorted order",
+             "entries = (", "    map_output"]
+    lines += ["    " + c for s in r.lets for c in _step_code(s, x)]
+    lines += [f'    .select("key", {x(r.elem)}.alias("tm_key"))', "    .distinct()", ")",
+              f"# trimmed after every add: the {r.n} {'largest' if r.keep_largest else 'smallest'} distinct values "
+              f"of each key remain; the loop writes them {'from the largest down' if r.descending else 'from the smallest up'}",
+              f'kept = Window.partitionBy("key").orderBy({order_code})',
+              "result = (", "    entries",
+              '    .withColumn("_kept", F.row_number().over(kept))', f'    .where(F.col("_kept") <= {r.n})',
+              f"    # {_where(w.origin)}  {w.note}",
+              f"    .select({', '.join(cols)})", ")", "return result"]
+    return lines
 
 
 def _first_keys_code(r: Group, plan: Plan, x: ExprWriter) -> list[str]:
@@ -556,6 +585,9 @@ def sort_columns(plan: Plan) -> list[str]:
     r = plan.reduce
     if isinstance(r, TopN):  # cleanup() wrote in map order, one reduce task after another
         return ['"_partition"', '"_write"'] if r.partition is not None else ['"_write"']
+    if isinstance(r, TopPerKey):  # reduce() writes its kept values in set order, key after key
+        cols = [f'"{n}"' for n, _ in _hidden_sort(r.writes, ())] + ['"_write"']
+        return (['"_partition"'] if plan.sink.partition is not None else []) + cols
     emits = r.emits if isinstance(r, (Group, EachValue)) else ()
     cols = [f'"{n}"' if asc else f'F.col("{n}").desc()' for n, asc in _hidden_sort(emits, plan.sink.sort_terms)] \
         if emits else ['"key"']

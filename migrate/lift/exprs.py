@@ -713,3 +713,25 @@ def _body_value(stmts: list, scope: Scope, decl) -> Expr:
 
 def _block_of(st) -> list:
     return list(st.statements) if isinstance(st, T.BlockStatement) else [st]
+
+
+def calls_as_names(node, name_of):
+    """A copy of `node` where each argument-less call `name_of` names (it returns a name or None)
+    becomes a reference to that name, keeping the call's selectors and prefix operators: how
+    `values.next()` or `e.getKey()` are bound in a Scope like any local."""
+    import copy
+
+    def swap(n):
+        name = name_of(n) if isinstance(n, T.MethodInvocation) and not n.arguments else None
+        if name:
+            return T.MemberReference(member=name, qualifier="", selectors=n.selectors or [],
+                                     prefix_operators=n.prefix_operators or [], postfix_operators=[])
+        for attr in getattr(n, "attrs", ()):
+            v = getattr(n, attr, None)
+            if isinstance(v, T.Node):
+                setattr(n, attr, swap(v))
+            elif isinstance(v, list):
+                setattr(n, attr, [swap(x) if isinstance(x, T.Node) else x for x in v])
+        return n
+
+    return swap(copy.deepcopy(node))

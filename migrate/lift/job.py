@@ -20,7 +20,7 @@ from migrate.lift.reducer import FoldLifter
 from migrate.lift.partitioning import custom_partition, hash_partition
 from migrate.lift.topn import lift_top_n, top_n_findings
 from migrate.plan import (AggRef, Cast, Col, EachValue, Emit, Explode, Expr, Filter, Finding, Group, HandWork, Identity, Param, Plan,
-                          Project, Sink, Source, Span, Step, TopN)
+                          Project, Sink, Source, Span, Step, TopN, TopPerKey)
 
 
 
@@ -196,6 +196,9 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
             shapes.append("secondary sort")
             notes.append("the values reach reduce() in the sort comparator's order; the script sorts its output by "
                          "the same fields, in the same directions (values with equal keys: in no defined order)")
+        if isinstance(reduce, TopPerKey) and (is_struct(map_key_t) or key_order is not None):
+            add("top-n", reduce.origin, "a per-key top-N over a custom key is not converted",
+                "Window.partitionBy(the key's fields).orderBy(value) with row_number() <= N", "P2")
         if isinstance(reduce, TopN) and is_struct(map_key_t):
             add("top-n", reduce.fold.emits[0].origin, "the TreeMap keeps the last of tied entries, and which is last "
                 "follows the custom key's compareTo order; that tie rule is not reproduced for custom keys",
@@ -659,13 +662,15 @@ def _shapes(steps: list[Step], reduce: Step | None) -> list[str]:
         out.append("per-value writes in the reducer")
     if isinstance(reduce, TopN):
         out.append("top-N" + (" per reduce task" if reduce.partition is not None else ""))
+    if isinstance(reduce, TopPerKey):
+        out.append("top-N per key")
     if isinstance(reduce, Identity):
         out.append("sort by key")
     return out
 
 
 def _sink_types(steps: list[Step], reduce: Step | None, spec: JobSpec) -> tuple[str | None, str | None]:
-    if isinstance(reduce, TopN):
+    if isinstance(reduce, (TopN, TopPerKey)):
         ems = list(reduce.writes)
     else:
         ems = reduce.emits if isinstance(reduce, (Group, EachValue)) else [e for s in steps if isinstance(s, Project)

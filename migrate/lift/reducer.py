@@ -14,17 +14,15 @@ values, writes both inside and after the loop.
 """
 from __future__ import annotations
 
-import copy
-
 from javalang import tree as T
 
 from migrate.java.index import ClassInfo, node_lines
 from migrate.lift.writables import structs_of
-from migrate.lift.exprs import (WRITABLE_OF, Opaque, Scope, Unsupported, Writable, lift, promote, widen,
+from migrate.lift.exprs import (WRITABLE_OF, Opaque, Scope, Unsupported, Writable, calls_as_names, lift, promote, widen,
                                 writable_creator, writable_set, write_argument)
 from migrate.lift.mapper import class_constants, helper_methods
 from migrate.plan import (NUMERIC, Agg, AggRef, BoolOp, Col, Compare, Cond, EachValue, Emit, Expr, Group,
-                          HandWork, Let, Lit, Span, walk)
+                          HandWork, Let, Lit, Span, TopPerKey, walk)
 
 _DECLARED = {"int": "int", "long": "long", "double": "double", "float": "float", "Integer": "int", "Long": "long",
              "Double": "double", "boolean": "boolean", "String": "String"}
@@ -66,6 +64,9 @@ class FoldLifter:
         self.emits: list[Emit] = []  # writes after the loop (or without one)
         self.loop_emits: list[Emit] = []  # writes inside the loop, once per value
         self.lets: list[Let] = []  # locals of the loop body: per-value columns
+        self.tree_sets: set[str] = set()
+        self.set_trim: dict[str, tuple[int, bool]] = {}  # TreeSet -> (N, keeps the largest)
+        self.set_walk: tuple[str, bool, tuple[Emit, ...]] | None = None  # (set, descending, writes)
 
     def run(self) -> tuple[Group | EachValue | None, list[HandWork]]:
         try:
@@ -85,6 +86,8 @@ class FoldLifter:
             if self.emits or self.aggs:
                 raise Unsupported(self.method, "reduce() writes both inside its loop over values and after it")
             return EachValue(span, "writes inside the loop over values", tuple(self.loop_emits), tuple(self.lets))
+        if self.set_walk is not None:
+            return self._top_per_key(span)
         if self.collector is not None:
             self.emits = self.collector.finish(self)
         if not self.emits:
@@ -104,23 +107,12 @@ class FoldLifter:
     # ------------------------------------------------------------------ statements outside the loop
     def _rewrite(self, node):
         """A copy of `node` with `values.next()` and `set.size()` replaced by names the scope binds."""
-        def swap(n):
-            if isinstance(n, T.MethodInvocation) and not n.arguments:
-                name = "__next__" if (n.qualifier, n.member) == (self.values, "next") else None
-                if n.qualifier in self.sets and n.member == "size" and not n.selectors:
-                    name = f"__size_{n.qualifier}"
-                if name:
-                    return T.MemberReference(member=name, qualifier="", selectors=n.selectors or [],
-                                             prefix_operators=n.prefix_operators or [], postfix_operators=[])
-            for attr in getattr(n, "attrs", ()):
-                v = getattr(n, attr, None)
-                if isinstance(v, T.Node):
-                    setattr(n, attr, swap(v))
-                elif isinstance(v, list):
-                    setattr(n, attr, [swap(x) if isinstance(x, T.Node) else x for x in v])
-            return n
+        def name_of(n):
+            if (n.qualifier, n.member) == (self.values, "next"):
+                return "__next__"
+            return f"__size_{n.qualifier}" if n.qualifier in self.sets and n.member == "size" and not n.selectors else None
 
-        return swap(copy.deepcopy(node))
+        return calls_as_names(node, name_of)
 
     def _expr(self, node) -> Expr:
         return lift(self._rewrite(node), self.scope)
@@ -169,6 +161,8 @@ class FoldLifter:
                         raise Unsupported(s, "accumulator initialised from something other than a constant")
                     self.accs[d.name] = (t, e)
                 self.scope.env[d.name] = e
+        elif isinstance(s, T.ForStatement) and self.seen_loop and self._walk_of_trimmed_set(s):
+            return
         elif isinstance(s, (T.ForStatement, T.WhileStatement)):
             if self.seen_loop:
                 raise Unsupported(s, "a second loop over values: Hadoop's values can be iterated once")
@@ -242,7 +236,63 @@ class FoldLifter:
             raise Unsupported(s, f"a set of {elem or 'unknown type'} in reduce(); sets of String, Integer and Long "
                                  "are read (Java's Double equality keeps -0.0 and 0.0 apart, Spark's does not)")
         self.sets[d.name] = _SET_ELEMENTS[elem]
+        if getattr(d.initializer.type, "name", "") == "TreeSet":
+            self.tree_sets.add(d.name)
         self.scope.env[d.name] = Opaque(f"the set `{d.name}` (only its size() is read)")
+
+    # ------------------------------------------------------------------ top-N per key (a trimmed TreeSet)
+    def _set_trim(self, st) -> bool:
+        """`if (top.size() > N) top.pollFirst();` (or pollLast, remove(top.first()/last())) after the add."""
+        c = st.condition
+        body = _block(st.then_statement)
+        if not (isinstance(c, T.BinaryOperation) and c.operator == ">" and isinstance(c.operandl, T.MethodInvocation)
+                and c.operandl.qualifier in self.tree_sets and c.operandl.member == "size" and len(body) == 1
+                and isinstance(body[0], T.StatementExpression)):
+            return False
+        name, call = c.operandl.qualifier, body[0].expression
+        if not (isinstance(call, T.MethodInvocation) and call.qualifier == name):
+            return False
+        arg = call.arguments[0] if len(call.arguments or []) == 1 else None
+        end = call.member if not call.arguments else \
+            f"remove({arg.member})" if isinstance(arg, T.MethodInvocation) and arg.qualifier == name else None
+        largest = {"pollFirst": True, "remove(first)": True, "pollLast": False, "remove(last)": False}.get(end)
+        n = lift(c.operandr, self.scope)
+        if largest is None or not isinstance(n, Lit) or n.jtype != "int" or name not in self.aggs or name in self.set_trim:
+            raise Unsupported(st, f"the trim of the TreeSet `{name}` is not `if (size() > N) pollFirst()` (or "
+                                  "pollLast, remove(first()), remove(last())) after its add, with a constant N",
+                              category="top-n")
+        self.set_trim[name] = (n.value, largest)
+        return True
+
+    def _walk_of_trimmed_set(self, s: T.ForStatement) -> bool:
+        """`for (Integer d : top[.descendingSet()]) context.write(...)` after the loop over values."""
+        ctl = s.control
+        it = getattr(ctl, "iterable", None)
+        if not isinstance(ctl, T.EnhancedForControl):
+            return False
+        if isinstance(it, T.MemberReference) and it.member in self.set_trim and not it.qualifier:
+            name, down = it.member, False
+        elif isinstance(it, T.MethodInvocation) and it.qualifier in self.set_trim and it.member == "descendingSet" \
+                and not it.selectors:
+            name, down = it.qualifier, True
+        else:
+            return False
+        self.scope.env[ctl.var.declarators[0].name] = Col(self.sets[name], "tm_key")
+        writes = [self._write(x, None) for x in _block(s.body)]
+        if len(writes) != 1 or None in writes or self.set_walk is not None:
+            raise Unsupported(s, f"the loop over the TreeSet `{name}` does more than write each element once",
+                              category="top-n")
+        self.set_walk = (name, down, tuple(writes))
+        return True
+
+    def _top_per_key(self, span: Span) -> TopPerKey:
+        name, down, writes = self.set_walk
+        others = [a for a in self.aggs if a != name]
+        if others or self.emits or self.loop_emits:
+            raise Unsupported(self.method, "reduce() computes more than the trimmed TreeSet it writes", category="top-n")
+        n, largest = self.set_trim[name]
+        return TopPerKey(span, f"top {n} distinct values per key", self.aggs[name].arg, n, largest, down, writes,
+                         tuple(self.lets))
 
 
     # ------------------------------------------------------------------ the loop over values
@@ -299,6 +349,8 @@ class FoldLifter:
                 return self._assignment(st, e, guard)
         if isinstance(st, T.IfStatement) and st.else_statement is None:
             body = _block(st.then_statement)
+            if guard is None and self._set_trim(st):
+                return
             if guard is None and self._compare_and_keep(st, body):
                 return
             c = self._expr(st.condition)

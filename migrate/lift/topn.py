@@ -15,12 +15,10 @@ on the heap's history).
 """
 from __future__ import annotations
 
-import copy
-
 from javalang import tree as T
 
 from migrate.java.index import ClassInfo, node_lines
-from migrate.lift.exprs import Scope, Unsupported, lift, widen, write_argument
+from migrate.lift.exprs import Scope, Unsupported, calls_as_names, lift, widen, write_argument
 from migrate.lift.mapper import class_constants
 from migrate.plan import Col, Emit, Finding, Group, Lit, Span, TopN
 
@@ -167,21 +165,8 @@ def _walks_down(it, name: str) -> bool | None:
 
 def _entry_refs(node, var: str):
     """A copy of `node` with `e.getKey()` / `e.getValue()` replaced by the names cleanup_writes binds."""
-    def swap(n):
-        if isinstance(n, T.MethodInvocation) and n.qualifier == var and n.member in ("getKey", "getValue") \
-                and not n.arguments:
-            return T.MemberReference(member="__tm_key" if n.member == "getKey" else "__tm_value", qualifier="",
-                                     selectors=n.selectors or [], prefix_operators=n.prefix_operators or [],
-                                     postfix_operators=[])
-        for attr in getattr(n, "attrs", ()):
-            v = getattr(n, attr, None)
-            if isinstance(v, T.Node):
-                setattr(n, attr, swap(v))
-            elif isinstance(v, list):
-                setattr(n, attr, [swap(x) if isinstance(x, T.Node) else x for x in v])
-        return n
-
-    return swap(copy.deepcopy(node))
+    names = {"getKey": "__tm_key", "getValue": "__tm_value"}
+    return calls_as_names(node, lambda n: names.get(n.member) if n.qualifier == var else None)
 
 
 def top_n_findings(step: TopN, put_origin: Span, reduces: int) -> list[Finding]:

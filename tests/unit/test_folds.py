@@ -167,3 +167,28 @@ def test_loop_with_side_effects_is_declined(tmp_path):
       for (IntWritable v : values) { n++; System.out.println(v); }
       context.write(key, new IntWritable(n));""")
     assert "not a recognised accumulator update" in _declined(job).reason
+
+
+def test_trimmed_tree_set_is_a_top_n_per_key(tmp_path):
+    job, dump = _plan(tmp_path, """
+      TreeSet<Integer> low = new TreeSet<>();
+      for (IntWritable v : values) { low.add(v.get()); if (low.size() > 2) low.remove(low.last()); }
+      for (int x : low) context.write(key, new IntWritable(x));""")
+    assert job.status == "converted"
+    assert "Keep 2 smallest distinct value, written ascending" in dump and "Write key -> tm_key" in dump
+
+
+def test_tree_set_trimmed_by_a_computed_size_is_declined(tmp_path):
+    job, _ = _plan(tmp_path, """
+      TreeSet<Integer> top = new TreeSet<>();
+      for (IntWritable v : values) { top.add(v.get()); if (top.size() > v.get()) top.pollFirst(); }
+      for (Integer x : top) context.write(key, new IntWritable(x));""")
+    assert "constant N" in _declined(job, "top-n").reason
+
+
+def test_priority_queue_is_declined_for_its_ties(tmp_path):
+    job, _ = _plan(tmp_path, """
+      PriorityQueue<Integer> q = new PriorityQueue<>();
+      for (IntWritable v : values) { q.add(v.get()); }
+      context.write(key, new IntWritable(q.size()));""")
+    assert "heap's history" in _declined(job, "top-n").reason
