@@ -163,6 +163,7 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
             partition, why = _partition_of(spec, index, map_key_t, reduce)
             capped = isinstance(reduce, Group) and reduce.first_keys is not None
             if partition is None and (isinstance(reduce, TopN) or capped):
+                findings[:] = [f for f in findings if f.category != "per-task-state"]  # not reproduced after all
                 add("per-task-state", at("setNumReduceTasks"), f"the reducer's state is kept per reduce task ({spec.reduces} "
                     f"tasks) and which task gets which key is not known: {why}",
                     "rank per task with Window.partitionBy(<task of the key>), or decide one overall top-N is meant", "P2")
@@ -237,7 +238,8 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
     for what, declared_fq, written in (("key", spec.types.get("out_key"), out_key_t),
                                        ("value", spec.types.get("out_value"), out_val_t)):
         declared = _jtype(declared_fq) if declared_fq else None
-        if declared not in (None, "?") and written is not None and declared != written and (spec.output_format or "TextOutputFormat").endswith("TextOutputFormat"):
+        text_output = (spec.output_format or "TextOutputFormat").endswith("TextOutputFormat")
+        if declared not in (None, "?") and written is not None and declared != written and text_output:
             findings.append(Finding("declared-type", at("setOutputKeyClass" if what == "key" else "setOutputValueClass"),
                                     f"the job declares {declared_fq.rsplit('.', 1)[-1]} output {what}s but writes "
                                     f"{written} ones; TextOutputFormat prints whatever is written, so the output is "

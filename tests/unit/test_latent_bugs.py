@@ -146,3 +146,18 @@ def test_values_gathered_in_arrival_order_are_declined(tmp_path):
     job = _job(tmp_path, "context.write(value, value);", red, map_out=("Text", "Text"), out=("Text", "Text"))
     (item,) = [h for h in job.plan.hand_work if h.category == "value-order"]
     assert "not deterministic" in item.reason and "array_sort" in item.suggestion
+
+
+def test_per_task_state_with_an_unknown_split_of_keys_blocks(tmp_path):
+    src = job_source("context.write(value, new IntWritable(1));",
+                     COUNTING % "if (written < 3) { context.write(key, new IntWritable(n)); written++; }",
+                     extra_driver="job.setNumReduceTasks(2); job.setPartitionerClass(P.class);")
+    src = src.replace("  public static void main", """  public static class P extends Partitioner<Text, IntWritable> {
+    public int getPartition(Text key, IntWritable value, int n) { return key.getLength() % n; }
+  }
+  public static void main""")
+    scan = scan_text(tmp_path, {"Main.java": src})
+    (job,) = scan.jobs
+    items = [h for h in job.plan.hand_work if h.category == "per-task-state"]
+    assert items and items[0].blocking and "which task gets which key is not known" in items[0].reason
+    assert not [f for f in job.plan.findings if f.category == "per-task-state"]  # nothing claimed reproduced
