@@ -27,8 +27,9 @@ def hash_partition(key_t: str, reduces: int, where) -> Expr:
     """HashPartitioner: the key Writable's hashCode(), made non-negative, modulo the task count."""
     op = _WRITABLE_HASH.get(key_t)
     if op is None:
-        raise Unsupported(where, f"Hadoop's hash of a {key_t} key is not reproduced, so which reduce task got "
-                                 "which key is not known")
+        what = f"custom {key_t.rsplit('.', 1)[-1]}" if key_t.startswith("struct:") else f"{key_t}"
+        raise Unsupported(where, f"Hadoop's hash of a {what} key (its hashCode()) is not reproduced, so which reduce "
+                                 "task got which key is not known")
     return Call("int", "partition_of", (Call("int", op, (Col(key_t, "key"),)), Lit("int", reduces)))
 
 
