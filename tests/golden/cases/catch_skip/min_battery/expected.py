@@ -7,7 +7,8 @@ Original classes:
     mapper       net.brindleharbour.tickets.MinBatteryLevel.BatteryMapper  (MinBatteryLevel.java:26-38)
     reducer      net.brindleharbour.tickets.MinBatteryLevel.LowestReducer  (MinBatteryLevel.java:40-50)
 
-What it computes: per key: min of the mapper's values, sorted by key. Shapes: filter, parse and emit, min per key.
+What it computes: per key: min of the mapper's values, sorted by key. Shapes: filter, parse and
+emit, min per key.
 Status: converted.
 
 Usage (the same positional arguments as the original driver):

@@ -7,7 +7,8 @@ Original classes:
     mapper       net.brindleharbour.docks.DockReportTally.TallyMapper  (DockReportTally.java:23-40)
     reducer      org.apache.hadoop.mapreduce.lib.reduce.IntSumReducer  (ships with Hadoop)
 
-What it computes: per key: sum of the mapper's values, sorted by key. Shapes: parse and emit, sum per key.
+What it computes: per key: sum of the mapper's values, sorted by key. Shapes: parse and emit,
+sum per key.
 Status: converted.
 
 Usage (the same positional arguments as the original driver):

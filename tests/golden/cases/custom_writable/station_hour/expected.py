@@ -7,7 +7,8 @@ Original classes:
     mapper       net.brindleharbour.reports.StationHourLoad.LoadMapper  (StationHourLoad.java:18-32)
     reducer      net.brindleharbour.reports.StationHourLoad.LoadReducer  (StationHourLoad.java:34-46)
 
-What it computes: per key: sum of the mapper's values, sorted by key. Shapes: filter, parse and emit, sum per key.
+What it computes: per key: sum of the mapper's values, sorted by key. Shapes: filter, parse and
+emit, sum per key.
 Status: converted.
 
 Usage (the same positional arguments as the original driver):

@@ -8,7 +8,8 @@ Original classes:
     combiner     org.apache.hadoop.mapreduce.lib.reduce.IntSumReducer  (ships with Hadoop)
     reducer      org.apache.hadoop.mapreduce.lib.reduce.IntSumReducer  (ships with Hadoop)
 
-What it computes: per key: sum of the mapper's values, sorted by key. Shapes: filter, parse and emit, sum per key.
+What it computes: per key: sum of the mapper's values, sorted by key. Shapes: filter, parse and
+emit, sum per key.
 Status: converted.
 
 Usage (the same positional arguments as the original driver):

@@ -8,7 +8,8 @@ Original classes:
     combiner     net.brindleharbour.members.DistinctMemberPostcodes.UniqueReducer  (DistinctMemberPostcodes.java:28-34)
     reducer      net.brindleharbour.members.DistinctMemberPostcodes.UniqueReducer  (DistinctMemberPostcodes.java:28-34)
 
-What it computes: the distinct keys the mapper emits, sorted. Shapes: parse and emit, distinct keys.
+What it computes: the distinct keys the mapper emits, sorted. Shapes: parse and emit, distinct
+keys.
 Status: converted.
 
 Usage (the same positional arguments as the original driver):

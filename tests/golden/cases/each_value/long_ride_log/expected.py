@@ -7,7 +7,8 @@ Original classes:
     mapper       net.brindleharbour.fleet.LongRideLog.StationDurationMapper  (LongRideLog.java:23-32)
     reducer      net.brindleharbour.fleet.LongRideLog.OverTwentyMinutes  (LongRideLog.java:34-45)
 
-What it computes: the mapper's values, each written (or filtered) by the reducer as it meets them, sorted by key. Shapes: parse and emit, per-value writes in the reducer.
+What it computes: the mapper's values, each written (or filtered) by the reducer as it meets
+them, sorted by key. Shapes: parse and emit, per-value writes in the reducer.
 Status: converted.
 
 Usage (the same positional arguments as the original driver):

@@ -6,7 +6,8 @@ Original classes:
     driver       net.brindleharbour.docks.DockHealthLines  (DockHealthLines.java:19-60)
     mapper       net.brindleharbour.docks.DockHealthLines.HealthMapper  (DockHealthLines.java:22-47)
 
-What it computes: a map-only job: each input line becomes zero or more output lines. Shapes: map only, filter, parse and emit.
+What it computes: a map-only job: each input line becomes zero or more output lines. Shapes: map
+only, filter, parse and emit.
 Status: converted.
 
 Usage (the same positional arguments as the original driver):

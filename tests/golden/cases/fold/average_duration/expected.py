@@ -7,7 +7,8 @@ Original classes:
     mapper       net.brindleharbour.rides.DurationMapper  (DurationMapper.java:11-25)
     reducer      net.brindleharbour.rides.AverageDurationReducer  (AverageDurationReducer.java:10-22)
 
-What it computes: per key: count, sum of the mapper's values, sorted by key. Shapes: parse and emit, average per key.
+What it computes: per key: count, sum of the mapper's values, sorted by key. Shapes: parse and
+emit, average per key.
 Status: converted.
 
 Usage (the same positional arguments as the original driver):

@@ -7,7 +7,8 @@ Original classes:
     mapper       RideFlags.M  (RideFlags.java:15-20)
     reducer      RideFlags.R  (RideFlags.java:22-33)
 
-What it computes: per key: any/all, count of the mapper's values, 2 writes per key, sorted by key. Shapes: parse and emit, any/all per key, count per key, several writes per key.
+What it computes: per key: any/all, count of the mapper's values, 2 writes per key, sorted by
+key. Shapes: parse and emit, any/all per key, count per key, several writes per key.
 Status: converted.
 
 Usage (the same positional arguments as the original driver):

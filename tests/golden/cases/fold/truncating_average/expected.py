@@ -7,7 +7,8 @@ Original classes:
     mapper       net.brindleharbour.tickets.AverageHoursToClose.HoursMapper  (AverageHoursToClose.java:25-40)
     reducer      net.brindleharbour.tickets.AverageHoursToClose.TruncatingAverageReducer  (AverageHoursToClose.java:42-54)
 
-What it computes: per key: count, sum of the mapper's values, sorted by key. Shapes: filter, parse and emit, average per key.
+What it computes: per key: count, sum of the mapper's values, sorted by key. Shapes: filter,
+parse and emit, average per key.
 Status: converted.
 
 Usage (the same positional arguments as the original driver):

@@ -18,8 +18,14 @@ row arithmetic raises an error here (ANSI mode) instead of wrapping silently.
 Note: the values of one key come out in no defined order, in Hadoop as here
 
 Findings (the original does this and so does this script; decide whether to keep it):
-    ReturnsPerDock.java:47  [reduce-not-called] ReturnCountReducer.reduce() does not override Reducer.reduce (its values parameter is of type Iterator<IntWritable>, not Iterable<IntWritable>): Hadoop never calls it and runs the identity reducer, so the original writes every map output pair sorted by key; the script does the same
-    ReturnsPerDock.java:62  [set-twice] `setMapperClass` is called again: Hadoop uses the last class, ReturnMapper, not DepartureMapper; so does the script
+    ReturnsPerDock.java:47  [reduce-not-called]
+        ReturnCountReducer.reduce() does not override Reducer.reduce (its values parameter is of
+        type Iterator<IntWritable>, not Iterable<IntWritable>): Hadoop never calls it and runs
+        the identity reducer, so the original writes every map output pair sorted by key; the
+        script does the same
+    ReturnsPerDock.java:62  [set-twice]
+        `setMapperClass` is called again: Hadoop uses the last class, ReturnMapper, not
+        DepartureMapper; so does the script
 
 Verify this script on real data before it replaces the production job: compare its
 output with the original job's output on a representative sample of real data.

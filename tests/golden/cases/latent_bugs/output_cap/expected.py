@@ -7,7 +7,8 @@ Original classes:
     mapper       net.brindleharbour.members.FirstMembersPerPostcode.PostcodeMapper  (FirstMembersPerPostcode.java:23-31)
     reducer      net.brindleharbour.members.FirstMembersPerPostcode.CappedReducer  (FirstMembersPerPostcode.java:33-48)
 
-What it computes: per key: sum of the mapper's values, sorted by key. Shapes: parse and emit, sum per key.
+What it computes: per key: sum of the mapper's values, sorted by key. Shapes: parse and emit,
+sum per key.
 Status: converted.
 
 Usage (the same positional arguments as the original driver):
@@ -17,8 +18,13 @@ Semantics kept from Java/Hadoop: see the helper docstrings. Java int/long overfl
 row arithmetic raises an error here (ANSI mode) instead of wrapping silently.
 
 Findings (the original does this and so does this script; decide whether to keep it):
-    FirstMembersPerPostcode.java:36  [per-task-state] an instance counter lets only the first 2 keys write: that is per reduce task (2 here), in key order, not a top-N by any value; the script does the same
-    FirstMembersPerPostcode.java:55  [output-layout] Hadoop wrote 2 part files, each sorted by key; by default the script writes one file holding the same lines in the same order (the part files one after another); with --task-files it writes 2 files, each holding what one reduce task wrote
+    FirstMembersPerPostcode.java:36  [per-task-state]
+        an instance counter lets only the first 2 keys write: that is per reduce task (2 here),
+        in key order, not a top-N by any value; the script does the same
+    FirstMembersPerPostcode.java:55  [output-layout]
+        Hadoop wrote 2 part files, each sorted by key; by default the script writes one file
+        holding the same lines in the same order (the part files one after another); with
+        --task-files it writes 2 files, each holding what one reduce task wrote
 
 Verify this script on real data before it replaces the production job: compare its
 output with the original job's output on a representative sample of real data.

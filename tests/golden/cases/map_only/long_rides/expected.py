@@ -6,7 +6,8 @@ Original classes:
     driver       net.brindleharbour.rides.LongRidesFilter  (LongRidesFilter.java:20-51)
     mapper       net.brindleharbour.rides.LongRidesFilter.OverHourMapper  (LongRidesFilter.java:23-35)
 
-What it computes: a map-only job: each input line becomes zero or more output lines. Shapes: map only, filter, parse and emit.
+What it computes: a map-only job: each input line becomes zero or more output lines. Shapes: map
+only, filter, parse and emit.
 Status: converted.
 
 Usage (the same positional arguments as the original driver):

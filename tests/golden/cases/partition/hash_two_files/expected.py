@@ -7,7 +7,8 @@ Original classes:
     mapper       net.brindleharbour.fleet.BikeUsageProfile.RideMapper  (BikeUsageProfile.java:23-37)
     reducer      net.brindleharbour.fleet.BikeUsageProfile.ProfileReducer  (BikeUsageProfile.java:39-72)
 
-What it computes: per key: any/all, count, sum of the mapper's values, 3 writes per key, sorted by key. Shapes: filter, parse and emit, average per key, several writes per key.
+What it computes: per key: any/all, count, sum of the mapper's values, 3 writes per key, sorted
+by key. Shapes: filter, parse and emit, average per key, several writes per key.
 Status: converted.
 
 Usage (the same positional arguments as the original driver):
@@ -17,7 +18,10 @@ Semantics kept from Java/Hadoop: see the helper docstrings. Java int/long overfl
 row arithmetic raises an error here (ANSI mode) instead of wrapping silently.
 
 Findings (the original does this and so does this script; decide whether to keep it):
-    BikeUsageProfile.java:79  [output-layout] Hadoop wrote 2 part files, each sorted by key; by default the script writes one file holding the same lines in the same order (the part files one after another); with --task-files it writes 2 files, each holding what one reduce task wrote
+    BikeUsageProfile.java:79  [output-layout]
+        Hadoop wrote 2 part files, each sorted by key; by default the script writes one file
+        holding the same lines in the same order (the part files one after another); with
+        --task-files it writes 2 files, each holding what one reduce task wrote
 
 Verify this script on real data before it replaces the production job: compare its
 output with the original job's output on a representative sample of real data.

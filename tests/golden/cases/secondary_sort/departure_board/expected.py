@@ -10,7 +10,9 @@ Original classes:
     sort_comparator net.brindleharbour.fleet.DepartureBoard.LatestFirst  (DepartureBoard.java:43-58)
     grouping_comparator net.brindleharbour.fleet.DepartureBoard.SameStation  (DepartureBoard.java:60-69)
 
-What it computes: the mapper's values, each written (or filtered) by the reducer as it meets them, sorted by key. Shapes: secondary sort, filter, parse and emit, per-value writes in the reducer.
+What it computes: the mapper's values, each written (or filtered) by the reducer as it meets
+them, sorted by key. Shapes: secondary sort, filter, parse and emit, per-value writes in the
+reducer.
 Status: converted.
 
 Usage (the same positional arguments as the original driver):
@@ -21,7 +23,10 @@ row arithmetic raises an error here (ANSI mode) instead of wrapping silently.
 Note: the values reach reduce() in the sort comparator's order; the script sorts its output by the same fields, in the same directions (values with equal keys: in no defined order)
 
 Findings (the original does this and so does this script; decide whether to keep it):
-    DepartureBoard.java:90  [output-layout] Hadoop wrote 2 part files, each sorted by key; by default the script writes one file holding the same lines in the same order (the part files one after another); with --task-files it writes 2 files, each holding what one reduce task wrote
+    DepartureBoard.java:90  [output-layout]
+        Hadoop wrote 2 part files, each sorted by key; by default the script writes one file
+        holding the same lines in the same order (the part files one after another); with
+        --task-files it writes 2 files, each holding what one reduce task wrote
 
 Verify this script on real data before it replaces the production job: compare its
 output with the original job's output on a representative sample of real data.

@@ -6,7 +6,8 @@ Original classes:
     driver       net.brindleharbour.tickets.RepairCostLines  (RepairCostLines.java:21-66)
     mapper       net.brindleharbour.tickets.RepairCostLines.CostMapper  (RepairCostLines.java:23-52)
 
-What it computes: a map-only job: each input line becomes zero or more output lines. Shapes: map only, filter, parse and emit.
+What it computes: a map-only job: each input line becomes zero or more output lines. Shapes: map
+only, filter, parse and emit.
 Status: converted.
 
 Usage (the same positional arguments as the original driver):

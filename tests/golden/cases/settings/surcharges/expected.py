@@ -7,7 +7,8 @@ Original classes:
     mapper       net.brindleharbour.billing.LongRideSurcharges.SurchargeMapper  (LongRideSurcharges.java:21-58)
     reducer      org.apache.hadoop.mapreduce.lib.reduce.LongSumReducer  (ships with Hadoop)
 
-What it computes: per key: sum of the mapper's values, sorted by key. Shapes: filter, parse and emit, sum per key.
+What it computes: per key: sum of the mapper's values, sorted by key. Shapes: filter, parse and
+emit, sum per key.
 Status: converted.
 
 Usage (the same positional arguments as the original driver):

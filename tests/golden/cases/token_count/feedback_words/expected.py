@@ -8,7 +8,8 @@ Original classes:
     combiner     net.brindleharbour.feedback.RiderFeedbackWordCount.WordSumReducer  (RiderFeedbackWordCount.java:36-49)
     reducer      net.brindleharbour.feedback.RiderFeedbackWordCount.WordSumReducer  (RiderFeedbackWordCount.java:36-49)
 
-What it computes: per key: sum of the mapper's values, sorted by key. Shapes: token count, sum per key.
+What it computes: per key: sum of the mapper's values, sorted by key. Shapes: token count, sum
+per key.
 Status: converted.
 
 Usage (the same positional arguments as the original driver):

@@ -7,7 +7,8 @@ Original classes:
     mapper       net.brindleharbour.fleet.BusiestBikes.SecondsMapper  (BusiestBikes.java:26-35)
     reducer      net.brindleharbour.fleet.BusiestBikes.TopBikesReducer  (BusiestBikes.java:37-58)
 
-What it computes: the entries of a TreeMap kept to the 4 largest map keys (top.put(blocks, bike.toString());), written in cleanup(). Shapes: filter, parse and emit, top-N.
+What it computes: the entries of a TreeMap kept to the 4 largest map keys (top.put(blocks,
+bike.toString());), written in cleanup(). Shapes: filter, parse and emit, top-N.
 Status: converted.
 
 Usage (the same positional arguments as the original driver):
@@ -17,7 +18,10 @@ Semantics kept from Java/Hadoop: see the helper docstrings. Java int/long overfl
 row arithmetic raises an error here (ANSI mode) instead of wrapping silently.
 
 Findings (the original does this and so does this script; decide whether to keep it):
-    BusiestBikes.java:46  [ties-dropped] the TreeMap keeps one entry per map key: keys whose map keys tie overwrite each other, so the original keeps only the greatest key of each tie and may write fewer than 4 distinct keys; the script does the same
+    BusiestBikes.java:46  [ties-dropped]
+        the TreeMap keeps one entry per map key: keys whose map keys tie overwrite each other,
+        so the original keeps only the greatest key of each tie and may write fewer than 4
+        distinct keys; the script does the same
 
 Verify this script on real data before it replaces the production job: compare its
 output with the original job's output on a representative sample of real data.

@@ -7,7 +7,8 @@ Original classes:
     mapper       net.brindleharbour.rides.LongestRidesPerStation.MinutesMapper  (LongestRidesPerStation.java:20-28)
     reducer      net.brindleharbour.rides.LongestRidesPerStation.TopThreeReducer  (LongestRidesPerStation.java:30-45)
 
-What it computes: per key, the 3 largest distinct values kept in a TreeSet, written in set order, sorted by key. Shapes: parse and emit, top-N per key.
+What it computes: per key, the 3 largest distinct values kept in a TreeSet, written in set
+order, sorted by key. Shapes: parse and emit, top-N per key.
 Status: converted.
 
 Usage (the same positional arguments as the original driver):

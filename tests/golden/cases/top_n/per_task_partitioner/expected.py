@@ -8,7 +8,9 @@ Original classes:
     reducer      net.brindleharbour.reports.TopStationsByDestination.TopThreeReducer  (TopStationsByDestination.java:47-68)
     partitioner  net.brindleharbour.reports.TopStationsByDestination.FirstLetterPartitioner  (TopStationsByDestination.java:40-45)
 
-What it computes: the entries of a TreeMap kept to the 3 largest map keys per reduce task (top.put(sum, key.toString());), written in cleanup(). Shapes: parse and emit, top-N per reduce task.
+What it computes: the entries of a TreeMap kept to the 3 largest map keys per reduce task
+(top.put(sum, key.toString());), written in cleanup(). Shapes: parse and emit, top-N per reduce
+task.
 Status: converted.
 
 Usage (the same positional arguments as the original driver):
@@ -18,9 +20,17 @@ Semantics kept from Java/Hadoop: see the helper docstrings. Java int/long overfl
 row arithmetic raises an error here (ANSI mode) instead of wrapping silently.
 
 Findings (the original does this and so does this script; decide whether to keep it):
-    TopStationsByDestination.java:56  [ties-dropped] the TreeMap keeps one entry per map key: keys whose map keys tie overwrite each other, so the original keeps only the greatest key of each tie and may write fewer than 3 distinct keys; the script does the same
-    TopStationsByDestination.java:56  [per-task-state] the TreeMap lives in one reduce task: with 3 reduce tasks the original writes a top 3 per task (per partition), not one overall; the script does the same
-    TopStationsByDestination.java:77  [output-layout] Hadoop wrote 3 part files, each sorted by key; by default the script writes one file holding the same lines in the same order (the part files one after another); with --task-files it writes 3 files, each holding what one reduce task wrote
+    TopStationsByDestination.java:56  [ties-dropped]
+        the TreeMap keeps one entry per map key: keys whose map keys tie overwrite each other,
+        so the original keeps only the greatest key of each tie and may write fewer than 3
+        distinct keys; the script does the same
+    TopStationsByDestination.java:56  [per-task-state]
+        the TreeMap lives in one reduce task: with 3 reduce tasks the original writes a top 3
+        per task (per partition), not one overall; the script does the same
+    TopStationsByDestination.java:77  [output-layout]
+        Hadoop wrote 3 part files, each sorted by key; by default the script writes one file
+        holding the same lines in the same order (the part files one after another); with
+        --task-files it writes 3 files, each holding what one reduce task wrote
 
 Verify this script on real data before it replaces the production job: compare its
 output with the original job's output on a representative sample of real data.
