@@ -17,7 +17,7 @@ compareTo, descending strings.
 from __future__ import annotations
 
 import copy
-from dataclasses import dataclass, field
+from dataclasses import dataclass
 
 from javalang import tree as T
 
@@ -43,7 +43,6 @@ class StructInfo:
     text_fields: set[str]
     order: tuple[tuple[str, bool], ...] = ()  # compareTo: (field, ascending), most significant first
     no_order: str = ""  # why compareTo was not read ("" when it was)
-    methods: dict[str, list] = field(default_factory=dict)
 
     @property
     def jtype(self) -> str:
@@ -71,9 +70,24 @@ class StructInfo:
             else:
                 got = lift(v, inner)
             values[target] = self._typed(got, target, s)
-        for name, t in self.fields.items():  # fields the constructor leaves alone keep Java's defaults
-            values.setdefault(name, _default(t))
+        for name, t in self.fields.items():  # fields the constructor leaves alone keep their initial value
+            if name not in values:
+                values[name] = self._initial(name, node)
         return StructNew(self.jtype, tuple(values.items()))
+
+    def _initial(self, name: str, node) -> Expr:
+        """A field's value before the constructor runs: its initializer, or Java's default."""
+        from migrate.plan import Lit
+
+        init = next((d.initializer for f in self.cls.fields() for d in f.declarators if d.name == name), None)
+        t = self.fields[name]
+        if init is None and t != "String":
+            return Lit(t, {"int": 0, "long": 0, "double": 0.0, "boolean": False}[t])
+        if isinstance(init, T.ClassCreator) and init.type.name == "Text" and not init.arguments:
+            return Lit("String", "")
+        if isinstance(init, T.Literal):
+            return self._typed(lift(init, Scope({})), name, node)
+        raise Unsupported(node, f"`{name}` of {self.cls.name} is left null by this constructor: write() would fail")
 
     def _typed(self, e: Expr, name: str, node) -> Expr:
         want = self.fields[name]
@@ -123,12 +137,6 @@ class StructInfo:
             utf16 = self.fields[name] == "String" and name not in self.text_fields
             terms.append((Call("binary", "utf16_order", (f,)) if utf16 else f, asc))
         return tuple(terms)
-
-
-def _default(t: str) -> Expr:
-    from migrate.plan import Lit
-
-    return Lit(t, {"String": "", "int": 0, "long": 0, "double": 0.0, "boolean": False}[t])
 
 
 def _assigned_field(e, names) -> str | None:

@@ -100,3 +100,12 @@ def test_a_field_that_is_not_serialised_is_declined(tmp_path):
 def test_a_key_without_to_string_is_declined(tmp_path):
     key = KEY.replace('public String toString() { return station + "/" + hour; }', "")
     _declined(_job(tmp_path, key=key), "no toString()")
+
+
+def test_a_string_field_left_null_by_the_constructor_is_declined(tmp_path):
+    # DataOutput.writeUTF(null) throws NullPointerException (DataOutputStream javadoc)
+    key = KEY.replace("public Slot(String s, int h) { this.station = s; this.hour = h; }",
+                      "public Slot(String s, int h) { this.hour = h; }")
+    job = _job(tmp_path, key=key)
+    assert job.status != "converted"
+    assert any("left null" in h.reason for h in job.plan.hand_work), [h.reason for h in job.plan.hand_work]
