@@ -110,7 +110,7 @@ class TreeMapCollector:
 
     def finish(self, lifter) -> list[Emit]:
         if lifter.emits:
-            raise Unsupported(lifter.emits[0].origin and self.put_node, "reduce() writes as well as filling the TreeMap")
+            raise Unsupported(self.put_node, "reduce() writes as well as filling the TreeMap")
         if self.put is None or self.trim is None:
             raise Unsupported(self.put_node or lifter.method, f"the TreeMap `{self.name}` is not filled and trimmed "
                                                               "in reduce()")
