@@ -373,6 +373,7 @@ class Source:
     split_commas: tuple[bool, ...] = ()  # per param: FileInputFormat's String overloads split on commas
     file_name: bool = False  # the mapper reads its input split's file name
     origin: Span = NO_SPAN
+    kv_separator: str = "\t"  # KeyValueTextInputFormat: the line is split at its first occurrence
 
 
 @dataclass(frozen=True)

@@ -364,8 +364,11 @@ def build_body(plan: Plan, x: ExprWriter) -> ScriptParts:
         paths = ", ".join(src.params)
         read = f"spark.read.text([{paths}])" if len(src.params) > 1 else f"spark.read.text({paths})"
     if src.fmt == "keyvalue":
-        out.append("# KeyValueTextInputFormat: key = text before the first TAB, value = the rest")
-        out.append("pair = F.split(F.col(\"value\"), \"\\t\", 2)")
+        sep = src.kv_separator
+        shown = "TAB" if sep == "\t" else repr(sep)
+        regex = sep if sep.isalnum() or sep == "\t" else "\\" + sep  # a Java regex matching the one character
+        out.append(f"# KeyValueTextInputFormat: key = text before the first {shown}, value = the rest")
+        out.append(f"pair = F.split(F.col(\"value\"), {regex!r}, 2)")
         out.append(f"lines = {read}.select(pair[0].alias(\"key\"), "
                    f"F.coalesce(F.try_element_at(pair, F.lit(2)), F.lit(\"\")).alias(\"value\"))")
     else:

@@ -87,12 +87,20 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
         add("driver", spec.origin, "the driver's output path could not be read", "pass the output folder by hand")
     # ---- formats
     fmt = "text"
+    kv_sep = "\t"
     if spec.input_format:
         simple = spec.input_format.rsplit(".", 1)[-1]
         if simple == "KeyValueTextInputFormat":
             fmt = "keyvalue"
-            if any(k.endswith("key.value.separator.in.input.line") for k in spec.conf):
-                add("input-format", spec.origin, "custom key/value separator", "split on that separator instead of TAB")
+            kv_sep = _key_value_separator(spec, add, notes)
+        elif simple == "NLineInputFormat":  # N lines per map task: the records are TextInputFormat's
+            notes.append("NLineInputFormat only decides how many lines each map task reads; the records (byte "
+                         "offset, line) are TextInputFormat's, so the script reads the lines as text")
+            if spec.reduces == 0:
+                add("output-layout", at("setInputFormatClass", "setInputFormat"), "map-only with NLineInputFormat: "
+                    "Hadoop writes one part file per group of N lines and orders those files by the groups' byte "
+                    "size (largest first), so lines from different groups come out in another order than here",
+                    "sort the output downstream if its order matters; the lines themselves are the same", "P1")
         elif simple != "TextInputFormat":
             add("input-format", at("setInputFormatClass", "setInputFormat"), f"input format {simple} is not converted",
                 "read it with a Spark data source that matches the record layout", "P3", _sloc_of(index, spec.input_format))
@@ -250,7 +258,7 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
                 partition=partition if spec.reduces > 1 and not isinstance(reduce, Identity) else None,
                 sort_terms=sort_terms)
     splits = tuple(ref.split_commas for ref in spec.inputs) or (False,)
-    source = Source(tuple(input_params), fmt, skip_first, splits, _reads_file_name(steps), spec.origin)
+    source = Source(tuple(input_params), fmt, skip_first, splits, _reads_file_name(steps), spec.origin, kv_sep)
     plan = Plan(spec.name, source, tuple(steps), reduce, sink, tuple(params), tuple(hand), tuple(dict.fromkeys(shapes)),
                 tuple(notes), tuple(findings))
     sloc = sum(c.sloc for c in {index.get(fq) for fq in classes.values()} if c is not None)
@@ -335,6 +343,23 @@ def _secondary_sort(spec: JobSpec, index: ClassIndex, structs: dict, key_t: str,
                            "loop over values are converted")
         return None
     return sort
+
+
+KV_SEPARATOR_SETTINGS = ("mapreduce.input.keyvaluelinerecordreader.key.value.separator",
+                         "key.value.separator.in.input.line")  # new API, old API
+
+
+def _key_value_separator(spec: JobSpec, add, notes: list[str]) -> str:
+    """KeyValueLineRecordReader splits each line at the first byte equal to (byte) separator.charAt(0)."""
+    raw = next((spec.conf[k] for k in KV_SEPARATOR_SETTINGS if k in spec.conf), "\t")
+    if not raw or raw.startswith("<") or ord(raw[0]) > 127:
+        add("input-format", spec.origin, f"key/value separator {raw!r} is computed, empty or not ASCII (Hadoop "
+            "splits at the low byte of its first character)", "split each line on that byte by hand", "P1")
+        return "\t"
+    if len(raw) > 1:
+        notes.append(f"the key/value separator setting is {raw!r}; Hadoop uses only its first character, "
+                     f"{raw[0]!r}, and so does the script")
+    return raw[0]
 
 
 def _partition_of(spec: JobSpec, index: ClassIndex, key_t: str, reduce: Step) -> tuple[Expr | None, str]:
