@@ -391,6 +391,7 @@ class Sink:
     # a custom key's order (compareTo or a sort comparator): (expression over `key`, ascending), most
     # significant first
     sort_terms: tuple[tuple[Expr, bool], ...] = ()
+    compression: str | None = None  # FileOutputFormat.setCompressOutput: the same codec, by Spark's name
 
 
 @dataclass(frozen=True)

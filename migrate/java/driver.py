@@ -104,6 +104,10 @@ def _entry_method(cls: ClassInfo, index: ClassIndex):
     return mains[0] if mains else (runs[0] if runs else None)
 
 
+COMPRESS = "mapreduce.output.fileoutputformat.compress"
+COMPRESS_CODEC = "mapreduce.output.fileoutputformat.compress.codec"
+
+
 class _DriverReader:
     """Interprets driver statements symbolically; values are small tuples (kind, payload)."""
 
@@ -375,8 +379,12 @@ class _DriverReader:
             spec.output = self._path_ref(self._value(args[1], None), args[1])
             if spec.output in self.pending_delete:
                 spec.deletes_output = True
-        elif m in ("setInputPathFilter", "setInputDirRecursive", "setMinInputSplitSize", "setMaxInputSplitSize",
-                   "setCompressOutput", "setOutputCompressorClass"):
+        elif m == "setCompressOutput" and len(args) > 1:  # FileOutputFormat stores it in the job's settings
+            v = self._value(args[1], None)
+            spec.conf[COMPRESS] = str(v[1]).lower() if v[0] == "lit" else f"<{v[1]}>"
+        elif m == "setOutputCompressorClass" and len(args) > 1:
+            spec.conf[COMPRESS_CODEC] = self._class_arg(args[1])
+        elif m in ("setInputPathFilter", "setInputDirRecursive", "setMinInputSplitSize", "setMaxInputSplitSize"):
             spec.extra.append(("input-output-options", line, f"{fmt}.{m}(...)"))
         return ("unknown", m)
 

@@ -108,6 +108,7 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
         add("output-format", at("setOutputFormatClass", "setOutputFormat"), f"output format {spec.output_format.rsplit('.', 1)[-1]} is not converted",
             "write with the Spark format downstream readers expect", "P3", _sloc_of(index, spec.output_format))
     sep = spec.conf.get("mapreduce.output.textoutputformat.separator", spec.conf.get("mapred.textoutputformat.separator", "\t"))
+    compression = _output_compression(spec, add, at)
     # ---- map output types (Hadoop falls back to the job output types)
     map_key_fq = spec.types.get("map_key", spec.types.get("out_key", "org.apache.hadoop.io.LongWritable"))
     map_val_fq = spec.types.get("map_value", spec.types.get("out_value", "org.apache.hadoop.io.Text"))
@@ -256,7 +257,7 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
     sink = Sink("output_path", out_key_t, out_val_t, sorted_by_key=reduce is not None and spec.reduces >= 1,
                 overwrite=spec.deletes_output, separator=sep, origin=spec.origin,
                 partition=partition if spec.reduces > 1 and not isinstance(reduce, Identity) else None,
-                sort_terms=sort_terms)
+                sort_terms=sort_terms, compression=compression)
     splits = tuple(ref.split_commas for ref in spec.inputs) or (False,)
     source = Source(tuple(input_params), fmt, skip_first, splits, _reads_file_name(steps), spec.origin, kv_sep)
     plan = Plan(spec.name, source, tuple(steps), reduce, sink, tuple(params), tuple(hand), tuple(dict.fromkeys(shapes)),
@@ -343,6 +344,27 @@ def _secondary_sort(spec: JobSpec, index: ClassIndex, structs: dict, key_t: str,
                            "loop over values are converted")
         return None
     return sort
+
+
+# Hadoop codec class -> the Spark text writer's `compression` name for the same codec (Spark's
+# short names map to these very Hadoop classes)
+CODECS = {"org.apache.hadoop.io.compress.GzipCodec": "gzip", "org.apache.hadoop.io.compress.BZip2Codec": "bzip2",
+          "org.apache.hadoop.io.compress.DefaultCodec": "deflate"}
+
+
+def _output_compression(spec: JobSpec, add, at) -> str | None:
+    """FileOutputFormat.setCompressOutput / the compress settings (both APIs) -> a Spark codec name."""
+    on = spec.conf.get("mapreduce.output.fileoutputformat.compress", spec.conf.get("mapred.output.compress", "false"))
+    if on == "false":
+        return None
+    codec = spec.conf.get("mapreduce.output.fileoutputformat.compress.codec",
+                          spec.conf.get("mapred.output.compression.codec", "org.apache.hadoop.io.compress.DefaultCodec"))
+    if on != "true" or codec not in CODECS:
+        add("input-output-options", at("setCompressOutput", "setOutputCompressorClass"),
+            f"compressed output ({on}, codec {codec.rsplit('.', 1)[-1]}) is not converted: the script writes plain text",
+            "add .option('compression', ...) with the codec readers expect", "P1")
+        return None
+    return CODECS[codec]
 
 
 KV_SEPARATOR_SETTINGS = ("mapreduce.input.keyvaluelinerecordreader.key.value.separator",

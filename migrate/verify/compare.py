@@ -17,8 +17,24 @@ def part_files(folder: Path) -> list[Path]:
     return sorted(p for p in folder.iterdir() if p.name.startswith("part-") and not p.name.endswith(".crc"))
 
 
+def part_bytes(p: Path) -> bytes:
+    """A part file's content, decompressed by its codec's extension (.gz, .deflate, .bz2)."""
+    import bz2
+    import gzip
+    import zlib
+
+    data = p.read_bytes()
+    if p.suffix == ".gz":
+        return gzip.decompress(data)
+    if p.suffix == ".deflate":
+        return zlib.decompress(data)
+    if p.suffix == ".bz2":
+        return bz2.decompress(data)
+    return data
+
+
 def output_bytes(folder: Path) -> bytes:
-    return b"".join(p.read_bytes() for p in part_files(folder))
+    return b"".join(part_bytes(p) for p in part_files(folder))
 
 
 @dataclass(frozen=True)

@@ -83,11 +83,11 @@ def test_converted_job_matches_hadoop_output(run, converted_samples, hadoop_clas
 
 def _by_task(folder) -> dict[int, bytes]:
     """Non-empty part files by task number (Hadoop part-r-00001, Spark part-00001-<uuid>.txt)."""
-    from migrate.verify.compare import part_files
+    from migrate.verify.compare import part_bytes, part_files
 
     out = {}
     for p in part_files(folder):
-        data = p.read_bytes()
+        data = part_bytes(p)
         if data:
             out[int(p.name.split("-")[-1 if p.name.startswith("part-r-") else 1].split(".")[0])] = data
     return out

@@ -64,3 +64,31 @@ def test_map_only_nline_input_format_reports_the_file_order(tmp_path):
     (job,) = scan_text(tmp_path, {"Main.java": src}).jobs
     (item,) = job.plan.hand_work
     assert item.category == "output-layout" and not item.blocking and "largest first" in item.reason
+
+
+def _sink(tmp_path, extra_driver, conf_line=""):
+    src = job_source("context.write(value, new IntWritable(1));", reducer_class=None, extra_driver=extra_driver)
+    src = src.replace('Job job = Job.getInstance(new Configuration(), "test job");',
+                      f'Configuration conf = new Configuration(); {conf_line}\n    Job job = Job.getInstance(conf, "test job");')
+    (job,) = scan_text(tmp_path, {"Main.java": src}).jobs
+    return job
+
+
+def test_gzip_output_compression_is_kept(tmp_path):
+    # FileOutputFormat.setCompressOutput/setOutputCompressorClass (Hadoop javadoc)
+    job = _sink(tmp_path, "FileOutputFormat.setCompressOutput(job, true); "
+                          "FileOutputFormat.setOutputCompressorClass(job, org.apache.hadoop.io.compress.GzipCodec.class);")
+    assert job.plan.sink.compression == "gzip" and job.status == "converted"
+
+
+def test_old_compress_setting_uses_the_default_codec(tmp_path):
+    # without a codec class Hadoop uses DefaultCodec (.deflate files), which is Spark's "deflate"
+    job = _sink(tmp_path, "", 'conf.setBoolean("mapred.output.compress", true);')
+    assert job.plan.sink.compression == "deflate"
+
+
+def test_a_codec_without_a_spark_twin_is_reported(tmp_path):
+    job = _sink(tmp_path, "FileOutputFormat.setCompressOutput(job, true); "
+                          "FileOutputFormat.setOutputCompressorClass(job, org.apache.hadoop.io.compress.SnappyCodec.class);")
+    assert job.plan.sink.compression is None
+    assert [h.category for h in job.plan.hand_work] == ["input-output-options"]
