@@ -11,6 +11,7 @@ from rich.table import Table
 
 from migrate import __version__
 from migrate.convert import OutputFolderError, write_outputs
+from migrate.pathmap import PathMapError, load_path_map
 from migrate.scan import RepoScan, scan_repo
 
 STATUS_STYLE = {"converted": "green", "partial": "yellow", "not_converted": "red"}
@@ -28,6 +29,8 @@ def _parser() -> argparse.ArgumentParser:
     c.add_argument("path", type=Path, help="folder (or one .java file) of the legacy repository")
     c.add_argument("-o", "--output", type=Path, required=True, help="folder for the scripts and the report")
     c.add_argument("--force", action="store_true", help="write into a non-empty folder mrlift did not create")
+    c.add_argument("--path-map", type=Path, metavar="FILE",
+                   help="TOML file whose [paths] table maps old storage prefixes (hdfs://...) to new ones")
     return p
 
 
@@ -53,7 +56,8 @@ def main(argv: list[str] | None = None) -> int:
             from migrate.convert import check_output_folder
 
             check_output_folder(args.output, args.force)
-        except OutputFolderError as exc:
+            path_map = load_path_map(args.path_map) if args.path_map else None
+        except (OutputFolderError, PathMapError) as exc:
             console.print(f"[red]mrlift: {exc}[/red]")
             return 2
         files = []
@@ -69,7 +73,8 @@ def main(argv: list[str] | None = None) -> int:
                 _print_errors(console, scan)
                 console.print(f"[red]mrlift: no Java source could be read under {args.path}[/red]")
                 return 1
-            written = write_outputs(scan, args.output, args.path.name, args.force, progress=lambda _j: bar.advance(t2))
+            written = write_outputs(scan, args.output, args.path.name, args.force, progress=lambda _j: bar.advance(t2),
+                                    path_map=path_map)
         _print_summary(console, written.report, args.output)
         for kept, new in written.kept:
             console.print(f"[yellow]kept[/yellow] {args.output / kept} (edited or not written by mrlift); "

@@ -122,7 +122,8 @@ class Written:
     kept: list[tuple[str, str]]  # files left alone because they were edited or not ours
 
 
-def write_outputs(scan: RepoScan, out: Path, root_label: str, force: bool = False, progress=None) -> Written:
+def write_outputs(scan: RepoScan, out: Path, root_label: str, force: bool = False, progress=None,
+                  path_map=None) -> Written:
     check_output_folder(out, force)
     out.mkdir(parents=True, exist_ok=True)
     writer = _Writer(out)
@@ -130,6 +131,10 @@ def write_outputs(scan: RepoScan, out: Path, root_label: str, force: bool = Fals
     written = []
     errors = list(scan.errors)
     for job in scan.jobs:
+        if path_map is not None:
+            from migrate.pathmap import map_job_paths
+
+            job = map_job_paths(job, path_map)
         name = script_name(job, taken)
         try:
             text = render_script(job.plan, header_for(job, name), list(job.plan.hand_work))
