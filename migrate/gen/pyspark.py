@@ -457,11 +457,17 @@ def _fold_code(g: Group, x: ExprWriter) -> list[str]:
     return lines + [")"]
 
 
+def _walk_order(r: TopN | TopPerKey) -> str:
+    """The write order of kept entries from their rank `_kept` (1 = the first one the trim keeps):
+    the same when the loop walks from the kept end, reversed otherwise."""
+    return 'F.col("_kept")' if r.keep_largest == r.descending else f'F.lit({r.n} + 1) - F.col("_kept")'
+
+
 def _top_per_key_code(r: TopPerKey, x: ExprWriter, partition: Expr | None) -> list[str]:
     """Distinct values per key → the N kept by the trimmed TreeSet → the writes of the loop over it."""
     order = Call("binary", "utf16_order", (Col("String", "tm_key"),)) if r.elem.jtype == "String" else Col(r.elem.jtype, "tm_key")
     order_code = x(order) + (".desc()" if r.keep_largest else "")
-    walk = 'F.col("_kept")' if r.keep_largest == r.descending else f'F.lit({r.n} + 1) - F.col("_kept")'
+    walk = _walk_order(r)
     (w,) = r.writes
     hidden = _hidden_sort((w,), ())
     extra = [f'{x(partition)}.alias("_partition")'] if partition is not None else []
@@ -516,7 +522,7 @@ def _top_n_code(r: TopN, x: ExprWriter) -> list[str]:
     order = 'F.col("tm_key").desc()' if r.keep_largest else 'F.col("tm_key")'
     window = (f'Window.partitionBy("_partition").orderBy({order})' if part else f"Window.orderBy({order})")
     rank = "F.row_number().over(kept)"
-    walk = 'F.col("_kept")' if r.keep_largest == r.descending else f'F.lit({r.n} + 1) - F.col("_kept")'
+    walk = _walk_order(r)
     (w,) = r.writes
     lines += [f"kept = {window}", "result = (", "    entries",
               f'    .withColumn("_kept", {rank})', f'    .where(F.col("_kept") <= {r.n})',
