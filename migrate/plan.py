@@ -322,6 +322,44 @@ class TopPerKey(Step):
 
 
 @dataclass(frozen=True)
+class JoinSide:
+    """One side of a reduce-side join: the values whose tag `when` picks, kept as `elem`.
+
+    `many`: a List filled with every such value (one row each); otherwise a String assigned
+    from such a value, which holds `default` (None: null) when none came. Java keeps the last
+    one assigned, and which is last Hadoop does not define: the script stops on a key that has
+    more than one.
+    """
+
+    name: str  # the Java variable, also the column holding the element
+    when: Expr
+    elem: Expr
+    many: bool
+    default: Any = None
+    origin: Span = NO_SPAN
+    note: str = ""
+
+
+@dataclass(frozen=True)
+class JoinWrite:
+    """A write after the loop, run once per combination of the `loops` (list sides, outermost
+    first); its guard is over `_has_<side>` columns (the side got a value for this key)."""
+
+    loops: tuple[str, ...]
+    emit: Emit
+
+
+@dataclass(frozen=True)
+class Join(Step):
+    """A reduce-side join: reduce() sorts each value into a side by its tag, then writes
+    combinations of the sides (an inner join, a lookup with a default, an anti join …)."""
+
+    sides: tuple[JoinSide, ...]
+    writes: tuple[JoinWrite, ...]
+    lets: tuple[Let, ...] = ()
+
+
+@dataclass(frozen=True)
 class Identity(Step):
     """Hadoop's identity reducer: every map output pair passes through, sorted by key."""
 
@@ -395,6 +433,15 @@ class Sink:
 
 
 @dataclass(frozen=True)
+class Branch:
+    """One input of a job with several (MultipleInputs): its source and its own mapper's steps."""
+
+    source: Source
+    steps: tuple[Step, ...]
+    mapper: str  # the mapper class, fully qualified
+
+
+@dataclass(frozen=True)
 class Param:
     """A script parameter: positional (from `args[i]`) or an option with the old default."""
 
@@ -418,13 +465,14 @@ class Plan:
     shapes: tuple[str, ...] = ()
     notes: tuple[str, ...] = ()
     findings: tuple[Finding, ...] = ()
+    branches: tuple[Branch, ...] = ()  # MultipleInputs: each input with its own mapper (map_steps is empty)
 
     def __post_init__(self) -> None:
         if not self.map_steps or not isinstance(self.map_steps[-1], Project):
-            if not self.hand_work:
+            if not self.hand_work and not self.branches:
                 raise ValueError("map steps must end in a Project unless hand work stands in for them")
-        if self.reduce is not None and not isinstance(self.reduce, (Group, Identity, EachValue, TopN, TopPerKey)):
-            raise ValueError("reduce must be a Group, EachValue, TopN, TopPerKey or Identity step")
+        if self.reduce is not None and not isinstance(self.reduce, (Group, Identity, EachValue, TopN, TopPerKey, Join)):
+            raise ValueError("reduce must be a Group, EachValue, TopN, TopPerKey, Join or Identity step")
 
 
 # ----------------------------------------------------------------------------- text dump
@@ -483,6 +531,9 @@ def dump_plan(plan: Plan) -> str:
            + (" (skip first line of each file)" if plan.source.skip_first_line else "")]
     for s in plan.map_steps:
         out.append("  " + _dump_step(s))
+    for i, b in enumerate(plan.branches, 1):
+        out.append(f"  Input {i} {b.source.fmt} <- {', '.join(b.source.params)} mapper {b.mapper.rsplit('.', 1)[-1]}")
+        out.extend("    " + _dump_step(s) for s in b.steps)
     if plan.reduce is not None:
         out.append("  " + _dump_step(plan.reduce))
     k = plan.sink
@@ -538,6 +589,16 @@ def _dump_step(s: Step) -> str:
         lines.append(f"    Keep {s.n} {'largest' if s.keep_largest else 'smallest'} distinct {dump_expr(s.elem)}, "
                      f"written {'descending' if s.descending else 'ascending'}")
         lines += [f"    Write {dump_expr(e.key)} -> {dump_expr(e.value)}" for e in s.writes]
+        return "\n".join(lines)
+    if isinstance(s, Join):
+        lines = ["Join by key"] + [f"    {_dump_step(x)}" for x in s.lets]
+        for side in s.sides:
+            kind = "list" if side.many else f"one value, default {side.default!r}"
+            lines.append(f"    Side {side.name} ({kind}) = {dump_expr(side.elem)} where {dump_expr(side.when)}")
+        for w in s.writes:
+            g = f" if {dump_expr(w.emit.guard)}" if w.emit.guard is not None else ""
+            over = f" for each {' x '.join(w.loops)}" if w.loops else ""
+            lines.append(f"    Out {dump_expr(w.emit.key)} -> {dump_expr(w.emit.value)}{over}{g}")
         return "\n".join(lines)
     if isinstance(s, Identity):
         return "Identity (sorted by key)"

@@ -8,7 +8,7 @@ from pathlib import Path
 import black
 import jinja2
 
-from migrate.plan import (INTEGRAL, Agg, AggRef, Arith, BoolOp, Call, Cast, Col, Compare, Cond, ConfValue, Count, EachValue, Emit, Explode, Expr, Filter, Group, HandWork, Identity, Let, Lit, Plan, Project, Step, StructNew, TopN, TopPerKey, Field)
+from migrate.plan import (walk, INTEGRAL, Agg, AggRef, Arith, BoolOp, Call, Cast, Col, Compare, Cond, ConfValue, Count, EachValue, Emit, Explode, Expr, Filter, Group, HandWork, Identity, Join, Let, Lit, Plan, Project, Source, Step, StructNew, TopN, TopPerKey, Field)
 
 SPARK_TYPES = {"int": "int", "long": "bigint", "double": "double", "float": "float", "boolean": "boolean",
                "String": "string"}
@@ -355,47 +355,25 @@ def build_body(plan: Plan, x: ExprWriter) -> ScriptParts:
     """The statements of build(): read, map chain, reduce chain, return."""
     parts = ScriptParts()
     out = parts.body
-    src = plan.source
-    if any(src.split_commas):
-        items = [f"*{p}.split(\",\")" if split else p for p, split in zip(src.params, src.split_commas)]
-        out.append(f"paths = [{', '.join(items)}]  # the driver passed a String: Hadoop reads \"a,b\" as two paths")
-        read = "spark.read.text(paths)"
-    else:
-        paths = ", ".join(src.params)
-        read = f"spark.read.text([{paths}])" if len(src.params) > 1 else f"spark.read.text({paths})"
-    if src.fmt == "keyvalue":
-        sep = src.kv_separator
-        shown = "TAB" if sep == "\t" else repr(sep)
-        regex = sep if sep.isalnum() or sep == "\t" else "\\" + sep  # a Java regex matching the one character
-        out.append(f"# KeyValueTextInputFormat: key = text before the first {shown}, value = the rest")
-        out.append(f"pair = F.split(F.col(\"value\"), {regex!r}, 2)")
-        out.append(f"lines = {read}.select(pair[0].alias(\"key\"), "
-                   f"F.coalesce(F.try_element_at(pair, F.lit(2)), F.lit(\"\")).alias(\"value\"))")
-    else:
-        out.append("# TextInputFormat: one row per line, column `value` (LF, CRLF and CR end a line)")
-        out.append(f"lines = {read}")
-    if src.file_name:
-        out.append("# the mapper reads its input split's file name: Spark's file metadata holds it")
-        out.append('lines = lines.withColumn("input_file_name", F.col("_metadata.file_name"))')
-    if src.skip_first_line:
-        x.helpers.add("drop_first_line_per_file")
-        parts.uses_window = True
-        out.append("lines = drop_first_line_per_file(lines)  # the mapper skipped byte offset 0 of each file")
-    chain: list[str] = []
     stub = [h for h in plan.hand_work if h.blocking]
-    for s in plan.map_steps:
-        chain.extend(_step_code(s, x))
-    if stub:
+    if plan.branches:
+        if stub:
+            out.extend(_stub_lines(stub))
+        for i, b in enumerate(plan.branches, 1):
+            out.append("")
+            out.append(f"# Input {i} of {len(plan.branches)} (MultipleInputs), mapped by {b.mapper.rsplit('.', 1)[-1]}")
+            out.extend(_read_code(b.source, f"lines_{i}", x, parts))
+            out.extend(_map_code(b.steps, f"lines_{i}", f"map_output_{i}", x))
         out.append("")
-        out.extend(_stub_lines(stub))
-    map_origin = plan.map_steps[0].origin if plan.map_steps else None
-    out.append("")
-    map_file = map_origin.file.rsplit("/", 1)[-1] if map_origin else ""
-    out.append(f"# Map side: narrow, row by row (no shuffle){' — ' + map_file if map_file else ''}")
-    out.append("map_output = (")
-    out.append("    lines")
-    out.extend("    " + c for c in chain)
-    out.append(")")
+        out.append("# The shuffle meets the map output of every input: one DataFrame of (key, value)")
+        out.append("map_output = " + ".unionByName(".join(f"map_output_{i}" for i in range(1, len(plan.branches) + 1))
+                   + ")" * (len(plan.branches) - 1))
+    else:
+        out.extend(_read_code(plan.source, "lines", x, parts))
+        if stub:
+            out.append("")
+            out.extend(_stub_lines(stub))
+        out.extend(_map_code(plan.map_steps, "lines", "map_output", x))
     r = plan.reduce
     if isinstance(r, Group):
         out.append("")
@@ -429,6 +407,8 @@ def build_body(plan: Plan, x: ExprWriter) -> ScriptParts:
     elif isinstance(r, TopPerKey):
         out.extend(_top_per_key_code(r, x, plan.sink.partition))
         parts.uses_window = True
+    elif isinstance(r, Join):
+        out.extend(_join_code(r, plan, x))
     elif isinstance(r, Identity):
         out.append("")
         out.append("# Reduce side: Hadoop's identity reducer — pairs pass through; the writer sorts by key")
@@ -445,6 +425,91 @@ def build_body(plan: Plan, x: ExprWriter) -> ScriptParts:
         out[0:0] = lines + [""]
     parts.helpers = ""
     return parts
+
+
+def _read_code(src: Source, var: str, x: ExprWriter, parts: ScriptParts) -> list[str]:
+    """Read one input as its InputFormat gives records: `var` with a `value` column (and `key`)."""
+    out = []
+    if any(src.split_commas):
+        items = [f"*{p}.split(\",\")" if split else p for p, split in zip(src.params, src.split_commas)]
+        out.append(f"paths = [{', '.join(items)}]  # the driver passed a String: Hadoop reads \"a,b\" as two paths")
+        read = "spark.read.text(paths)"
+    else:
+        paths = ", ".join(src.params)
+        read = f"spark.read.text([{paths}])" if len(src.params) > 1 else f"spark.read.text({paths})"
+    if src.fmt == "keyvalue":
+        sep = src.kv_separator
+        shown = "TAB" if sep == "\t" else repr(sep)
+        regex = sep if sep.isalnum() or sep == "\t" else "\\" + sep  # a Java regex matching the one character
+        out.append(f"# KeyValueTextInputFormat: key = text before the first {shown}, value = the rest")
+        out.append(f"pair = F.split(F.col(\"value\"), {regex!r}, 2)")
+        out.append(f"{var} = {read}.select(pair[0].alias(\"key\"), "
+                   f"F.coalesce(F.try_element_at(pair, F.lit(2)), F.lit(\"\")).alias(\"value\"))")
+    else:
+        out.append("# TextInputFormat: one row per line, column `value` (LF, CRLF and CR end a line)")
+        out.append(f"{var} = {read}")
+    if src.file_name:
+        out.append("# the mapper reads its input split's file name: Spark's file metadata holds it")
+        out.append(f'{var} = {var}.withColumn("input_file_name", F.col("_metadata.file_name"))')
+    if src.skip_first_line:
+        x.helpers.add("drop_first_line_per_file")
+        parts.uses_window = True
+        out.append(f"{var} = drop_first_line_per_file({var})  # the mapper skipped byte offset 0 of each file")
+    return out
+
+
+def _map_code(steps: tuple[Step, ...], source: str, var: str, x: ExprWriter) -> list[str]:
+    """The map steps as one chain from `source` into `var`."""
+    chain = [c for s in steps for c in _step_code(s, x)]
+    map_file = steps[0].origin.file.rsplit("/", 1)[-1] if steps else ""
+    return ["", f"# Map side: narrow, row by row (no shuffle){' — ' + map_file if map_file else ''}",
+            f"{var} = (", f"    {source}", *("    " + c for c in chain), ")"]
+
+
+def _join_code(r: Join, plan: Plan, x: ExprWriter) -> list[str]:
+    """A reduce-side join: one row per key saying which sides came (and the one-value sides),
+    one DataFrame per list side, and each write as a join of those."""
+    out = ["", f"# Reduce side: a join by key ({_where(r.origin)}). Each value joins the side its tag picks;",
+           "# each write below runs once per combination of the lists it loops over, as in Java."]
+    values = "map_output"
+    if r.lets:
+        out += ["values = (", "    map_output", *("    " + c for s in r.lets for c in _step_code(s, x)), ")"]
+        values = "values"
+    out += [f"keys = {values}.groupBy(\"key\").agg("]
+    for side in r.sides:
+        cond = bare(x(side.when))
+        out.append(f"    # {_where(side.origin)}  {side.note}")
+        out.append(f"    (F.count_if({cond}) > 0).alias(\"_has_{side.name}\"),")
+        if not side.many and any(isinstance(c, Col) and c.name == side.name
+                                 for w in r.writes for e in (w.emit.key, w.emit.value, w.emit.guard) for c in walk(e)):
+            picked = f"F.when({cond}, {x(side.elem)})"
+            msg = (f"{_where(side.origin)}: more than one value for `{side.name}` under one key; Java keeps the "
+                   "last one, and Hadoop does not define which that is")
+            value = f"F.when(F.count_distinct({picked}) > 1, F.raise_error(F.lit({msg!r}))).otherwise(F.max({picked}))"
+            if side.default is not None:
+                value = f"F.coalesce({value}, {x(Lit(side.elem.jtype, side.default))})"
+            out.append(f"    {value}.alias(\"{side.name}\"),")
+    out.append(")")
+    for side in r.sides:
+        if side.many:
+            out.append(f"{side.name} = {values}.where({bare(x(side.when))}).select(\"key\", "
+                       f"{x(side.elem)}.alias(\"{side.name}\"))  # {_where(side.origin)}")
+    names = []
+    for i, w in enumerate(r.writes):
+        e = w.emit
+        name = f"write_{i + 1}"
+        names.append(name)
+        cols = [f'{x(e.key)}.alias("key")', f'{x(e.value)}.alias("value")', 'F.col("key").alias("_sort_key")',
+                f'F.lit({i}).alias("_write")']
+        if plan.sink.partition is not None:
+            cols.insert(2, f'{x(plan.sink.partition)}.alias("_partition")')
+        out += [f"{name} = (", "    keys", f"    # {_where(e.origin)}  {e.note}"]
+        if e.guard is not None:
+            out.append(f"    .where({bare(x(e.guard))})")
+        out += [f"    .join({loop}, \"key\")  # for each element of `{loop}`" for loop in w.loops]
+        out += [f"    .select({', '.join(cols)})", ")"]
+    out.append("return " + ".unionByName(".join(names) + ")" * (len(names) - 1))
+    return out
 
 
 def _fold_code(g: Group, x: ExprWriter) -> list[str]:
@@ -594,6 +659,8 @@ def sort_columns(plan: Plan) -> list[str]:
     r = plan.reduce
     if isinstance(r, TopN):  # cleanup() wrote in map order, one reduce task after another
         return ['"_partition"', '"_write"'] if r.partition is not None else ['"_write"']
+    if isinstance(r, Join):  # reduce key order, then the writes in Java's order
+        return (['"_partition"'] if plan.sink.partition is not None else []) + ['"_sort_key"', '"_write"']
     if isinstance(r, TopPerKey):  # reduce() writes its kept values in set order, key after key
         cols = [f'"{n}"' for n, _ in _hidden_sort(r.writes, ())] + ['"_write"']
         return (['"_partition"'] if plan.sink.partition is not None else []) + cols

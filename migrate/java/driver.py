@@ -43,6 +43,8 @@ class JobSpec:
     call_lines: dict[str, int] = field(default_factory=dict)  # job method name -> line of the call
     replaced: list[tuple[int, str, str, str]] = field(default_factory=list)  # (line, call, earlier, later) class
     extra: list[tuple[str, int, str]] = field(default_factory=list)  # (category, line, text) needing hand work
+    # MultipleInputs.addInputPath: one (path, input format, mapper) per input, each with its own mapper
+    branches: list[tuple[PathRef, str, str, int]] = field(default_factory=list)  # (path, format, mapper, line)
 
     @property
     def reduces(self) -> int:
@@ -271,6 +273,12 @@ class _DriverReader:
         if recv[0] == "static" and recv[1].split(".")[-1] in ("FileInputFormat", "FileOutputFormat", "TextInputFormat",
                                                                "TextOutputFormat", "KeyValueTextInputFormat"):
             return self._format_call(recv[1].split(".")[-1], m, args, line)
+        if recv[0] == "static" and recv[1].split(".")[-1] == "MultipleInputs" and m == "addInputPath" and len(args) == 4:
+            j = self._value(args[0], None)
+            if j[0] == "job":
+                ref = self._path_ref(self._value(args[1], None), args[1])
+                self.specs[j[1]].branches.append((ref, self._class_arg(args[2]), self._class_arg(args[3]), line))
+                return ("unknown", m)
         if recv[0] == "static" and recv[1].split(".")[-1] in ("MultipleInputs", "MultipleOutputs", "ChainMapper",
                                                                "ChainReducer", "DistributedCache", "JobControl"):
             spec = self._only_spec()

@@ -19,7 +19,8 @@ from migrate.lift.writables import is_struct, read_comparator, structs_of
 from migrate.lift.reducer import FoldLifter
 from migrate.lift.partitioning import custom_partition, hash_partition
 from migrate.lift.topn import lift_top_n, top_n_findings
-from migrate.plan import (AggRef, Cast, Col, EachValue, Emit, Explode, Expr, Filter, Finding, Group, HandWork, Identity, Param, Plan,
+from migrate.lift.joins import JoinLifter
+from migrate.plan import (AggRef, BoolOp, Branch, Cast, Col, EachValue, Join, Emit, Explode, Expr, Filter, Finding, Group, HandWork, Identity, Param, Plan,
                           Project, Sink, Source, Span, Step, TopN, TopPerKey)
 
 
@@ -49,8 +50,10 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
     findings: list[Finding] = []
     shapes: list[str] = []
     classes = {"driver": spec.driver.fqcn, **spec.classes}
+    for i, (_, _, mapper_fq, _) in enumerate(spec.branches, 1):
+        classes[f"mapper {i}"] = mapper_fq
     files = {"driver": spec.driver.span}
-    for role, fq in spec.classes.items():
+    for role, fq in classes.items():
         c = index.get(fq)
         if c is not None:
             files[role] = c.span
@@ -72,11 +75,12 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
     # ---- parameters: the same positional arguments as the original driver
     params: list[Param] = []
     input_params = []
-    for i, ref in enumerate(spec.inputs or []):
-        name = "input_path" if len(spec.inputs) == 1 else f"input_path_{i + 1}"
+    inputs = spec.inputs or [b[0] for b in spec.branches]
+    for i, ref in enumerate(inputs):
+        name = "input_path" if len(inputs) == 1 else f"input_path_{i + 1}"
         params.append(_param(name, ref, "input path"))
         input_params.append(name)
-    if not spec.inputs:
+    if not inputs:
         add("driver", spec.origin, "the driver sets no input path the converter could read",
             "pass the input folder to build() by hand", "P1")
         params.append(Param("input_path", "input path (not found in the driver)", None, None))
@@ -127,7 +131,11 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
     skip_first = False
     mcls = index.get(mapper_fq)
     combining: list[str] = []  # Map fields of in-mapper combining, flushed in cleanup()
-    if mcls is not None and "mapper" in mcls.roles:
+    branches: list[Branch] = []
+    if spec.branches:
+        branches = _branches(spec, index, input_params[len(spec.inputs):], kv_sep, hand, notes, add, combining)
+        shapes.append(f"{len(branches)} inputs, one mapper each")
+    elif mcls is not None and "mapper" in mcls.roles:
         steps, skip_first = _lift_mapper(mcls, fmt, hand, notes, index, spec.conf, combining)
     elif mapper_fq in KNOWN_CLASSES or mapper_fq in IDENTITY_MAPPERS:
         lib_steps, why = library_mapper(mapper_fq, fmt, spec.conf)
@@ -157,6 +165,10 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
         rcls = index.get(reducer_fq)
         if rcls is not None and "reducer" in rcls.roles:
             reduce = _lift_reducer(rcls, map_key_t, map_val_t, hand, index, findings, spec.reduces)
+            if isinstance(reduce, Join):
+                shapes.append(_join_shape(reduce))
+                notes.append("a join writes the combinations of one key's values in the order they reached reduce(), "
+                             "which Hadoop does not define: the lines of one key may come in another order here")
         elif reducer_fq in KNOWN_CLASSES or reducer_fq in IDENTITY_REDUCERS:
             reduce = library_reducer(reducer_fq, map_key_t, map_val_t)
             if reduce is None:
@@ -261,9 +273,47 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
     splits = tuple(ref.split_commas for ref in spec.inputs) or (False,)
     source = Source(tuple(input_params), fmt, skip_first, splits, _reads_file_name(steps), spec.origin, kv_sep)
     plan = Plan(spec.name, source, tuple(steps), reduce, sink, tuple(params), tuple(hand), tuple(dict.fromkeys(shapes)),
-                tuple(notes), tuple(findings))
+                tuple(notes), tuple(findings), tuple(branches))
     sloc = sum(c.sloc for c in {index.get(fq) for fq in classes.values()} if c is not None)
     return JobResult(spec, plan, classes, files, sloc, notes)
+
+
+def _branches(spec: JobSpec, index: ClassIndex, params: list[str], kv_sep: str, hand: list[HandWork],
+              notes: list[str], add, combining: list[str]) -> list[Branch]:
+    """MultipleInputs: each input read with its format and mapped by its own mapper."""
+    out = []
+    drv = spec.driver.file.path
+    for (ref, fmt_fq, mapper_fq, line), param in zip(spec.branches, params):
+        where = Span(drv, line, line)
+        simple = fmt_fq.rsplit(".", 1)[-1]
+        fmt = {"TextInputFormat": "text", "KeyValueTextInputFormat": "keyvalue"}.get(simple)
+        mcls = index.get(mapper_fq)
+        steps: list[Step] = []
+        skip_first = False
+        if fmt is None:
+            add("input-format", where, f"input format {simple} is not converted",
+                "read it with a Spark data source that matches the record layout", "P3", _sloc_of(index, fmt_fq))
+        elif mcls is None or "mapper" not in mcls.roles:
+            add("missing-source", where, f"mapper {mapper_fq} of this input is not in the repository",
+                "add its source to the scanned folder", "P2")
+        else:
+            steps, skip_first = _lift_mapper(mcls, fmt, hand, notes, index, spec.conf, combining)
+        source = Source((param,), fmt or "text", skip_first, (ref.split_commas,), _reads_file_name(steps), where, kv_sep)
+        out.append(Branch(source, tuple(steps), mapper_fq))
+    return out
+
+
+def _join_shape(j: Join) -> str:
+    """The join a reducer's writes amount to, in SQL's words."""
+    lists = [s.name for s in j.sides if s.many]
+    guards = [w.emit.guard for w in j.writes]
+    if any(g is not None and isinstance(g, BoolOp) and g.op == "!" for g in guards):
+        return "reduce-side join (with an anti join)"
+    if len(lists) >= 2 and all(len(w.loops) >= 2 for w in j.writes):
+        return "reduce-side join (inner)"
+    if any(not s.many and s.default is not None for s in j.sides):
+        return "reduce-side join (lookup with a default: left outer)"
+    return "reduce-side join"
 
 
 def _struct_output_text(steps: list[Step], reduce: Step | None, structs: dict, add, where: Span, map_only: bool):
@@ -588,6 +638,14 @@ def _lift_reducer(rcls: ClassInfo, key_t: str, val_t: str, hand: list[HandWork],
         findings.extend(top_n_findings(top, top.fold.emits[0].origin, reduces))
         return top
     group, items = FoldLifter(owner, m, key_t, val_t, index).run()
+    if items:  # not a fold: perhaps a join of tagged values
+        try:
+            return JoinLifter(owner, m, key_t, val_t, index).lift_join()
+        except Unsupported as u:
+            if u.category in ("object-reuse", "join"):  # a join, declined for a precise reason
+                line = u.line or a
+                items = [HandWork(u.category, Span(owner.file.path, line, line), u.reason, u.suggestion,
+                                  owner.file.lines[line - 1].strip(), "P2")]
     if items:
         hand.extend(_named(owner, h, sloc) for h in items)
     if isinstance(group, Group) and group.first_keys is not None:
@@ -719,7 +777,9 @@ def _shapes(steps: list[Step], reduce: Step | None) -> list[str]:
 
 
 def _sink_types(steps: list[Step], reduce: Step | None, spec: JobSpec) -> tuple[str | None, str | None]:
-    if isinstance(reduce, (TopN, TopPerKey)):
+    if isinstance(reduce, Join):
+        ems = [w.emit for w in reduce.writes]
+    elif isinstance(reduce, (TopN, TopPerKey)):
         ems = list(reduce.writes)
     else:
         ems = reduce.emits if isinstance(reduce, (Group, EachValue)) else [e for s in steps if isinstance(s, Project)

@@ -4,6 +4,7 @@ from __future__ import annotations
 import json
 
 from migrate.lift.job import JobResult
+from migrate.plan import Join
 from migrate.report.effort import HOURS_PER_PM, JobEffort, repository_hours
 from migrate.java.source import ParseFailure
 
@@ -43,6 +44,8 @@ def build_report(jobs: list[tuple[JobResult, str]], errors: list[ParseFailure], 
             "findings": [{"category": f.category, "file": f.origin.file, "line": f.origin.line_start,
                           "finding": f.message, "suggestion": f.suggestion} for f in job.plan.findings],
             "aggregates": aggregates_of(job),
+            "inputs": inputs_of(job),
+            "join": join_of(job),
             "counters": counters_of(job),
             "sloc": {"total": eff.sloc_total, "automatic": eff.sloc_auto, "hand": eff.sloc_manual},
             "effort_hours": round(est["jobs"][script], 2),
@@ -119,7 +122,7 @@ def to_markdown(report: dict) -> str:
     out += ["", f"Estimated effort for the repository: **{e['hours']:.1f} h** "
                 f"(range {e['range_hours'][0]:.1f} to {e['range_hours'][1]:.1f} h). {e['caveat']}", ""]
     for j in report["jobs"]:
-        if not (j["hand_work"] or j["notes"] or j["counters"] or j["findings"] or j["aggregates"]):
+        if not (j["hand_work"] or j["notes"] or j["counters"] or j["findings"] or j["aggregates"] or j["inputs"]):
             continue
         out += [f"## {j['name']} ({j['status']})", ""]
         for h in j["hand_work"]:
@@ -129,6 +132,11 @@ def to_markdown(report: dict) -> str:
         for f in j["findings"]:
             out += [f"- **finding: {f['category']}** at `{f['file']}:{f['line']}`: {f['finding']}",
                     f"  - to decide: {f['suggestion']}"]
+        for i in j["inputs"]:
+            out.append(f"- input `{i['argument']}` read as {i['format']}, mapped by `{i['mapper']}`")
+        for side in (j["join"] or {}).get("sides", []):
+            out.append(f"- join side `{side['name']}` (`{side['file']}:{side['line']}` `{side['java']}`): "
+                       f"{side['kind']}")
         for a in j["aggregates"]:
             out.append(f"- accumulator `{a['accumulator']}` ({a['java_type']}, `{a['file']}:{a['line']}` "
                        f"`{a['java']}`) became {a['aggregate']} over `{a['over']}`")
@@ -142,3 +150,20 @@ def to_markdown(report: dict) -> str:
         out += [f"- `{e['file']}:{e['line']}`: {e['message']}" for e in report["errors"]]
         out.append("")
     return "\n".join(out)
+
+
+def inputs_of(job) -> list[dict]:
+    """MultipleInputs: each input's script argument, format and mapper (the pipeline's first steps)."""
+    return [{"argument": b.source.params[0], "format": b.source.fmt, "mapper": b.mapper} for b in job.plan.branches]
+
+
+def join_of(job) -> dict | None:
+    """A reduce-side join: its sides (how values were told apart) and the join it amounts to."""
+    r = job.plan.reduce
+    if not isinstance(r, Join):
+        return None
+    return {"kind": next((s for s in job.plan.shapes if s.startswith("reduce-side join")), "reduce-side join"),
+            "sides": [{"name": s.name, "file": s.origin.file, "line": s.origin.line_start, "java": s.note,
+                       "kind": "every value of its tag (a list)" if s.many else
+                       f"one value of its tag (default {s.default!r}; two different ones stop the script)"}
+                      for s in r.sides]}

@@ -1,0 +1,42 @@
+"""Reduce-side joins: the one-value side's rule, run on the real Spark.
+
+Java keeps the last value assigned to a one-value side, and Hadoop gives a key's values in no
+defined order (Hadoop MapReduce tutorial, "Reducer": the values are grouped, not ordered, unless
+a secondary sort is set up). So the script must stop where a key has two different such values,
+and go on where they are all equal (the last one is then known).
+"""
+from __future__ import annotations
+
+from pathlib import Path
+
+import pytest
+
+from tests.conftest import load_script
+
+LOOKUP = Path(__file__).parents[1] / "golden" / "cases" / "join" / "lookup_default" / "expected.py"
+
+
+def _run(tmp_path: Path, members: str, rides: str) -> list[str]:
+    (tmp_path / "members").mkdir()
+    (tmp_path / "rides").mkdir()
+    (tmp_path / "members" / "m.txt").write_text(members)
+    (tmp_path / "rides" / "r.csv").write_text(rides)
+    out = tmp_path / "out"
+    script = load_script(LOOKUP)
+    assert script.main([str(tmp_path / "members"), str(tmp_path / "rides"), str(out)]) == 0
+    return sorted("".join(p.read_text() for p in sorted(out.glob("part-*"))).splitlines())
+
+
+def test_one_value_side_with_default_is_a_left_join(spark, tmp_path):
+    lines = _run(tmp_path, "M1|Ada|BH1|annual\n", "R1,M1\nR2,M9\n")
+    assert lines == ["R1\tM1\tannual", "R2\tM9\tnone"]  # M9 is unknown: the Java default "none"
+
+
+def test_equal_values_on_the_one_value_side_are_kept(spark, tmp_path):
+    lines = _run(tmp_path, "M1|Ada|BH1|annual\nM1|Ada|BH1|annual\n", "R1,M1\n")
+    assert lines == ["R1\tM1\tannual"]
+
+
+def test_two_different_values_on_the_one_value_side_stop_the_script(spark, tmp_path):
+    with pytest.raises(Exception, match="more than one value for `plan`"):
+        _run(tmp_path, "M1|Ada|BH1|annual\nM1|Ada|BH1|monthly\n", "R1,M1\n")
