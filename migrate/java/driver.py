@@ -359,6 +359,8 @@ class _DriverReader:
             k, v = self._value(args[0], None), self._value(args[1], None)
             if k[0] == "str":
                 spec.conf[k[1]] = str(v[1]) if v[0] in ("str", "int", "lit") else f"<{v[1]}>"
+        elif m in ("addCacheFile", "addCacheArchive", "addFileToClassPath"):
+            spec.extra.append(("side-files", line, f"job.{m}(...)"))
         elif m in ("setInputPath", "addInputPath"):
             spec.inputs.append(self._path_ref(self._value(args[0], None), args[0]))
         elif m == "setOutputPath":

@@ -107,10 +107,12 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
                     "sort the output downstream if its order matters; the lines themselves are the same", "P1")
         elif simple != "TextInputFormat":
             add("input-format", at("setInputFormatClass", "setInputFormat"), f"input format {simple} is not converted",
-                "read it with a Spark data source that matches the record layout", "P3", _sloc_of(index, spec.input_format))
+                FORMAT_ADVICE.get(simple, "read it with a Spark data source that matches the record layout"), "P3",
+                _sloc_of(index, spec.input_format))
     if spec.output_format and spec.output_format.rsplit(".", 1)[-1] != "TextOutputFormat":
         add("output-format", at("setOutputFormatClass", "setOutputFormat"), f"output format {spec.output_format.rsplit('.', 1)[-1]} is not converted",
-            "write with the Spark format downstream readers expect", "P3", _sloc_of(index, spec.output_format))
+            FORMAT_ADVICE.get(spec.output_format.rsplit(".", 1)[-1], "write with the Spark format downstream readers "
+                              "expect"), "P3", _sloc_of(index, spec.output_format))
     sep = spec.conf.get("mapreduce.output.textoutputformat.separator", spec.conf.get("mapred.textoutputformat.separator", "\t"))
     compression = _output_compression(spec, add, at)
     # ---- map output types (Hadoop falls back to the job output types)
@@ -227,7 +229,7 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
                 "rank with Window.orderBy(...) and decide how ties should be broken", "P2")
     for category, line, text in spec.extra:
         add(category, Span(drv, line, line), f"{text} is not converted in this version",
-            "see the DataFrame join/union equivalents in DEVELOPERS.md", "P2")
+            EXTRA_ADVICE.get(category, "rewrite this driver call as DataFrame code by hand"), "P2")
     if spec.reduces != 0 and "reducer" not in spec.classes:
         for c in index:
             if "reducer" in c.roles and c.file.path == spec.driver.file.path and c.fqcn != spec.classes.get("combiner"):
@@ -276,6 +278,30 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
                 tuple(notes), tuple(findings), tuple(branches))
     sloc = sum(c.sloc for c in {index.get(fq) for fq in classes.values()} if c is not None)
     return JobResult(spec, plan, classes, files, sloc, notes)
+
+
+# What to write by hand for the driver features this version does not convert (common practice).
+EXTRA_ADVICE = {
+    "side-files": "a side file read in setup(): read it with spark.read and join it with F.broadcast(side) on the "
+                  "looked-up key, keeping the Java rule for a miss (skip the record, a default, or pass it through)",
+    "chained-maps": "apply each chained mapper's steps one after another on the same DataFrame (one select per "
+                    "mapper), with the chained reducer's groupBy between the maps before and after it",
+    "named-outputs": "write each named output with its own result.where(...).write into <output>/<name>; where the "
+                     "names come from the data, write.partitionBy(the name column)",
+    "multiple-inputs": "read each input with its format, map it, and unionByName the mapped DataFrames",
+    "chained-jobs": "chain the jobs' DataFrames in one script; write an intermediate folder only if something "
+                    "else reads it",
+    "input-output-options": "pass the same option to Spark's reader (pathGlobFilter, recursiveFileLookup) or filter "
+                            "the input paths by hand",
+}
+FORMAT_ADVICE = {
+    "SequenceFileInputFormat": "SequenceFiles hold binary Writable records: read them with spark.sparkContext."
+                               "sequenceFile(path, keyClass, valueClass) into a DataFrame, or convert the data "
+                               "once to Parquet and read that",
+    "SequenceFileOutputFormat": "downstream Hadoop readers need SequenceFiles: rdd.saveAsSequenceFile(path) on "
+                                "(key, value) pairs; if the readers move to Spark too, write Parquet instead",
+    "SequenceFileAsTextInputFormat": "read with spark.sparkContext.sequenceFile and toString() both sides",
+}
 
 
 def _branches(spec: JobSpec, index: ClassIndex, params: list[str], kv_sep: str, hand: list[HandWork],

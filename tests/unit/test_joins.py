@@ -40,3 +40,28 @@ def test_equal_values_on_the_one_value_side_are_kept(spark, tmp_path):
 def test_two_different_values_on_the_one_value_side_stop_the_script(spark, tmp_path):
     with pytest.raises(Exception, match="more than one value for `plan`"):
         _run(tmp_path, "M1|Ada|BH1|annual\nM1|Ada|BH1|monthly\n", "R1,M1\n")
+
+
+# ---------------------------------------------------------------- driver features still left to hand work
+from migrate.plan import ADVISORY_CATEGORIES  # noqa: E402
+from tests.helpers import job_source, scan_text  # noqa: E402
+
+MAP = '    context.write(new Text(value.toString()), new IntWritable(1));'
+
+
+@pytest.mark.parametrize("call, category, advice", [
+    ("job.addCacheFile(new java.net.URI(\"hdfs:///ref/stations.tsv\"));", "side-files", "F.broadcast"),
+    ("ChainMapper.addMapper(job, M.class, LongWritable.class, Text.class, Text.class, IntWritable.class, "
+     "new Configuration(false));", "chained-maps", "one after another"),
+    ("MultipleOutputs.addNamedOutput(job, \"late\", TextOutputFormat.class, Text.class, IntWritable.class);",
+     "named-outputs", "<output>/<name>"),
+    ("job.setInputFormatClass(SequenceFileInputFormat.class);", "input-format", "sequenceFile("),
+])
+def test_unconverted_driver_features_are_precise_hand_work(tmp_path, call, category, advice):
+    src = job_source(MAP, extra_driver=call)
+    line = next(i for i, text in enumerate(src.splitlines(), 1) if call in text)
+    (job,) = scan_text(tmp_path, {"Main.java": src}).jobs
+    items = [h for h in job.plan.hand_work if h.category == category]
+    assert items and items[0].origin.file.endswith("Main.java") and items[0].origin.line_start == line
+    assert advice in items[0].suggestion
+    assert job.status == "partial" or category in ADVISORY_CATEGORIES
