@@ -41,7 +41,7 @@ class JobResult:
         if not self.plan.hand_work:
             return "converted"
         # partial: some steps were lifted and the script stops at a stub; not_converted: nothing was
-        return "partial" if self.plan.map_steps or self.plan.reduce is not None else "not_converted"
+        return "partial" if self.plan.map_steps or self.plan.branches or self.plan.reduce is not None else "not_converted"
 
 
 def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
@@ -49,6 +49,7 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
     notes: list[str] = []
     findings: list[Finding] = []
     shapes: list[str] = []
+    drv = spec.driver.file.path
     classes = {"driver": spec.driver.fqcn, **spec.classes}
     for i, (_, _, mapper_fq, _) in enumerate(spec.branches, 1):
         classes[f"mapper {i}"] = mapper_fq
@@ -64,8 +65,6 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
         snippet = lines[line - 1].strip() if lines and 0 < line <= len(lines) else ""
         hand.append(HandWork(category, span, reason, suggestion, snippet, profile, sloc))
 
-    drv = spec.driver.file.path
-
     def at(*calls: str) -> Span:
         """The driver line of the first of these job calls (or the job's creation)."""
         for c in calls:
@@ -75,7 +74,11 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
     # ---- parameters: the same positional arguments as the original driver
     params: list[Param] = []
     input_params = []
-    inputs = spec.inputs or [b[0] for b in spec.branches]
+    inputs = [*spec.inputs, *(b[0] for b in spec.branches)]
+    if spec.inputs and spec.branches:
+        add("multiple-inputs", Span(drv, spec.branches[0][3], spec.branches[0][3]), "the driver adds input paths both "
+            "with MultipleInputs and with FileInputFormat; which mapper reads the plain paths is not converted",
+            "add every input with MultipleInputs.addInputPath and its mapper, then convert again", "P1")
     for i, ref in enumerate(inputs):
         name = "input_path" if len(inputs) == 1 else f"input_path_{i + 1}"
         params.append(_param(name, ref, "input path"))

@@ -65,3 +65,17 @@ def test_unconverted_driver_features_are_precise_hand_work(tmp_path, call, categ
     assert items and items[0].origin.file.endswith("Main.java") and items[0].origin.line_start == line
     assert advice in items[0].suggestion
     assert job.status == "partial" or category in ADVISORY_CATEGORIES
+
+
+def test_plain_input_paths_beside_multiple_inputs_are_hand_work(tmp_path):
+    src = job_source(MAP, reducer_class=None,
+                     extra_driver="MultipleInputs.addInputPath(job, new Path(args[2]), TextInputFormat.class, M.class);")
+    src = src.replace("import org.apache.hadoop.mapreduce.lib.input.FileInputFormat;",
+                      "import org.apache.hadoop.mapreduce.lib.input.FileInputFormat;\n"
+                      "import org.apache.hadoop.mapreduce.lib.input.MultipleInputs;\n"
+                      "import org.apache.hadoop.mapreduce.lib.input.TextInputFormat;")
+    (job,) = scan_text(tmp_path, {"Main.java": src}).jobs
+    line = next(i for i, text in enumerate(src.splitlines(), 1) if "MultipleInputs.addInputPath" in text)
+    assert [(h.category, h.origin.line_start) for h in job.plan.hand_work] == [("multiple-inputs", line)]
+    assert job.status == "partial"  # blocking: the script stops until it is done
+    assert [p.name for p in job.plan.params] == ["input_path_1", "input_path_2", "output_path"]
