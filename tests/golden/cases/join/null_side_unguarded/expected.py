@@ -8,7 +8,7 @@ Original classes:
 
 What it computes: not determined: the reduce side needs hand work. Shapes: 2 inputs, one mapper
 each.
-Status: not_converted — 1 hand-work item(s), listed in report.md.
+Status: partial — 1 hand-work item(s), listed in report.md.
 
 Usage (the same positional arguments as the original driver):
     spark-submit null_plan.py <input_path_1> <input_path_2> <output_path>
