@@ -467,29 +467,35 @@ def _map_code(steps: tuple[Step, ...], source: str, var: str, x: ExprWriter) -> 
 
 
 def _join_code(r: Join, plan: Plan, x: ExprWriter) -> list[str]:
-    """A reduce-side join: one row per key saying which sides came (and the one-value sides),
-    one DataFrame per list side, and each write as a join of those."""
+    """A reduce-side join: one row per key for what the writes test (which sides came, the
+    one-value sides), one DataFrame per list side, and each write as a join of those."""
     out = ["", f"# Reduce side: a join by key ({_where(r.origin)}). Each value joins the side its tag picks;",
            "# each write below runs once per combination of the lists it loops over, as in Java."]
     values = "map_output"
     if r.lets:
         out += ["values = (", "    map_output", *("    " + c for s in r.lets for c in _step_code(s, x)), ")"]
         values = "values"
-    out += [f"keys = {values}.groupBy(\"key\").agg("]
+    read = {c.name for w in r.writes for e in (w.emit.key, w.emit.value, w.emit.guard) for c in walk(e)
+            if isinstance(c, Col)}
+    per_key = []  # the columns of `keys`
     for side in r.sides:
         cond = bare(x(side.when))
-        out.append(f"    # {_where(side.origin)}  {side.note}")
-        out.append(f"    (F.count_if({cond}) > 0).alias(\"_has_{side.name}\"),")
-        if not side.many and any(isinstance(c, Col) and c.name == side.name
-                                 for w in r.writes for e in (w.emit.key, w.emit.value, w.emit.guard) for c in walk(e)):
+        if f"_has_{side.name}" in read:
+            per_key.append(f"# {_where(side.origin)}  {side.note}")
+            per_key.append(f"(F.count_if({cond}) > 0).alias(\"_has_{side.name}\"),")
+        if not side.many and side.name in read:
             picked = f"F.when({cond}, {x(side.elem)})"
             msg = (f"{_where(side.origin)}: more than one value for `{side.name}` under one key; Java keeps the "
                    "last one, and Hadoop does not define which that is")
             value = f"F.when(F.count_distinct({picked}) > 1, F.raise_error(F.lit({msg!r}))).otherwise(F.max({picked}))"
             if side.default is not None:
                 value = f"F.coalesce({value}, {x(Lit(side.elem.jtype, side.default))})"
-            out.append(f"    {value}.alias(\"{side.name}\"),")
-    out.append(")")
+            per_key.append(f"# {_where(side.origin)}  {side.note}  (one value per key)")
+            per_key.append(f"{value}.alias(\"{side.name}\"),")
+    if per_key:
+        out += [f"keys = {values}.groupBy(\"key\").agg(", *("    " + c for c in per_key), ")"]
+    elif any(not w.loops for w in r.writes):
+        out.append(f"keys = {values}.select(\"key\").distinct()")
     for side in r.sides:
         if side.many:
             out.append(f"{side.name} = {values}.where({bare(x(side.when))}).select(\"key\", "
@@ -499,14 +505,16 @@ def _join_code(r: Join, plan: Plan, x: ExprWriter) -> list[str]:
         e = w.emit
         name = f"write_{i + 1}"
         names.append(name)
-        cols = [f'{x(e.key)}.alias("key")', f'{x(e.value)}.alias("value")', 'F.col("key").alias("_sort_key")',
-                f'F.lit({i}).alias("_write")']
+        key = 'F.col("key")' if isinstance(e.key, Col) and e.key.name == "key" else f'{x(e.key)}.alias("key")'
+        cols = [key, f'{x(e.value)}.alias("value")', 'F.col("key").alias("_sort_key")', f'F.lit({i}).alias("_write")']
         if plan.sink.partition is not None:
             cols.insert(2, f'{x(plan.sink.partition)}.alias("_partition")')
-        out += [f"{name} = (", "    keys", f"    # {_where(e.origin)}  {e.note}"]
+        first, loops = ("keys", w.loops) if per_key or not w.loops else (w.loops[0], w.loops[1:])
+        start = f"    {first}" + (f"  # for each element of `{first}`" if first != "keys" else "")
+        out += [f"{name} = (", start, f"    # {_where(e.origin)}  {e.note}"]
         if e.guard is not None:
             out.append(f"    .where({bare(x(e.guard))})")
-        out += [f"    .join({loop}, \"key\")  # for each element of `{loop}`" for loop in w.loops]
+        out += [f"    .join({loop}, \"key\")  # for each element of `{loop}`" for loop in loops]
         out += [f"    .select({', '.join(cols)})", ")"]
     out.append("return " + ".unionByName(".join(names) + ")" * (len(names) - 1))
     return out

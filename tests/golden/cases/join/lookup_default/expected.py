@@ -79,8 +79,7 @@ def build(spark: SparkSession, input_path_1: str, input_path_2: str) -> DataFram
         .withColumn("p", F.split(F.col("value"), "\t", 2))
     )
     keys = values.groupBy("key").agg(
-        # PlanOfRide.java:41  plan = p[1];
-        (F.count_if(F.col("p")[0] == "M") > 0).alias("_has_plan"),
+        # PlanOfRide.java:41  plan = p[1];  (one value per key)
         F.coalesce(
             F.when(
                 F.count_distinct(F.when(F.col("p")[0] == "M", F.col("p")[1])) > 1,
@@ -92,8 +91,6 @@ def build(spark: SparkSession, input_path_1: str, input_path_2: str) -> DataFram
             ).otherwise(F.max(F.when(F.col("p")[0] == "M", F.col("p")[1]))),
             F.lit("none"),
         ).alias("plan"),
-        # PlanOfRide.java:43  rides.add(p[1]);
-        (F.count_if(F.col("p")[0] != "M") > 0).alias("_has_rides"),
     )
     rides = values.where(F.col("p")[0] != "M").select(
         "key", F.col("p")[1].alias("rides")
