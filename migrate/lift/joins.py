@@ -22,7 +22,7 @@ from javalang import tree as T
 from migrate.java.index import node_lines
 from migrate.lift.exprs import Opaque, Unsupported
 from migrate.lift.reducer import FoldLifter, _block
-from migrate.lift.mapper import _and, _not
+from migrate.lift.mapper import _and, _conjuncts, _not
 from migrate.plan import BoolOp, Col, Emit, Expr, Join, JoinSide, JoinWrite, Lit, Span, walk
 
 _LISTS = {"List", "ArrayList", "LinkedList"}
@@ -174,8 +174,7 @@ class JoinLifter(FoldLifter):
                 and getattr(c.operandr, "value", "") == "0":
             out = has(c.operandl.qualifier)
         if out is None:
-            out = self._expr(c)  # a condition on the key or a one-value side
-            return out
+            return self._expr(c)  # a condition on the key or a one-value side
         return _not(out) if neg else out
 
     def _check_defaults(self, s, emit: Emit) -> None:
@@ -189,11 +188,3 @@ class JoinLifter(FoldLifter):
                     raise Unsupported(s, f"`{side.name}` is read where it may still be null (no value of its side "
                                             "came for the key)", f"write `if ({side.name} != null)` around it in Java, "
                                             "or give it a default", category="join")
-
-
-def _conjuncts(e: Expr | None) -> list[Expr]:
-    if e is None:
-        return []
-    if isinstance(e, BoolOp) and e.op == "&&":
-        return [c for a in e.args for c in _conjuncts(a)]
-    return [e]
