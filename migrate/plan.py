@@ -360,6 +360,36 @@ class Join(Step):
 
 
 @dataclass(frozen=True)
+class SideTable:
+    """A side file that setup() reads whole into a HashMap (or HashSet) field, one put per line.
+
+    `steps` and `put` are over the file's lines (column `value`), like map steps; a key put
+    again replaces the earlier value, so the last line wins. A set holds keys only.
+    """
+
+    field: str  # the Java field
+    name: str  # the DataFrame variable in the script
+    kind: str  # "map" | "set"
+    key_type: str
+    value_type: str | None
+    cache_file: int | str  # which of the job's cache files: getCacheFiles()[i], or the `#link` name it was opened by
+    origin: Span  # the read loop in setup()
+    steps: tuple[Step, ...]
+    put: Emit
+    param: str = ""  # the script parameter holding the path (set when the driver's cache file is known)
+
+
+@dataclass(frozen=True)
+class Lookup(Step):
+    """Look `key` up in a side table: column `name` holds the value, or NULL where the key is missing
+    (for a set: true or NULL). A broadcast left join: every row stays."""
+
+    name: str
+    table: str  # SideTable.name
+    key: Expr
+
+
+@dataclass(frozen=True)
 class Identity(Step):
     """Hadoop's identity reducer: every map output pair passes through, sorted by key."""
 
@@ -466,6 +496,7 @@ class Plan:
     notes: tuple[str, ...] = ()
     findings: tuple[Finding, ...] = ()
     branches: tuple[Branch, ...] = ()  # MultipleInputs: each input with its own mapper (map_steps is empty)
+    tables: tuple[SideTable, ...] = ()  # side files the mappers look rows up in
 
     def __post_init__(self) -> None:
         if not self.map_steps or not isinstance(self.map_steps[-1], Project):
@@ -529,6 +560,12 @@ def dump_plan(plan: Plan) -> str:
     """An indented, one-node-a-line text form of a plan."""
     out = [f"Plan {plan.job_name}", f"  Source {plan.source.fmt} <- {', '.join(plan.source.params)}"
            + (" (skip first line of each file)" if plan.source.skip_first_line else "")]
+    for t in plan.tables:
+        out.append(f"  SideTable {t.name} ({t.kind} {t.key_type}->{t.value_type}) <- cache file {t.cache_file!r}"
+                   + (f" ({t.param})" if t.param else ""))
+        out.extend("    " + _dump_step(s) for s in t.steps)
+        g = f" if {dump_expr(t.put.guard)}" if t.put.guard is not None else ""
+        out.append(f"    Put {dump_expr(t.put.key)} -> {dump_expr(t.put.value)}{g}")
     for s in plan.map_steps:
         out.append("  " + _dump_step(s))
     for i, b in enumerate(plan.branches, 1):
@@ -552,6 +589,8 @@ def _dump_step(s: Step) -> str:
         return f"Filter {dump_expr(s.cond)}"
     if isinstance(s, Explode):
         return f"Explode {s.name} <- {dump_expr(s.array)}"
+    if isinstance(s, Lookup):
+        return f"Lookup {s.name} = {s.table}[{dump_expr(s.key)}]"
     if isinstance(s, Count):
         return f"Count {s.group}:{s.name} += {dump_expr(s.amount)} where {dump_expr(s.cond)}"
     if isinstance(s, Project):

@@ -8,7 +8,7 @@ from pathlib import Path
 import black
 import jinja2
 
-from migrate.plan import (walk, INTEGRAL, Agg, AggRef, Arith, BoolOp, Call, Cast, Col, Compare, Cond, ConfValue, Count, EachValue, Emit, Explode, Expr, Filter, Group, HandWork, Identity, Join, Let, Lit, Plan, Project, Source, Step, StructNew, TopN, TopPerKey, Field)
+from migrate.plan import (walk, INTEGRAL, Agg, AggRef, Arith, BoolOp, Call, Cast, Col, Compare, Cond, ConfValue, Count, EachValue, Emit, Explode, Expr, Filter, Group, HandWork, Identity, Join, Let, Lit, Lookup, Plan, Project, SideTable, Source, Step, StructNew, TopN, TopPerKey, Field)
 
 SPARK_TYPES = {"int": "int", "long": "bigint", "double": "double", "float": "float", "boolean": "boolean",
                "String": "string"}
@@ -356,6 +356,8 @@ def build_body(plan: Plan, x: ExprWriter) -> ScriptParts:
     parts = ScriptParts()
     out = parts.body
     stub = [h for h in plan.hand_work if h.blocking]
+    for t in plan.tables:
+        out.extend(_side_table_code(t, x))
     if plan.branches:
         if stub:
             out.extend(_stub_lines(stub))
@@ -456,6 +458,40 @@ def _read_code(src: Source, var: str, x: ExprWriter, parts: ScriptParts) -> list
         parts.uses_window = True
         out.append(f"{var} = drop_first_line_per_file({var})  # the mapper skipped byte offset 0 of each file")
     return out
+
+
+def _side_table_code(t: SideTable, x: ExprWriter) -> list[str]:
+    """A side file read whole, as setup() read it into a HashMap / HashSet: one row per key."""
+    java = "HashSet" if t.kind == "set" else "HashMap"
+    out = [f"# Side file `{t.param}`: setup() reads it whole into the {java} `{t.field}` ({_where(t.origin)}).",
+           "# Every map task has the whole table: here it is a small DataFrame joined with F.broadcast.",
+           f"{t.name} = (", f"    spark.read.text({t.param})"]
+    if t.kind == "map":
+        out += ["    # the line's place in the file: where a key comes again, the last put wins",
+                '    .withColumn("_line", F.monotonically_increasing_id())']
+    out += ["    " + c for s in t.steps for c in _step_code(s, x)]
+    e = t.put
+    out.append(f"    # {_where(e.origin)}  {e.note}")
+    if e.guard is not None:
+        out.append(f"    .where({bare(x(e.guard))})")
+    if t.kind == "set":
+        out += [f'    .select({x(e.key)}.alias("key"))', "    .distinct()",
+                '    .withColumn("value", F.lit(True))  # present: looked-up rows get true, the others NULL', ")"]
+    else:
+        out += [f'    .select({x(e.key)}.alias("key"), {x(e.value)}.alias("value"), "_line")',
+                f'    .groupBy("key").agg(F.max_by("value", "_line").alias("value"))  # {java}.put replaces: the last line wins',
+                ")"]
+    return out
+
+
+def _lookup_code(s: Lookup, x: ExprWriter, where: str) -> list[str]:
+    """A broadcast left join: every row stays; `name` is NULL where the key is not in the table."""
+    k = f"_{s.name}_key"
+    table_cols = f'F.col("key").alias("{k}"), F.col("value").alias("{s.name}")'
+    return [where, f"# a lookup in `{s.table}` (left join: NULL where the key is missing)",
+            f'.withColumn("{k}", {x(s.key)})',
+            f'.join(F.broadcast({s.table}.select({table_cols})), "{k}", "left")',
+            f'.drop("{k}")']
 
 
 def _map_code(steps: tuple[Step, ...], source: str, var: str, x: ExprWriter) -> list[str]:
@@ -698,6 +734,8 @@ def _step_code(s: Step, x: ExprWriter) -> list[str]:
         return [where, f".withColumn(\"{s.name}\", {x(s.expr)})"]
     if isinstance(s, Filter):
         return [where, f".where({bare(x(s.cond))})"]
+    if isinstance(s, Lookup):
+        return _lookup_code(s, x, where)
     if isinstance(s, Explode):
         return [where + "  (one row per element)", f".withColumn(\"{s.name}\", F.explode({x(s.array)}))"]
     if isinstance(s, Project):
@@ -780,11 +818,11 @@ def render_script(plan: Plan, header: dict, hand_work: list[HandWork]) -> str:
     text = _ENV.get_template("job.py.j2").render(
         plan=plan, header=header, body=parts.body, helpers=helpers, uses_window=uses_window,
         slots=slots, options=[p for p in plan.params if p.position is None], sink=plan.sink,
-        build_args=", ".join(f"{p}: str" for p in plan.source.params)
+        build_args=", ".join(f"{p}: str" for p in (*plan.source.params, *(t.param for t in plan.tables)))
         + (", conf: dict[str, str] | None = None" if x.settings else "")
         + (", counters: HadoopCounters | None = None" if x.counters else ""),
         hand_work=hand_work,
-        build_call=", ".join(f"args.{p}" for p in plan.source.params)
+        build_call=", ".join(f"args.{p}" for p in (*plan.source.params, *(t.param for t in plan.tables)))
         + (", conf=settings(args.defines)" if x.settings else "") + (", counters=counters" if x.counters else ""),
         counters=x.counters, dates=x.dates,
         sort_columns=sort_columns(plan),

@@ -21,6 +21,15 @@ class PathRef:
     split_commas: bool = False  # FileInputFormat's String overloads read "a,b" as two paths
 
 
+@dataclass(frozen=True)
+class CacheFile:
+    """A file shipped to every task (the distributed cache): its path and the `#name` link, if any."""
+
+    path: PathRef
+    line: int
+    link: str | None = None
+
+
 @dataclass
 class JobSpec:
     """What a driver configures for one MapReduce job."""
@@ -45,6 +54,8 @@ class JobSpec:
     extra: list[tuple[str, int, str]] = field(default_factory=list)  # (category, line, text) needing hand work
     # MultipleInputs.addInputPath: one (path, input format, mapper) per input, each with its own mapper
     branches: list[tuple[PathRef, str, str, int]] = field(default_factory=list)  # (path, format, mapper, line)
+    # job.addCacheFile / DistributedCache.addCacheFile, in order: what getCacheFiles()[i] is in a task
+    cache_files: list[CacheFile] = field(default_factory=list)
 
     @property
     def reduces(self) -> int:
@@ -279,6 +290,12 @@ class _DriverReader:
                 ref = self._path_ref(self._value(args[1], None), args[1])
                 self.specs[j[1]].branches.append((ref, self._class_arg(args[2]), self._class_arg(args[3]), line))
                 return ("unknown", m)
+        if recv[0] == "static" and recv[1].split(".")[-1] == "DistributedCache" and m == "addCacheFile" and len(args) == 2:
+            c = self._value(args[1], None)
+            spec = self.specs.get(c[1]) if c[0] == "job" else self._only_spec() if c[0] == "conf" else None
+            if spec is not None:
+                spec.cache_files.append(self._cache_file(args[0], line))
+                return ("unknown", m)
         if recv[0] == "static" and recv[1].split(".")[-1] in ("MultipleInputs", "MultipleOutputs", "ChainMapper",
                                                                "ChainReducer", "DistributedCache", "JobControl"):
             spec = self._only_spec()
@@ -359,7 +376,9 @@ class _DriverReader:
             k, v = self._value(args[0], None), self._value(args[1], None)
             if k[0] == "str":
                 spec.conf[k[1]] = str(v[1]) if v[0] in ("str", "int", "lit") else f"<{v[1]}>"
-        elif m in ("addCacheFile", "addCacheArchive", "addFileToClassPath"):
+        elif m == "addCacheFile" and len(args) == 1:
+            spec.cache_files.append(self._cache_file(args[0], line))
+        elif m in ("addCacheArchive", "addFileToClassPath"):
             spec.extra.append(("side-files", line, f"job.{m}(...)"))
         elif m in ("setInputPath", "addInputPath"):
             spec.inputs.append(self._path_ref(self._value(args[0], None), args[0]))
@@ -409,6 +428,29 @@ class _DriverReader:
             return self.index.resolve(name, self.cls) or name
         v = self._value(e, None)
         return f"<{v[1]}>"
+
+    def _cache_file(self, e, line: int) -> CacheFile:
+        """`new URI(p)`, `URI.create(p)`, `new Path(p).toUri()`, with an optional `+ "#link"`."""
+        link = None
+        if isinstance(e, T.ClassCreator) and e.type.name == "URI" and len(e.arguments or []) == 1 and not e.selectors:
+            e = e.arguments[0]
+        elif (isinstance(e, T.MethodInvocation) and (e.qualifier, e.member) == ("URI", "create")
+              and len(e.arguments or []) == 1 and not e.selectors):
+            e = e.arguments[0]
+        elif (isinstance(e, T.ClassCreator) and e.type.name == "Path" and len(e.arguments or []) == 1
+              and [getattr(s, "member", None) for s in e.selectors or []] == ["toUri"]):
+            e = e.arguments[0]
+        else:
+            return CacheFile(PathRef("unknown", text="a computed URI"), line)
+        if isinstance(e, T.BinaryOperation) and e.operator == "+":
+            frag = self._value(e.operandr, None)
+            if frag[0] == "str" and frag[1].startswith("#"):
+                e, link = e.operandl, frag[1][1:]
+        v = self._value(e, None)
+        if v[0] == "str" and "#" in v[1]:
+            path, link = v[1].split("#", 1)
+            return CacheFile(PathRef("literal", literal=path), line, link)
+        return CacheFile(self._path_ref(v, e), line, link)
 
     def _path_ref(self, v: tuple, node) -> PathRef:
         if v[0] == "path":

@@ -70,8 +70,10 @@ def python_name(java: str) -> str:
     return re.sub(r"(?<=[a-z0-9])(?=[A-Z])", "_", java).lower()
 
 
-def task_constants(cls: ClassInfo, driver_conf: dict[str, str], base_env: dict[str, object]) -> tuple[dict[str, Expr], list[tuple[int, str]]]:
-    """Fields set in setup()/configure()/constructors, and (line, reason) for what could not be read."""
+def task_constants(cls: ClassInfo, driver_conf: dict[str, str], base_env: dict[str, object],
+                   skip: set[int] = frozenset()) -> tuple[dict[str, Expr], list[tuple[int, str]]]:
+    """Fields set in setup()/configure()/constructors, and (line, reason) for what could not be read.
+    `skip`: id() of statements another reader accounts for (a side file read, lift.sidefiles)."""
     out: dict[str, Expr] = {}
     problems: list[tuple[int, str]] = []
     methods = [m for m in cls.node.body if isinstance(m, (T.MethodDeclaration, T.ConstructorDeclaration))
@@ -86,6 +88,8 @@ def task_constants(cls: ClassInfo, driver_conf: dict[str, str], base_env: dict[s
             env.setdefault(p, Opaque("the task context"))
         reader = ConfReader(conf_vars, driver_conf, cls.file.path)
         for st in m.body or []:
+            if id(st) in skip:
+                continue
             try:
                 _statement(st, env, reader, out, params, cls)
             except Unsupported as u:

@@ -11,11 +11,12 @@ from __future__ import annotations
 
 import re
 from dataclasses import dataclass, field, replace
+from typing import Any
 
 from javalang import tree as T
 
 from migrate.java.literals import number_value, string_value
-from migrate.plan import INTEGRAL, NO_SPAN, NUMERIC, Arith, BoolOp, Call, Cast, Col, Compare, Cond, Expr, Lit, Span
+from migrate.plan import INTEGRAL, NO_SPAN, NUMERIC, Arith, BoolOp, Call, Cast, Col, Compare, Cond, Expr, Lit, SideTable, Span
 
 
 class Unsupported(Exception):
@@ -90,6 +91,16 @@ class Tokenizer:
 
 
 @dataclass
+class MaybeNull:
+    """A local set from `map.get(key)`: NULL where the key is missing. Java throws, prints "null"
+    or compares by reference where Spark would carry NULL on, so only null tests may read it;
+    inside `if (x != null)` (or after `if (x == null) return;`) it is `value`."""
+
+    value: Expr
+    what: str = "a value looked up in a side table, null where the key is missing"
+
+
+@dataclass
 class Opaque:
     """Something bound to a name that expressions may not read (context, reporter, values...)."""
 
@@ -108,6 +119,9 @@ class Scope:
     depth: int = 0
     enums: frozenset[str] = frozenset()  # simple names of enum types in the repository
     structs: dict = field(default_factory=dict)  # custom Writables (fqcn and simple name -> StructInfo)
+    # map() only: look a key up in a side table (SideTable, key, node, conditions) -> the looked-up column
+    lookup: Any = None
+    conditions: tuple = ()  # `a && b`, `c ? x : y`: what holds where the sub-expression runs
 
     def on_error(self, op: str) -> str:
         exc = THROWS.get(op)
@@ -162,7 +176,10 @@ def _lift(node, scope: Scope) -> Expr:
         return _selectors(_binary(node, scope), sels, scope, node)
     if isinstance(node, T.TernaryExpression):
         c = _bool(lift(node.condition, scope), node)
-        a, b = lift(node.if_true, scope), lift(node.if_false, scope)
+        then_env, else_env = refined(node.condition, scope.env)
+        a = lift(node.if_true, replace(scope, env=then_env, conditions=(*scope.conditions, c)))
+        b = lift(node.if_false, replace(scope, env=else_env,
+                                        conditions=(*scope.conditions, BoolOp("boolean", "!", (c,)))))
         t = a.jtype if a.jtype == b.jtype else promote(a.jtype, b.jtype) if {a.jtype, b.jtype} <= NUMERIC else None
         if t is None:
             raise Unsupported(node, f"conditional mixes {a.jtype} and {b.jtype}")
@@ -265,6 +282,9 @@ def _binding_value(b, node, name: str) -> Expr:
         if b.content is None:
             raise Unsupported(node, f"Writable `{name}` is read before anything was set into it")
         return b.content
+    if isinstance(b, MaybeNull):
+        raise Unsupported(node, f"`{name}` may be null (a key missing from the side table) where it is read: Java "
+                                "would throw or print \"null\"", f"test `{name}` for null first, or use getOrDefault")
     raise Unsupported(node, f"`{name}` ({getattr(b, 'what', type(b).__name__)}) is used as a value")
 
 
@@ -362,6 +382,8 @@ def _invocation(node: T.MethodInvocation, scope: Scope) -> Expr:
                     raise Unsupported(node, "Calendar read before setTime() in this record")
                 return dates.field(recv.date, args[0].member, node)
             raise Unsupported(node, f"Calendar.{m}() is not lifted")
+        if isinstance(recv, SideTable):
+            return _selectors(_table_call(recv, node, scope), node.selectors or [], scope, node)
         if isinstance(recv, Tokenizer):
             if m == "nextToken" and recv.current is not None:
                 return _selectors(recv.current, node.selectors or [], scope, node)
@@ -374,6 +396,30 @@ def _invocation(node: T.MethodInvocation, scope: Scope) -> Expr:
         return _selectors(inline_call(node, scope), node.selectors or [], scope, node)
     raise Unsupported(node, f"call `{(q + '.') if q else ''}{m}(...)` is not lifted",
                       "inline the helper by hand, or express it with pyspark.sql.functions")
+
+
+def _table_call(table, node: T.MethodInvocation, scope: Scope) -> Expr:
+    """`map.containsKey(k)`, `map.getOrDefault(k, d)`, `set.contains(k)` on a side table."""
+    m, args = node.member, node.arguments or []
+    if scope.lookup is None:
+        raise Unsupported(node, "a side table read outside map()")
+    wanted = {"map": {"containsKey": 1, "getOrDefault": 2}, "set": {"contains": 1}}[table.kind]
+    if m == "get" and table.kind == "map":
+        raise Unsupported(node, f"`{table.field}.get(...)` inside an expression: a missing key gives null, which Java "
+                                "and Spark treat differently", "assign it to a local, and test that for null")
+    if wanted.get(m) != len(args):
+        raise Unsupported(node, f"{'HashMap' if table.kind == 'map' else 'HashSet'}.{m}() of a side table is not lifted")
+    key = lift(args[0], scope)
+    if key.jtype != table.key_type:
+        raise Unsupported(node, f"the key is a {key.jtype} and the table holds {table.key_type} keys: Java's equals() "
+                                "never matches them")
+    found = scope.lookup(table, key, node, scope.conditions)
+    if m == "getOrDefault":
+        default = lift(args[1], scope)
+        if isinstance(default, Lit) and default.value is None or default.jtype != table.value_type:
+            raise Unsupported(node, f"getOrDefault with a default that is not a {table.value_type}")
+        return Cond(table.value_type, Call("boolean", "is_not_null", (found,)), found, default)
+    return Call("boolean", "is_not_null", (found,))  # the table's values are never null
 
 
 def _struct(scope: Scope, name: str, node):
@@ -532,7 +578,15 @@ def to_string(e: Expr, scope: Scope | None = None) -> Expr:
 
 def _binary(node: T.BinaryOperation, scope: Scope) -> Expr:
     op = node.operator
-    l, r = lift(node.operandl, scope), lift(node.operandr, scope)
+    tested = _null_test(node, scope)
+    if tested is not None:
+        return tested
+    l = lift(node.operandl, scope)
+    if op in ("&&", "||"):  # the right side runs only where the left side did not decide
+        runs = _bool(l, node) if op == "&&" else BoolOp("boolean", "!", (_bool(l, node),))
+        r = lift(node.operandr, replace(scope, conditions=(*scope.conditions, runs)))
+    else:
+        r = lift(node.operandr, scope)
     if op in ("&&", "||"):
         l, r = _bool(l, node), _bool(r, node)
         deciding = op == "||"  # the value that ends the evaluation
@@ -563,6 +617,52 @@ def _binary(node: T.BinaryOperation, scope: Scope) -> Expr:
             return Lit("boolean", (l.value == r.value) == (op == "=="))
         raise Unsupported(node, f"comparison {op} of {l.jtype} and {r.jtype}")
     raise Unsupported(node, f"operator {op} is not lifted yet")
+
+
+def _null_test(node: T.BinaryOperation, scope: Scope) -> Expr | None:
+    """`x == null` / `x != null` of a local that may hold null (MaybeNull)."""
+    if node.operator not in ("==", "!="):
+        return None
+    name = maybe_null_name(node.operandl, scope.env) if _is_null(node.operandr) else \
+        maybe_null_name(node.operandr, scope.env) if _is_null(node.operandl) else None
+    if name is None:
+        return None
+    return Call("boolean", "is_null" if node.operator == "==" else "is_not_null", (scope.env[name].value,))
+
+
+def _is_null(node) -> bool:
+    return isinstance(node, T.Literal) and node.value == "null"
+
+
+def maybe_null_name(node, env: dict) -> str | None:
+    if (isinstance(node, T.MemberReference) and node.qualifier in ("", None) and not node.selectors
+            and not getattr(node, "prefix_operators", None) and isinstance(env.get(node.member), MaybeNull)):
+        return node.member
+    return None
+
+
+def refined(cond, env: dict) -> tuple[dict, dict]:
+    """The names bound where `cond` holds and where it does not: a local tested for null
+    (`x != null`, `x != null && …`, `x == null || …`) holds its value on the side it is not null."""
+    then_env, else_env = env, env
+    if not isinstance(cond, T.BinaryOperation) or getattr(cond, "prefix_operators", None):
+        return then_env, else_env
+    op = cond.operator
+    if op in ("==", "!="):
+        name = maybe_null_name(cond.operandl, env) if _is_null(cond.operandr) else \
+            maybe_null_name(cond.operandr, env) if _is_null(cond.operandl) else None
+        if name is not None:
+            known = {**env, name: env[name].value}
+            return (known, env) if op == "!=" else (env, known)
+    if op == "&&":  # both sides hold in the then-branch
+        a, _ = refined(cond.operandl, env)
+        b, _ = refined(cond.operandr, a)
+        return b, else_env
+    if op == "||":  # neither side holds in the else-branch
+        _, a = refined(cond.operandl, env)
+        _, b = refined(cond.operandr, a)
+        return then_env, b
+    return then_env, else_env
 
 
 def _cast(node: T.Cast, scope: Scope) -> Expr:

@@ -14,14 +14,15 @@ from migrate.lift.combining import flushes_all_entries
 from migrate.lift.config import task_constants
 from migrate.lift.limits import explain
 from migrate.lift.mapper import MapBodyLifter, class_constants
-from migrate.lift.exprs import Scope, Unsupported, to_string
+from migrate.lift.exprs import Opaque, Scope, Unsupported, to_string
 from migrate.lift.writables import is_struct, read_comparator, structs_of
 from migrate.lift.reducer import FoldLifter
 from migrate.lift.partitioning import custom_partition, hash_partition
 from migrate.lift.topn import lift_top_n, top_n_findings
 from migrate.lift.joins import JoinLifter
+from migrate.lift.sidefiles import read_side_files
 from migrate.plan import (AggRef, BoolOp, Branch, Cast, Col, EachValue, Join, Emit, Explode, Expr, Filter, Finding, Group, HandWork, Identity, Param, Plan,
-                          Project, Sink, Source, Span, Step, TopN, TopPerKey)
+                          Project, SideTable, Sink, Source, Span, Step, TopN, TopPerKey)
 
 
 
@@ -137,11 +138,12 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
     mcls = index.get(mapper_fq)
     combining: list[str] = []  # Map fields of in-mapper combining, flushed in cleanup()
     branches: list[Branch] = []
+    tables: list[SideTable] = []  # side files the mappers load in setup() and look keys up in
     if spec.branches:
-        branches = _branches(spec, index, input_params[len(spec.inputs):], kv_sep, hand, notes, add, combining)
+        branches = _branches(spec, index, input_params[len(spec.inputs):], kv_sep, hand, notes, add, combining, tables)
         shapes.append(f"{len(branches)} inputs, one mapper each")
     elif mcls is not None and "mapper" in mcls.roles:
-        steps, skip_first = _lift_mapper(mcls, fmt, hand, notes, index, spec.conf, combining)
+        steps, skip_first = _lift_mapper(mcls, fmt, hand, notes, index, spec.conf, combining, tables)
     elif mapper_fq in KNOWN_CLASSES or mapper_fq in IDENTITY_MAPPERS:
         lib_steps, why = library_mapper(mapper_fq, fmt, spec.conf)
         if lib_steps is None:
@@ -230,6 +232,10 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
             add("top-n", reduce.fold.emits[0].origin, "the TreeMap keeps the last of tied entries, and which is last "
                 "follows the custom key's compareTo order; that tie rule is not reproduced for custom keys",
                 "rank with Window.orderBy(...) and decide how ties should be broken", "P2")
+    tables = _side_tables(spec, tables, params, add)
+    if tables:
+        shapes.append("map-side join (" + ", ".join(f"{t.field}: {'HashSet' if t.kind == 'set' else 'HashMap'}"
+                                                    for t in tables) + ")")
     for category, line, text in spec.extra:
         add(category, Span(drv, line, line), f"{text} is not converted in this version",
             EXTRA_ADVICE.get(category, "rewrite this driver call as DataFrame code by hand"), "P2")
@@ -278,7 +284,7 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
     splits = tuple(ref.split_commas for ref in spec.inputs) or (False,)
     source = Source(tuple(input_params), fmt, skip_first, splits, _reads_file_name(steps), spec.origin, kv_sep)
     plan = Plan(spec.name, source, tuple(steps), reduce, sink, tuple(params), tuple(hand), tuple(dict.fromkeys(shapes)),
-                tuple(notes), tuple(findings), tuple(branches))
+                tuple(notes), tuple(findings), tuple(branches), tuple(tables))
     sloc = sum(c.sloc for c in {index.get(fq) for fq in classes.values()} if c is not None)
     return JobResult(spec, plan, classes, files, sloc, notes)
 
@@ -308,7 +314,7 @@ FORMAT_ADVICE = {
 
 
 def _branches(spec: JobSpec, index: ClassIndex, params: list[str], kv_sep: str, hand: list[HandWork],
-              notes: list[str], add, combining: list[str]) -> list[Branch]:
+              notes: list[str], add, combining: list[str], tables: list[SideTable]) -> list[Branch]:
     """MultipleInputs: each input read with its format and mapped by its own mapper."""
     out = []
     drv = spec.driver.file.path
@@ -326,9 +332,37 @@ def _branches(spec: JobSpec, index: ClassIndex, params: list[str], kv_sep: str, 
             add("missing-source", where, f"mapper {mapper_fq} of this input is not in the repository",
                 "add its source to the scanned folder", "P2")
         else:
-            steps, skip_first = _lift_mapper(mcls, fmt, hand, notes, index, spec.conf, combining)
+            steps, skip_first = _lift_mapper(mcls, fmt, hand, notes, index, spec.conf, combining, tables)
         source = Source((param,), fmt or "text", skip_first, (ref.split_commas,), _reads_file_name(steps), where, kv_sep)
         out.append(Branch(source, tuple(steps), mapper_fq))
+    return out
+
+
+def _side_tables(spec: JobSpec, tables: list[SideTable], params: list[Param], add) -> list[SideTable]:
+    """Each side table gets the script parameter of the cache file it reads; cache files no
+    mapper reads this way stay hand work."""
+    out, read = [], set()
+    drv = spec.driver.file.path
+    links = {cf.link: i for i, cf in enumerate(spec.cache_files) if cf.link}
+    for t in tables:
+        i = links.get(t.cache_file) if isinstance(t.cache_file, str) else t.cache_file
+        if i is None or i >= len(spec.cache_files):
+            add("side-files", t.origin, f"setup() reads cache file {t.cache_file!r}, which is not one the driver "
+                "ships (as far as the converter could read)", EXTRA_ADVICE["side-files"], "P2")
+            continue
+        cf = spec.cache_files[i]
+        name = f"{t.name}_file"
+        if all(p.name != name for p in params):
+            params.append(_param(name, cf.path, f"side file read into {t.field} in setup()"))
+        if cf.path.kind == "unknown":
+            add("driver", Span(drv, cf.line, cf.line), "the side file's path could not be read",
+                f"pass it as {name} by hand")
+        read.add(i)
+        out.append(replace(t, param=name))
+    for i, cf in enumerate(spec.cache_files):
+        if i not in read:
+            add("side-files", Span(drv, cf.line, cf.line), "the cache file is not read by a setup() the converter "
+                "lifted", EXTRA_ADVICE["side-files"], "P2")
     return out
 
 
@@ -545,7 +579,7 @@ def _method_hand_work(owner: ClassInfo, m, category: str, reason: str, suggestio
 
 
 def _lift_mapper(mcls: ClassInfo, fmt: str, hand: list[HandWork], notes: list[str], index: ClassIndex,
-                 driver_conf: dict[str, str], combining_fields: list[str]):
+                 driver_conf: dict[str, str], combining_fields: list[str], tables: list[SideTable]):
     owner, m = _find_method(mcls, index, "map", (3, 4))
     if m is None:
         hand.append(HandWork("map-logic", mcls.span, f"{mcls.name} has no map() method the converter could find",
@@ -560,14 +594,20 @@ def _lift_mapper(mcls: ClassInfo, fmt: str, hand: list[HandWork], notes: list[st
                              "fix the signature if the map logic was meant to run; otherwise decide what the job is for",
                              owner.file.lines[line - 1].strip(), "P2", owner.sloc))
         return [], False
-    settings, problems = task_constants(owner, driver_conf, class_constants(owner, index))
+    side = read_side_files(owner, index, class_constants(owner, index))
+    settings, problems = task_constants(owner, driver_conf, class_constants(owner, index), side.handled)
+    problems = sorted(problems + side.problems)
     for line, reason in problems:
         hand.append(HandWork("task-lifecycle", Span(owner.file.path, line, line), reason,
                              "settings become script parameters (-D name=value); other per-task work needs a rewrite",
                              owner.file.lines[line - 1].strip() if line else "", "P1", 1))
+    unread = {f: Opaque(f"the side table filled in setup(), whose read was not lifted (line {side.problems[0][0]})")
+              for f in side.filled - set(side.tables)} if side.problems else {}
     lifter = MapBodyLifter(owner, m, "String" if fmt == "keyvalue" else "offset", "String", owner.api or "mapreduce",
-                           index, settings)
+                           index, {**settings, **unread, **side.tables})
     res = lifter.run()
+    tables.extend(t for t in res.tables if t not in tables)
+    notes.extend(n for n in side.notes if res.tables and n not in notes)
     cleanup = _method(owner, "cleanup", (1,)) or _method(owner, "close", (0,))
     flushed = bool(res.combining) and all(flushes_all_entries(cleanup, f) for f in res.combining)
     if flushed:
@@ -577,14 +617,14 @@ def _lift_mapper(mcls: ClassInfo, fmt: str, hand: list[HandWork], notes: list[st
                            skip=("setup", "configure") + (("cleanup", "close") if flushed else ())))
     for h in res.hand_work:
         sloc = logical_sloc(owner.file.lines[h.origin.line_start - 1 : node_lines(m)[1]])
-        hand.append(_named(owner, h, max(sloc, 1)))
+        hand.append(_named(owner, h, max(sloc, 1), side.filled))
     notes.extend(res.notes)
     return res.steps, res.skip_first_line
 
 
-def _named(owner: ClassInfo, h: HandWork, sloc: int) -> HandWork:
+def _named(owner: ClassInfo, h: HandWork, sloc: int, tables: set[str] = frozenset()) -> HandWork:
     """Give a lifting failure the name of the API behind it, when there is one (lift.limits)."""
-    lim = explain(owner, h.origin.line_start) if h.category in ("map-logic", "reduce-logic") else None
+    lim = explain(owner, h.origin.line_start, tables) if h.category in ("map-logic", "reduce-logic") else None
     if lim is None:
         return HandWork(h.category, h.origin, h.reason, h.suggestion, h.snippet, h.profile, sloc)
     return HandWork(lim.category, h.origin, f"{lim.reason} ({h.reason})", lim.suggestion, h.snippet, lim.profile, sloc)

@@ -50,12 +50,13 @@ LIMITS = (
 )
 
 
-def explain(cls: ClassInfo, line: int) -> Limit | None:
-    """The limit behind a failure at `line` of `cls`: the failing line first, then the class's fields."""
+def explain(cls: ClassInfo, line: int, ignore: set[str] = frozenset()) -> Limit | None:
+    """The limit behind a failure at `line` of `cls`: the failing line first, then the class's
+    fields (not those in `ignore`: side tables, which lift.sidefiles explains)."""
     lines = cls.file.lines
     candidates = [(lines[line - 1], False)] if 0 < line <= len(lines) else []
     for f in cls.fields():
-        if f.position:
+        if f.position and not {d.name for d in f.declarators} & ignore:
             candidates.append((lines[f.position.line - 1], True))
     for text, is_field in candidates:
         code = text.split("//", 1)[0]

@@ -17,13 +17,13 @@ from javalang import tree as T
 
 from migrate.java.index import ClassInfo, node_lines
 from migrate.lift.writables import structs_of
-from migrate.lift.exprs import (CATCH_ALL, WRITABLE_OF, Opaque, Scope, Tokenizer, Unsupported, Writable, lift,
-                                widen, writable_creator, writable_set, write_argument)
+from migrate.lift.exprs import (CATCH_ALL, WRITABLE_OF, MaybeNull, Opaque, Scope, Tokenizer, Unsupported, Writable,
+                                lift, refined, widen, writable_creator, writable_set, write_argument)
 from migrate.lift import dates
 from migrate.lift.combining import combining_update, map_fields
 from migrate.lift.counters import counter_update, is_counter_call
-from migrate.plan import (BoolOp, Call, Col, Compare, Count, Emit, Explode, Expr, Filter, HandWork, Let, Lit, Project,
-                          Span, Step, walk)
+from migrate.plan import (BoolOp, Call, Col, Compare, Count, Emit, Explode, Expr, Filter, HandWork, Let, Lit, Lookup,
+                          Project, SideTable, Span, Step, walk)
 
 SKIP_NOTE = "catch: skip the record"
 _DECLARED = {"int": "int", "long": "long", "double": "double", "float": "float", "boolean": "boolean",
@@ -41,6 +41,7 @@ class MapResult:
     skip_first_line: bool = False
     notes: list[str] = field(default_factory=list)
     combining: list[str] = field(default_factory=list)  # Map fields summed in map() and flushed in cleanup()
+    tables: list[SideTable] = field(default_factory=list)  # side tables map() looks keys up in
 
 
 def _and(a: Expr | None, b: Expr | None) -> Expr | None:
@@ -60,8 +61,8 @@ def _or(a: Expr | None, b: Expr | None) -> Expr | None:
 def _not(a: Expr) -> Expr:
     if isinstance(a, BoolOp) and a.op == "!":
         return a.args[0]
-    if isinstance(a, Call) and a.op == "is_not_null":
-        return Call("boolean", "is_null", a.args)
+    if isinstance(a, Call) and a.op in ("is_not_null", "is_null"):
+        return Call("boolean", "is_null" if a.op == "is_not_null" else "is_not_null", a.args)
     if isinstance(a, Compare):
         flip = {"<": ">=", ">=": "<", ">": "<=", "<=": ">", "==": "!=", "!=": "=="}
         if a.left.jtype not in ("double", "float"):  # NaN makes !(a < b) differ from a >= b
@@ -137,25 +138,31 @@ class MapBodyLifter:
             env[p] = Opaque("the task context")
         self.scope = Scope(env, file=self.file, methods=helper_methods(cls, index),
                            enums=frozenset(fq.rsplit(".", 1)[-1] for fq in (index.enums if index else {})),
-                           structs=structs_of(index))
+                           structs=structs_of(index), lookup=self._lookup)
+        self.guard_now: Expr | None = None  # the guard of the statement being lifted
+        self.lookups: dict[tuple[str, Expr], Col] = {}
+        self.tables: dict[str, SideTable] = {}
 
     # ------------------------------------------------------------------ driving
-    def run(self) -> MapResult:
+    def run(self, body=None, where=None) -> MapResult:
+        """Lift map()'s body (or `body`, statements standing for one record, at `where`)."""
+        where = where if where is not None else self.method
         try:
-            self._block(self.method.body or [], None)
+            self._block(self.method.body or [] if body is None else body, None)
         except _Stop:
             pass
         except Unsupported as u:
-            self._hand("map-logic", u.line or self._line(self.method), u.reason, u.suggestion or
+            self._hand("map-logic", u.line or self._line(where), u.reason, u.suggestion or
                        "express this step with pyspark.sql.functions by hand")
         if not self.hand:
             if not self.emit_list:
-                self._hand("map-logic", self._line(self.method), "map() writes nothing the converter could follow",
+                self._hand("map-logic", self._line(where), "map() writes nothing the converter could follow",
                            "check what the mapper emits and write the select by hand")
             else:
-                self.steps.append(Project(self._span(self.method), "map output", tuple(self.emit_list)))
+                self.steps.append(Project(self._span(where), "map output", tuple(self.emit_list)))
         notes = self.notes + [n for n in self.scope.notes if n not in self.notes]
-        return MapResult(self.steps, self.hand, self.skip_first_line, notes, sorted(self.combining))
+        return MapResult(self.steps, self.hand, self.skip_first_line, notes, sorted(self.combining),
+                         list(self.tables.values()))
 
     def _hand(self, category: str, line: int, reason: str, suggestion: str, profile: str = "P1") -> None:
         snippet = self.cls.file.lines[line - 1].strip() if 0 < line <= len(self.cls.file.lines) else ""
@@ -186,6 +193,7 @@ class MapBodyLifter:
                 self._stmt(s, guard)
 
     def _stmt(self, s, guard: Expr | None) -> None:
+        self.guard_now = guard
         if isinstance(s, T.BlockStatement):
             self._scoped(s.statements, guard)
         elif isinstance(s, T.LocalVariableDeclaration):
@@ -242,6 +250,10 @@ class MapBodyLifter:
         if tname in WRITABLE_OF and isinstance(init, T.ClassCreator):
             self.scope.env[d.name] = writable_creator(init, self.scope)
             return
+        table = self.scope.env.get(init.qualifier) if isinstance(init, T.MethodInvocation) else None
+        if isinstance(table, SideTable) and init.member == "get" and not init.selectors:
+            self._declare_lookup(s, d, table, tname, guard)
+            return
         made = date_object(init, s)
         if made is not None:
             self.scope.env[d.name] = made
@@ -260,6 +272,36 @@ class MapBodyLifter:
             self.scope.env[d.name] = e
             return
         self._let(d.name, e, guard, s)
+
+    def _declare_lookup(self, s, d, table: SideTable, tname: str, guard) -> None:
+        """`String v = table.get(key);`: v is NULL where the key is missing, and only null tests may read it."""
+        if table.kind != "map" or len(d.initializer.arguments or []) != 1:
+            raise Unsupported(s, f"{table.field}.get(...) with other than one key")
+        if _DECLARED.get(tname) != table.value_type or tname not in ("String", "Integer", "Long", "Double"):
+            raise Unsupported(s, f"`{d.name}` is a {tname}: a missing key would be unboxed (NullPointerException)"
+                                 if tname in ("int", "long", "double") else f"`{d.name}` of type {tname} from a side table",
+                              "use getOrDefault with a default, or declare the local as the table's value type")
+        key = lift(d.initializer.arguments[0], self.scope)
+        if key.jtype != table.key_type:
+            raise Unsupported(s, f"the key is a {key.jtype} and the table holds {table.key_type} keys: Java's equals() "
+                                 "never matches them")
+        self.guard_now = guard
+        self.scope.env[d.name] = MaybeNull(self._lookup(table, key, d.initializer, (), name=d.name))
+        if self.loop_locals:
+            self.loop_locals[-1].add(d.name)
+
+    def _lookup(self, table: SideTable, key: Expr, node, conditions: tuple, name: str | None = None) -> Col:
+        """A Lookup step for `key` (NULL where the statement or expression would not have run)."""
+        g = self._eff(self.guard_now)
+        for c in conditions:
+            g = _and(g, c)
+        k = key if g is None else Call(key.jtype, "guarded", (g, key))
+        if (table.name, k) not in self.lookups:
+            col = self._fresh(name or f"{table.name}_found")
+            self.steps.append(Lookup(self._span(node), self._note(node), col, table.name, k))
+            self.lookups[(table.name, k)] = Col(table.value_type or "boolean", col)
+            self.tables[table.name] = table
+        return self.lookups[(table.name, k)]
 
     def _let(self, name: str, e: Expr, guard, node, reuse: str | None = None) -> None:
         g = self._eff(guard)
@@ -395,19 +437,32 @@ class MapBodyLifter:
         c = lift(s.condition, self.scope)
         if c.jtype != "boolean":
             raise Unsupported(s, "if condition is not a boolean")
+        then_env, else_env = refined(s.condition, self.scope.env)
         self.if_nodes.append(s)
         try:
-            self._branch(s.then_statement, _and(guard, c))
+            self._branch(s.then_statement, _and(guard, c), then_env)
             if s.else_statement is not None:
-                self._branch(s.else_statement, _and(guard, _not(c)))
+                self._branch(s.else_statement, _and(guard, _not(c)), else_env)
         finally:
             self.if_nodes.pop()
+        if s.else_statement is None and self._leaves(s.then_statement):
+            for name, v in else_env.items():  # `if (x == null) return;`: below it x holds a value
+                if isinstance(self.scope.env.get(name), MaybeNull) and not isinstance(v, MaybeNull):
+                    self.scope.env[name] = v
 
-    def _branch(self, stmt, guard) -> None:
-        if isinstance(stmt, T.BlockStatement):
-            self._scoped(stmt.statements, guard)
-        else:
-            self._scoped([stmt], guard)
+    def _leaves(self, stmt) -> bool:
+        """The branch always ends the record (`return`), or this loop iteration where that is the scope."""
+        last = stmt.statements[-1] if isinstance(stmt, T.BlockStatement) and stmt.statements else stmt
+        return isinstance(last, T.ReturnStatement) or (isinstance(last, T.ContinueStatement) and not self.loop_depth)
+
+    def _branch(self, stmt, guard, env: dict | None = None) -> None:
+        known = {n: v for n, v in (env or {}).items() if self.scope.env.get(n) is not v}
+        before = {n: self.scope.env[n] for n in known}
+        self.scope.env.update(known)  # a local tested for null holds its value in this branch
+        try:
+            self._scoped(stmt.statements if isinstance(stmt, T.BlockStatement) else [stmt], guard)
+        finally:
+            self.scope.env.update(before)
 
     def _is_first_line_check(self, s: T.IfStatement) -> bool:
         """`if (key.get() == 0) return;` on TextInputFormat: skip the first line of every file."""

@@ -46,6 +46,7 @@ def build_report(jobs: list[tuple[JobResult, str]], errors: list[ParseFailure], 
             "aggregates": aggregates_of(job),
             "inputs": inputs_of(job),
             "join": join_of(job),
+            "side_tables": side_tables_of(job),
             "counters": counters_of(job),
             "sloc": {"total": eff.sloc_total, "automatic": eff.sloc_auto, "hand": eff.sloc_manual},
             "effort_hours": round(est["jobs"][script], 2),
@@ -122,7 +123,8 @@ def to_markdown(report: dict) -> str:
     out += ["", f"Estimated effort for the repository: **{e['hours']:.1f} h** "
                 f"(range {e['range_hours'][0]:.1f} to {e['range_hours'][1]:.1f} h). {e['caveat']}", ""]
     for j in report["jobs"]:
-        if not (j["hand_work"] or j["notes"] or j["counters"] or j["findings"] or j["aggregates"] or j["inputs"]):
+        if not (j["hand_work"] or j["notes"] or j["counters"] or j["findings"] or j["aggregates"] or j["inputs"]
+                or j["side_tables"]):
             continue
         out += [f"## {j['name']} ({j['status']})", ""]
         for h in j["hand_work"]:
@@ -134,6 +136,9 @@ def to_markdown(report: dict) -> str:
                     f"  - to decide: {f['suggestion']}"]
         for i in j["inputs"]:
             out.append(f"- input `{i['argument']}` read as {i['format']}, mapped by `{i['mapper']}`")
+        for t in j["side_tables"]:
+            out.append(f"- side file `{t['argument']}` read in setup() (`{t['file']}:{t['line']}`) into the "
+                       f"{t['java_type']} `{t['field']}`; looked up per record: a broadcast left join")
         for side in (j["join"] or {}).get("sides", []):
             out.append(f"- join side `{side['name']}` (`{side['file']}:{side['line']}` `{side['java']}`): "
                        f"{side['kind']}")
@@ -155,6 +160,12 @@ def to_markdown(report: dict) -> str:
 def inputs_of(job) -> list[dict]:
     """MultipleInputs: each input's script argument, format and mapper (the pipeline's first steps)."""
     return [{"argument": b.source.params[0], "format": b.source.fmt, "mapper": b.mapper} for b in job.plan.branches]
+
+
+def side_tables_of(job) -> list[dict]:
+    """Map-side joins: each side file, where setup() reads it, and the field it fills."""
+    return [{"argument": t.param, "field": t.field, "java_type": "HashSet" if t.kind == "set" else "HashMap",
+             "file": t.origin.file, "line": t.origin.line_start} for t in job.plan.tables]
 
 
 def join_of(job) -> dict | None:

@@ -1,0 +1,58 @@
+package net.quillfield.docks;
+
+import java.io.BufferedReader;
+import java.io.FileReader;
+import java.io.IOException;
+import java.net.URI;
+import java.util.HashMap;
+
+import org.apache.hadoop.conf.Configuration;
+import org.apache.hadoop.fs.Path;
+import org.apache.hadoop.io.LongWritable;
+import org.apache.hadoop.io.Text;
+import org.apache.hadoop.mapreduce.Job;
+import org.apache.hadoop.mapreduce.Mapper;
+import org.apache.hadoop.mapreduce.lib.input.FileInputFormat;
+import org.apache.hadoop.mapreduce.lib.output.FileOutputFormat;
+
+/** Each dock report with its zone; a missing zone file is ignored (empty table). */
+public class ZoneSwallowed {
+    public static class ZoneMapper extends Mapper<LongWritable, Text, Text, Text> {
+        private HashMap<String, String> zones = new HashMap<>();
+
+        @Override
+        protected void setup(Context context) {
+            try (BufferedReader in = new BufferedReader(new FileReader("zones"))) {
+                String line;
+                while ((line = in.readLine()) != null) {
+                    String[] kv = line.split(",", 2);
+                    zones.put(kv[0], kv[1]);
+                }
+            } catch (IOException e) {
+                System.err.println("no zone list: " + e);
+            }
+        }
+
+        @Override
+        protected void map(LongWritable offset, Text value, Context context) throws IOException, InterruptedException {
+            String[] f = value.toString().split("\t");
+            String zone = zones.get(f[0]);
+            if (zone == null) {
+                return;
+            }
+            context.write(new Text(zone), new Text(f[0] + ":" + zone.toLowerCase()));
+        }
+    }
+
+    public static void main(String[] args) throws Exception {
+        Job job = Job.getInstance(new Configuration(), "zone of dock");
+        job.setMapperClass(ZoneMapper.class);
+        job.setNumReduceTasks(0);
+        job.setOutputKeyClass(Text.class);
+        job.setOutputValueClass(Text.class);
+        job.addCacheFile(new URI(args[2] + "#zones"));
+        FileInputFormat.addInputPath(job, new Path(args[0]));
+        FileOutputFormat.setOutputPath(job, new Path(args[1]));
+        System.exit(job.waitForCompletion(true) ? 0 : 1);
+    }
+}
