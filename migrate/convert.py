@@ -73,10 +73,20 @@ class _Writer:
 
 
 def summary(job: JobResult) -> str:
-    """One sentence on what the job computes, from its plan."""
+    """One sentence on what the job computes, from its plan (for a chain: each job's)."""
     p = job.plan
+    if p.upstream:
+        plans = [st.plan for st in p.upstream] + [p]
+        what = "; ".join(f"job {i}: {_what(q, q.reduce is None and not q.sink.sorted_by_key)}"
+                         for i, q in enumerate(plans, 1))
+        return f"{len(plans)} jobs in a chain, each reading the output of the one before — {what}."
+    shapes = f" Shapes: {', '.join(p.shapes)}." if p.shapes else ""
+    return _what(p, job.spec.reduces == 0) + "." + shapes
+
+
+def _what(p, map_only: bool) -> str:
     r = p.reduce
-    if r is None and p.sink.sorted_by_key is False and job.spec.reduces == 0:
+    if r is None and p.sink.sorted_by_key is False and map_only:
         what = "a map-only job: each input line becomes zero or more output lines"
     elif isinstance(r, Group) and r.distinct:
         what = "the distinct keys the mapper emits, sorted"
@@ -98,13 +108,15 @@ def summary(job: JobResult) -> str:
         what = "the mapper's pairs sorted by key"
     else:
         what = "not determined: the reduce side needs hand work"
-    shapes = f" Shapes: {', '.join(p.shapes)}." if p.shapes else ""
-    return what + "." + shapes
+    return what
 
 
 def header_for(job: JobResult, script: str) -> dict:
     classes = []
-    for role in ("driver", "mapper", "combiner", "reducer", "partitioner", "sort_comparator", "grouping_comparator"):
+    roles = ("driver", "mapper", "combiner", "reducer", "partitioner", "sort_comparator", "grouping_comparator")
+    if job.plan.upstream:  # a chain: "job 1 mapper", "job 2 reducer", ...
+        roles = tuple(job.classes)
+    for role in roles:
         fq = job.classes.get(role)
         if fq:
             span = job.files.get(role)
@@ -145,8 +157,26 @@ def write_outputs(scan: RepoScan, out: Path, root_label: str, force: bool = Fals
         written.append((job, writer.write(name, text)))
         if progress:
             progress(job)
-    report = build_report(written, errors, root_label)
+    base = scan.root if scan.root.is_dir() else scan.root.parent  # the job files' paths start here
+    report = build_report(written, errors, root_label, str(base))
     writer.write("report.json", to_json(report))
     writer.write("report.md", to_markdown(report))
     writer.close()
     return Written(written, report, writer.kept)
+
+
+def record_checks(out: Path, report: dict, checks) -> list[tuple[str, str]]:
+    """Put `mrlift verify`'s verdicts into report.json and report.md (never over a file the user
+    edited: the new version then goes beside it). Returns the files kept."""
+    by_script = {c.script: c for c in checks}
+    for j in report["jobs"]:
+        c = by_script.get(j["script"])
+        if c is not None:
+            j["verification"] = c.for_report()
+    report["summary"]["verified"] = sum(1 for j in report["jobs"]
+                                        if (j.get("verification") or {}).get("verdict") == "agrees")
+    writer = _Writer(out)
+    writer.write("report.json", to_json(report))
+    writer.write("report.md", to_markdown(report))
+    writer.close()
+    return writer.kept

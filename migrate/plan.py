@@ -399,7 +399,7 @@ class Identity(Step):
 # chaining) leave the output right but the job incomplete; an unsound combiner leaves the script
 # computing the true answer where the original's depended on how often the combiner ran.
 ADVISORY_CATEGORIES = {"counter", "output-layout", "partitioner", "chained-jobs", "driver", "input-output-options",
-                       "combiner"}  # the script computes the reducer over all values: the true answer
+                       "combiner", "after-job"}  # the script computes the reducer over all values: the true answer
 
 
 @dataclass(frozen=True)
@@ -442,6 +442,7 @@ class Source:
     file_name: bool = False  # the mapper reads its input split's file name
     origin: Span = NO_SPAN
     kv_separator: str = "\t"  # KeyValueTextInputFormat: the line is split at its first occurrence
+    upstream: int | None = None  # a chained job: reads the lines of Plan.upstream[i] (params is empty)
 
 
 @dataclass(frozen=True)
@@ -482,6 +483,18 @@ class Param:
 
 
 @dataclass(frozen=True)
+class Stage:
+    """An earlier job of a chain in one driver: its plan, and the folder the driver wrote its
+    output to and the next job read (the script passes the lines on; it writes the folder only
+    when asked to keep intermediates)."""
+
+    plan: Plan
+    output: Param
+    origin: Span  # the driver line that submits the job
+    readers: int = 1  # how many later jobs read this output
+
+
+@dataclass(frozen=True)
 class Plan:
     """A whole job: source → map steps → optional group → sink, plus what needs hand work."""
 
@@ -497,6 +510,7 @@ class Plan:
     findings: tuple[Finding, ...] = ()
     branches: tuple[Branch, ...] = ()  # MultipleInputs: each input with its own mapper (map_steps is empty)
     tables: tuple[SideTable, ...] = ()  # side files the mappers look rows up in
+    upstream: tuple["Stage", ...] = ()  # chained jobs: the earlier jobs of the driver, in order
 
     def __post_init__(self) -> None:
         if not self.map_steps or not isinstance(self.map_steps[-1], Project):
@@ -560,6 +574,11 @@ def dump_plan(plan: Plan) -> str:
     """An indented, one-node-a-line text form of a plan."""
     out = [f"Plan {plan.job_name}", f"  Source {plan.source.fmt} <- {', '.join(plan.source.params)}"
            + (" (skip first line of each file)" if plan.source.skip_first_line else "")]
+    for i, st in enumerate(plan.upstream, 1):
+        out.append(f"  Job {i} of the chain -> {st.output.name}")
+        out.extend("  " + line for line in dump_plan(st.plan).splitlines())
+    if plan.source.upstream is not None:
+        out.append(f"  Reads the lines of job {plan.source.upstream + 1}")
     for t in plan.tables:
         out.append(f"  SideTable {t.name} ({t.kind} {t.key_type}->{t.value_type}) <- cache file {t.cache_file!r}"
                    + (f" ({t.param})" if t.param else ""))

@@ -10,6 +10,7 @@ from migrate.java.index import ClassIndex
 from migrate.java.roles import classify
 from migrate.java.source import ParsedFile, ParseFailure, find_java_files, read_java
 from migrate.lift.exprs import Unsupported
+from migrate.lift.chain import chain_jobs
 from migrate.lift.job import JobResult, plan_job
 
 
@@ -60,6 +61,7 @@ def scan_repo(root: Path, progress=None) -> RepoScan:
                                        f"could not plan job {spec.name!r}: {type(exc).__name__}: {exc}"))
             continue
         scan.jobs.append(job)
+    scan.jobs = chain_jobs(scan.jobs)  # jobs that read the folder the one before wrote: one script
     return scan
 
 

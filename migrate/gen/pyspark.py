@@ -8,7 +8,7 @@ from pathlib import Path
 import black
 import jinja2
 
-from migrate.plan import (walk, INTEGRAL, Agg, AggRef, Arith, BoolOp, Call, Cast, Col, Compare, Cond, ConfValue, Count, EachValue, Emit, Explode, Expr, Filter, Group, HandWork, Identity, Join, Let, Lit, Lookup, Plan, Project, SideTable, Source, Step, StructNew, TopN, TopPerKey, Field)
+from migrate.plan import (walk, INTEGRAL, Agg, AggRef, Arith, BoolOp, Call, Cast, Col, Compare, Cond, ConfValue, Count, EachValue, Emit, Explode, Expr, Filter, Group, HandWork, Identity, Join, Let, Lit, Lookup, Plan, Project, SideTable, Source, Stage, Step, StructNew, TopN, TopPerKey, Field)
 
 SPARK_TYPES = {"int": "int", "long": "bigint", "double": "double", "float": "float", "boolean": "boolean",
                "String": "string"}
@@ -439,6 +439,9 @@ def _read_code(src: Source, var: str, x: ExprWriter, parts: ScriptParts) -> list
     else:
         paths = ", ".join(src.params)
         read = f"spark.read.text([{paths}])" if len(src.params) > 1 else f"spark.read.text({paths})"
+    if src.upstream is not None:
+        read = f"job_{src.upstream + 1}_lines"
+        out.append(f"# the lines job {src.upstream + 1} wrote to the folder this job read (passed on, not re-read)")
     if src.fmt == "keyvalue":
         sep = src.kv_separator
         shown = "TAB" if sep == "\t" else repr(sep)
@@ -496,7 +499,12 @@ def _lookup_code(s: Lookup, x: ExprWriter, where: str) -> list[str]:
 
 def _map_code(steps: tuple[Step, ...], source: str, var: str, x: ExprWriter) -> list[str]:
     """The map steps as one chain from `source` into `var`."""
-    chain = [c for s in steps for c in _step_code(s, x)]
+    chain = []
+    for i, s in enumerate(steps):
+        code = _step_code(s, x)
+        if isinstance(s, Project) and i + 1 < len(steps):  # ChainMapper: the next mapper reads these rows
+            code = [c.replace("(map output: key, value)", "(to the next chained mapper: key, value)") for c in code]
+        chain += code
     map_file = steps[0].origin.file.rsplit("/", 1)[-1] if steps else ""
     return ["", f"# Map side: narrow, row by row (no shuffle){' — ' + map_file if map_file else ''}",
             f"{var} = (", f"    {source}", *("    " + c for c in chain), ")"]
@@ -808,29 +816,56 @@ def render_script(plan: Plan, header: dict, hand_work: list[HandWork]) -> str:
     parts = build_body(plan, x)
     from migrate.gen.helpers import helper_source
 
-    helpers = helper_source(x.helpers) if x.helpers else ""
-    uses_window = parts.uses_window
+    stages = [_stage(st, i, plan.upstream[i].plan if i + 1 < len(plan.upstream) else plan)
+              for i, st in enumerate(plan.upstream)]
+    writers = [x, *(st["x"] for st in stages)]
+    used = set().union(*(w.helpers for w in writers))
+    helpers = helper_source(used) if used else ""
     positional = sorted([p for p in plan.params if p.position is not None], key=lambda p: p.position)
     slots = []
     for i in range(max([p.position for p in positional], default=-1) + 1):
         found = [p for p in positional if p.position == i]
         slots.append(found[0] if found else None)
+    build_args, build_call = _signature(plan, x)
     text = _ENV.get_template("job.py.j2").render(
-        plan=plan, header=header, body=parts.body, helpers=helpers, uses_window=uses_window,
+        plan=plan, header=header, body=parts.body, helpers=helpers,
+        uses_window=parts.uses_window or any(st["uses_window"] for st in stages),
         slots=slots, options=[p for p in plan.params if p.position is None], sink=plan.sink,
-        build_args=", ".join(f"{p}: str" for p in (*plan.source.params, *(t.param for t in plan.tables)))
-        + (", conf: dict[str, str] | None = None" if x.settings else "")
-        + (", counters: HadoopCounters | None = None" if x.counters else ""),
-        hand_work=hand_work,
-        build_call=", ".join(f"args.{p}" for p in (*plan.source.params, *(t.param for t in plan.tables)))
-        + (", conf=settings(args.defines)" if x.settings else "") + (", counters=counters" if x.counters else ""),
-        counters=x.counters, dates=x.dates,
+        build_args=build_args, build_call=build_call, hand_work=hand_work, stages=stages,
+        counters=any(w.counters for w in writers), dates=any(w.dates for w in writers),
         sort_columns=sort_columns(plan),
         tasks=_tasks(plan),
         sort_note=("cleanup() wrote the kept entries in map order, one reduce task after another: the same here"
                    if isinstance(plan.reduce, TopN) else "One reducer wrote one file sorted by key: the same here"),
     )
     return format_code(text)
+
+
+def _signature(plan: Plan, x: ExprWriter) -> tuple[str, str]:
+    """build()'s parameters and the call main() makes: input paths (or the previous job's lines),
+    side files, settings, counters."""
+    paths = (*plan.source.params, *(t.param for t in plan.tables))
+    upstream = [f"job_{plan.source.upstream + 1}_lines"] if plan.source.upstream is not None else []
+    args = ", ".join([*(f"{u}: DataFrame" for u in upstream), *(f"{p}: str" for p in paths)])
+    call = ", ".join([*upstream, *(f"args.{p}" for p in paths)])
+    if x.settings:
+        args, call = args + ", conf: dict[str, str] | None = None", call + ", conf=settings(args.defines)"
+    if x.counters:
+        args, call = args + ", counters: HadoopCounters | None = None", call + ", counters=counters"
+    return args, call
+
+
+def _stage(st: Stage, i: int, reader: Plan) -> dict:
+    """What the template needs for job i+1 of a chain: its build() and the lines it hands on."""
+    x = ExprWriter()
+    parts = build_body(st.plan, x)
+    args, call = _signature(st.plan, x)
+    sink = st.plan.sink
+    order = f"result.repartition(1).sortWithinPartitions({', '.join(sort_columns(st.plan))})" \
+        if sink.sorted_by_key else "result"
+    return {"n": i + 1, "plan": st.plan, "body": parts.body, "x": x, "uses_window": parts.uses_window,
+            "build_args": args, "build_call": call, "output": st.output.name, "sink": sink, "order": order,
+            "where": _where(st.origin), "in_order": not reader.sink.sorted_by_key}
 
 
 def _tasks(plan: Plan) -> int:

@@ -30,6 +30,17 @@ class CacheFile:
     link: str | None = None
 
 
+@dataclass(frozen=True)
+class ChainLink:
+    """One class of a ChainMapper / ChainReducer chain with the key/value classes it declares."""
+
+    role: str  # "map" (ChainMapper.addMapper), "reduce" (ChainReducer.setReducer), "map-after" (ChainReducer.addMapper)
+    cls: str
+    types: tuple[str, str, str, str]  # input key, input value, output key, output value (fully qualified)
+    line: int
+    own_conf: bool  # the link gets a Configuration with settings of its own
+
+
 @dataclass
 class JobSpec:
     """What a driver configures for one MapReduce job."""
@@ -54,6 +65,8 @@ class JobSpec:
     extra: list[tuple[str, int, str]] = field(default_factory=list)  # (category, line, text) needing hand work
     # MultipleInputs.addInputPath: one (path, input format, mapper) per input, each with its own mapper
     branches: list[tuple[PathRef, str, str, int]] = field(default_factory=list)  # (path, format, mapper, line)
+    # ChainMapper.addMapper / ChainReducer.setReducer / ChainReducer.addMapper, in call order
+    chain: list[ChainLink] = field(default_factory=list)
     # job.addCacheFile / DistributedCache.addCacheFile, in order: what getCacheFiles()[i] is in a task
     cache_files: list[CacheFile] = field(default_factory=list)
 
@@ -84,6 +97,8 @@ _HARMLESS = {"setJarByClass", "setJar", "waitForCompletion", "submit", "setJobNa
              "exists", "monitorAndPrintJob", "setSpeculativeExecution", "setMapSpeculativeExecution",
              "setReduceSpeculativeExecution", "printUsage", "printGenericCommandUsage", "setConf", "getConf",
              "isSuccessful", "currentTimeMillis"}
+# Calls that read what a finished job left: its counters, or files (its output) opened by the driver.
+_AFTER_JOB = {"getCounters", "open", "listStatus", "globStatus", "getJobState"}
 _CHAIN_CALLS = {"addInputPath": "MultipleInputs", "addNamedOutput": "MultipleOutputs"}
 
 
@@ -166,6 +181,7 @@ class _DriverReader:
             else:
                 self._value(e, None)
         elif isinstance(s, T.IfStatement):
+            self._value(s.condition, None)  # `if (!job.waitForCompletion(true))` submits the job
             if not _exits(s.then_statement):
                 self._stmt(s.then_statement)
             if s.else_statement is not None:
@@ -210,6 +226,8 @@ class _DriverReader:
                 return got
             if tname in ("Configuration",):
                 return ("conf",)
+            for a in e.arguments or []:  # `new BufferedReader(new InputStreamReader(fs.open(…)))` reads a file
+                self._value(a, None)
             for sel in e.selectors or []:
                 if isinstance(sel, T.MethodInvocation):
                     return self._call(("obj", tname), sel, e)
@@ -224,6 +242,7 @@ class _DriverReader:
                 return ("str", l[1] + r[1])
             return ("unknown", "expression")
         if isinstance(e, T.TernaryExpression):
+            self._value(e.condition, None)  # `job.waitForCompletion(true) ? 0 : 1` submits the job
             return ("unknown", "conditional")
         return ("unknown", type(e).__name__)
 
@@ -248,6 +267,14 @@ class _DriverReader:
         line = _line(where)
         if m == "getInstance" and recv == ("static", "Job") or (m == "getInstance" and recv[1:] == ("Job",)):
             return self._new_job(where, None, args)
+        if m in _AFTER_JOB and self.submitted and (recv[0] == "job" or m != "getCounters"):
+            # the driver reads the job's counters or its output back: a figure the script does not compute
+            spec = self.specs[recv[1]] if recv[0] == "job" else self.specs[self.submitted[-1]]
+            spec.extra.append(("after-job", line, f"`{m}(...)` after the job ran"))
+            return ("unknown", m)
+        if m == "exit" and recv == ("static", "System") and args:
+            self._value(args[0], None)  # `System.exit(job.waitForCompletion(true) ? 0 : 1)`
+            return ("unknown", m)
         if m == "getRemainingArgs" and recv[0] == "gop":
             return ("args",)
         if m in ("getConf", "getConfiguration") or recv[0] == "static" and m == "create" and recv[1] == "HBaseConfiguration":
@@ -268,9 +295,11 @@ class _DriverReader:
         if m == "runJob" and recv == ("static", "JobClient") and args:
             j = self._value(args[0], None)
             if j[0] == "job":
+                self.specs[j[1]].call_lines.setdefault("runJob", line)
                 self._submit(j[1])
             return ("unknown", "running job")
         if m in ("waitForCompletion", "submit") and recv[0] == "job":
+            self.specs[recv[1]].call_lines.setdefault(m, line)
             self._submit(recv[1])
             return ("unknown", "bool")
         if m == "delete" and args:
@@ -295,6 +324,20 @@ class _DriverReader:
             spec = self.specs.get(c[1]) if c[0] == "job" else self._only_spec() if c[0] == "conf" else None
             if spec is not None:
                 spec.cache_files.append(self._cache_file(args[0], line))
+                return ("unknown", m)
+        if recv[0] == "static" and recv[1].split(".")[-1] in ("ChainMapper", "ChainReducer") and len(args) in (7, 8):
+            j = self._value(args[0], None)
+            if m in ("addMapper", "setReducer") and j[0] == "job":
+                role = "reduce" if m == "setReducer" else "map" if recv[1].endswith("ChainMapper") else "map-after"
+                types = tuple(self._class_arg(a) for a in args[2:6])
+                spec = self.specs[j[1]]
+                spec.chain.append(ChainLink(role, self._class_arg(args[1]), types, line, not _empty_conf(args[-1])))
+                if role == "map":  # the chain's map output is the last mapper's (ChainMapper sets the job's types)
+                    spec.types["map_key"], spec.types["map_value"] = types[2], types[3]
+                elif role == "reduce":
+                    spec.classes["reducer"] = spec.chain[-1].cls
+                    spec.types.setdefault("out_key", types[2])
+                    spec.types.setdefault("out_value", types[3])
                 return ("unknown", m)
         if recv[0] == "static" and recv[1].split(".")[-1] in ("MultipleInputs", "MultipleOutputs", "ChainMapper",
                                                                "ChainReducer", "DistributedCache", "JobControl"):
@@ -460,6 +503,14 @@ class _DriverReader:
         if v[0] == "str":
             return PathRef("literal", literal=v[1])
         return PathRef("unknown", text=str(v[1]))
+
+
+def _empty_conf(e) -> bool:
+    """`null`, `new Configuration(false)`, `new JobConf(false)`: the link adds no settings of its own."""
+    if isinstance(e, T.Literal) and e.value == "null":
+        return True
+    return isinstance(e, T.ClassCreator) and e.type.name in ("Configuration", "JobConf") and \
+        [getattr(a, "value", None) for a in e.arguments or []] == ["false"]
 
 
 def _exits(stmt) -> bool:

@@ -139,7 +139,11 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
     combining: list[str] = []  # Map fields of in-mapper combining, flushed in cleanup()
     branches: list[Branch] = []
     tables: list[SideTable] = []  # side files the mappers load in setup() and look keys up in
-    if spec.branches:
+    _chain_hand_work(spec, add)
+    if any(c.role == "map" for c in spec.chain):
+        steps, skip_first = _chained_maps(spec, index, fmt, hand, notes, add, combining, tables, structs)
+        shapes.append(f"{sum(c.role == 'map' for c in spec.chain)} chained mappers")
+    elif spec.branches:
         branches = _branches(spec, index, input_params[len(spec.inputs):], kv_sep, hand, notes, add, combining, tables)
         shapes.append(f"{len(branches)} inputs, one mapper each")
     elif mcls is not None and "mapper" in mcls.roles:
@@ -293,13 +297,15 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
 EXTRA_ADVICE = {
     "side-files": "a side file read in setup(): read it with spark.read and join it with F.broadcast(side) on the "
                   "looked-up key, keeping the Java rule for a miss (skip the record, a default, or pass it through)",
-    "chained-maps": "apply each chained mapper's steps one after another on the same DataFrame (one select per "
-                    "mapper), with the chained reducer's groupBy between the maps before and after it",
+    "chained-maps": "apply the mapper's steps to the reducer's rows (a select after the groupBy); the lines keep "
+                    "the reducer's key order, not the order of the key the mapper writes",
     "named-outputs": "write each named output with its own result.where(...).write into <output>/<name>; where the "
                      "names come from the data, write.partitionBy(the name column)",
     "multiple-inputs": "read each input with its format, map it, and unionByName the mapped DataFrames",
     "chained-jobs": "chain the jobs' DataFrames in one script; write an intermediate folder only if something "
                     "else reads it",
+    "after-job": "compute the same figure in main() from the result DataFrame (result.count(), result.agg(...)) or "
+                 "read the written folder back with spark.read.text; the job's own output is already right",
     "input-output-options": "pass the same option to Spark's reader (pathGlobFilter, recursiveFileLookup) or filter "
                             "the input paths by hand",
 }
@@ -336,6 +342,46 @@ def _branches(spec: JobSpec, index: ClassIndex, params: list[str], kv_sep: str, 
         source = Source((param,), fmt or "text", skip_first, (ref.split_commas,), _reads_file_name(steps), where, kv_sep)
         out.append(Branch(source, tuple(steps), mapper_fq))
     return out
+
+
+def _chained_maps(spec: JobSpec, index: ClassIndex, fmt: str, hand: list[HandWork], notes: list[str], add,
+                  combining: list[str], tables: list[SideTable], structs: dict) -> tuple[list[Step], bool]:
+    """ChainMapper: each mapper's steps after the previous one's, its input the previous output."""
+    drv = spec.driver.file.path
+    steps: list[Step] = []
+    skip_first = False
+    maps = [c for c in spec.chain if c.role == "map"]
+    for i, c in enumerate(maps):
+        mcls = index.get(c.cls)
+        if mcls is None or "mapper" not in mcls.roles:
+            add("missing-source", Span(drv, c.line, c.line), f"chained mapper {c.cls} is not in the repository",
+                "add its source to the scanned folder", "P2")
+            return [], False
+        in_types = None if i == 0 else (_jtype(c.types[0], structs), _jtype(c.types[1], structs))
+        if in_types is not None and "?" in in_types:
+            add("custom-writable", Span(drv, c.line, c.line), "a chained mapper's input is a custom Writable",
+                "model its fields as struct columns", "P1")
+            return [], False
+        own, skip = _lift_mapper(mcls, fmt, hand, notes, index, spec.conf, combining, tables, in_types)
+        if not own:
+            return steps, skip_first
+        # what the next mapper (or the shuffle) reads must be what this one writes
+        _check_map_output_types(own, _jtype(c.types[2], structs), _jtype(c.types[3], structs), mcls, add)
+        skip_first = skip_first or (skip and i == 0)
+        steps += own
+    return steps, skip_first
+
+
+def _chain_hand_work(spec: JobSpec, add) -> None:
+    """What of a ChainMapper / ChainReducer chain is not converted."""
+    for c in spec.chain:
+        where = Span(spec.driver.file.path, c.line, c.line)
+        if c.own_conf:
+            add("chained-maps", where, f"{c.cls.rsplit('.', 1)[-1]} gets a Configuration of its own in the chain; "
+                "its settings are not read", "pass the settings to the job's configuration, or read them by hand")
+        if c.role == "map-after":
+            add("chained-maps", where, "a mapper after the chained reducer (ChainReducer.addMapper) is not converted",
+                EXTRA_ADVICE["chained-maps"], "P2")
 
 
 def _side_tables(spec: JobSpec, tables: list[SideTable], params: list[Param], add) -> list[SideTable]:
@@ -579,7 +625,10 @@ def _method_hand_work(owner: ClassInfo, m, category: str, reason: str, suggestio
 
 
 def _lift_mapper(mcls: ClassInfo, fmt: str, hand: list[HandWork], notes: list[str], index: ClassIndex,
-                 driver_conf: dict[str, str], combining_fields: list[str], tables: list[SideTable]):
+                 driver_conf: dict[str, str], combining_fields: list[str], tables: list[SideTable],
+                 in_types: tuple[str, str] | None = None):
+    """map() as steps; `in_types`: the (key, value) types of a chained mapper's input, which is the
+    previous mapper's output (else the input format's record)."""
     owner, m = _find_method(mcls, index, "map", (3, 4))
     if m is None:
         hand.append(HandWork("map-logic", mcls.span, f"{mcls.name} has no map() method the converter could find",
@@ -603,8 +652,8 @@ def _lift_mapper(mcls: ClassInfo, fmt: str, hand: list[HandWork], notes: list[st
                              owner.file.lines[line - 1].strip() if line else "", "P1", 1))
     unread = {f: Opaque(f"the side table filled in setup(), whose read was not lifted (line {side.problems[0][0]})")
               for f in side.filled - set(side.tables)} if side.problems else {}
-    lifter = MapBodyLifter(owner, m, "String" if fmt == "keyvalue" else "offset", "String", owner.api or "mapreduce",
-                           index, {**settings, **unread, **side.tables})
+    key_t, val_t = in_types or ("String" if fmt == "keyvalue" else "offset", "String")
+    lifter = MapBodyLifter(owner, m, key_t, val_t, owner.api or "mapreduce", index, {**settings, **unread, **side.tables})
     res = lifter.run()
     tables.extend(t for t in res.tables if t not in tables)
     notes.extend(n for n in side.notes if res.tables and n not in notes)

@@ -126,13 +126,13 @@ class MapBodyLifter:
         env.update(settings or {})  # fields set once per task from the job configuration
         params = [p.name for p in method.parameters]
         self.key_param = params[0] if params else None
-        if len(params) >= 2:
-            env[params[1]] = Col("String", "value")
-        if key_type == "String" and params:
-            env[params[0]] = Col("String", "key")
+        if len(params) >= 2:  # a line (Text), or a chained mapper's input value
+            env[params[1]] = Col(value_type, "value") if value_type != "null" else Opaque("a NullWritable")
+        if key_type not in ("offset", "null") and params:  # KeyValueTextInputFormat's key, or a chained mapper's
+            env[params[0]] = Col(key_type, "key")
             self.columns.add("key")
         elif params:
-            env[params[0]] = Opaque("the byte offset of the line")
+            env[params[0]] = Opaque("the byte offset of the line" if key_type == "offset" else "a NullWritable")
         self.emit_target = params[2] if len(params) >= 3 else None
         for p in params[2:]:
             env[p] = Opaque("the task context")

@@ -19,7 +19,8 @@ def job_effort(job: JobResult, name: str) -> JobEffort:
     return JobEffort(name, job.sloc_total, tuple((h.profile, h.sloc) for h in job.plan.hand_work))
 
 
-def build_report(jobs: list[tuple[JobResult, str]], errors: list[ParseFailure], root_label: str) -> dict:
+def build_report(jobs: list[tuple[JobResult, str]], errors: list[ParseFailure], root_label: str,
+                 source: str | None = None) -> dict:
     """The report as plain data (what report.json holds)."""
     efforts = [job_effort(j, script) for j, script in jobs]
     est = repository_hours(efforts)
@@ -47,7 +48,10 @@ def build_report(jobs: list[tuple[JobResult, str]], errors: list[ParseFailure], 
             "inputs": inputs_of(job),
             "join": join_of(job),
             "side_tables": side_tables_of(job),
+            "chain": chain_of(job),
             "counters": counters_of(job),
+            "comparison": comparison_of(job),  # what `mrlift verify` may compare: what the original defines
+            "verification": None,  # filled by `mrlift verify`
             "sloc": {"total": eff.sloc_total, "automatic": eff.sloc_auto, "hand": eff.sloc_manual},
             "effort_hours": round(est["jobs"][script], 2),
         })
@@ -55,6 +59,7 @@ def build_report(jobs: list[tuple[JobResult, str]], errors: list[ParseFailure], 
     return {
         "tool": "mrlift",
         "repository": root_label,
+        "source": source,  # the legacy sources, for `mrlift verify` to compile
         "warning": VERIFY_WARNING,
         "summary": {"jobs": len(out_jobs), **counts, "errors": len(errors)},
         "jobs": out_jobs,
@@ -114,17 +119,17 @@ def to_markdown(report: dict) -> str:
            f"> **{report['warning']}**", "",
            f"{s['jobs']} jobs: {s['converted']} converted, {s['partial']} partial, {s['not_converted']} not converted; "
            f"{s['errors']} file(s) could not be read.", "",
-           "| job | driver | script | status | shapes | hand-work items | effort (h) |",
-           "|---|---|---|---|---|---|---|"]
+           "| job | driver | script | status | checked against Hadoop | shapes | hand-work items | effort (h) |",
+           "|---|---|---|---|---|---|---|---|"]
     for j in report["jobs"]:
-        out.append(f"| {j['name']} | `{j['driver']}` | `{j['script']}` | {j['status']} | {', '.join(j['shapes'])} | "
-                   f"{len(j['hand_work'])} | {j['effort_hours']:.1f} |")
+        out.append(f"| {j['name']} | `{j['driver']}` | `{j['script']}` | {j['status']} | {checked_label(j)} | "
+                   f"{', '.join(j['shapes'])} | {len(j['hand_work'])} | {j['effort_hours']:.1f} |")
     e = report["effort"]
     out += ["", f"Estimated effort for the repository: **{e['hours']:.1f} h** "
                 f"(range {e['range_hours'][0]:.1f} to {e['range_hours'][1]:.1f} h). {e['caveat']}", ""]
     for j in report["jobs"]:
         if not (j["hand_work"] or j["notes"] or j["counters"] or j["findings"] or j["aggregates"] or j["inputs"]
-                or j["side_tables"]):
+                or j["side_tables"] or j["chain"]):
             continue
         out += [f"## {j['name']} ({j['status']})", ""]
         for h in j["hand_work"]:
@@ -136,6 +141,8 @@ def to_markdown(report: dict) -> str:
                     f"  - to decide: {f['suggestion']}"]
         for i in j["inputs"]:
             out.append(f"- input `{i['argument']}` read as {i['format']}, mapped by `{i['mapper']}`")
+        for c in j["chain"]:
+            out.append(f"- job {c['job']} `{c['name']}` reads {c['reads']} and writes {c['writes']}")
         for t in j["side_tables"]:
             out.append(f"- side file `{t['argument']}` read in setup() (`{t['file']}:{t['line']}`) into the "
                        f"{t['java_type']} `{t['field']}`; looked up per record: a broadcast left join")
@@ -157,9 +164,46 @@ def to_markdown(report: dict) -> str:
     return "\n".join(out)
 
 
+def checked_label(j: dict) -> str:
+    """A job's verification in a few words; a converted job without a passing check is unverified."""
+    v = j.get("verification")
+    if not v or v["verdict"] == "skipped":
+        return "unverified" + (f" ({v['detail']})" if v else "")
+    if v["verdict"] == "agrees":
+        return f"agrees ({v['detail']}; data {v['data']}, {v['checked_at']})"
+    return f"**{v['verdict']}**: {v['detail']} ({v['checked_at']})"
+
+
+def comparison_of(job) -> str:
+    """How far the original defines its output: bytes, lines within a key, lines, or keys only."""
+    from migrate.plan import EachValue, Identity
+
+    cats = {h.category for h in job.plan.hand_work}
+    if "combiner" in cats:
+        return "keys"  # the original's values depended on how often its combiner ran
+    if "output-layout" in cats:
+        return "lines"
+    if isinstance(job.plan.reduce, (Join, EachValue, Identity)):
+        return "within-key"
+    return "bytes"
+
+
 def inputs_of(job) -> list[dict]:
     """MultipleInputs: each input's script argument, format and mapper (the pipeline's first steps)."""
     return [{"argument": b.source.params[0], "format": b.source.fmt, "mapper": b.mapper} for b in job.plan.branches]
+
+
+def chain_of(job) -> list[dict]:
+    """Chained jobs: each job, what it reads and where its output goes."""
+    plans = [st.plan for st in job.plan.upstream]
+    if not plans:
+        return []
+    plans.append(job.plan)
+    outs = [f"`{st.output.name}` (passed on in memory; written with --keep-intermediates)" for st in job.plan.upstream]
+    outs.append(f"`{job.plan.sink.param}`")
+    return [{"job": k, "name": q.job_name, "writes": outs[k - 1],
+             "reads": f"job {q.source.upstream + 1}'s lines" if q.source.upstream is not None
+             else ", ".join(f"`{x}`" for x in q.source.params)} for k, q in enumerate(plans, 1)]
 
 
 def side_tables_of(job) -> list[dict]:

@@ -42,14 +42,26 @@ def test_converted_job_matches_hadoop_output(run, converted_samples, hadoop_clas
     if job["status"] != "converted" and not (keys_only or lines_only):
         pytest.skip(f"{job['name']} is {job['status']}; see test_partial_jobs_fail_loudly")
     hadoop_out, spark_out = tmp_path / "hadoop", tmp_path / "spark"
-    hadoop_args = [str(hadoop_out) if a == "@out" else a for a in run["args"]]
+    # "@out" is the output folder; "@tmp1", "@tmp2"... the folders where chained jobs hand over
+    hadoop_args = [str(hadoop_out) if a == "@out" else str(tmp_path / f"hadoop_{a[1:]}") if a.startswith("@tmp")
+                   else a for a in run["args"]]
     ran = run_job(hadoop_classes, run["driver"], hadoop_args, cwd=SAMPLES)
     assert ran.returncode == 0, ran.log[-4000:]
     script = load_script(out_dir / job["script"])
     # the same arguments as the Hadoop run, made absolute (Spark's JVM keeps its own working folder)
-    spark_args = [str(spark_out) if a == "@out" else ",".join(str(SAMPLES / p) for p in a.split(","))
-                  for a in run["args"]]
+    spark_args = [str(spark_out) if a == "@out" else str(tmp_path / f"spark_{a[1:]}") if a.startswith("@tmp")
+                  else ",".join(str(SAMPLES / p) for p in a.split(",")) for a in run["args"]]
     assert script.main(spark_args) == 0
+    for folder in run.get("intermediates", []):  # chained jobs: the script passes them on unwritten...
+        assert not (tmp_path / f"spark_{folder[1:]}").exists()
+    if run.get("intermediates"):  # ... and writes them when asked, the same as Hadoop's
+        kept = tmp_path / "spark_kept"
+        assert script.main([str(kept) if a == str(spark_out) else a for a in spark_args] + ["--keep-intermediates"]) == 0
+        for folder in run["intermediates"]:
+            same = compare_outputs(tmp_path / f"hadoop_{folder[1:]}", tmp_path / f"spark_{folder[1:]}")
+            assert same.original_lines > 0 and same.same, f"{folder}: {same.first_difference}"
+        kept_cmp = compare_outputs(hadoop_out, kept, within_key_any_order=run.get("values_order") == "undefined")
+        assert kept_cmp.same, kept_cmp.first_difference
     # where the original defines no order for a key's lines, runs.json says so and why
     if keys_only:
         assert job["status"] == "partial" and all(h["category"] in ADVISORY_CATEGORIES for h in job["hand_work"])

@@ -75,7 +75,7 @@ def test_same_package_classes_in_other_files_resolve(tmp_path):
     assert {c.fqcn: c.roles for c in scan.index}["p.B"] == {"mapper"}
 
 
-def test_chained_jobs_in_one_driver_are_each_planned_and_flagged(tmp_path):
+def test_chained_jobs_in_one_driver_become_one_pipeline(tmp_path):
     src = HEADER + """
 public class Two {
   public static void main(String[] args) throws Exception {
@@ -91,8 +91,18 @@ public class Two {
 }
 """
     scan = scan_text(tmp_path, {"Two.java": src})
+    assert [j.spec.name for j in scan.jobs] == ["first → second"]  # the second reads the first's folder
+    (job,) = scan.jobs
+    assert [st.plan.job_name for st in job.plan.upstream] == ["first"] and job.plan.source.upstream == 0
+    assert [(p.name, p.position) for p in job.plan.params] == [("input_path", 0), ("job_1_output", 1),
+                                                              ("output_path", 2)]
+    assert not any(h.category == "chained-jobs" for h in job.plan.hand_work)
+    # a folder computed at run time is not followed: one script per job, and the item says why
+    scan = scan_text(tmp_path, {"Two.java": src.replace("new Path(args[1]));\n    first", "new Path(args[1] + \"_t\"));\n    first")})
     assert [j.spec.name for j in scan.jobs] == ["first", "second"]
-    assert all(any(h.category == "chained-jobs" for h in j.plan.hand_work) for j in scan.jobs)
+    for j in scan.jobs:
+        (item,) = [h for h in j.plan.hand_work if h.category == "chained-jobs"]
+        assert "job 2 does not read exactly the folder job 1 writes" in item.reason
 
 
 def test_custom_writable_value_is_read_and_a_mismatched_write_is_named(tmp_path):

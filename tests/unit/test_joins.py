@@ -51,8 +51,8 @@ MAP = '    context.write(new Text(value.toString()), new IntWritable(1));'
 
 @pytest.mark.parametrize("call, category, advice", [
     ("job.addCacheFile(new java.net.URI(\"hdfs:///ref/stations.tsv\"));", "side-files", "F.broadcast"),
-    ("ChainMapper.addMapper(job, M.class, LongWritable.class, Text.class, Text.class, IntWritable.class, "
-     "new Configuration(false));", "chained-maps", "one after another"),
+    ("ChainReducer.addMapper(job, M.class, Text.class, IntWritable.class, Text.class, IntWritable.class, "
+     "new Configuration(false));", "chained-maps", "a select after the groupBy"),
     ("MultipleOutputs.addNamedOutput(job, \"late\", TextOutputFormat.class, Text.class, IntWritable.class);",
      "named-outputs", "<output>/<name>"),
     ("job.setInputFormatClass(SequenceFileInputFormat.class);", "input-format", "sequenceFile("),

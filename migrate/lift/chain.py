@@ -1,0 +1,125 @@
+"""Chain the jobs one driver runs in sequence, where each job reads the folder the one before wrote.
+
+Recognises: a driver that submits jobs one after another (`waitForCompletion`, `JobClient.runJob`)
+where job k's only input path is job k-1's output path (the same `args[i]` or the same literal).
+Produces: one JobResult whose plan is the last job's, with the earlier jobs as `Plan.upstream`
+stages; the last job (and each middle one) reads the lines the job before would have written, as
+a DataFrame: the intermediate folders are written only when the script is asked to keep them.
+Caveats: other shapes (a job reading two earlier outputs, an intermediate path computed at run
+time, an input that needs its file name or byte offsets, compressed intermediates) keep one
+script per job, with the chained-jobs item saying so.
+"""
+from __future__ import annotations
+
+from dataclasses import replace
+
+from migrate.java.driver import PathRef
+from migrate.lift.job import JobResult
+from migrate.plan import Param, Span, Stage
+
+CHAINED = "chained-jobs"
+
+
+def chain_jobs(results: list[JobResult]) -> list[JobResult]:
+    """The results with each chain of one driver's jobs folded into one pipeline result."""
+    out: list[JobResult] = []
+    i = 0
+    while i < len(results):
+        group = [results[i]]
+        while i + len(group) < len(results) and _same_driver(results[i + len(group)], group[0]):
+            group.append(results[i + len(group)])
+        i += len(group)
+        chained = _pipeline(group) if len(group) > 1 else None
+        out.extend([chained] if chained is not None else _kept_apart(group) if len(group) > 1 else group)
+    return out
+
+
+def _kept_apart(group: list[JobResult]) -> list[JobResult]:
+    """Jobs of one driver that stay one script each: their chained-jobs item says why."""
+    why = why_not_chained(group)
+    out = []
+    for job in group:
+        hand = tuple(replace(h, reason=f"the driver runs {len(group)} jobs in sequence; each is converted on its own "
+                                       f"because {why}") if h.category == CHAINED else h for h in job.plan.hand_work)
+        out.append(replace(job, plan=replace(job.plan, hand_work=hand)))
+    return out
+
+
+def _same_driver(a: JobResult, b: JobResult) -> bool:
+    return a.spec.driver.fqcn == b.spec.driver.fqcn and a.spec.method == b.spec.method
+
+
+def _same_path(a: PathRef | None, b: PathRef | None) -> bool:
+    return a is not None and b is not None and a.kind in ("arg", "literal") and \
+        (a.kind, a.index, a.literal) == (b.kind, b.index, b.literal)
+
+
+def why_not_chained(group: list[JobResult]) -> str | None:
+    """None when every job reads exactly the previous job's output; else the reason."""
+    for k in range(1, len(group)):
+        prev, job = group[k - 1], group[k]
+        src = job.plan.source
+        if job.plan.branches or len(job.spec.inputs) != 1 or not _same_path(job.spec.inputs[0], prev.spec.output):
+            return f"job {k + 1} does not read exactly the folder job {k} writes"
+        if src.file_name or src.skip_first_line:
+            return f"job {k + 1} reads its input's file names or byte offsets, which only files have"
+        if prev.plan.sink.compression:
+            return f"job {k} compresses the folder job {k + 1} reads"
+        later = [g for g in group[k + 1:] if any(_same_path(p, prev.spec.output) for p in g.spec.inputs)]
+        if later:
+            return f"job {k}'s output is read by more than the next job"
+    return None
+
+
+def _pipeline(group: list[JobResult]) -> JobResult | None:
+    if why_not_chained(group) is not None:
+        return None
+    last = group[-1]
+    params: list[Param] = []
+    names: set[str] = set()
+    stages: list[Stage] = []
+    hand, notes, shapes, findings = [], [], [], []
+    classes, files = {}, {}
+    for k, job in enumerate(group, 1):
+        p = job.plan
+        hand += [h for h in p.hand_work if h.category != CHAINED]
+        notes += [n for n in p.notes if n not in notes]
+        findings += list(p.findings)
+        shapes += [f"job {k}: {s}" for s in p.shapes]
+        for role, fq in job.classes.items():
+            classes[role if role == "driver" else f"job {k} {role}"] = fq
+            if role in job.files:
+                files[role if role == "driver" else f"job {k} {role}"] = job.files[role]
+        for param in p.params:
+            if k > 1 and param.name in p.source.params:  # the previous job's lines, not a path
+                continue
+            if param.name == p.sink.param and k < len(group):
+                continue  # the intermediate folder: a Stage's output below
+            if param.name in names and param.position is not None and \
+                    any(q.position == param.position for q in params):
+                continue  # the same driver argument read by two jobs (a side file, say)
+            name = param.name if param.name not in names else f"{param.name}_{k}"
+            names.add(name)
+            params.append(replace(param, name=name))
+    for k, job in enumerate(group[:-1], 1):
+        out_param = next(q for q in job.plan.params if q.name == job.plan.sink.param)
+        folder = replace(out_param, name=f"job_{k}_output",
+                         help=out_param.help.replace("output folder", f"output folder of job {k}", 1)
+                         + f"; job {k + 1} gets the lines directly: written only with --keep-intermediates")
+        params.append(folder)
+        line = next((job.spec.call_lines[c] for c in ("waitForCompletion", "submit", "runJob") if c in job.spec.call_lines),
+                    job.spec.origin.line_start)
+        plan = _reads_previous(job.plan, k) if k > 1 else job.plan
+        stages.append(Stage(replace(plan, hand_work=tuple(h for h in plan.hand_work if h.category != CHAINED)),
+                            folder, Span(job.spec.driver.file.path, line, line)))
+    final = _reads_previous(last.plan, len(group))
+    plan = replace(final, params=tuple(sorted(params, key=lambda q: (q.position is None, q.position or 0))),
+                   hand_work=tuple(hand), notes=tuple(notes), findings=tuple(findings), shapes=tuple(
+                       [f"{len(group)} chained jobs"] + shapes), upstream=tuple(stages))
+    spec = replace(last.spec, name=" → ".join(j.spec.name for j in group))
+    return JobResult(spec, plan, classes, files, sum(j.sloc_total for j in group), notes)
+
+
+def _reads_previous(plan, k: int):
+    """Job k reads the lines job k-1 produced (a DataFrame), not a folder."""
+    return replace(plan, source=replace(plan.source, params=(), split_commas=(), upstream=k - 2))
