@@ -29,14 +29,35 @@ def _parser() -> argparse.ArgumentParser:
     c.add_argument("path", type=Path, help="folder (or one .java file) of the legacy repository")
     c.add_argument("-o", "--output", type=Path, required=True, help="folder for the scripts and the report")
     c.add_argument("--force", action="store_true", help="write into a non-empty folder mrlift did not create")
+    c.add_argument("--with-tests", action="store_true",
+                   help="also write tests/test_<script>.py per job (the verify comparison, for your own CI) and a "
+                        "tests/runs.json to fill with sample data")
     c.add_argument("--path-map", type=Path, metavar="FILE",
                    help="TOML file whose [paths] table maps old storage prefixes (hdfs://...) to new ones")
+    v = sub.add_parser("verify", help="run the original jobs (Hadoop local runner) and their scripts (local Spark) "
+                       "on sample data and compare the outputs; verdicts go into the report")
+    v.add_argument("output", type=Path, help="the folder `mrlift convert` wrote (scripts and report.json)")
+    data = v.add_mutually_exclusive_group(required=True)
+    data.add_argument("--runs", type=Path, metavar="FILE",
+                      help="JSON file with each job's driver arguments on sample data (see samples/*/runs.json)")
+    data.add_argument("--data", type=Path, metavar="DIR", help="a folder per job, named like its script, holding "
+                      "the job's input")
+    v.add_argument("--source", type=Path, help="the legacy sources (default: where convert read them)")
+    v.add_argument("--classpath", help="Hadoop jars to compile and run with (default: HADOOP_HOME, `hadoop "
+                   "classpath`, or the jars the pyspark wheel ships)")
+    v.add_argument("--timeout", type=float, default=300, help="seconds each run may take (default: %(default)s)")
+    v.add_argument("--sample", type=int, metavar="N", help="use only the first N lines of every input file")
+    v.add_argument("--tolerance", type=float, metavar="REL",
+                   help="let numbers differ by this relative amount (floating sums depend on the order of addition)")
+    v.add_argument("--job", action="append", metavar="NAME", help="check only this job (name or script); repeatable")
     return p
 
 
 def main(argv: list[str] | None = None) -> int:
     args = _parser().parse_args(argv)
     console = Console(soft_wrap=True)
+    if args.command == "verify":
+        return _verify(console, args)
     if not args.path.exists():
         console.print(f"[red]mrlift: {args.path} does not exist[/red]")
         return 2
@@ -74,13 +95,58 @@ def main(argv: list[str] | None = None) -> int:
                 console.print(f"[red]mrlift: no Java source could be read under {args.path}[/red]")
                 return 1
             written = write_outputs(scan, args.output, args.path.name, args.force, progress=lambda _j: bar.advance(t2),
-                                    path_map=path_map)
+                                    path_map=path_map, with_tests=args.with_tests)
         _print_summary(console, written.report, args.output)
         for kept, new in written.kept:
             console.print(f"[yellow]kept[/yellow] {args.output / kept} (edited or not written by mrlift); "
                           f"the new version is {args.output / new}")
         return 0
     return 2
+
+
+VERDICT_STYLE = {"agrees": "green", "differs": "red", "error": "red", "skipped": "yellow"}
+
+
+def _verify(console: Console, args) -> int:
+    from migrate.convert import record_checks
+    from migrate.verify.runner import VerifyError, load_runs, runs_from_folder, verify
+
+    try:
+        report = json.loads((args.output / "report.json").read_text(encoding="utf-8"))
+        why = {}
+        if args.runs:
+            runs = load_runs(args.runs)
+        else:
+            runs, why = runs_from_folder(report, args.data)
+        with console.status("verifying") as status:
+            checks, _ = verify(args.output, runs, why_missing=why, source=args.source, classpath=args.classpath,
+                               timeout=args.timeout, sample=args.sample, tolerance=args.tolerance, only=args.job,
+                               progress=lambda c: status.update(f"verified {c.job}: {c.verdict}"))
+    except (OSError, ValueError, VerifyError) as exc:
+        console.print(f"[red]mrlift: {exc}[/red]")
+        return 2
+    t = Table(title=f"Original (Hadoop local runner) against script (local Spark): {args.output}")
+    for col in ("job", "verdict", "compared as", "seconds", "detail"):
+        t.add_column(col)
+    for c in checks:
+        t.add_row(c.job, f"[{VERDICT_STYLE[c.verdict]}]{c.verdict}[/]", c.mode or "-", f"{c.seconds:.0f}", c.detail)
+    console.print(t)
+    for c in checks:
+        if c.verdict == "differs" and c.comparison:
+            d = Table(title=f"{c.job}: first differences")
+            for col in ("line", "original", "script"):
+                d.add_column(col)
+            for row in c.comparison["differences"]:
+                d.add_row(str(row["line"]), row["original"], row["converted"])
+            console.print(d)
+        if c.verdict == "error" and c.log:
+            console.print(f"[red]{c.job}[/red]: {c.detail}")
+            console.print(c.log, style="dim", markup=False, highlight=False)
+    kept = record_checks(args.output, report, checks)
+    for name, new in kept:
+        console.print(f"[yellow]kept[/yellow] {args.output / name} (edited); the verdicts are in {args.output / new}")
+    console.print(f"verdicts recorded in {args.output / 'report.json'} and report.md")
+    return 1 if any(c.verdict in ("differs", "error") for c in checks) else 0
 
 
 def _inventory(scan: RepoScan) -> dict:

@@ -58,9 +58,10 @@ class _Writer:
         target = self.out / name
         if target.exists() and _digest(target.read_bytes()) != self.known.get(name):
             p = Path(name)
-            alt = f"{p.stem}.mrlift-new{p.suffix}"
+            alt = str(p.with_name(f"{p.stem}.mrlift-new{p.suffix}"))
             self.kept.append((name, alt))
             name, target = alt, self.out / alt
+        target.parent.mkdir(parents=True, exist_ok=True)
         target.write_bytes(data)
         self.wrote[name] = _digest(data)
         return name
@@ -135,7 +136,7 @@ class Written:
 
 
 def write_outputs(scan: RepoScan, out: Path, root_label: str, force: bool = False, progress=None,
-                  path_map=None) -> Written:
+                  path_map=None, with_tests: bool = False) -> Written:
     check_output_folder(out, force)
     out.mkdir(parents=True, exist_ok=True)
     writer = _Writer(out)
@@ -161,8 +162,37 @@ def write_outputs(scan: RepoScan, out: Path, root_label: str, force: bool = Fals
     report = build_report(written, errors, root_label, str(base))
     writer.write("report.json", to_json(report))
     writer.write("report.md", to_markdown(report))
+    if with_tests:
+        _write_checks(writer, report)
     writer.close()
     return Written(written, report, writer.kept)
+
+
+def _write_checks(writer: _Writer, report: dict) -> None:
+    """tests/test_<script>.py per job whose script runs, and a runs.json skeleton to fill with sample data."""
+    from migrate.gen.pyspark import _ENV
+    from migrate.verify.compare import MODES
+
+    from migrate.verify.runner import runnable
+
+    runs = []
+    for j in report["jobs"]:
+        if runnable(j) is not None:  # the script stops at hand work: nothing to compare yet
+            continue
+        stem = Path(j["script"]).stem
+        text = _ENV.get_template("check_job.py.j2").render(
+            script=j["script"], driver=j["driver"], mode=j["comparison"], mode_text=MODES[j["comparison"]],
+            test_name=stem)
+        writer.write(f"tests/test_{stem}.py", black.format_str(text, mode=black.Mode(line_length=100)))
+        args = sorted((a for a in j["arguments"] if a["position"] is not None), key=lambda a: a["position"])
+        runs.append({"driver": j["driver"], "args": ["@out" if a["name"] == "output_path" else
+                                                    "@tmp" + a["name"].split("_")[1] if a["name"].startswith("job_")
+                                                    else f"<{a['name']}: a sample file or folder>" for a in args]})
+    skeleton = {"about": "Sample data per job for tests/test_*.py and `mrlift verify --runs`: the driver's "
+                         "arguments, paths relative to this file; '@out' is the output folder. Move an entry from "
+                         "'todo' into 'runs' once its paths point at sample data; until then its test is skipped.",
+                "runs": [], "todo": runs}
+    writer.write("tests/runs.json", json.dumps(skeleton, indent=2) + "\n")
 
 
 def record_checks(out: Path, report: dict, checks) -> list[tuple[str, str]]:

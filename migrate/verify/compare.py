@@ -6,6 +6,7 @@ of keys, and each key's lines as a multiset.
 """
 from __future__ import annotations
 
+import re
 from collections import Counter
 from dataclasses import dataclass
 from itertools import groupby
@@ -78,3 +79,106 @@ def compare_bytes(a: bytes, b: bytes, *, within_key_any_order: bool = False, sep
         else:
             diff = f"original has {len(la) - 1} lines, converted {len(lb) - 1}"
     return Comparison(a == b, sorted(la) == sorted(lb), a.count(b"\n"), b.count(b"\n"), diff)
+
+
+# ----------------------------------------------------------------------------- verdicts for `mrlift verify`
+
+MODES = {
+    "bytes": "the same bytes in the same order (the original fixed the order: sorted keys, or input order)",
+    "within-key": "the same keys in the same order, each key's lines in any order (the original's reducer wrote "
+                  "values in arrival order, which Hadoop does not define)",
+    "lines": "the same lines in any order (the original's file order is not reproduced)",
+    "keys": "the same keys in the same order (the original's values depended on how the input was split)",
+}
+_NUMBER = re.compile(rb"-?(?:\d+\.\d*|\.\d+|\d+)(?:[eE][-+]?\d+)?|NaN|-?Infinity")
+
+
+@dataclass(frozen=True)
+class Verdict:
+    """What a comparison of two output folders found."""
+
+    agrees: bool
+    mode: str
+    original_lines: int
+    converted_lines: int
+    missing: int  # lines of the original the converted output lacks (as a multiset)
+    extra: int  # lines the converted output has that the original lacks
+    differences: tuple[tuple[int, str, str], ...]  # (line number, original, converted), the first few
+    tolerance_used: bool = False  # only numbers that differ within the tolerance made the lines differ
+
+
+def _lines(data: bytes) -> list[bytes]:
+    lines = data.split(b"\n")
+    return lines[:-1] if lines and lines[-1] == b"" else lines
+
+
+def _close(a: bytes, b: bytes, tolerance: float) -> bool:
+    """The lines are the same but for numbers within `tolerance` (relative to the larger, or absolute near 0)."""
+    na, nb = _NUMBER.findall(a), _NUMBER.findall(b)
+    if len(na) != len(nb) or _NUMBER.sub(b"#", a) != _NUMBER.sub(b"#", b):
+        return False
+    for x, y in zip(na, nb):
+        if x == y:
+            continue
+        try:
+            fx, fy = float(x), float(y)
+        except ValueError:
+            return False
+        if abs(fx - fy) > tolerance * max(1.0, abs(fx), abs(fy)):
+            return False
+    return True
+
+
+def compare_folders(original: Path, converted: Path, mode: str = "bytes", tolerance: float | None = None,
+                    separator: bytes = b"\t", show: int = 5) -> Verdict:
+    """Compare two output folders under one of MODES; a tolerance (off by default) lets floating
+    numbers whose last digits depend on summation order count as equal, and says it was needed."""
+    if mode not in MODES:
+        raise ValueError(f"unknown comparison mode {mode!r}; one of {', '.join(MODES)}")
+    a, b = _lines(output_bytes(original)), _lines(output_bytes(converted))
+    ca, cb = Counter(a), Counter(b)
+    missing, extra = sum((ca - cb).values()), sum((cb - ca).values())
+    diffs: list[tuple[int, str, str]] = []
+    used = False
+
+    def same(x: bytes, y: bytes) -> bool:
+        nonlocal used
+        if x == y:
+            return True
+        if tolerance is not None and _close(x, y, tolerance):
+            used = True
+            return True
+        return False
+
+    def text(x: bytes | None) -> str:
+        return "(no line)" if x is None else x.decode("utf-8", "replace")
+
+    if mode == "bytes":
+        for i in range(max(len(a), len(b))):
+            x, y = a[i] if i < len(a) else None, b[i] if i < len(b) else None
+            if x is None or y is None or not same(x, y):
+                diffs.append((i + 1, text(x), text(y)))
+    elif mode == "keys":
+        ka, kb = [x.split(separator, 1)[0] for x in a], [y.split(separator, 1)[0] for y in b]
+        for i in range(max(len(ka), len(kb))):
+            x, y = ka[i] if i < len(ka) else None, kb[i] if i < len(kb) else None
+            if x != y:
+                diffs.append((i + 1, text(x), text(y)))
+    else:
+        groups_a = [(k, sorted(g)) for k, g in groupby(a, key=lambda x: x.split(separator, 1)[0])] \
+            if mode == "within-key" else [(b"", sorted(a))]
+        groups_b = [(k, sorted(g)) for k, g in groupby(b, key=lambda x: x.split(separator, 1)[0])] \
+            if mode == "within-key" else [(b"", sorted(b))]
+        line = 0
+        for i in range(max(len(groups_a), len(groups_b))):
+            ga = groups_a[i] if i < len(groups_a) else (None, [])
+            gb = groups_b[i] if i < len(groups_b) else (None, [])
+            if ga[0] != gb[0] or len(ga[1]) != len(gb[1]) or not all(map(same, ga[1], gb[1])):
+                for j in range(max(len(ga[1]), len(gb[1]))):
+                    x, y = ga[1][j] if j < len(ga[1]) else None, gb[1][j] if j < len(gb[1]) else None
+                    if x is None or y is None or not same(x, y):
+                        diffs.append((line + j + 1, text(x), text(y)))
+            line += len(ga[1])
+    if tolerance is None or not used:
+        used = False
+    return Verdict(not diffs, mode, len(a), len(b), missing, extra, tuple(diffs[:show]), used and not diffs)

@@ -39,14 +39,19 @@ class CompileResult:
     log: str
 
 
-def compile_sources(sources: list[Path], classes: Path) -> CompileResult:
-    """javac every file (UTF-8, warnings off); the LocalJobRunner needs nothing else."""
+def compile_sources(sources: list[Path], classes: Path, classpath: str | None = None,
+                    sourcepath: Path | None = None, timeout: float = 600) -> CompileResult:
+    """javac the files (UTF-8, warnings off); with `sourcepath`, the classes they use are compiled too."""
     if shutil.which("javac") is None:
         raise HadoopUnavailable("javac is not on PATH (Java 17+ is needed to run the original jobs)")
     classes.mkdir(parents=True, exist_ok=True)
-    cmd = ["javac", "-nowarn", "-encoding", "UTF-8", "-cp", compile_classpath(), "-d", str(classes),
-           *[str(s) for s in sources]]
-    p = subprocess.run(cmd, capture_output=True, text=True)
+    cmd = ["javac", "-nowarn", "-encoding", "UTF-8", "-cp", classpath or compile_classpath(), "-d", str(classes)]
+    if sourcepath is not None:
+        cmd += ["-sourcepath", str(sourcepath)]
+    try:
+        p = subprocess.run(cmd + [str(s) for s in sources], capture_output=True, text=True, timeout=timeout)
+    except subprocess.TimeoutExpired:
+        return CompileResult(False, classes, f"javac ran longer than {timeout:g} s")
     return CompileResult(p.returncode == 0, classes, p.stdout + p.stderr)
 
 
@@ -56,10 +61,20 @@ class RunResult:
     log: str
 
 
-def run_job(classes: Path, driver: str, args: list[str], cwd: Path, timeout: float = 600) -> RunResult:
-    """`java -cp classes:<jars>/* Driver args…` in local mode (mapreduce.framework.name=local is the default)."""
+TIMED_OUT = -9
+
+
+def run_job(classes: Path, driver: str, args: list[str], cwd: Path, timeout: float = 600,
+            classpath: str | None = None) -> RunResult:
+    """`java -cp classes:<jars>/* Driver args…` in local mode (mapreduce.framework.name=local is the default).
+    A run past `timeout` seconds is stopped: returncode TIMED_OUT."""
     logging = Path(__file__).with_name("log4j2-hadoop.properties")  # so the job log shows its counters
+    cp = f"{classes}:{classpath}" if classpath else run_classpath(classes)
     cmd = ["java", "-Xmx1g", "-Duser.timezone=UTC", "-Duser.language=en", "-Duser.country=US",
-           f"-Dlog4j2.configurationFile={logging}", "-cp", run_classpath(classes), driver, *args]
-    p = subprocess.run(cmd, capture_output=True, text=True, cwd=cwd, timeout=timeout)
+           f"-Dlog4j2.configurationFile={logging}", "-cp", cp, driver, *args]
+    try:
+        p = subprocess.run(cmd, capture_output=True, text=True, cwd=cwd, timeout=timeout)
+    except subprocess.TimeoutExpired as exc:
+        out = (exc.stdout or b"").decode("utf-8", "replace") if isinstance(exc.stdout, bytes) else (exc.stdout or "")
+        return RunResult(TIMED_OUT, out + f"\nstopped: the job ran longer than {timeout:g} s")
     return RunResult(p.returncode, p.stdout + p.stderr)

@@ -1,0 +1,325 @@
+"""`mrlift verify`: run each original job on Hadoop's local runner and its script on local Spark,
+over the same sample data, and compare the outputs.
+
+Safety: it runs the user's Java only when asked, in a temporary working folder (compiled classes,
+sampled inputs and both outputs go there), with a time limit per job; it never writes into the
+repository or the data folders. A compile error, a failing job or a run past its time limit is a
+verdict for that job, with the tool's output, and the batch goes on.
+"""
+from __future__ import annotations
+
+import json
+import os
+import re
+import shutil
+import subprocess
+import sys
+import tempfile
+import time
+from dataclasses import asdict, dataclass, field
+from datetime import datetime, timezone
+from pathlib import Path
+
+from migrate.plan import ADVISORY_CATEGORIES
+from migrate.verify.classpath import HadoopClasspath, find_classpath, repository_jars
+from migrate.verify.compare import MODES, Verdict, compare_folders
+from migrate.verify.hadoop import TIMED_OUT, compile_sources, run_job
+
+AGREES, DIFFERS, SKIPPED, ERROR = "agrees", "differs", "skipped", "error"
+
+
+class VerifyError(Exception):
+    """The verification cannot start (no report, a bad runs file, no Java)."""
+
+
+@dataclass(frozen=True)
+class JobRun:
+    """How to run one job on sample data: the driver's arguments ("@out" is the output folder,
+    "@tmp1", "@tmp2", … folders chained jobs hand over through) and how to compare."""
+
+    driver: str
+    args: tuple[str, ...]
+    mode: str | None = None  # one of compare.MODES; None: what the report says the original defines
+    intermediates: tuple[str, ...] = ()
+    data: str = ""  # where the data came from, for the report
+
+
+@dataclass
+class Check:
+    """One job's verification."""
+
+    job: str
+    script: str
+    driver: str
+    verdict: str  # agrees | differs | skipped | error
+    detail: str
+    mode: str = ""
+    data: str = ""
+    checked_at: str = ""
+    seconds: float = 0.0
+    comparison: dict | None = None  # Verdict fields, for the report
+    log: str = ""  # the tail of the tool output where something failed
+    intermediates: list[dict] = field(default_factory=list)
+
+    def for_report(self) -> dict:
+        d = asdict(self)
+        d.pop("log")
+        return d
+
+
+def load_runs(path: Path) -> dict[str, JobRun]:
+    """A runs file: {"runs": [{"driver": …, "args": [...], "values_order"?, "compare"?, "intermediates"?}]}
+    (the format of samples/*/runs.json). Relative paths are relative to the file's folder."""
+    try:
+        data = json.loads(path.read_text(encoding="utf-8"))
+    except (OSError, ValueError) as exc:
+        raise VerifyError(f"{path}: cannot read the runs file ({exc})") from None
+    runs = data.get("runs") if isinstance(data, dict) else None
+    if not isinstance(runs, list):
+        raise VerifyError(f"{path}: expected an object with a \"runs\" list")
+    out = {}
+    for i, r in enumerate(runs, 1):
+        if not isinstance(r, dict) or not isinstance(r.get("driver"), str) or not isinstance(r.get("args"), list):
+            raise VerifyError(f"{path}: run {i} needs \"driver\" (a class name) and \"args\" (a list)")
+        mode = {"keys": "keys", "lines": "lines"}.get(r.get("compare")) or \
+            ("within-key" if r.get("values_order") == "undefined" else None)
+        args = tuple(a if a.startswith("@") else ",".join(str((path.parent / p).resolve()) for p in a.split(","))
+                     for a in map(str, r["args"]))
+        out[r["driver"]] = JobRun(r["driver"], args, mode, tuple(r.get("intermediates", [])), str(path))
+    return out
+
+
+def runs_from_folder(report: dict, data: Path) -> tuple[dict[str, JobRun], dict[str, str]]:
+    """A folder per job, named like its script (`data/rides_per_station/`): the job's one input.
+    Returns the runs and, per driver, why a job with a folder could not be run from it."""
+    runs, why = {}, {}
+    for job in report["jobs"]:
+        folder = data / Path(job["script"]).stem
+        if not folder.is_dir():
+            continue
+        slots: dict[int, str] = {}
+        problem = None
+        for a in job["arguments"]:
+            if a["position"] is None:
+                continue
+            if a["name"] in ("input_path",):
+                slots[a["position"]] = str(folder.resolve())
+            elif a["name"] == "output_path":
+                slots[a["position"]] = "@out"
+            elif re.fullmatch(r"job_\d+_output", a["name"]):
+                slots[a["position"]] = "@tmp" + a["name"].split("_")[1]
+            else:
+                problem = f"argument {a['name']} needs a value: give this job a line in a runs file (--runs)"
+        if problem is None and sorted(slots) != list(range(len(slots))):
+            problem = "the driver's arguments are not all known: use a runs file (--runs)"
+        if problem:
+            why[job["driver"]] = problem
+            continue
+        runs[job["driver"]] = JobRun(job["driver"], tuple(slots[i] for i in sorted(slots)), None, (), str(folder))
+    return runs, why
+
+
+def sample_inputs(args: tuple[str, ...], n: int, into: Path) -> tuple[str, ...]:
+    """The first `n` lines of every input file (files of a folder, one by one), copied into `into`."""
+    out = []
+    for i, a in enumerate(args):
+        if a.startswith("@"):
+            out.append(a)
+            continue
+        paths = []
+        for p in a.split(","):
+            src = Path(p)
+            dst = into / f"arg{i}" / src.name
+            files = [src] if src.is_file() else sorted(f for f in src.rglob("*") if f.is_file()) if src.is_dir() else []
+            if not files:
+                paths.append(p)  # not a local file: passed as it is
+                continue
+            for f in files:
+                target = dst if f == src else dst / f.relative_to(src)
+                target.parent.mkdir(parents=True, exist_ok=True)
+                with f.open("rb") as fin, target.open("wb") as fout:
+                    for k, line in enumerate(fin):
+                        if k >= n:
+                            break
+                        fout.write(line)
+            paths.append(str(dst))
+        out.append(",".join(paths))
+    return tuple(out)
+
+
+def runnable(job: dict) -> str | None:
+    """None if the job's script computes the output; else why it is not checked."""
+    if job["status"] == "converted":
+        return None
+    if job["status"] == "partial" and all(h["category"] in ADVISORY_CATEGORIES for h in job["hand_work"]):
+        return None
+    return "the script stops at hand work until it is done (see the report); nothing to compare yet"
+
+
+def _tail(text: str, lines: int = 30) -> str:
+    return "\n".join(text.strip().splitlines()[-lines:])
+
+
+def _package_root(java_file: Path) -> Path:
+    """The source root of a file: its folder minus the package's folders."""
+    m = re.search(r"^\s*package\s+([\w.]+)\s*;", java_file.read_text(encoding="utf-8", errors="replace"), re.M)
+    root = java_file.parent
+    for _ in (m.group(1).split(".") if m else []):
+        root = root.parent
+    return root
+
+
+class Verifier:
+    """Verifies the jobs of one `mrlift convert` output folder."""
+
+    def __init__(self, out_dir: Path, source: Path | None = None, classpath: str | None = None,
+                 timeout: float = 300, sample: int | None = None, tolerance: float | None = None):
+        report_file = out_dir / "report.json"
+        try:
+            self.report = json.loads(report_file.read_text(encoding="utf-8"))
+        except (OSError, ValueError) as exc:
+            raise VerifyError(f"{report_file}: not a report mrlift wrote ({exc}); run `mrlift convert` first") from None
+        self.out_dir = out_dir
+        src = source or (Path(self.report["source"]) if self.report.get("source") else None)
+        if src is None or not src.exists():
+            raise VerifyError(f"the legacy sources are not at {src}: pass --source")
+        self.source = src.resolve()
+        if shutil.which("javac") is None or shutil.which("java") is None:
+            raise VerifyError("java and javac are needed to run the original jobs (Java 17+)")
+        self.hadoop: HadoopClasspath = find_classpath(classpath)
+        self.classpath = os.pathsep.join((*self.hadoop.entries, *repository_jars(self.source)))
+        self.timeout, self.sample, self.tolerance = timeout, sample, tolerance
+        self.work = Path(tempfile.mkdtemp(prefix="mrlift-verify-"))
+        self._all_classes: Path | None = None
+        self._compiled_all = False
+
+    def close(self) -> None:
+        shutil.rmtree(self.work, ignore_errors=True)
+
+    # -- compiling
+    def _classes_for(self, job: dict) -> tuple[Path | None, str]:
+        """Compiled classes for the job: all sources at once if they compile, else the driver's file
+        with what it uses (javac -sourcepath), so one broken file fails only its jobs."""
+        if not self._compiled_all:
+            self._compiled_all = True
+            from migrate.java.source import find_java_files
+
+            files = find_java_files(self.source)
+            res = compile_sources(files, self.work / "classes", self.classpath, timeout=self.timeout)
+            self._all_classes = res.classes if res.ok else None
+        if self._all_classes is not None:
+            return self._all_classes, ""
+        driver_file = self.source / job["files"]["driver"].rsplit(":", 1)[0]
+        classes = self.work / "classes-per-job" / Path(job["script"]).stem
+        res = compile_sources([driver_file], classes, self.classpath, sourcepath=_package_root(driver_file),
+                              timeout=self.timeout)
+        return (classes, "") if res.ok else (None, res.log)
+
+    # -- one job
+    def check(self, job: dict, run: JobRun | None, missing_why: str | None = None) -> Check:
+        c = Check(job["name"], job["script"], job["driver"], SKIPPED, "",
+                  checked_at=datetime.now(timezone.utc).isoformat(timespec="seconds"))
+        start = time.monotonic()
+        try:
+            self._check(job, run, missing_why, c)
+        finally:
+            c.seconds = round(time.monotonic() - start, 1)
+        return c
+
+    def _check(self, job: dict, run: JobRun | None, missing_why: str | None, c: Check) -> None:
+        why = runnable(job)
+        if why is not None:
+            c.detail = why
+            return
+        if run is None:
+            c.detail = missing_why or "no sample data for this job: add it to a runs file (--runs) or a data folder (--data)"
+            return
+        c.mode = run.mode or job.get("comparison") or "bytes"
+        c.data = run.data + (f" (first {self.sample} lines of each file)" if self.sample else "")
+        here = self.work / Path(job["script"]).stem
+        here.mkdir(parents=True, exist_ok=True)
+        args = sample_inputs(run.args, self.sample, here / "data") if self.sample else run.args
+        classes, log = self._classes_for(job)
+        if classes is None:
+            c.verdict, c.detail, c.log = ERROR, "the original Java does not compile", _tail(log)
+            return
+
+        def placed(side: str) -> list[str]:
+            return [str(here / side / "out") if a == "@out" else str(here / side / a[1:]) if a.startswith("@tmp")
+                    else a for a in args]
+        (here / "original").mkdir()
+        ran = run_job(classes, job["driver"], placed("original"), cwd=here / "original", timeout=self.timeout,
+                      classpath=self.classpath)
+        if ran.returncode != 0:
+            c.verdict, c.log = ERROR, _tail(ran.log)
+            c.detail = (f"the original job ran longer than the time limit ({self.timeout:g} s)"
+                        if ran.returncode == TIMED_OUT else f"the original job failed (exit {ran.returncode})")
+            return
+        (here / "converted").mkdir()
+        extra = ["--keep-intermediates"] if run.intermediates else []
+        script = self.out_dir / job["script"]
+        try:
+            p = subprocess.run([sys.executable, str(script), *placed("converted"), *extra], capture_output=True,
+                               text=True, cwd=here / "converted", timeout=self.timeout,
+                               env={**os.environ, "PYSPARK_PYTHON": sys.executable})
+        except subprocess.TimeoutExpired:
+            c.verdict, c.detail = ERROR, f"the script ran longer than the time limit ({self.timeout:g} s)"
+            return
+        if p.returncode != 0:
+            c.verdict, c.detail, c.log = ERROR, f"the script failed (exit {p.returncode})", _tail(p.stderr)
+            return
+        v = compare_folders(here / "original" / "out", here / "converted" / "out", c.mode, self.tolerance)
+        c.comparison = _verdict_dict(v)
+        for folder in run.intermediates:
+            iv = compare_folders(here / "original" / folder[1:], here / "converted" / folder[1:], "bytes",
+                                 self.tolerance)
+            c.intermediates.append({"folder": folder, **_verdict_dict(iv)})
+        ok = v.agrees and all(i["agrees"] for i in c.intermediates)
+        c.verdict = AGREES if ok else DIFFERS
+        c.detail = _summary(v, c.intermediates)
+
+
+def _verdict_dict(v: Verdict) -> dict:
+    return {"agrees": v.agrees, "original_lines": v.original_lines, "converted_lines": v.converted_lines,
+            "missing": v.missing, "extra": v.extra, "tolerance_used": v.tolerance_used,
+            "differences": [{"line": n, "original": a, "converted": b} for n, a, b in v.differences]}
+
+
+def _summary(v: Verdict, intermediates: list[dict]) -> str:
+    if v.agrees:
+        text = f"{v.original_lines} lines, {MODES[v.mode].split(' (')[0]}"
+        if v.tolerance_used:
+            text += "; some numbers differ in their last digits, within the tolerance"
+    else:
+        text = (f"{v.original_lines} lines in the original, {v.converted_lines} in the script's output: "
+                f"{v.missing} missing, {v.extra} extra")
+        if v.missing == v.extra == 0:
+            text += f" (the same lines; not {MODES[v.mode].split(' (')[0]})"
+    bad = [i["folder"] for i in intermediates if not i["agrees"]]
+    if intermediates:
+        text += f"; intermediate folders: {'differ: ' + ', '.join(bad) if bad else 'the same'}"
+    return text
+
+
+def verify(out_dir: Path, runs: dict[str, JobRun], *, why_missing: dict[str, str] | None = None,
+           source: Path | None = None, classpath: str | None = None, timeout: float = 300,
+           sample: int | None = None, tolerance: float | None = None, only: list[str] | None = None,
+           progress=None) -> tuple[list[Check], Verifier]:
+    """Check every job of the report (or those named in `only`, by job name or script)."""
+    v = Verifier(out_dir, source, classpath, timeout, sample, tolerance)
+    names = {n for j in v.report["jobs"] for n in (j["name"], j["script"], Path(j["script"]).stem)}
+    unknown = [n for n in only or [] if n not in names]
+    if unknown:
+        v.close()
+        raise VerifyError(f"no job named {', '.join(unknown)} in {out_dir / 'report.json'}")
+    checks = []
+    try:
+        for job in v.report["jobs"]:
+            if only and job["name"] not in only and job["script"] not in only and Path(job["script"]).stem not in only:
+                continue
+            checks.append(v.check(job, runs.get(job["driver"]), (why_missing or {}).get(job["driver"])))
+            if progress:
+                progress(checks[-1])
+    finally:
+        v.close()
+    return checks, v
