@@ -3,7 +3,7 @@ PYTHON ?= python3
 VENV ?= .venv
 BIN := $(VENV)/bin
 
-.PHONY: setup demo test clean
+.PHONY: setup browser demo test clean
 
 $(BIN)/mrlift: pyproject.toml
 	$(PYTHON) -m venv $(VENV)
@@ -18,7 +18,15 @@ demo: setup
 	$(BIN)/mrlift scan samples/bikeshare
 	$(BIN)/mrlift convert samples/bikeshare -o demo-out/bikeshare
 
-test: setup
+# The review page's browser test drives Debian's Chromium; install it where we may (root, apt).
+browser:
+	@command -v chromium >/dev/null 2>&1 || command -v chromium-browser >/dev/null 2>&1 || \
+	  { [ "$$(id -u)" = 0 ] && command -v apt-get >/dev/null 2>&1 && \
+	    { apt-get install -y -q chromium >/dev/null 2>&1 || \
+	      { apt-get update -q >/dev/null 2>&1 && apt-get install -y -q chromium >/dev/null 2>&1; }; }; } || \
+	  echo "Chromium is not installed: the review page's browser test will be skipped"
+
+test: setup browser
 	$(BIN)/python -m pytest tests
 
 clean:

@@ -29,6 +29,9 @@ def _parser() -> argparse.ArgumentParser:
     c.add_argument("path", type=Path, help="folder (or one .java file) of the legacy repository")
     c.add_argument("-o", "--output", type=Path, required=True, help="folder for the scripts and the report")
     c.add_argument("--force", action="store_true", help="write into a non-empty folder mrlift did not create")
+    c.add_argument("--effort", type=Path, metavar="FILE",
+                   help="TOML file with effort constants, category profiles and your own PERT hours per category "
+                        "(see README, Effort)")
     c.add_argument("--with-tests", action="store_true",
                    help="also write tests/test_<script>.py per job (the verify comparison, for your own CI) and a "
                         "tests/runs.json to fill with sample data")
@@ -78,7 +81,10 @@ def main(argv: list[str] | None = None) -> int:
 
             check_output_folder(args.output, args.force)
             path_map = load_path_map(args.path_map) if args.path_map else None
-        except (OutputFolderError, PathMapError) as exc:
+            from migrate.report.effort import EffortConfigError, load_model
+
+            model = load_model(args.effort) if args.effort else None
+        except (OutputFolderError, PathMapError, EffortConfigError) as exc:
             console.print(f"[red]mrlift: {exc}[/red]")
             return 2
         files = []
@@ -95,7 +101,7 @@ def main(argv: list[str] | None = None) -> int:
                 console.print(f"[red]mrlift: no Java source could be read under {args.path}[/red]")
                 return 1
             written = write_outputs(scan, args.output, args.path.name, args.force, progress=lambda _j: bar.advance(t2),
-                                    path_map=path_map, with_tests=args.with_tests)
+                                    path_map=path_map, with_tests=args.with_tests, effort_model=model)
         _print_summary(console, written.report, args.output)
         for kept, new in written.kept:
             console.print(f"[yellow]kept[/yellow] {args.output / kept} (edited or not written by mrlift); "
@@ -194,5 +200,16 @@ def _print_summary(console: Console, report: dict, out: Path) -> None:
     console.print(t)
     for e in report["errors"]:
         console.print(f"[red]not read[/red] {e['file']}:{e['line']}: {e['message']}")
-    console.print(f"report: {out / 'report.md'} and {out / 'report.json'}")
+    s, e = report["summary"], report["effort"]
+    console.print(f"jobs: [green]{s['converted']} converted[/green], [yellow]{s['partial']} partial[/yellow], "
+                  f"[red]{s['not_converted']} not converted[/red] of {s['jobs']}")
+    from collections import Counter
+
+    top = Counter(h["category"] for j in report["jobs"] for h in j["hand_work"]).most_common(5)
+    if top:
+        console.print("hand work by category: " + ", ".join(f"{c} {n}" for c, n in top))
+    console.print(f"estimated effort: [bold]{e['hours']:.1f} h[/bold] (range {e['range_hours'][0]:.1f} to "
+                  f"{e['range_hours'][1]:.1f} h, {e['model']})")
+    console.print(f"report: {out / 'report.md'}, {out / 'report.json'}, {out / 'effort.csv'}; "
+                  f"side by side: {out / 'review.html'}")
     console.print(f"[bold]{report['warning']}[/bold]")

@@ -12,7 +12,7 @@ from migrate.gen.pyspark import render_script
 from migrate.java.source import ParseFailure
 from migrate.lift.job import JobResult
 from migrate.plan import EachValue, Group, Identity, TopN, TopPerKey
-from migrate.report.render import build_report, to_json, to_markdown
+from migrate.report.render import build_report, to_csv, to_json, to_markdown
 from migrate.scan import RepoScan, script_name
 
 MARKER = ".mrlift-output"
@@ -136,7 +136,7 @@ class Written:
 
 
 def write_outputs(scan: RepoScan, out: Path, root_label: str, force: bool = False, progress=None,
-                  path_map=None, with_tests: bool = False) -> Written:
+                  path_map=None, with_tests: bool = False, effort_model=None) -> Written:
     check_output_folder(out, force)
     out.mkdir(parents=True, exist_ok=True)
     writer = _Writer(out)
@@ -159,9 +159,10 @@ def write_outputs(scan: RepoScan, out: Path, root_label: str, force: bool = Fals
         if progress:
             progress(job)
     base = scan.root if scan.root.is_dir() else scan.root.parent  # the job files' paths start here
-    report = build_report(written, errors, root_label, str(base))
-    writer.write("report.json", to_json(report))
-    writer.write("report.md", to_markdown(report))
+    from migrate.report.effort import DEFAULT
+
+    report = build_report(written, errors, root_label, str(base), effort_model or DEFAULT)
+    _write_reports(writer, report, out)
     if with_tests:
         _write_checks(writer, report)
     writer.close()
@@ -206,7 +207,16 @@ def record_checks(out: Path, report: dict, checks) -> list[tuple[str, str]]:
     report["summary"]["verified"] = sum(1 for j in report["jobs"]
                                         if (j.get("verification") or {}).get("verdict") == "agrees")
     writer = _Writer(out)
-    writer.write("report.json", to_json(report))
-    writer.write("report.md", to_markdown(report))
+    _write_reports(writer, report, out)
     writer.close()
     return writer.kept
+
+
+def _write_reports(writer: _Writer, report: dict, out: Path) -> None:
+    """report.json (the source of all the rest), report.md, effort.csv and review.html."""
+    from migrate.report.review import render_review
+
+    writer.write("report.json", to_json(report))
+    writer.write("report.md", to_markdown(report))
+    writer.write("effort.csv", to_csv(report))
+    writer.write("review.html", render_review(report, out))

@@ -6,7 +6,7 @@ The adaptation profiles P1-P3 are this project's choice (configurable), not publ
 """
 from __future__ import annotations
 
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 
 A = 2.94  # [P]
 B = 0.91  # [P]
@@ -82,16 +82,99 @@ def pert_sum(items: list[tuple[float, float, float]]) -> tuple[float, float]:
 
 
 @dataclass(frozen=True)
+class Model:
+    """The constants of the estimate. `basis` says where each came from: published (COCOMO II.2000,
+    label as in EFFORT.md), mrlift's default, or the user's file; `pert` holds the team's own
+    three-point hours per hand-work item of a category, which then replace COCOMO for those items."""
+
+    a: float = A
+    b: float = B
+    sum_sf: float = NOMINAL_SF
+    atprod: float = ATPROD
+    hours_per_pm: float = HOURS_PER_PM
+    range: tuple[float, float] = RANGE
+    su: float = SU
+    unfm: float = UNFM
+    profiles: dict = field(default_factory=lambda: dict(PROFILES))
+    category_profiles: dict = field(default_factory=dict)  # category -> "P1" | "P2" | "P3"
+    pert: dict = field(default_factory=dict)  # category -> (optimistic, most likely, pessimistic) hours per item
+    basis: dict = field(default_factory=lambda: dict(BASIS))
+
+
+BASIS = {"a": "published [P]", "b": "published [P]", "sum_sf": "published, all five at Nominal [S]",
+         "atprod": "published [S]", "hours_per_pm": "published [S]", "range": "published [S]",
+         "su": "mrlift default (the Nominal rating) [S]", "unfm": "mrlift default (rating 0.4)",
+         "profiles": "mrlift default (P1-P3, EFFORT.md)"}
+DEFAULT = Model()
+
+
+class EffortConfigError(Exception):
+    """An effort file that cannot be read; the message names the file and the key."""
+
+
+def load_model(path) -> Model:
+    """An effort TOML file: [cocomo] a, b, sum_sf, atprod, hours_per_pm, range; [adaptation] su,
+    unfm; [profiles.P1] dm, cm, im, aa; [categories] name = "P2"; [pert.<category>] optimistic,
+    likely, pessimistic (hours per item). Anything not given keeps its default."""
+    import tomllib
+    from pathlib import Path
+
+    path = Path(path)
+    try:
+        data = tomllib.loads(path.read_text(encoding="utf-8"))
+    except (OSError, ValueError) as exc:
+        raise EffortConfigError(f"{path}: {exc}") from None
+    known = {"cocomo": {"a", "b", "sum_sf", "atprod", "hours_per_pm", "range"}, "adaptation": {"su", "unfm"},
+             "profiles": None, "categories": None, "pert": None}
+    for key in data:
+        if key not in known:
+            raise EffortConfigError(f"{path}: unknown table [{key}] (one of {', '.join(known)})")
+    values, basis = {}, dict(BASIS)
+    for table in ("cocomo", "adaptation"):
+        for k, v in data.get(table, {}).items():
+            if k not in known[table]:
+                raise EffortConfigError(f"{path}: unknown key {table}.{k}")
+            ok = isinstance(v, list) and len(v) == 2 and all(isinstance(x, (int, float)) for x in v) if k == "range" \
+                else isinstance(v, (int, float)) and not isinstance(v, bool)
+            if not ok or (k != "range" and v < 0):
+                raise EffortConfigError(f"{path}: {table}.{k} must be {'two numbers' if k == 'range' else 'a number ≥ 0'}")
+            values[k] = tuple(v) if k == "range" else float(v)
+            basis[k] = f"your file ({path.name})"
+    profiles = dict(PROFILES)
+    for name, prof in data.get("profiles", {}).items():
+        try:
+            profiles[name] = Profile(*(float(prof[x]) for x in ("dm", "cm", "im", "aa")))
+        except (KeyError, TypeError, ValueError):
+            raise EffortConfigError(f"{path}: [profiles.{name}] needs numbers dm, cm, im and aa") from None
+        basis["profiles"] = f"mrlift default and your file ({path.name})"
+    cats = {}
+    for cat, prof in data.get("categories", {}).items():
+        if prof not in profiles:
+            raise EffortConfigError(f"{path}: categories.{cat} = {prof!r} is not a profile ({', '.join(profiles)})")
+        cats[cat] = prof
+    pert = {}
+    for cat, t in data.get("pert", {}).items():
+        try:
+            o, m, p_ = (float(t[x]) for x in ("optimistic", "likely", "pessimistic"))
+        except (KeyError, TypeError, ValueError):
+            raise EffortConfigError(f"{path}: [pert.{cat}] needs numbers optimistic, likely, pessimistic") from None
+        if not 0 <= o <= m <= p_:
+            raise EffortConfigError(f"{path}: [pert.{cat}] needs 0 ≤ optimistic ≤ likely ≤ pessimistic")
+        pert[cat] = (o, m, p_)
+    return Model(**values, profiles=profiles, category_profiles=cats, pert=pert, basis=basis)
+
+
+@dataclass(frozen=True)
 class JobEffort:
     """Inputs of one job (legacy Java SLOC) and its share of the repository estimate."""
 
     name: str
     sloc_total: int
-    items: tuple[tuple[str, int], ...]  # (profile, sloc covered) per hand-work item
+    items: tuple[tuple, ...]  # (profile, sloc covered[, category]) per hand-work item
 
     @property
     def sloc_manual(self) -> int:
-        return min(sum(s for _, s in self.items), self.sloc_total)
+        return min(sum(i[1] for i in self.items), self.sloc_total)
 
     @property
     def sloc_auto(self) -> int:
@@ -99,21 +182,41 @@ class JobEffort:
 
     @property
     def esloc(self) -> float:
+        return self.esloc_under(DEFAULT)
+
+    def esloc_under(self, model: Model) -> float:
+        """Adapted ESLOC of the items COCOMO estimates (not those the team gave PERT hours for)."""
         total = 0.0
-        for prof, sloc in self.items:
-            p = PROFILES[prof]
-            total += max(sloc, 10) * aam(p.dm, p.cm, p.im, p.aa)
+        for item in self.items:
+            prof, sloc, cat = item[0], item[1], (item[2] if len(item) > 2 else None)
+            if cat in model.pert:
+                continue
+            p = model.profiles[model.category_profiles.get(cat, prof)]
+            total += max(sloc, 10) * aam(p.dm, p.cm, p.im, p.aa, model.su, model.unfm)
         return total
 
+    def pert_items(self, model: Model) -> list[tuple[float, float, float]]:
+        return [model.pert[i[2]] for i in self.items if len(i) > 2 and i[2] in model.pert]
 
-def repository_hours(jobs: list[JobEffort]) -> dict:
-    """One COCOMO run on the repository's ΣESLOC, apportioned to jobs by ESLOC share."""
-    total_esloc = sum(j.esloc for j in jobs)
-    manual_pm = person_months(total_esloc / 1000.0)
-    per_job = {}
+
+def repository_hours(jobs: list[JobEffort], model: Model = DEFAULT) -> dict:
+    """One COCOMO run on the repository's ΣESLOC, apportioned to jobs by ESLOC share, plus the
+    PERT hours the team gave for whole categories (means add; σ by root-sum-square)."""
+    eslocs = {j.name: j.esloc_under(model) for j in jobs}
+    total_esloc = sum(eslocs.values())
+    ksloc = total_esloc / 1000.0
+    manual_pm = model.a * ksloc ** (model.b + 0.01 * model.sum_sf) if ksloc > 0 else 0.0
+    per_job, cocomo_hours, pert_all = {}, 0.0, []
     for j in jobs:
-        share = manual_pm * (j.esloc / total_esloc) if total_esloc else 0.0
-        per_job[j.name] = (share + j.sloc_auto / ATPROD) * HOURS_PER_PM
+        share = manual_pm * (eslocs[j.name] / total_esloc) if total_esloc else 0.0
+        cocomo = (share + j.sloc_auto / model.atprod) * model.hours_per_pm
+        items = j.pert_items(model)
+        pert_all += items
+        per_job[j.name] = cocomo + sum(pert(*i)[0] for i in items)
+        cocomo_hours += cocomo
     hours = sum(per_job.values())
-    return {"jobs": per_job, "hours": hours, "range": (hours * RANGE[0], hours * RANGE[1]),
-            "esloc": total_esloc, "manual_pm": manual_pm}
+    pert_mean, pert_sigma = pert_sum(pert_all)
+    low = cocomo_hours * model.range[0] + sum(o for o, _, _ in pert_all)
+    high = cocomo_hours * model.range[1] + sum(p for _, _, p in pert_all)
+    return {"jobs": per_job, "hours": hours, "range": (low, high), "esloc": total_esloc, "manual_pm": manual_pm,
+            "pert_hours": pert_mean, "pert_sigma": pert_sigma}

@@ -5,7 +5,7 @@ import json
 
 from migrate.lift.job import JobResult
 from migrate.plan import Join
-from migrate.report.effort import HOURS_PER_PM, JobEffort, repository_hours
+from migrate.report.effort import DEFAULT, JobEffort, Model, repository_hours
 from migrate.java.source import ParseFailure
 
 VERIFY_WARNING = ("Generated jobs must be verified on real data before they replace production jobs: "
@@ -16,14 +16,14 @@ EFFORT_CAVEAT = ("Effort follows COCOMO II.2000 (post-architecture, reuse and au
 
 
 def job_effort(job: JobResult, name: str) -> JobEffort:
-    return JobEffort(name, job.sloc_total, tuple((h.profile, h.sloc) for h in job.plan.hand_work))
+    return JobEffort(name, job.sloc_total, tuple((h.profile, h.sloc, h.category) for h in job.plan.hand_work))
 
 
 def build_report(jobs: list[tuple[JobResult, str]], errors: list[ParseFailure], root_label: str,
-                 source: str | None = None) -> dict:
+                 source: str | None = None, model: Model = DEFAULT) -> dict:
     """The report as plain data (what report.json holds)."""
     efforts = [job_effort(j, script) for j, script in jobs]
-    est = repository_hours(efforts)
+    est = repository_hours(efforts, model)
     out_jobs = []
     for (job, script), eff in zip(jobs, efforts):
         out_jobs.append({
@@ -69,8 +69,18 @@ def build_report(jobs: list[tuple[JobResult, str]], errors: list[ParseFailure], 
             "hours": round(est["hours"], 2),
             "range_hours": [round(est["range"][0], 2), round(est["range"][1], 2)],
             "esloc": round(est["esloc"], 1),
-            "hours_per_person_month": HOURS_PER_PM,
+            "hours_per_person_month": model.hours_per_pm,
             "caveat": EFFORT_CAVEAT,
+            # every constant with where it came from: published, mrlift's default, or the user's file
+            "constants": [{"name": k, "value": list(v) if isinstance(v, tuple) else v, "basis": model.basis[k]}
+                          for k, v in (("a", model.a), ("b", model.b), ("sum_sf", model.sum_sf),
+                                       ("atprod", model.atprod), ("hours_per_pm", model.hours_per_pm),
+                                       ("range", model.range), ("su", model.su), ("unfm", model.unfm))]
+            + [{"name": f"profile {n}", "value": [p.dm, p.cm, p.im, p.aa], "basis": model.basis["profiles"]}
+               for n, p in model.profiles.items()]
+            + [{"name": f"category {c}", "value": prof, "basis": "your file"} for c, prof in model.category_profiles.items()],
+            "pert": {"categories": {c: list(t) for c, t in model.pert.items()}, "hours": round(est["pert_hours"], 2),
+                     "sigma": round(est["pert_sigma"], 2)},
         },
     }
 
@@ -113,6 +123,28 @@ def to_json(report: dict) -> str:
     return json.dumps(report, indent=2, ensure_ascii=False, sort_keys=False) + "\n"
 
 
+def to_csv(report: dict) -> str:
+    """effort.csv: a row per job, then a row per hand-work item (for spreadsheets)."""
+    import csv
+    import io
+
+    buf = io.StringIO()
+    w = csv.writer(buf, lineterminator="\n")
+    w.writerow(["row", "job", "script", "status", "verdict", "category", "file", "line", "profile", "sloc",
+                "effort_hours", "reason"])
+    for j in report["jobs"]:
+        verdict = (j.get("verification") or {}).get("verdict", "unverified")
+        w.writerow(["job", j["name"], j["script"], j["status"], verdict, "", "", "", "", j["sloc"]["total"],
+                    f"{j['effort_hours']:.2f}", ""])
+        for h in j["hand_work"]:
+            w.writerow(["hand-work", j["name"], j["script"], j["status"], verdict, h["category"], h["file"], h["line"],
+                        h["profile"], h["sloc"], "", h["reason"]])
+    e = report["effort"]
+    w.writerow(["repository", report["repository"], "", "", "", "", "", "", "", "", f"{e['hours']:.2f}",
+                f"range {e['range_hours'][0]:.2f} to {e['range_hours'][1]:.2f} h ({e['model']})"])
+    return buf.getvalue()
+
+
 def to_markdown(report: dict) -> str:
     s = report["summary"]
     out = [f"# mrlift conversion report: {report['repository']}", "",
@@ -127,6 +159,15 @@ def to_markdown(report: dict) -> str:
     e = report["effort"]
     out += ["", f"Estimated effort for the repository: **{e['hours']:.1f} h** "
                 f"(range {e['range_hours'][0]:.1f} to {e['range_hours'][1]:.1f} h). {e['caveat']}", ""]
+    if e.get("constants"):
+        out += ["<details><summary>Effort model constants and where each comes from</summary>", "",
+                "| constant | value | basis |", "|---|---|---|"]
+        out += [f"| {c['name']} | {c['value']} | {c['basis']} |" for c in e["constants"]]
+        for cat, (o, m, p_) in e["pert"]["categories"].items():
+            out.append(f"| PERT hours per `{cat}` item | {o} / {m} / {p_} | your file |")
+        if e["pert"]["categories"]:
+            out.append(f"| PERT total | {e['pert']['hours']} h, σ {e['pert']['sigma']} h | (O + 4M + P) / 6 |")
+        out += ["", "</details>", ""]
     for j in report["jobs"]:
         if not (j["hand_work"] or j["notes"] or j["counters"] or j["findings"] or j["aggregates"] or j["inputs"]
                 or j["side_tables"] or j["chain"]):

@@ -34,7 +34,7 @@ def find_classpath(user: str | None = None, env: dict | None = None) -> HadoopCl
         dirs = sorted(d for d in share.iterdir() if d.is_dir())
         entries = [f"{d}/*" for d in dirs] + [f"{d}/lib/*" for d in dirs if (d / "lib").is_dir()]
         return HadoopClasspath(tuple(entries), f"HADOOP_HOME ({home})")
-    if shutil.which("hadoop"):
+    if shutil.which("hadoop", path=env.get("PATH")):
         try:
             out = subprocess.run(["hadoop", "classpath"], capture_output=True, text=True, timeout=60)
             if out.returncode == 0 and out.stdout.strip():

@@ -60,3 +60,92 @@ def test_repository_example_apportions_one_cocomo_run():
     assert est["jobs"]["C"] == pytest.approx(200.904, abs=1e-3)
     assert est["hours"] == pytest.approx(265.686, abs=1e-3)
     assert est["range"] == pytest.approx((212.549, 332.108), abs=1e-3)
+
+
+# ---------------------------------------------------------------- properties of the proposed model (EFFORT.md)
+import random  # noqa: E402
+
+
+def _random_jobs(rng: random.Random, n: int) -> list:
+    jobs = []
+    for k in range(n):
+        total = rng.randint(10, 900)
+        items = tuple((rng.choice(["P1", "P2", "P3"]), rng.randint(1, 200)) for _ in range(rng.randint(0, 4)))
+        jobs.append(E.JobEffort(f"job{k}", total, items))
+    return jobs
+
+
+@pytest.mark.parametrize("seed", range(20))
+def test_job_hours_add_up_to_the_repository_total(seed):
+    est = E.repository_hours(_random_jobs(random.Random(seed), 1 + seed % 7))
+    assert sum(est["jobs"].values()) == pytest.approx(est["hours"])
+    assert est["range"][0] <= est["hours"] <= est["range"][1]
+
+
+@pytest.mark.parametrize("seed", range(20))
+def test_more_hand_work_never_lowers_the_estimate(seed):
+    rng = random.Random(seed)
+    jobs = _random_jobs(rng, 1 + seed % 5)
+    before = E.repository_hours(jobs)["hours"]
+    k = rng.randrange(len(jobs))
+    j = jobs[k]
+    more = E.JobEffort(j.name, j.sloc_total, j.items + ((rng.choice(["P1", "P2", "P3"]), rng.randint(1, 200)),))
+    after = E.repository_hours(jobs[:k] + [more] + jobs[k + 1:])["hours"]
+    assert after >= before - 1e-9
+
+
+# ---------------------------------------------------------------- the team's own constants and PERT hours
+JOBS = [E.JobEffort("A", 120, ()),
+        E.JobEffort("B", 400, (("P2", 40, "dates"), ("P1", 20, "counter"), ("P2", 40, "dates"))),
+        E.JobEffort("C", 900, (("P3", 250, "io-in-task"), ("P1", 50, "counter"), ("P1", 100, "side-files")))]
+
+
+def test_the_default_model_is_the_published_one_and_says_so():
+    est = E.repository_hours(JOBS)
+    assert est["hours"] == pytest.approx(265.686, abs=1e-3)  # EFFORT.md repository example [D]
+    assert E.DEFAULT.basis["a"].startswith("published") and E.DEFAULT.basis["unfm"].startswith("mrlift default")
+
+
+def test_a_file_overrides_constants_and_labels_them(tmp_path):
+    f = tmp_path / "effort.toml"
+    f.write_text("[cocomo]\nhours_per_pm = 160\n[adaptation]\nunfm = 0.0\n[categories]\ncounter = \"P3\"\n")
+    m = E.load_model(f)
+    assert m.hours_per_pm == 160 and m.basis["hours_per_pm"] == "your file (effort.toml)"
+    assert m.basis["a"].startswith("published")
+    assert m.category_profiles == {"counter": "P3"}
+    base = E.repository_hours(JOBS)
+    est = E.repository_hours(JOBS, m)
+    # job A is all automatic: its hours scale with hours per person-month only
+    assert est["jobs"]["A"] == pytest.approx(base["jobs"]["A"] * 160 / 152)
+
+
+def test_pert_hours_replace_cocomo_for_their_category(tmp_path):
+    f = tmp_path / "effort.toml"
+    f.write_text("[pert.dates]\noptimistic = 2\nlikely = 4\npessimistic = 12\n")
+    m = E.load_model(f)
+    est = E.repository_hours(JOBS, m)
+    # the two dates items leave the COCOMO run and come back as PERT hours: 2 x mean 5.0 (EFFORT.md PERT [D])
+    assert est["pert_hours"] == pytest.approx(10.0) and est["pert_sigma"] == pytest.approx((2 * 1.6667 ** 2) ** 0.5,
+                                                                                           abs=1e-3)
+    # by the model's arithmetic: COCOMO on the other items' ESLOC, the lines stay hand-written (not automatic)
+    esloc = 20 * 0.74 + 250 * 1.18 + 50 * 0.74 + 100 * 0.74
+    auto = 120 + 300 + 500
+    assert est["esloc"] == pytest.approx(esloc)
+    assert est["hours"] == pytest.approx((E.person_months(esloc / 1000) + auto / 2400) * 152 + 10.0)
+    assert sum(est["jobs"].values()) == pytest.approx(est["hours"])
+    assert est["range"][0] < est["hours"] < est["range"][1]
+
+
+@pytest.mark.parametrize("text, message", [
+    ("[cocomo]\nA = 3\n", "unknown key cocomo.A"),
+    ("[cocomo]\nrange = 1.2\n", "cocomo.range must be two numbers"),
+    ("[categories]\ndates = \"P9\"\n", "is not a profile"),
+    ("[pert.dates]\noptimistic = 5\nlikely = 4\npessimistic = 6\n", "optimistic ≤ likely"),
+    ("[effort]\n", "unknown table [effort]"),
+    ("not toml = = 1", "effort.toml"),
+])
+def test_a_bad_effort_file_names_itself_and_the_key(tmp_path, text, message):
+    f = tmp_path / "effort.toml"
+    f.write_text(text)
+    with pytest.raises(E.EffortConfigError, match=message.replace("[", r"\[").replace("]", r"\]")):
+        E.load_model(f)

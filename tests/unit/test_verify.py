@@ -225,3 +225,22 @@ def test_compile_errors_time_limits_and_missing_data_are_verdicts(tmp_path):
     ran = subprocess.run([sys.executable, "-m", "pytest", "-q", "-p", "no:cacheprovider", str(out / "tests")],
                          capture_output=True, text=True, cwd=tmp_path, timeout=600)
     assert ran.returncode == 0 and "1 passed, 3 skipped" in ran.stdout, ran.stdout + ran.stderr
+
+
+def test_the_hadoop_classpath_comes_from_the_user_then_hadoop_home_then_the_wheel(tmp_path):
+    from migrate.verify.classpath import find_classpath, repository_jars
+
+    assert find_classpath("/opt/a.jar:/opt/b/*").entries == ("/opt/a.jar", "/opt/b/*")
+    home = tmp_path / "hadoop-3.4.1"  # the layout of Hadoop's binary tarball
+    for d in ("common/lib", "hdfs", "mapreduce", "yarn/lib"):
+        (home / "share" / "hadoop" / d).mkdir(parents=True)
+    cp = find_classpath(None, env={"HADOOP_HOME": str(home)})
+    share = home / "share" / "hadoop"
+    assert cp.entries == tuple(f"{share}/{d}/*" for d in ("common", "hdfs", "mapreduce", "yarn")) + \
+        (f"{share}/common/lib/*", f"{share}/yarn/lib/*")
+    assert cp.origin.startswith("HADOOP_HOME")
+    wheel = find_classpath(None, env={"PATH": ""})
+    assert "pyspark" in wheel.origin and wheel.entries[0].endswith("jars/*")
+    (tmp_path / "lib").mkdir()
+    (tmp_path / "lib" / "legacy-utils.jar").write_bytes(b"")
+    assert repository_jars(tmp_path) == (str(tmp_path / "lib" / "legacy-utils.jar"),)

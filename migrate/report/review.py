@@ -1,0 +1,207 @@
+"""review.html: one self-contained page to review each generated script beside its Java.
+
+Built from report.json and the files it names (the legacy sources under report["source"], the
+scripts in the output folder), so `convert` and `verify` write the same page. No network: the
+CSS, the script and the charts (SVG drawn here) are inline; every source text is escaped.
+Python lines that carry a `# File.java:NN` comment link to those Java lines, and back.
+"""
+from __future__ import annotations
+
+import html
+import json
+import re
+from collections import Counter
+from pathlib import Path
+
+from pygments import lex
+from pygments.formatters.html import HtmlFormatter, _get_ttype_class
+from pygments.lexers import JavaLexer, PythonLexer
+
+from migrate.report.render import checked_label
+
+_STEP = re.compile(r"#\s+([\w$]+\.java):(\d+)")
+STATUS_COLOURS = {"converted": "#2f7d32", "partial": "#b7791f", "not_converted": "#b42318"}
+
+
+def highlighted_lines(code: str, lexer) -> list[str]:
+    """The code as HTML lines (pygments token classes), each line closed on its own."""
+    lines: list[str] = [""]
+    for ttype, value in lex(code, lexer):
+        css = _get_ttype_class(ttype)
+        for i, piece in enumerate(value.split("\n")):
+            if i:
+                lines.append("")
+            if piece:
+                text = html.escape(piece, quote=False)
+                lines[-1] += f'<span class="{css}">{text}</span>' if css else text
+    if lines and lines[-1] == "" and code.endswith("\n"):
+        lines.pop()
+    return lines
+
+
+def _files_of(job: dict) -> list[tuple[str, int, int]]:
+    """The job's Java files (path relative to the source root), each once, driver first."""
+    seen: dict[str, tuple[int, int]] = {}
+    for span in job["files"].values():
+        path, _, lines = span.rpartition(":")
+        a, _, b = lines.partition("-")
+        if path not in seen:
+            seen[path] = (int(a or 0), int(b or a or 0))
+    return [(p, a, b) for p, (a, b) in seen.items()]
+
+
+def _job_section(k: int, job: dict, source: Path, out_dir: Path) -> str:
+    files = _files_of(job)
+    by_name = {Path(p).name: i for i, (p, _, _) in enumerate(files)}
+    script_path = out_dir / job["script"]
+    script = script_path.read_text(encoding="utf-8") if script_path.exists() else "# (script not written)\n"
+    py_lines = highlighted_lines(script, PythonLexer())
+    raw_py = script.splitlines()
+    links: dict[str, list[str]] = {}  # java line id -> python line ids
+    py_html = []
+    for n, (line, raw) in enumerate(zip(py_lines, raw_py), 1):
+        pid = f"j{k}-py-{n}"
+        targets = [f"j{k}-f{by_name[m.group(1)]}-{m.group(2)}" for m in _STEP.finditer(raw) if m.group(1) in by_name]
+        for t in targets:
+            links.setdefault(t, []).append(pid)
+        attr = f' data-java="{" ".join(targets)}" class="ln step"' if targets else ' class="ln"'
+        py_html.append(f'<div id="{pid}"{attr}><span class="no">{n}</span>{line or " "}</div>')
+    hand_by_line: dict[tuple[str, int], list[dict]] = {}
+    for h in job["hand_work"]:
+        hand_by_line.setdefault((h["file"], h["line"]), []).append(h)
+    java_html = []
+    placed: set[tuple[str, int]] = set()  # hand-work lines shown inline
+    for i, (path, _, _) in enumerate(files):
+        f = source / path
+        text = f.read_text(encoding="utf-8", errors="replace") if f.exists() else f"// {path} is not at {source}\n"
+        java_html.append(f'<div class="file">{html.escape(path)}</div>')
+        for n, line in enumerate(highlighted_lines(text, JavaLexer()), 1):
+            jid = f"j{k}-f{i}-{n}"
+            py = links.get(jid, [])
+            attr = f' data-py="{" ".join(py)}" class="ln linked"' if py else ' class="ln"'
+            java_html.append(f'<div id="{jid}"{attr}><span class="no">{n}</span>{line or " "}</div>')
+            for h in hand_by_line.get((path, n), []):
+                placed.add((path, n))
+                java_html.append(
+                    f'<div class="hw" data-category="{html.escape(h["category"])}"><b>{html.escape(h["category"])}'
+                    f'</b>: {html.escape(h["reason"])}<br><i>suggestion:</i> {html.escape(h["suggestion"])}</div>')
+    loose = [h for h in job["hand_work"] if (h["file"], h["line"]) not in placed]
+    cats = sorted({h["category"] for h in job["hand_work"]})
+    verdict = checked_label(job)
+    head = (f'<h2>{html.escape(job["name"])} <span class="badge {job["status"]}">{job["status"]}</span></h2>'
+            f'<p class="meta"><code>{html.escape(job["driver"])}</code> → <code>{html.escape(job["script"])}</code>'
+            f' · {html.escape(", ".join(job["shapes"]))} · effort {job["effort_hours"]:.1f} h'
+            f' · hand work: {len(job["hand_work"])} · checked against Hadoop: {html.escape(verdict)}</p>')
+    extra = "".join(f'<div class="hw"><b>{html.escape(h["category"])}</b> at {html.escape(h["file"])}:{h["line"]}: '
+                    f'{html.escape(h["reason"])}</div>' for h in loose)
+    return (f'<section class="job" id="job-{k}" data-status="{job["status"]}" data-categories="{" ".join(cats)}" '
+            f'tabindex="-1">{head}{extra}<div class="pair"><div class="java code">{"".join(java_html)}</div>'
+            f'<div class="python code">{"".join(py_html)}</div></div></section>')
+
+
+def _bar_chart(title: str, rows: list[tuple[str, float, str]], unit: str = "") -> str:
+    """A horizontal bar chart as inline SVG: (label, value, colour) rows."""
+    width, bar_h, label_w = 560, 18, 230
+    top = max((v for _, v, _ in rows), default=0) or 1
+    h = 28 + len(rows) * (bar_h + 6)
+    parts = [f'<svg class="chart" role="img" aria-label="{html.escape(title)}" width="{width}" height="{h}" '
+             f'viewBox="0 0 {width} {h}" xmlns="http://www.w3.org/2000/svg">',
+             f'<text x="0" y="16" class="ct">{html.escape(title)}</text>']
+    for i, (label, value, colour) in enumerate(rows):
+        y = 28 + i * (bar_h + 6)
+        w = (width - label_w - 70) * value / top
+        parts.append(f'<text x="0" y="{y + 13}" class="cl">{html.escape(label[:34])}</text>'
+                     f'<rect x="{label_w}" y="{y}" width="{w:.1f}" height="{bar_h}" fill="{colour}"/>'
+                     f'<text x="{label_w + w + 6:.1f}" y="{y + 13}" class="cv">{value:g}{unit}</text>')
+    parts.append("</svg>")
+    return "".join(parts)
+
+
+def charts(report: dict) -> str:
+    s = report["summary"]
+    status = [(k.replace("_", " "), s[k], STATUS_COLOURS[k]) for k in ("converted", "partial", "not_converted")]
+    cats = Counter(h["category"] for j in report["jobs"] for h in j["hand_work"])
+    by_cat = [(c, n, "#5b6b8c") for c, n in cats.most_common()]
+    effort = sorted(((j["name"], round(j["effort_hours"], 1), STATUS_COLOURS[j["status"]]) for j in report["jobs"]),
+                    key=lambda r: -r[1])
+    return (_bar_chart("Jobs by status", status) + _bar_chart("Hand-work items by category", by_cat)
+            + _bar_chart("Estimated effort per job (hours)", effort, " h"))
+
+
+_CSS = """
+body{font:14px/1.4 system-ui,sans-serif;margin:0;color:#1d2433;background:#fafbfc}
+header{padding:12px 20px;background:#1d2433;color:#fff;position:sticky;top:0;z-index:2}
+header h1{font-size:18px;margin:0 0 6px}
+.warn{background:#fff4e5;border-left:4px solid #b7791f;padding:8px 12px;margin:12px 20px}
+.filters label{margin-right:12px}
+main{padding:0 20px 40px}
+.summary{display:flex;flex-wrap:wrap;gap:16px}
+.job{border-top:2px solid #d0d7e2;margin-top:24px;padding-top:8px}
+.job.current h2{color:#0b57d0}
+.badge{font-size:12px;padding:2px 8px;border-radius:10px;color:#fff;vertical-align:middle}
+.badge.converted{background:#2f7d32}.badge.partial{background:#b7791f}.badge.not_converted{background:#b42318}
+.meta{color:#4a5568;margin:2px 0 8px}
+.pair{display:grid;grid-template-columns:1fr 1fr;gap:8px}
+.code{font:12px/1.45 ui-monospace,monospace;background:#fff;border:1px solid #d0d7e2;overflow:auto;max-height:70vh}
+.ln{white-space:pre;padding:0 6px}
+.ln .no{display:inline-block;width:3.5em;color:#8a94a6;user-select:none}
+.step,.linked{cursor:pointer}
+.step:hover,.linked:hover{background:#eef4ff}
+.ln.hl{background:#fff3b0}
+.file{background:#eef1f6;padding:2px 6px;font-weight:600}
+.hw{background:#fdecea;border-left:3px solid #b42318;margin:2px 6px 4px 4em;padding:4px 8px;white-space:normal}
+.chart .ct{font-weight:600;font-size:13px}.chart .cl,.chart .cv{font-size:12px}
+.hidden{display:none}
+"""
+
+_JS = """
+(function(){
+  var jobs=[].slice.call(document.querySelectorAll('section.job')), cur=-1;
+  function clear(){[].forEach.call(document.querySelectorAll('.ln.hl'),function(e){e.classList.remove('hl');});}
+  function mark(ids){var first=null;ids.forEach(function(id){var e=document.getElementById(id);
+    if(e){e.classList.add('hl');first=first||e;}});if(first){first.scrollIntoView({block:'center'});}}
+  document.addEventListener('click',function(ev){var l=ev.target.closest('.ln');if(!l)return;
+    var to=l.getAttribute('data-java')||l.getAttribute('data-py');if(!to)return;clear();l.classList.add('hl');
+    mark(to.split(' '));});
+  function visible(){return jobs.filter(function(j){return !j.classList.contains('hidden');});}
+  function go(step){var v=visible();if(!v.length)return;var i=v.indexOf(jobs[cur]);i=Math.max(0,Math.min(v.length-1,i+step));
+    if(cur>=0)jobs[cur].classList.remove('current');cur=jobs.indexOf(v[i]);v[i].classList.add('current');
+    v[i].scrollIntoView({block:'start'});v[i].focus({preventScroll:true});}
+  document.addEventListener('keydown',function(ev){var t=ev.target;
+    if(t.tagName==='SELECT'||(t.tagName==='INPUT'&&t.type!=='checkbox'))return;
+    if(ev.key==='j'||ev.key==='n'){go(1);}else if(ev.key==='k'||ev.key==='p'){go(-1);}});
+  function filter(){var on=[].slice.call(document.querySelectorAll('.filters input:checked')).map(function(e){return e.value;});
+    var cat=document.getElementById('category').value;
+    jobs.forEach(function(j){var ok=on.indexOf(j.getAttribute('data-status'))>=0&&
+      (!cat||(' '+j.getAttribute('data-categories')+' ').indexOf(' '+cat+' ')>=0);j.classList.toggle('hidden',!ok);});}
+  [].forEach.call(document.querySelectorAll('.filters input,.filters select'),function(e){e.addEventListener('change',filter);});
+})();
+"""
+
+
+def render_review(report: dict, out_dir: Path) -> str:
+    """The whole page."""
+    source = Path(report.get("source") or ".")
+    s = report["summary"]
+    cats = sorted({h["category"] for j in report["jobs"] for h in j["hand_work"]})
+    e = report["effort"]
+    filters = ("".join(f'<label><input type="checkbox" value="{k}" checked> {k.replace("_", " ")}</label>'
+                       for k in ("converted", "partial", "not_converted"))
+               + '<label>hand work: <select id="category"><option value="">any</option>'
+               + "".join(f'<option value="{html.escape(c)}">{html.escape(c)}</option>' for c in cats)
+               + "</select></label> · keys: j / k next and previous job · click a line to see where it came from")
+    summary = (f"<p>{s['jobs']} jobs: {s['converted']} converted, {s['partial']} partial, {s['not_converted']} not "
+               f"converted; {s.get('verified', 0)} checked against Hadoop with the same output. Estimated effort "
+               f"<b>{e['hours']:.1f} h</b> (range {e['range_hours'][0]:.1f} to {e['range_hours'][1]:.1f} h, "
+               f"{html.escape(e['model'])}). {html.escape(e['caveat'])}</p>")
+    sections = "".join(_job_section(k, j, source, out_dir) for k, j in enumerate(report["jobs"]))
+    style = HtmlFormatter(style="default").get_style_defs(".code")
+    data = html.escape(json.dumps({"summary": s, "effort_hours": e["hours"]}), quote=False)
+    return ("<!DOCTYPE html><html lang=\"en\"><head><meta charset=\"utf-8\">"
+            "<meta http-equiv=\"Content-Security-Policy\" content=\"default-src 'none'; style-src 'unsafe-inline'; "
+            "script-src 'unsafe-inline'; img-src data:\">"
+            f"<title>mrlift review: {html.escape(report['repository'])}</title><style>{_CSS}{style}</style></head><body>"
+            f"<header><h1>mrlift review: {html.escape(report['repository'])}</h1><div class=\"filters\">{filters}</div>"
+            f"</header><div class=\"warn\"><b>{html.escape(report['warning'])}</b></div><main>{summary}"
+            f"<div class=\"summary\">{charts(report)}</div>{sections}</main>"
+            f"<script type=\"application/json\" id=\"report-numbers\">{data}</script><script>{_JS}</script></body></html>")

@@ -1,0 +1,64 @@
+"""review.html without a browser: hostile Java text stays text, and the page's numbers are report.json's."""
+from __future__ import annotations
+
+import json
+
+from migrate.convert import write_outputs
+from migrate.scan import scan_repo
+
+HOSTILE = """package p;
+import java.io.IOException;
+import org.apache.hadoop.conf.Configuration;
+import org.apache.hadoop.fs.Path;
+import org.apache.hadoop.io.*;
+import org.apache.hadoop.mapreduce.*;
+import org.apache.hadoop.mapreduce.lib.input.FileInputFormat;
+import org.apache.hadoop.mapreduce.lib.output.FileOutputFormat;
+
+/** </div><script>alert("doc")</script> & <b>bold</b> */
+public class Hostile {
+    public static class M extends Mapper<LongWritable, Text, Text, IntWritable> {
+        protected void map(LongWritable k, Text v, Context c) throws IOException, InterruptedException {
+            // <img src=x onerror=alert(1)> "quoted" 'single'
+            String s = v.toString() + "</script><script>alert('string')</script>";
+            c.write(new Text(s), new IntWritable(1));
+        }
+    }
+    public static void main(String[] args) throws Exception {
+        Job job = Job.getInstance(new Configuration(), "hostile <job> & co");
+        job.setMapperClass(M.class);
+        job.setNumReduceTasks(0);
+        job.setOutputKeyClass(Text.class);
+        job.setOutputValueClass(IntWritable.class);
+        FileInputFormat.addInputPath(job, new Path(args[0]));
+        FileOutputFormat.setOutputPath(job, new Path(args[1]));
+        job.waitForCompletion(true);
+    }
+}
+"""
+
+
+def test_hostile_java_text_is_shown_as_text(tmp_path):
+    (tmp_path / "repo" / "p").mkdir(parents=True)
+    (tmp_path / "repo" / "p" / "Hostile.java").write_text(HOSTILE)
+    write_outputs(scan_repo(tmp_path / "repo"), tmp_path / "out", "repo <&>")
+    page = (tmp_path / "out" / "review.html").read_text()
+    assert page.count("<script") == 2  # the page's own: the numbers (JSON) and the behaviour
+    assert "<img" not in page and "<b>bold" not in page and "</div><script>" not in page
+    assert "&lt;/div&gt;&lt;script&gt;alert" in page and "&lt;img src=x onerror=alert(1)&gt;" in page
+    assert "hostile &lt;job&gt; &amp; co" in page and "mrlift review: repo &lt;&amp;&gt;" in page
+    assert "http://" not in page.replace('xmlns="http://www.w3.org/2000/svg"', "") and "https://" not in page
+
+
+def test_page_numbers_and_charts_match_the_report(converted_samples):
+    out_dir, _ = converted_samples
+    report = json.loads((out_dir / "report.json").read_text())
+    page = (out_dir / "review.html").read_text()
+    s = report["summary"]
+    assert f"{s['jobs']} jobs: {s['converted']} converted, {s['partial']} partial" in page
+    assert f"<b>{report['effort']['hours']:.1f} h</b>" in page
+    assert page.count('<section class="job"') == len(report["jobs"])
+    for j in report["jobs"]:  # each job's effort bar is labelled with the report's hours
+        assert f">{round(j['effort_hours'], 1):g} h</text>" in page
+    csv_lines = (out_dir / "effort.csv").read_text().splitlines()
+    assert len(csv_lines) == 1 + len(report["jobs"]) + sum(len(j["hand_work"]) for j in report["jobs"]) + 1
