@@ -63,6 +63,7 @@ def test_repository_example_apportions_one_cocomo_run():
 
 
 # ---------------------------------------------------------------- properties of the proposed model (EFFORT.md)
+import json  # noqa: E402
 import random  # noqa: E402
 
 
@@ -149,3 +150,20 @@ def test_a_bad_effort_file_names_itself_and_the_key(tmp_path, text, message):
     f.write_text(text)
     with pytest.raises(E.EffortConfigError, match=message.replace("[", r"\[").replace("]", r"\]")):
         E.load_model(f)
+
+
+def test_convert_takes_an_effort_file_and_refuses_a_bad_one(tmp_path, capsys):
+    from migrate.cli import main
+    from tests.conftest import SAMPLES
+
+    good = tmp_path / "good.toml"
+    good.write_text("[cocomo]\nhours_per_pm = 140\n")
+    assert main(["convert", str(SAMPLES), "-o", str(tmp_path / "out"), "--effort", str(good)]) == 0
+    report = json.loads((tmp_path / "out" / "report.json").read_text())
+    hp = [c for c in report["effort"]["constants"] if c["name"] == "hours_per_pm"]
+    assert hp == [{"name": "hours_per_pm", "value": 140.0, "basis": "your file (good.toml)"}]
+    bad = tmp_path / "bad.toml"
+    bad.write_text("[cocomo]\nhours = 1\n")
+    assert main(["convert", str(SAMPLES), "-o", str(tmp_path / "out2"), "--effort", str(bad)]) == 2
+    assert "bad.toml: unknown key cocomo.hours" in capsys.readouterr().out
+    assert not (tmp_path / "out2").exists()  # nothing written
