@@ -24,22 +24,24 @@ def _lines(out: Path) -> list[str]:
     return "".join(p.read_text() for p in sorted(out.glob("part-*"))).splitlines()
 
 
-def test_a_key_repeated_in_the_side_file_keeps_its_last_value(spark, tmp_path):
+def _zone_job(tmp_path, case: str, reports: str, zones: str) -> list[str]:
+    """Run a golden zone script: dock reports (id TAB ...) and a zones side file (id,zone)."""
     (tmp_path / "in").mkdir()
-    (tmp_path / "in" / "r.tsv").write_text("7\tx\n8\ty\n")
-    (tmp_path / "zones.csv").write_text("7,North\n8,East\n7,South\n")
-    script = load_script(GOLDEN / "lookup_skip" / "expected.py")
+    (tmp_path / "in" / "r.tsv").write_text(reports)
+    (tmp_path / "zones.csv").write_text(zones)
+    script = load_script(GOLDEN / case / "expected.py")
     assert script.main([str(tmp_path / "in"), str(tmp_path / "out"), str(tmp_path / "zones.csv")]) == 0
-    assert _lines(tmp_path / "out") == ["South\t7:south", "East\t8:east"]
+    return _lines(tmp_path / "out")
+
+
+def test_a_key_repeated_in_the_side_file_keeps_its_last_value(spark, tmp_path):
+    lines = _zone_job(tmp_path, "lookup_skip", "7\tx\n8\ty\n", "7,North\n8,East\n7,South\n")
+    assert lines == ["South\t7:south", "East\t8:east"]
 
 
 def test_a_missing_key_passes_through_where_java_tests_for_null(spark, tmp_path):
-    (tmp_path / "in").mkdir()
-    (tmp_path / "in" / "r.tsv").write_text("7\tx\n9\ty\n")
-    (tmp_path / "zones.csv").write_text("7,North\n")
-    script = load_script(GOLDEN / "pass_through" / "expected.py")
-    assert script.main([str(tmp_path / "in"), str(tmp_path / "out"), str(tmp_path / "zones.csv")]) == 0
-    assert _lines(tmp_path / "out") == ["North\tlisted", "9\tunlisted"]
+    lines = _zone_job(tmp_path, "pass_through", "7\tx\n9\ty\n", "7,North\n")
+    assert lines == ["North\tlisted", "9\tunlisted"]
 
 
 def test_a_lookup_behind_a_length_check_runs_only_where_the_check_holds(spark, tmp_path, converted_samples):
