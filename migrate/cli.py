@@ -12,6 +12,7 @@ from rich.table import Table
 from migrate import __version__
 from migrate.convert import OutputFolderError, write_outputs
 from migrate.pathmap import PathMapError, load_path_map
+from migrate.report.effort import EffortConfigError, load_model
 from migrate.scan import RepoScan, scan_repo
 
 STATUS_STYLE = {"converted": "green", "partial": "yellow", "not_converted": "red"}
@@ -81,8 +82,6 @@ def main(argv: list[str] | None = None) -> int:
 
             check_output_folder(args.output, args.force)
             path_map = load_path_map(args.path_map) if args.path_map else None
-            from migrate.report.effort import EffortConfigError, load_model
-
             model = load_model(args.effort) if args.effort else None
         except (OutputFolderError, PathMapError, EffortConfigError) as exc:
             console.print(f"[red]mrlift: {exc}[/red]")
