@@ -169,10 +169,17 @@ def to_markdown(report: dict) -> str:
             out.append(f"| PERT total | {e['pert']['hours']} h, σ {e['pert']['sigma']} h | (O + 4M + P) / 6 |")
         out += ["", "</details>", ""]
     for j in report["jobs"]:
+        v = j.get("verification") or {}
         if not (j["hand_work"] or j["notes"] or j["counters"] or j["findings"] or j["aggregates"] or j["inputs"]
-                or j["side_tables"] or j["chain"]):
+                or j["side_tables"] or j["chain"] or v.get("verdict") in ("error", "differs")):
             continue
         out += [f"## {j['name']} ({j['status']})", ""]
+        if v.get("verdict") in ("error", "differs"):
+            out.append(f"- **checked against Hadoop: {v['verdict']}**: {v['detail']} ({v['checked_at']})")
+            for d in (v.get("comparison") or {}).get("differences", []):
+                out.append(f"  - line {d['line']}: original `{d['original']}`, script `{d['converted']}`")
+            if v.get("log"):
+                out += ["", "```", v["log"], "```", ""]
         for h in j["hand_work"]:
             out += [f"- **{h['category']}** at `{h['file']}:{h['line']}`: {h['reason']}",
                     f"  - code: `{h['snippet']}`" if h["snippet"] else "  - code: (see file)",

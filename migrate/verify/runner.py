@@ -62,9 +62,7 @@ class Check:
     intermediates: list[dict] = field(default_factory=list)
 
     def for_report(self) -> dict:
-        d = asdict(self)
-        d.pop("log")
-        return d
+        return asdict(self)  # with the tail of the tool's output where something failed
 
 
 def load_runs(path: Path) -> dict[str, JobRun]:

@@ -215,6 +215,13 @@ def test_compile_errors_time_limits_and_missing_data_are_verdicts(tmp_path):
     assert by["p.Slow"].verdict == "error" and "time limit" in by["p.Slow"].detail
     assert by["p.Fine"].verdict == "agrees", by["p.Fine"]
     assert by["p.NoData"].verdict == "skipped" and "no sample data" in by["p.NoData"].detail
+    from migrate.convert import record_checks
+
+    record_checks(out, json.loads((out / "report.json").read_text()), checks)
+    md = (out / "report.md").read_text()  # the tool's output is kept with the verdict
+    assert "checked against Hadoop: error**: the original Java does not compile" in md and "incompatible types" in md
+    (broken,) = [j for j in json.loads((out / "report.json").read_text())["jobs"] if j["driver"] == "p.Broken"]
+    assert "incompatible types" in broken["verification"]["log"]
     assert sorted(p.name for p in data.iterdir()) == ["lines.txt"]  # nothing written into the data folder
 
     # convert --with-tests: a pytest file per job that runs the same check, for the team's own CI
