@@ -159,9 +159,7 @@ def write_outputs(scan: RepoScan, out: Path, root_label: str, force: bool = Fals
         if progress:
             progress(job)
     base = scan.root if scan.root.is_dir() else scan.root.parent  # the job files' paths start here
-    from migrate.report.effort import DEFAULT
-
-    report = build_report(written, errors, root_label, str(base), effort_model or DEFAULT)
+    report = build_report(written, errors, root_label, str(base), effort_model)
     _write_reports(writer, report, out)
     if with_tests:
         _write_checks(writer, report)

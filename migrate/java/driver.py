@@ -99,7 +99,6 @@ _HARMLESS = {"setJarByClass", "setJar", "waitForCompletion", "submit", "setJobNa
              "isSuccessful", "currentTimeMillis"}
 # Calls that read what a finished job left: its counters, or files (its output) opened by the driver.
 _AFTER_JOB = {"getCounters", "open", "listStatus", "globStatus", "getJobState"}
-_CHAIN_CALLS = {"addInputPath": "MultipleInputs", "addNamedOutput": "MultipleOutputs"}
 
 
 def read_drivers(index: ClassIndex) -> tuple[list[JobSpec], list[tuple[ClassInfo, int, str]]]:

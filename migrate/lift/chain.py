@@ -29,14 +29,16 @@ def chain_jobs(results: list[JobResult]) -> list[JobResult]:
         while i + len(group) < len(results) and _same_driver(results[i + len(group)], group[0]):
             group.append(results[i + len(group)])
         i += len(group)
-        chained = _pipeline(group) if len(group) > 1 else None
-        out.extend([chained] if chained is not None else _kept_apart(group) if len(group) > 1 else group)
+        if len(group) == 1:
+            out.extend(group)
+            continue
+        why = why_not_chained(group)
+        out.extend([_pipeline(group)] if why is None else _kept_apart(group, why))
     return out
 
 
-def _kept_apart(group: list[JobResult]) -> list[JobResult]:
+def _kept_apart(group: list[JobResult], why: str) -> list[JobResult]:
     """Jobs of one driver that stay one script each: their chained-jobs item says why."""
-    why = why_not_chained(group)
     out = []
     for job in group:
         hand = tuple(replace(h, reason=f"the driver runs {len(group)} jobs in sequence; each is converted on its own "
@@ -71,9 +73,8 @@ def why_not_chained(group: list[JobResult]) -> str | None:
     return None
 
 
-def _pipeline(group: list[JobResult]) -> JobResult | None:
-    if why_not_chained(group) is not None:
-        return None
+def _pipeline(group: list[JobResult]) -> JobResult:
+    """One result for a chain that why_not_chained() accepted."""
     last = group[-1]
     params: list[Param] = []
     names: set[str] = set()

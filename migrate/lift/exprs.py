@@ -398,6 +398,15 @@ def _invocation(node: T.MethodInvocation, scope: Scope) -> Expr:
                       "inline the helper by hand, or express it with pyspark.sql.functions")
 
 
+def lookup_key(table, arg, scope: Scope, node) -> Expr:
+    """The key of a side-table lookup, of the table's key type (else Java's equals() never matches)."""
+    key = lift(arg, scope)
+    if key.jtype != table.key_type:
+        raise Unsupported(node, f"the key is a {key.jtype} and the table holds {table.key_type} keys: Java's equals() "
+                                "never matches them")
+    return key
+
+
 def _table_call(table, node: T.MethodInvocation, scope: Scope) -> Expr:
     """`map.containsKey(k)`, `map.getOrDefault(k, d)`, `set.contains(k)` on a side table."""
     m, args = node.member, node.arguments or []
@@ -409,11 +418,7 @@ def _table_call(table, node: T.MethodInvocation, scope: Scope) -> Expr:
                                 "and Spark treat differently", "assign it to a local, and test that for null")
     if wanted.get(m) != len(args):
         raise Unsupported(node, f"{'HashMap' if table.kind == 'map' else 'HashSet'}.{m}() of a side table is not lifted")
-    key = lift(args[0], scope)
-    if key.jtype != table.key_type:
-        raise Unsupported(node, f"the key is a {key.jtype} and the table holds {table.key_type} keys: Java's equals() "
-                                "never matches them")
-    found = scope.lookup(table, key, node, scope.conditions)
+    found = scope.lookup(table, lookup_key(table, args[0], scope, node), node, scope.conditions)
     if m == "getOrDefault":
         default = lift(args[1], scope)
         if isinstance(default, Lit) and default.value is None or default.jtype != table.value_type:

@@ -18,7 +18,7 @@ from javalang import tree as T
 from migrate.java.index import ClassInfo, node_lines
 from migrate.lift.writables import structs_of
 from migrate.lift.exprs import (CATCH_ALL, WRITABLE_OF, MaybeNull, Opaque, Scope, Tokenizer, Unsupported, Writable,
-                                lift, refined, widen, writable_creator, writable_set, write_argument)
+                                lift, lookup_key, refined, widen, writable_creator, writable_set, write_argument)
 from migrate.lift import dates
 from migrate.lift.combining import combining_update, map_fields
 from migrate.lift.counters import counter_update, is_counter_call
@@ -252,7 +252,7 @@ class MapBodyLifter:
             return
         table = self.scope.env.get(init.qualifier) if isinstance(init, T.MethodInvocation) else None
         if isinstance(table, SideTable) and init.member == "get" and not init.selectors:
-            self._declare_lookup(s, d, table, tname, guard)
+            self._declare_lookup(s, d, table, tname)
             return
         made = date_object(init, s)
         if made is not None:
@@ -273,7 +273,7 @@ class MapBodyLifter:
             return
         self._let(d.name, e, guard, s)
 
-    def _declare_lookup(self, s, d, table: SideTable, tname: str, guard) -> None:
+    def _declare_lookup(self, s, d, table: SideTable, tname: str) -> None:
         """`String v = table.get(key);`: v is NULL where the key is missing, and only null tests may read it."""
         if table.kind != "map" or len(d.initializer.arguments or []) != 1:
             raise Unsupported(s, f"{table.field}.get(...) with other than one key")
@@ -281,11 +281,7 @@ class MapBodyLifter:
             raise Unsupported(s, f"`{d.name}` is a {tname}: a missing key would be unboxed (NullPointerException)"
                                  if tname in ("int", "long", "double") else f"`{d.name}` of type {tname} from a side table",
                               "use getOrDefault with a default, or declare the local as the table's value type")
-        key = lift(d.initializer.arguments[0], self.scope)
-        if key.jtype != table.key_type:
-            raise Unsupported(s, f"the key is a {key.jtype} and the table holds {table.key_type} keys: Java's equals() "
-                                 "never matches them")
-        self.guard_now = guard
+        key = lookup_key(table, d.initializer.arguments[0], self.scope, s)
         self.scope.env[d.name] = MaybeNull(self._lookup(table, key, d.initializer, (), name=d.name))
         if self.loop_locals:
             self.loop_locals[-1].add(d.name)

@@ -273,7 +273,7 @@ class _SetupReader:
     def loop(self, s, found: tuple[str, str, list]) -> None:
         reader, var, body = found
         lifter = _LineLifter(self.cls, self.method, var, self.fields, self.index, self.constants)
-        res = lifter.lift_lines(body, s)
+        res = lifter.run(body, s)
         if res.hand_work:
             self.found.problems.extend((h.origin.line_start, h.reason) for h in res.hand_work)
             return
@@ -307,9 +307,6 @@ class _LineLifter(MapBodyLifter):
         self.emit_target = None
         self.fields = fields
         self.puts: list[tuple[str, Emit]] = []
-
-    def lift_lines(self, body, loop):
-        return self.run(body, loop)
 
     def _expression_statement(self, s, guard) -> None:
         e = s.expression

@@ -35,13 +35,13 @@ PROFILES = {
 SU, UNFM = 30.0, 0.4  # software understanding Nominal, unfamiliarity "mostly unfamiliar" (our defaults)
 
 
-def exponent(sum_sf: float = NOMINAL_SF) -> float:
-    return B + 0.01 * sum_sf
+def exponent(sum_sf: float = NOMINAL_SF, b: float = B) -> float:
+    return b + 0.01 * sum_sf
 
 
-def person_months(ksloc: float, sum_sf: float = NOMINAL_SF, eaf: float = 1.0) -> float:
+def person_months(ksloc: float, sum_sf: float = NOMINAL_SF, eaf: float = 1.0, a: float = A, b: float = B) -> float:
     """PM = A · Size^E · EAF, Size in KSLOC."""
-    return A * ksloc ** exponent(sum_sf) * eaf if ksloc > 0 else 0.0
+    return a * ksloc ** exponent(sum_sf, b) * eaf if ksloc > 0 else 0.0
 
 
 def schedule_months(pm: float, sum_sf: float = NOMINAL_SF) -> float:
@@ -204,8 +204,7 @@ def repository_hours(jobs: list[JobEffort], model: Model = DEFAULT) -> dict:
     PERT hours the team gave for whole categories (means add; σ by root-sum-square)."""
     eslocs = {j.name: j.esloc_under(model) for j in jobs}
     total_esloc = sum(eslocs.values())
-    ksloc = total_esloc / 1000.0
-    manual_pm = model.a * ksloc ** (model.b + 0.01 * model.sum_sf) if ksloc > 0 else 0.0
+    manual_pm = person_months(total_esloc / 1000.0, model.sum_sf, a=model.a, b=model.b)
     per_job, cocomo_hours, pert_all = {}, 0.0, []
     for j in jobs:
         share = manual_pm * (eslocs[j.name] / total_esloc) if total_esloc else 0.0

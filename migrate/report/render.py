@@ -20,8 +20,9 @@ def job_effort(job: JobResult, name: str) -> JobEffort:
 
 
 def build_report(jobs: list[tuple[JobResult, str]], errors: list[ParseFailure], root_label: str,
-                 source: str | None = None, model: Model = DEFAULT) -> dict:
-    """The report as plain data (what report.json holds)."""
+                 source: str | None = None, model: Model | None = None) -> dict:
+    """The report as plain data (what report.json holds); `model`: the effort constants (default: published)."""
+    model = model or DEFAULT
     efforts = [job_effort(j, script) for j, script in jobs]
     est = repository_hours(efforts, model)
     out_jobs = []

@@ -39,20 +39,14 @@ def highlighted_lines(code: str, lexer) -> list[str]:
     return lines
 
 
-def _files_of(job: dict) -> list[tuple[str, int, int]]:
-    """The job's Java files (path relative to the source root), each once, driver first."""
-    seen: dict[str, tuple[int, int]] = {}
-    for span in job["files"].values():
-        path, _, lines = span.rpartition(":")
-        a, _, b = lines.partition("-")
-        if path not in seen:
-            seen[path] = (int(a or 0), int(b or a or 0))
-    return [(p, a, b) for p, (a, b) in seen.items()]
+def _files_of(job: dict) -> list[str]:
+    """The job's Java files (paths relative to the source root), each once, in the report's order."""
+    return list(dict.fromkeys(span.rpartition(":")[0] for span in job["files"].values()))
 
 
 def _job_section(k: int, job: dict, source: Path, out_dir: Path) -> str:
     files = _files_of(job)
-    by_name = {Path(p).name: i for i, (p, _, _) in enumerate(files)}
+    by_name = {Path(p).name: i for i, p in enumerate(files)}
     script_path = out_dir / job["script"]
     script = script_path.read_text(encoding="utf-8") if script_path.exists() else "# (script not written)\n"
     py_lines = highlighted_lines(script, PythonLexer())
@@ -71,7 +65,7 @@ def _job_section(k: int, job: dict, source: Path, out_dir: Path) -> str:
         hand_by_line.setdefault((h["file"], h["line"]), []).append(h)
     java_html = []
     placed: set[tuple[str, int]] = set()  # hand-work lines shown inline
-    for i, (path, _, _) in enumerate(files):
+    for i, path in enumerate(files):
         f = source / path
         text = f.read_text(encoding="utf-8", errors="replace") if f.exists() else f"// {path} is not at {source}\n"
         java_html.append(f'<div class="file">{html.escape(path)}</div>')

@@ -9,7 +9,7 @@ from __future__ import annotations
 import re
 from collections import Counter
 from dataclasses import dataclass
-from itertools import groupby
+from itertools import groupby, zip_longest
 from pathlib import Path
 
 
@@ -153,32 +153,24 @@ def compare_folders(original: Path, converted: Path, mode: str = "bytes", tolera
     def text(x: bytes | None) -> str:
         return "(no line)" if x is None else x.decode("utf-8", "replace")
 
+    def compare(xs: list, ys: list, first_line: int, test) -> None:
+        for i, (x, y) in enumerate(zip_longest(xs, ys), first_line):
+            if x is None or y is None or not test(x, y):
+                diffs.append((i, text(x), text(y)))
+
+    def key(line: bytes) -> bytes:
+        return line.split(separator, 1)[0]
+
     if mode == "bytes":
-        for i in range(max(len(a), len(b))):
-            x, y = a[i] if i < len(a) else None, b[i] if i < len(b) else None
-            if x is None or y is None or not same(x, y):
-                diffs.append((i + 1, text(x), text(y)))
+        compare(a, b, 1, same)
     elif mode == "keys":
-        ka, kb = [x.split(separator, 1)[0] for x in a], [y.split(separator, 1)[0] for y in b]
-        for i in range(max(len(ka), len(kb))):
-            x, y = ka[i] if i < len(ka) else None, kb[i] if i < len(kb) else None
-            if x != y:
-                diffs.append((i + 1, text(x), text(y)))
-    else:
-        groups_a = [(k, sorted(g)) for k, g in groupby(a, key=lambda x: x.split(separator, 1)[0])] \
-            if mode == "within-key" else [(b"", sorted(a))]
-        groups_b = [(k, sorted(g)) for k, g in groupby(b, key=lambda x: x.split(separator, 1)[0])] \
-            if mode == "within-key" else [(b"", sorted(b))]
-        line = 0
-        for i in range(max(len(groups_a), len(groups_b))):
-            ga = groups_a[i] if i < len(groups_a) else (None, [])
-            gb = groups_b[i] if i < len(groups_b) else (None, [])
-            if ga[0] != gb[0] or len(ga[1]) != len(gb[1]) or not all(map(same, ga[1], gb[1])):
-                for j in range(max(len(ga[1]), len(gb[1]))):
-                    x, y = ga[1][j] if j < len(ga[1]) else None, gb[1][j] if j < len(gb[1]) else None
-                    if x is None or y is None or not same(x, y):
-                        diffs.append((line + j + 1, text(x), text(y)))
-            line += len(ga[1])
-    if tolerance is None or not used:
-        used = False
+        compare([key(x) for x in a], [key(y) for y in b], 1, bytes.__eq__)
+    else:  # each group's lines as a multiset: sorted, then line by line
+        def groups(lines: list[bytes]) -> list[list[bytes]]:
+            return [sorted(g) for _, g in groupby(lines, key=key)] if mode == "within-key" else [sorted(lines)]
+
+        line = 1
+        for ga, gb in zip_longest(groups(a), groups(b), fillvalue=[]):
+            compare(ga, gb, line, same)
+            line += len(ga)
     return Verdict(not diffs, mode, len(a), len(b), missing, extra, tuple(diffs[:show]), used and not diffs)
