@@ -39,7 +39,13 @@ def _parser() -> argparse.ArgumentParser:
     c.add_argument("--path-map", type=Path, metavar="FILE",
                    help="TOML file whose [paths] table maps old storage prefixes (hdfs://...) to new ones")
     v = sub.add_parser("verify", help="run the original jobs (Hadoop local runner) and their scripts (local Spark) "
-                       "on sample data and compare the outputs; verdicts go into the report")
+                       "on sample data and compare the outputs; verdicts go into the report",
+                       description="Runs each original job on Hadoop's local runner and its script on local Spark "
+                       "over copies of the same sample data, and compares the outputs. WARNING: this executes the "
+                       "repository's Java code (each driver's main()) with your rights on this machine: run it on "
+                       "code you trust, or as a user or in a container that can reach only the checkout and the "
+                       "data. Runs file paths are relative to the runs file's folder and must lie inside its data "
+                       "folder; a job that changes files outside its output folder gets an error verdict.")
     v.add_argument("output", type=Path, help="the folder `mrlift convert` wrote (scripts and report.json)")
     data = v.add_mutually_exclusive_group(required=True)
     data.add_argument("--runs", type=Path, metavar="FILE",

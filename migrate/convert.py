@@ -188,9 +188,10 @@ def _write_checks(writer: _Writer, report: dict) -> None:
                                                     "@tmp" + a["name"].split("_")[1] if a["name"].startswith("job_")
                                                     else f"<{a['name']}: a sample file or folder>" for a in args]})
     skeleton = {"about": "Sample data per job for tests/test_*.py and `mrlift verify --runs`: the driver's "
-                         "arguments, paths relative to this file; '@out' is the output folder. Move an entry from "
-                         "'todo' into 'runs' once its paths point at sample data; until then its test is skipped.",
-                "runs": [], "todo": runs}
+                         "arguments, paths relative to this file; '@out' is the output folder; every input must lie "
+                         "in the 'data' folder (relative to this file). Move an entry from 'todo' into 'runs' once "
+                         "its paths point at sample data; until then its test is skipped.",
+                "data": ".", "runs": [], "todo": runs}
     writer.write("tests/runs.json", json.dumps(skeleton, indent=2) + "\n")
 
 

@@ -1,10 +1,14 @@
 """`mrlift verify`: run each original job on Hadoop's local runner and its script on local Spark,
 over the same sample data, and compare the outputs.
 
-Safety: it runs the user's Java only when asked, in a temporary working folder (compiled classes,
-sampled inputs and both outputs go there), with a time limit per job; it never writes into the
-repository or the data folders. A compile error, a failing job or a run past its time limit is a
-verdict for that job, with the tool's output, and the batch goes on.
+Safety: it executes the repository's own code (the drivers' main()) with the user's rights. Each
+run gets its own copies of the inputs, in a temporary working folder that is also its current
+folder (compiled classes and both outputs go there too), and a time limit. Inputs must lie inside
+the data folder given (the runs file's folder, or --data). The repository, the data folder and
+the input copies are fingerprinted before and after the original runs: a job that changed any of
+them wrote outside its output, which its script does not reproduce, and gets an error verdict.
+A compile error, a failing job or a run past its time limit is a verdict for that job, with the
+tool's output, and the batch goes on.
 """
 from __future__ import annotations
 
@@ -42,6 +46,8 @@ class JobRun:
     mode: str | None = None  # one of compare.MODES; None: what the report says the original defines
     intermediates: tuple[str, ...] = ()
     data: str = ""  # where the data came from, for the report
+    root: str = ""  # the data folder every input must lie in
+    inputs: tuple[int, ...] = ()  # positions of args that are local files or folders (copied for each run)
 
 
 @dataclass
@@ -60,6 +66,9 @@ class Check:
     comparison: dict | None = None  # Verdict fields, for the report
     log: str = ""  # the tail of the tool output where something failed
     intermediates: list[dict] = field(default_factory=list)
+    arguments: list[str] = field(default_factory=list)  # the driver's arguments, as in the runs file
+    tolerance: float | None = None  # the relative tolerance the comparison allowed, if any
+    writes_outside: list[str] = field(default_factory=list)  # files the original changed outside its output
 
     def for_report(self) -> dict:
         return asdict(self)  # with the tail of the tool's output where something failed
@@ -67,7 +76,10 @@ class Check:
 
 def load_runs(path: Path) -> dict[str, JobRun]:
     """A runs file: {"runs": [{"driver": …, "args": [...], "values_order"?, "compare"?, "intermediates"?}]}
-    (the format of samples/*/runs.json). Relative paths are relative to the file's folder."""
+    (the format of samples/*/runs.json). An argument is a path, relative to the file's folder, when
+    it names a file or folder there (each part of a comma list); `-D name=value`, `-Dname=value` and
+    other words are passed as they are. Every path must lie inside the data folder: "data" in the
+    file (relative to it), else the runs file's own folder."""
     try:
         data = json.loads(path.read_text(encoding="utf-8"))
     except (OSError, ValueError) as exc:
@@ -75,18 +87,40 @@ def load_runs(path: Path) -> dict[str, JobRun]:
     runs = data.get("runs") if isinstance(data, dict) else None
     if not isinstance(runs, list):
         raise VerifyError(f"{path}: expected an object with a \"runs\" list")
+    root = (path.resolve().parent / str(data.get("data", "."))).resolve()
     out = {}
     for i, r in enumerate(runs, 1):
         if not isinstance(r, dict) or not isinstance(r.get("driver"), str) or not isinstance(r.get("args"), list):
             raise VerifyError(f"{path}: run {i} needs \"driver\" (a class name) and \"args\" (a list)")
         mode = {"keys": "keys", "lines": "lines"}.get(r.get("compare")) or \
             ("within-key" if r.get("values_order") == "undefined" else None)
-        args = tuple(a if a.startswith("@") else ",".join(str((path.parent / p).resolve()) for p in a.split(","))
-                     for a in map(str, r["args"]))
-        out[r["driver"]] = JobRun(r["driver"], args, mode, tuple(r.get("intermediates", [])), str(path))
+        args, inputs = _place_arguments([str(a) for a in r["args"]], path.resolve().parent, root,
+                                        f"{path}: run {i} ({r['driver']})")
+        out[r["driver"]] = JobRun(r["driver"], args, mode, tuple(r.get("intermediates", [])), str(path), str(root),
+                                  inputs)
     return out
 
 
+def _place_arguments(raw: list[str], base: Path, root: Path, where: str) -> tuple[tuple[str, ...], tuple[int, ...]]:
+    """Resolve the path arguments against `base`, refusing any outside `root`; options stay as they are."""
+    args, inputs = [], []
+    option_value = False
+    for a in raw:
+        if option_value or a.startswith("@") or a.startswith("-"):
+            option_value = a in ("-D", "-conf", "-fs", "-jt", "-files", "-libjars", "-archives")
+            args.append(a)
+            continue
+        parts = [(base / p).resolve() for p in a.split(",")]
+        if not any(p.exists() for p in parts) and not any(c in a for c in "*?["):
+            args.append(a)  # a word, not a path (a number, a date, a name)
+            continue
+        for p in parts:
+            if p != root and root not in p.parents:
+                raise VerifyError(f"{where}: the input {p} is outside the data folder {root}; verify reads only "
+                                  "inputs inside it (copy the sample data there)")
+        inputs.append(len(args))
+        args.append(",".join(str(p) for p in parts))
+    return tuple(args), tuple(inputs)
 def runs_from_folder(report: dict, data: Path) -> tuple[dict[str, JobRun], dict[str, str]]:
     """A folder per job, named like its script (`data/rides_per_station/`): the job's one input.
     Returns the runs and, per driver, why a job with a folder could not be run from it."""
@@ -113,36 +147,65 @@ def runs_from_folder(report: dict, data: Path) -> tuple[dict[str, JobRun], dict[
         if problem:
             why[job["driver"]] = problem
             continue
-        runs[job["driver"]] = JobRun(job["driver"], tuple(slots[i] for i in sorted(slots)), None, (), str(folder))
+        args = tuple(slots[i] for i in sorted(slots))
+        runs[job["driver"]] = JobRun(job["driver"], args, None, (), str(folder), str(data.resolve()),
+                                     tuple(i for i, a in enumerate(args) if not a.startswith("@")))
     return runs, why
 
 
-def sample_inputs(args: tuple[str, ...], n: int, into: Path) -> tuple[str, ...]:
-    """The first `n` lines of every input file (files of a folder, one by one), copied into `into`."""
-    out = []
-    for i, a in enumerate(args):
-        if a.startswith("@"):
-            out.append(a)
-            continue
+def copy_inputs(args: tuple[str, ...], inputs: tuple[int, ...], into: Path, n: int | None = None) -> tuple[str, ...]:
+    """Copies of the input files (a folder's files one by one) in `into`, all of each file or its
+    first `n` lines; the arguments that name them point at the copies."""
+    out = list(args)
+    for i in inputs:
         paths = []
-        for p in a.split(","):
+        for p in args[i].split(","):
             src = Path(p)
             dst = into / f"arg{i}" / src.name
             files = [src] if src.is_file() else sorted(f for f in src.rglob("*") if f.is_file()) if src.is_dir() else []
             if not files:
-                paths.append(p)  # not a local file: passed as it is
+                paths.append(p)  # a glob or a path that does not exist: passed as it is
                 continue
             for f in files:
                 target = dst if f == src else dst / f.relative_to(src)
                 target.parent.mkdir(parents=True, exist_ok=True)
                 with f.open("rb") as fin, target.open("wb") as fout:
+                    if n is None:
+                        shutil.copyfileobj(fin, fout)
+                        continue
                     for k, line in enumerate(fin):
                         if k >= n:
                             break
                         fout.write(line)
             paths.append(str(dst))
-        out.append(",".join(paths))
+        out[i] = ",".join(paths)
     return tuple(out)
+
+
+def fingerprint(folder: Path, skip: Path | None = None) -> dict[str, tuple[int, int]]:
+    """(size, modification time) of every file under `folder` (not under `skip`): enough to see a write."""
+    seen = {}
+    if not folder.is_dir():
+        return seen
+    for dirpath, dirnames, filenames in os.walk(folder):
+        here = Path(dirpath)
+        if skip is not None and (here == skip or skip in here.parents):
+            dirnames[:] = []
+            continue
+        for name in filenames:
+            f = here / name
+            try:
+                st = f.lstat()
+            except OSError:
+                continue
+            seen[str(f)] = (st.st_size, st.st_mtime_ns)
+    return seen
+
+
+def changed(before: dict[str, tuple[int, int]], after: dict[str, tuple[int, int]]) -> list[str]:
+    """Files added, removed or rewritten between two fingerprints."""
+    return sorted(f"{'removed' if k not in after else 'added' if k not in before else 'changed'}: {k}"
+                  for k in before.keys() | after.keys() if before.get(k) != after.get(k))
 
 
 def runnable(job: dict) -> str | None:
@@ -177,7 +240,7 @@ class Verifier:
             self.report = json.loads(report_file.read_text(encoding="utf-8"))
         except (OSError, ValueError) as exc:
             raise VerifyError(f"{report_file}: not a report mrlift wrote ({exc}); run `mrlift convert` first") from None
-        self.out_dir = out_dir
+        self.out_dir = out_dir.resolve()  # the script runs in another folder
         src = source or (Path(self.report["source"]) if self.report.get("source") else None)
         if src is None or not src.exists():
             raise VerifyError(f"the legacy sources are not at {src}: pass --source")
@@ -234,30 +297,46 @@ class Verifier:
             return
         c.mode = run.mode or job.get("comparison") or "bytes"
         c.data = run.data + (f" (first {self.sample} lines of each file)" if self.sample else "")
+        c.arguments = [_shown(a, run.root) for a in run.args]
+        c.tolerance = self.tolerance
         here = self.work / Path(job["script"]).stem
         here.mkdir(parents=True, exist_ok=True)
-        args = sample_inputs(run.args, self.sample, here / "data") if self.sample else run.args
         classes, log = self._classes_for(job)
         if classes is None:
             c.verdict, c.detail, c.log = ERROR, "the original Java does not compile", _tail(log)
             return
 
         def placed(side: str) -> list[str]:
+            """This side's arguments: its own copies of the inputs, its own output folders."""
+            args = copy_inputs(run.args, run.inputs, here / side / "in", self.sample)
             return [str(here / side / "out") if a == "@out" else str(here / side / a[1:]) if a.startswith("@tmp")
                     else a for a in args]
         (here / "original").mkdir()
-        ran = run_job(classes, job["driver"], placed("original"), cwd=here / "original", timeout=self.timeout,
+        original_args = placed("original")
+        outputs = [here / "original" / a[1:] for a in ("@out", *run.args) if a.startswith("@")]
+        watched = [(self.source, None), (Path(run.root), None), (here / "original", None)]
+        before = [fingerprint(f, skip) for f, skip in watched]
+        ran = run_job(classes, job["driver"], original_args, cwd=here / "original", timeout=self.timeout,
                       classpath=self.classpath)
+        after = [fingerprint(f, skip) for f, skip in watched]
+        c.writes_outside = [w for b, a in zip(before, after) for w in changed(b, a)
+                            if not any(o == Path(w.split(": ", 1)[1]) or o in Path(w.split(": ", 1)[1]).parents
+                                       for o in outputs)]
         if ran.returncode != 0:
             c.verdict, c.log = ERROR, _tail(ran.log)
             c.detail = (f"the original job ran longer than the time limit ({self.timeout:g} s)"
                         if ran.returncode == TIMED_OUT else f"the original job failed (exit {ran.returncode})")
             return
+        if c.writes_outside:
+            c.verdict, c.log = ERROR, "\n".join(c.writes_outside[:20])
+            c.detail = (f"the original job changed {len(c.writes_outside)} file(s) outside its output folder, "
+                        "which the script does not do: that I/O is hand work (see the log)")
+            return
         (here / "converted").mkdir()
         extra = ["--keep-intermediates"] if run.intermediates else []
         script = self.out_dir / job["script"]
         try:
-            p = subprocess.run([sys.executable, str(script), *placed("converted"), *extra], capture_output=True,
+            p = subprocess.run([sys.executable, str(script.resolve()), *placed("converted"), *extra], capture_output=True,
                                text=True, cwd=here / "converted", timeout=self.timeout,
                                env={**os.environ, "PYSPARK_PYTHON": sys.executable})
         except subprocess.TimeoutExpired:
@@ -274,7 +353,12 @@ class Verifier:
             c.intermediates.append({"folder": folder, **_verdict_dict(iv)})
         ok = v.agrees and all(i["agrees"] for i in c.intermediates)
         c.verdict = AGREES if ok else DIFFERS
-        c.detail = _summary(v, c.intermediates)
+        c.detail = _summary(v, c.intermediates, self.tolerance)
+
+
+def _shown(arg: str, root: str) -> str:
+    """An argument as the report shows it: paths relative to the data folder."""
+    return ",".join(os.path.relpath(p, root) if root and os.path.isabs(p) else p for p in arg.split(","))
 
 
 def _verdict_dict(v: Verdict) -> dict:
@@ -283,11 +367,11 @@ def _verdict_dict(v: Verdict) -> dict:
             "differences": [{"line": n, "original": a, "converted": b} for n, a, b in v.differences]}
 
 
-def _summary(v: Verdict, intermediates: list[dict]) -> str:
+def _summary(v: Verdict, intermediates: list[dict], tolerance: float | None = None) -> str:
     if v.agrees:
         text = f"{v.original_lines} lines, {MODES[v.mode].split(' (')[0]}"
         if v.tolerance_used:
-            text += "; some numbers differ in their last digits, within the tolerance"
+            text += f", numbers equal within a relative tolerance of {tolerance:g} (some differ in their last digits)"
     else:
         text = (f"{v.original_lines} lines in the original, {v.converted_lines} in the script's output: "
                 f"{v.missing} missing, {v.extra} extra")

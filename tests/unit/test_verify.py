@@ -68,8 +68,8 @@ def test_empty_outputs(tmp_path):
     assert not v.agrees and v.extra == 1 and v.differences[0] == (1, "(no line)", "x\t1")
 
 
-def test_sampling_copies_the_first_lines_and_never_touches_the_data(tmp_path):
-    from migrate.verify.runner import sample_inputs
+def test_inputs_are_copied_whole_or_sampled_and_the_data_is_never_touched(tmp_path):
+    from migrate.verify.runner import copy_inputs
 
     data = tmp_path / "data"
     (data / "sub").mkdir(parents=True)
@@ -77,11 +77,32 @@ def test_sampling_copies_the_first_lines_and_never_touches_the_data(tmp_path):
     (data / "sub" / "b.csv").write_bytes(b"x\ny")
     side = tmp_path / "side.txt"
     side.write_bytes(b"s1\ns2\ns3\n")
-    args = sample_inputs((str(data), str(side), "@out"), 2, tmp_path / "work")
+    args = copy_inputs((str(data), str(side), "@out"), (0, 1), tmp_path / "work", 2)
     assert args[2] == "@out"
     assert (Path(args[0]) / "a.csv").read_bytes() == b"1\n2\n" and (Path(args[0]) / "sub" / "b.csv").read_bytes() == b"x\ny"
     assert Path(args[1]).read_bytes() == b"s1\ns2\n"
+    whole = copy_inputs((str(data), str(side), "@out"), (0, 1), tmp_path / "whole")
+    assert (Path(whole[0]) / "a.csv").read_bytes() == b"1\n2\n3\n" and Path(whole[1]).read_bytes() == b"s1\ns2\ns3\n"
+    assert Path(whole[0]) != data and tmp_path / "whole" in Path(whole[0]).parents  # a copy, never the data
     assert (data / "a.csv").read_bytes() == b"1\n2\n3\n"
+
+
+def test_runs_file_paths_options_and_inputs_outside_the_data_folder(tmp_path):
+    from migrate.verify.runner import VerifyError, load_runs
+
+    here = tmp_path / "samples"
+    (here / "data").mkdir(parents=True)
+    (here / "data" / "a.txt").write_text("x\n")
+    runs = here / "runs.json"
+    runs.write_text(json.dumps({"runs": [{"driver": "p.T", "args": ["-D", "top.n=3", "-Dmode=fast", "data", "5",
+                                                                     "@out"]}]}))
+    (r,) = load_runs(runs).values()
+    # paths are relative to the runs file's folder; Tool options and plain words are passed as they are
+    assert r.args == ("-D", "top.n=3", "-Dmode=fast", str(here / "data"), "5", "@out") and r.inputs == (3,)
+    (tmp_path / "elsewhere.txt").write_text("secret\n")
+    runs.write_text(json.dumps({"runs": [{"driver": "p.T", "args": ["../elsewhere.txt", "@out"]}]}))
+    with pytest.raises(VerifyError, match="outside the data folder"):
+        load_runs(runs)
 
 
 def test_a_data_folder_per_job_gives_the_arguments_it_can(tmp_path):
@@ -187,7 +208,7 @@ public class NAME {
 """
 
 
-def test_compile_errors_time_limits_and_missing_data_are_verdicts(tmp_path):
+def test_compile_errors_time_limits_and_missing_data_are_verdicts(tmp_path, monkeypatch):
     from migrate.convert import write_outputs
     from migrate.scan import scan_repo
     from migrate.verify.runner import load_runs, verify
@@ -198,6 +219,10 @@ def test_compile_errors_time_limits_and_missing_data_are_verdicts(tmp_path):
     (repo / "Slow.java").write_text(JOB.replace("NAME", "Slow").replace("EXTRA", "Thread.sleep(600000);"))
     (repo / "Fine.java").write_text(JOB.replace("NAME", "Fine").replace("EXTRA", ""))
     (repo / "NoData.java").write_text(JOB.replace("NAME", "NoData").replace("EXTRA", ""))
+    # a job whose driver, through a helper the converter does not follow, deletes its input
+    (repo / "Vandal.java").write_text(JOB.replace("NAME", "Vandal").replace("EXTRA", "Tidy.up(args[0]);"))
+    (repo / "Tidy.java").write_text("package p;\npublic class Tidy {\n  public static void up(String dir) {\n"
+                                    "    new java.io.File(dir, \"lines.txt\").delete();\n  }\n}\n")
     scan = scan_repo(tmp_path / "repo")
     out = tmp_path / "out"
     written = write_outputs(scan, out, "repo", with_tests=True)
@@ -207,14 +232,19 @@ def test_compile_errors_time_limits_and_missing_data_are_verdicts(tmp_path):
     (data / "lines.txt").write_text("a\nb\n")
     runs_file = tmp_path / "runs.json"
     runs_file.write_text(json.dumps({"runs": [{"driver": f"p.{n}", "args": ["data", "@out"]}
-                                              for n in ("Broken", "Slow", "Fine")]}))
-    checks, _ = verify(out, load_runs(runs_file), timeout=60)  # long enough for Spark on a busy machine
+                                              for n in ("Broken", "Slow", "Fine", "Vandal")]}))
+    monkeypatch.chdir(tmp_path)  # the output folder named relative to the current folder, as the README does
+    checks, _ = verify(Path("out"), load_runs(runs_file), timeout=60)  # long enough for Spark on a busy machine
     by = {c.driver: c for c in checks}
     assert by["p.Broken"].verdict == "error" and "does not compile" in by["p.Broken"].detail
     assert "incompatible types" in by["p.Broken"].log
     assert by["p.Slow"].verdict == "error" and "time limit" in by["p.Slow"].detail
     assert by["p.Fine"].verdict == "agrees", by["p.Fine"]
     assert by["p.NoData"].verdict == "skipped" and "no sample data" in by["p.NoData"].detail
+    # it ran on its own copy of the input: the data is intact, the deletion is reported, no "agrees"
+    assert by["p.Vandal"].verdict == "error" and "outside its output folder" in by["p.Vandal"].detail
+    assert any(w.startswith("removed: ") and w.endswith("lines.txt") for w in by["p.Vandal"].writes_outside)
+    assert by["p.Fine"].arguments == ["data", "@out"] and by["p.Fine"].writes_outside == []
     from migrate.convert import record_checks
 
     record_checks(out, json.loads((out / "report.json").read_text()), checks)
@@ -226,15 +256,15 @@ def test_compile_errors_time_limits_and_missing_data_are_verdicts(tmp_path):
 
     # convert --with-tests: a pytest file per job that runs the same check, for the team's own CI
     skeleton = json.loads((out / "tests" / "runs.json").read_text())
-    assert skeleton["runs"] == [] and {"driver": "p.Fine", "args": ["<input_path: a sample file or folder>", "@out"]} \
+    assert skeleton["runs"] == [] and skeleton["data"] == "." and {"driver": "p.Fine", "args": ["<input_path: a sample file or folder>", "@out"]} \
         in skeleton["todo"]
-    (out / "tests" / "runs.json").write_text(json.dumps({"runs": [{"driver": "p.Fine", "args": ["../../data", "@out"]}]}))
+    (out / "tests" / "runs.json").write_text(json.dumps({"data": "../../data", "runs": [{"driver": "p.Fine", "args": ["../../data", "@out"]}]}))
     import subprocess
     import sys
 
     ran = subprocess.run([sys.executable, "-m", "pytest", "-q", "-p", "no:cacheprovider", str(out / "tests")],
                          capture_output=True, text=True, cwd=tmp_path, timeout=600)
-    assert ran.returncode == 0 and "1 passed, 3 skipped" in ran.stdout, ran.stdout + ran.stderr
+    assert ran.returncode == 0 and "1 passed, 4 skipped" in ran.stdout, ran.stdout + ran.stderr
 
 
 def test_the_hadoop_classpath_comes_from_the_user_then_hadoop_home_then_the_wheel(tmp_path):
