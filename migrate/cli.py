@@ -6,13 +6,16 @@ import json
 from pathlib import Path
 
 from rich.console import Console
+from rich.markup import escape
 from rich.progress import BarColumn, Progress, TextColumn
 from rich.table import Table
 
 from migrate import __version__
 from migrate.convert import OutputFolderError, write_outputs
+from migrate.java.source import MAX_FILE_BYTES
 from migrate.pathmap import PathMapError, load_path_map
 from migrate.report.effort import EffortConfigError, load_model
+from migrate.report.render import where
 from migrate.scan import RepoScan, scan_repo
 
 STATUS_STYLE = {"converted": "green", "partial": "yellow", "not_converted": "red"}
@@ -26,10 +29,12 @@ def _parser() -> argparse.ArgumentParser:
     s = sub.add_parser("scan", help="list the jobs of a repository, their classes and what was recognised")
     s.add_argument("path", type=Path, help="folder (or one .java file) of the legacy repository")
     s.add_argument("--json", action="store_true", help="print the inventory as JSON")
+    _size_option(s)
     c = sub.add_parser("convert", help="write one PySpark script per job plus report.json and report.md")
     c.add_argument("path", type=Path, help="folder (or one .java file) of the legacy repository")
     c.add_argument("-o", "--output", type=Path, required=True, help="folder for the scripts and the report")
     c.add_argument("--force", action="store_true", help="write into a non-empty folder mrlift did not create")
+    _size_option(c)
     c.add_argument("--effort", type=Path, metavar="FILE",
                    help="TOML file with effort constants, category profiles and your own PERT hours per category "
                         "(see README, Effort)")
@@ -63,16 +68,40 @@ def _parser() -> argparse.ArgumentParser:
     return p
 
 
+def _megabytes(text: str) -> int:
+    try:
+        value = float(text)
+    except ValueError:
+        raise argparse.ArgumentTypeError(f"{text!r} is not a number of megabytes") from None
+    if not value > 0:
+        raise argparse.ArgumentTypeError("the limit must be more than 0 MB")
+    return int(value * 1024 * 1024)
+
+
+def _size_option(p: argparse.ArgumentParser) -> None:
+    p.add_argument("--max-file-size", type=_megabytes, default=MAX_FILE_BYTES, metavar="MB",
+                   help=f"skip (and report) Java files larger than this (default: {MAX_FILE_BYTES // 2**20} MB)")
+
+
 def main(argv: list[str] | None = None) -> int:
     args = _parser().parse_args(argv)
     console = Console(soft_wrap=True)
+    try:
+        return _run(console, args)
+    except KeyboardInterrupt:
+        console.print("[red]mrlift: interrupted[/red]; every file written so far is whole, and the same command "
+                      "run again finishes the work (no --force needed)")
+        return 130
+
+
+def _run(console: Console, args) -> int:
     if args.command == "verify":
         return _verify(console, args)
     if not args.path.exists():
         console.print(f"[red]mrlift: {args.path} does not exist[/red]")
         return 2
     if args.command == "scan":
-        scan = scan_repo(args.path)
+        scan = scan_repo(args.path, max_file_bytes=args.max_file_size)
         if not scan.files and scan.errors or not scan.files and not scan.jobs:
             _print_errors(console, scan)
             console.print(f"[red]mrlift: no Java source could be read under {args.path}[/red]")
@@ -99,14 +128,21 @@ def main(argv: list[str] | None = None) -> int:
 
             files = find_java_files(args.path.resolve())
             t = bar.add_task("reading Java", total=len(files))
-            scan = scan_repo(args.path, progress=lambda _p: bar.advance(t))
+            scan = scan_repo(args.path, progress=lambda _p: bar.advance(t), max_file_bytes=args.max_file_size)
             t2 = bar.add_task("writing scripts", total=len(scan.jobs))
             if not scan.files:
                 _print_errors(console, scan)
                 console.print(f"[red]mrlift: no Java source could be read under {args.path}[/red]")
                 return 1
-            written = write_outputs(scan, args.output, args.path.name, args.force, progress=lambda _j: bar.advance(t2),
-                                    path_map=path_map, with_tests=args.with_tests, effort_model=model)
+            try:
+                written = write_outputs(scan, args.output, args.path.name, args.force,
+                                        progress=lambda _j: bar.advance(t2), path_map=path_map,
+                                        with_tests=args.with_tests, effort_model=model)
+            except OSError as exc:  # a read-only disk, no permission, a file where a folder should be
+                console.print(f"[red]mrlift: cannot write the output into {args.output}: "
+                              f"{exc.strerror or exc} ({exc.filename or args.output})[/red]; files written before "
+                              "this are whole, nothing else was changed")
+                return 2
         _print_summary(console, written.report, args.output)
         for kept, new in written.kept:
             console.print(f"[yellow]kept[/yellow] {args.output / kept} (edited or not written by mrlift); "
@@ -192,7 +228,7 @@ def _print_inventory(console: Console, scan: RepoScan) -> None:
 
 def _print_errors(console: Console, scan: RepoScan) -> None:
     for e in scan.errors:
-        console.print(f"[red]not read[/red] {e.path}:{e.line}: {e.message}")
+        console.print("[red]not read[/red] " + escape(f"{where(e.path, e.line)}: {e.message}"))
 
 
 def _print_summary(console: Console, report: dict, out: Path) -> None:
@@ -204,7 +240,7 @@ def _print_summary(console: Console, report: dict, out: Path) -> None:
                   f"{j['effort_hours']:.1f}")
     console.print(t)
     for e in report["errors"]:
-        console.print(f"[red]not read[/red] {e['file']}:{e['line']}: {e['message']}")
+        console.print("[red]not read[/red] " + escape(f"{where(e['file'], e['line'])}: {e['message']}"))
     s, e = report["summary"], report["effort"]
     console.print(f"jobs: [green]{s['converted']} converted[/green], [yellow]{s['partial']} partial[/yellow], "
                   f"[red]{s['not_converted']} not converted[/red] of {s['jobs']}")

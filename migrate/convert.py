@@ -3,6 +3,7 @@ from __future__ import annotations
 
 import hashlib
 import json
+import os
 from dataclasses import dataclass
 from pathlib import Path
 
@@ -13,7 +14,7 @@ from migrate.java.source import ParseFailure
 from migrate.lift.job import JobResult
 from migrate.plan import EachValue, Group, Identity, TopN, TopPerKey
 from migrate.report.render import build_report, to_csv, to_json, to_markdown
-from migrate.scan import RepoScan, script_name
+from migrate.scan import RepoScan, Unread, script_name
 
 MARKER = ".mrlift-output"
 
@@ -33,44 +34,93 @@ def _digest(data: bytes) -> str:
     return hashlib.sha256(data).hexdigest()
 
 
+def write_atomically(target: Path, data: bytes) -> None:
+    """Write a whole file or nothing: a temporary file beside it, then a rename over it."""
+    target.parent.mkdir(parents=True, exist_ok=True)
+    tmp = target.with_name(f".{target.name}.mrlift-tmp")
+    try:
+        with tmp.open("wb") as f:
+            f.write(data)
+        os.replace(tmp, target)
+    except BaseException:
+        tmp.unlink(missing_ok=True)
+        raise
+
+
 class _Writer:
     """Writes files into the output folder without ever replacing a file mrlift did not write.
 
     The marker file records a digest of everything mrlift wrote. A file that is missing from
     it (the user's own) or whose content changed since (hand work done in a generated script)
     is left alone; the new version goes beside it as `<name>.mrlift-new<suffix>`.
+
+    An interrupted run must not turn mrlift's own files into "hand edits": the marker exists
+    before the first file is written, every file is written whole (temporary file + rename), and
+    each digest goes into a journal before its file is renamed into place. The next run reads
+    the journal as its own, so a plain re-run finishes the work.
     """
+
+    JOURNAL = MARKER + ".journal"
 
     def __init__(self, out: Path):
         self.out = out
+        self.known: dict[str, set[str]] = {}  # every digest mrlift wrote for a file (old marker and journal)
         marker = out / MARKER
-        self.known: dict[str, str] = {}
         if marker.exists():
             try:
-                self.known = json.loads(marker.read_text(encoding="utf-8")).get("files", {})
-            except (ValueError, AttributeError):
+                files = json.loads(marker.read_text(encoding="utf-8")).get("files", {})
+                self.known = {k: {v} for k, v in files.items() if isinstance(v, str)}
+            except (ValueError, AttributeError, OSError, UnicodeDecodeError):
                 self.known = {}
+        try:
+            journal = (out / self.JOURNAL).read_text(encoding="utf-8")
+        except (OSError, UnicodeDecodeError):
+            journal = ""
+        for line in journal.splitlines():
+            try:
+                entry = json.loads(line)
+                self.known.setdefault(entry["file"], set()).add(entry["sha256"])
+            except (ValueError, KeyError, TypeError):
+                continue  # a line cut by the interruption
         self.kept: list[tuple[str, str]] = []  # (file kept, where the new version went)
         self.wrote: dict[str, str] = {}
+        if not marker.exists():  # before anything else, so an interrupted first run is still ours
+            self._write_marker({})
+
+    def ours(self, name: str) -> bool:
+        target = self.out / name
+        return not target.exists() or _digest(target.read_bytes()) in self.known.get(name, ())
 
     def write(self, name: str, text: str) -> str:
         data = text.encode("utf-8")
-        target = self.out / name
-        if target.exists() and _digest(target.read_bytes()) != self.known.get(name):
+        if not self.ours(name):
             p = Path(name)
             alt = str(p.with_name(f"{p.stem}.mrlift-new{p.suffix}"))
             self.kept.append((name, alt))
-            name, target = alt, self.out / alt
-        target.parent.mkdir(parents=True, exist_ok=True)
-        target.write_bytes(data)
-        self.wrote[name] = _digest(data)
+            name = alt
+        digest = _digest(data)
+        with (self.out / self.JOURNAL).open("a", encoding="utf-8") as j:
+            j.write(json.dumps({"file": name, "sha256": digest}) + "\n")
+        write_atomically(self.out / name, data)
+        self.wrote[name] = digest
         return name
 
-    def close(self) -> None:
-        files = {**self.known, **self.wrote}
+    def _write_marker(self, files: dict[str, str]) -> None:
         body = {"about": "written by mrlift; lists the files it wrote (sha256) so it never replaces your edits",
                 "files": dict(sorted(files.items()))}
-        (self.out / MARKER).write_text(json.dumps(body, indent=2) + "\n", encoding="utf-8")
+        write_atomically(self.out / MARKER, (json.dumps(body, indent=2) + "\n").encode("utf-8"))
+
+    def close(self) -> None:
+        files = {}
+        for name, digests in self.known.items():  # what is on disk now, where mrlift wrote it
+            target = self.out / name
+            if target.exists():
+                d = _digest(target.read_bytes())
+                if d in digests:
+                    files[name] = d
+        files.update(self.wrote)
+        self._write_marker(files)
+        (self.out / self.JOURNAL).unlink(missing_ok=True)
 
 
 def summary(job: JobResult) -> str:
@@ -143,6 +193,7 @@ def write_outputs(scan: RepoScan, out: Path, root_label: str, force: bool = Fals
     taken: set[str] = set()
     written = []
     errors = list(scan.errors)
+    unread = list(scan.unread)
     for job in scan.jobs:
         if path_map is not None:
             from migrate.pathmap import map_job_paths
@@ -154,12 +205,15 @@ def write_outputs(scan: RepoScan, out: Path, root_label: str, force: bool = Fals
         except (TypeError, ValueError, KeyError, black.InvalidInput) as exc:  # a generator bug: report, go on
             errors.append(ParseFailure(job.spec.driver.file.path, job.spec.origin.line_start,
                                        f"could not write a script for {job.spec.name!r}: {type(exc).__name__}: {exc}"))
+            unread.append(Unread("job", job.spec.name or job.spec.driver.fqcn, errors[-1]))
             continue
         written.append((job, writer.write(name, text)))
         if progress:
             progress(job)
     base = scan.root if scan.root.is_dir() else scan.root.parent  # the job files' paths start here
-    report = build_report(written, errors, root_label, str(base), effort_model)
+    report = build_report(written, errors, root_label, str(base), effort_model, unread, scan.max_file_bytes)
+    report["settings"] = {"max_file_bytes": scan.max_file_bytes}  # files over it are listed as not read
+    _keep_verdicts(writer, report)
     _write_reports(writer, report, out)
     if with_tests:
         _write_checks(writer, report)
@@ -195,6 +249,33 @@ def _write_checks(writer: _Writer, report: dict) -> None:
     writer.write("tests/runs.json", json.dumps(skeleton, indent=2) + "\n")
 
 
+def job_fingerprint(out: Path, job: dict, source: str) -> str:
+    """The sha256 of what a verdict is about: the job's script as it is on disk and its Java files."""
+    h = hashlib.sha256()
+    for f in [out / job["script"]] + sorted({Path(source) / span.rsplit(":", 1)[0] for span in job["files"].values()}):
+        h.update(str(f.name).encode("utf-8", "surrogateescape") + b"\0")
+        try:
+            h.update(hashlib.sha256(f.read_bytes()).digest())
+        except OSError:
+            h.update(b"missing")
+    return h.hexdigest()
+
+
+def _keep_verdicts(writer: _Writer, report: dict) -> None:
+    """A verdict of an earlier `mrlift verify` stays with a job whose script and Java files are unchanged."""
+    try:
+        old = json.loads((writer.out / "report.json").read_text(encoding="utf-8")) if writer.ours("report.json") else {}
+    except (OSError, ValueError, UnicodeDecodeError):
+        return
+    before = {j.get("script"): j.get("verification") for j in old.get("jobs", []) if isinstance(j, dict)}
+    for j in report["jobs"]:
+        v = before.get(j["script"])
+        if v and v.get("fingerprint") == job_fingerprint(writer.out, j, report["source"]):
+            j["verification"] = v
+    report["summary"]["verified"] = sum(1 for j in report["jobs"]
+                                        if (j.get("verification") or {}).get("verdict") == "agrees")
+
+
 def record_checks(out: Path, report: dict, checks) -> list[tuple[str, str]]:
     """Put `mrlift verify`'s verdicts into report.json and report.md (never over a file the user
     edited: the new version then goes beside it). Returns the files kept."""
@@ -202,7 +283,7 @@ def record_checks(out: Path, report: dict, checks) -> list[tuple[str, str]]:
     for j in report["jobs"]:
         c = by_script.get(j["script"])
         if c is not None:
-            j["verification"] = c.for_report()
+            j["verification"] = {**c.for_report(), "fingerprint": job_fingerprint(out, j, report["source"])}
     report["summary"]["verified"] = sum(1 for j in report["jobs"]
                                         if (j.get("verification") or {}).get("verdict") == "agrees")
     writer = _Writer(out)

@@ -8,10 +8,20 @@ from pathlib import Path
 from migrate.java.driver import read_drivers
 from migrate.java.index import ClassIndex
 from migrate.java.roles import classify
-from migrate.java.source import ParsedFile, ParseFailure, find_java_files, read_java
+from migrate.java.source import MAX_FILE_BYTES, ParsedFile, ParseFailure, java_sources, read_java
 from migrate.lift.exprs import Unsupported
 from migrate.lift.chain import chain_jobs
 from migrate.lift.job import JobResult, plan_job
+
+
+@dataclass(frozen=True)
+class Unread:
+    """Code that could not be converted at all: a file not read, a driver whose job could not be
+    read, a job that could not be planned. Each is a `not_converted` entry in every output."""
+
+    kind: str  # "file" | "driver" | "job"
+    name: str
+    error: ParseFailure
 
 
 @dataclass
@@ -23,16 +33,25 @@ class RepoScan:
     errors: list[ParseFailure]
     index: ClassIndex
     jobs: list[JobResult] = field(default_factory=list)
+    unread: list[Unread] = field(default_factory=list)
+    max_file_bytes: int = MAX_FILE_BYTES
 
 
-def scan_repo(root: Path, progress=None) -> RepoScan:
+def scan_repo(root: Path, progress=None, max_file_bytes: int = MAX_FILE_BYTES) -> RepoScan:
     """Read every .java file (a bad file becomes an error entry; the batch goes on) and plan every job."""
     root = root.resolve()
-    files, errors = [], []
+    files, errors, unread = [], [], []
     base = root if root.is_dir() else root.parent
-    for path in find_java_files(root):
-        got = read_java(path, base)
-        (files if isinstance(got, ParsedFile) else errors).append(got)
+    paths, passed_over = java_sources(root)
+    errors += passed_over
+    unread += [Unread("file", Path(e.path).name, e) for e in passed_over]
+    for path in paths:
+        got = read_java(path, base, max_file_bytes)
+        if isinstance(got, ParsedFile):
+            files.append(got)
+        else:
+            errors.append(got)
+            unread.append(Unread("file", Path(got.path).name, got))
         if progress:
             progress(path)
     index = ClassIndex(files)
@@ -49,7 +68,8 @@ def scan_repo(root: Path, progress=None) -> RepoScan:
                 c.roles.add(role.replace("_", "-"))
     for cls, line, msg in problems:
         errors.append(ParseFailure(cls.file.path, line, msg))
-    scan = RepoScan(root, files, errors, index)
+        unread.append(Unread("driver", cls.fqcn, errors[-1]))
+    scan = RepoScan(root, files, errors, index, unread=unread, max_file_bytes=max_file_bytes)
     for spec in specs:
         try:
             job = plan_job(spec, index)
@@ -59,6 +79,7 @@ def scan_repo(root: Path, progress=None) -> RepoScan:
                 raise
             errors.append(ParseFailure(spec.driver.file.path, spec.origin.line_start,
                                        f"could not plan job {spec.name!r}: {type(exc).__name__}: {exc}"))
+            unread.append(Unread("job", spec.name or spec.driver.fqcn, errors[-1]))
             continue
         scan.jobs.append(job)
     scan.jobs = chain_jobs(scan.jobs)  # jobs that read the folder the one before wrote: one script

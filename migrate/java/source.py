@@ -1,6 +1,8 @@
 """Read and parse one .java file: a ParsedFile, or a ParseFailure naming file and line."""
 from __future__ import annotations
 
+import os
+import stat
 from dataclasses import dataclass
 from pathlib import Path
 
@@ -25,26 +27,112 @@ class ParseFailure:
     """A file that could not be read or parsed; the batch goes on without it."""
 
     path: str
-    line: int
+    line: int | None  # None: the whole file (it could not be read at all)
     message: str
 
 
-def find_java_files(root: Path) -> list[Path]:
-    """Every .java file under root, in a stable order; build output folders are skipped."""
-    if root.is_file():
-        return [root]
-    skip = {"target", "build", ".git", ".svn", "node_modules"}
-    files = [p for p in root.rglob("*.java") if not (set(p.relative_to(root).parts[:-1]) & skip)]
-    return sorted(files, key=lambda p: p.relative_to(root).as_posix())
+MAX_FILE_BYTES = 4 * 1024 * 1024  # a hand-written Java file is far smaller; anything bigger is refused
+SKIPPED_FOLDERS = {"target", "build", ".git", ".svn", "node_modules"}
 
 
-def read_java(path: Path, root: Path) -> ParsedFile | ParseFailure:
-    """Decode as UTF-8 (what javac uses on Linux by default), normalise CRLF/CR, parse."""
-    rel = path.relative_to(root).as_posix() if path != root else path.name
+def java_sources(root: Path) -> tuple[list[Path], list[ParseFailure]]:
+    """Every .java file under root, in a stable order, and what was passed over with the reason:
+    build output folders are skipped; symbolic links are not followed (a link out of the tree is
+    reported; a target inside it is read as itself); folders that cannot be listed are reported. Whether each file is a regular file of acceptable size is checked when it is read."""
+    if not root.is_dir():
+        return [root], []
+    files, problems = [], []
+
+    def rel(p: Path) -> str:
+        return shown_path(p, root)
+
+    def walk_error(exc: OSError) -> None:
+        problems.append(ParseFailure(rel(Path(exc.filename)), None, f"folder not read: {exc.strerror or exc}"))
+
+    for dirpath, dirnames, filenames in os.walk(root, onerror=walk_error):  # links to folders are not walked
+        here = Path(dirpath)
+        dirnames[:] = sorted(d for d in dirnames if d not in SKIPPED_FOLDERS)
+        for d in dirnames:
+            link = here / d
+            if link.is_symlink() and not _inside(link, root):
+                problems.append(ParseFailure(rel(link), None, "a symbolic link to a folder outside the scanned "
+                                             f"folder ({os.readlink(link)}): not followed"))
+        for name in filenames:
+            if not name.endswith(".java"):
+                continue
+            f = here / name
+            if f.is_symlink():  # inside the tree its target is read on its own; outside, never
+                if not _inside(f, root):
+                    problems.append(ParseFailure(rel(f), None, "a symbolic link to a file outside the scanned "
+                                                 f"folder ({os.readlink(f)}): not read"))
+                continue
+            files.append(f)
+    files.sort(key=lambda p: p.relative_to(root).as_posix())
+    problems.sort(key=lambda e: e.path)
+    return files, problems
+
+
+def _inside(link: Path, root: Path) -> bool:
     try:
-        data = path.read_bytes()
+        target = link.resolve(strict=True)
+    except (OSError, RuntimeError):  # a dangling link or a loop
+        return False
+    return target == root.resolve() or root.resolve() in target.parents
+
+
+def read_inside(root: Path, rel: str, max_bytes: int = MAX_FILE_BYTES) -> bytes:
+    """A file named relative to root, read only if it really lies inside root (no link out)."""
+    target = (root / rel).resolve()
+    if target != root.resolve() and root.resolve() not in target.parents:
+        raise NotRead(f"{rel} lies outside {root}: not read")
+    return read_limited(target, max_bytes)
+
+
+def find_java_files(root: Path) -> list[Path]:
+    """The .java files `java_sources` accepts."""
+    return java_sources(root)[0]
+
+
+def shown_path(path: Path, root: Path) -> str:
+    """The path relative to root as reports show it: a name that is not valid UTF-8 keeps its
+    bytes visible as \\xNN escapes instead of breaking every UTF-8 output."""
+    rel = path.relative_to(root).as_posix() if path != root else path.name
+    return os.fsencode(rel).decode("utf-8", "backslashreplace")
+
+
+class NotRead(OSError):
+    """A file that is not read, with the reason."""
+
+
+def read_limited(path: Path, max_bytes: int = MAX_FILE_BYTES) -> bytes:
+    """A regular file's bytes, at most `max_bytes` of them: a FIFO, a device or a link to one, and
+    an over-long file are refused without blocking or reading them whole."""
+    try:
+        fd = os.open(path, os.O_RDONLY | os.O_NONBLOCK)  # a FIFO opens at once instead of waiting for a writer
     except OSError as exc:
-        return ParseFailure(rel, 0, f"cannot read the file: {exc.strerror or exc}")
+        raise NotRead(f"cannot read the file: {exc.strerror or exc}") from None
+    with os.fdopen(fd, "rb") as f:
+        st = os.fstat(fd)
+        if not stat.S_ISREG(st.st_mode):
+            raise NotRead("not a regular file (a pipe, a device or a socket): not read")
+        if st.st_size > max_bytes:
+            raise NotRead(f"{st.st_size:,} bytes, over the limit of {max_bytes:,} (--max-file-size): not read")
+        try:
+            data = f.read(max_bytes + 1)
+        except OSError as exc:
+            raise NotRead(f"cannot read the file: {exc.strerror or exc}") from None
+    if len(data) > max_bytes:
+        raise NotRead(f"over the limit of {max_bytes:,} bytes (--max-file-size): not read")
+    return data
+
+
+def read_java(path: Path, root: Path, max_bytes: int = MAX_FILE_BYTES) -> ParsedFile | ParseFailure:
+    """Decode as UTF-8 (what javac uses on Linux by default), normalise CRLF/CR, parse."""
+    rel = shown_path(path, root)
+    try:
+        data = read_limited(path, max_bytes)
+    except NotRead as exc:
+        return ParseFailure(rel, None, str(exc))
     if data.startswith(b"\xef\xbb\xbf"):
         data = data[3:]
     try:
@@ -59,22 +147,45 @@ def read_java(path: Path, root: Path) -> ParsedFile | ParseFailure:
     try:
         tree = javalang.parse.parse(text)
     except javalang.parser.JavaSyntaxError as exc:
-        pos = getattr(getattr(exc, "at", None), "position", None)
-        line = pos.line if pos else 0
         what = getattr(exc, "description", "") or "syntax error"
-        return ParseFailure(rel, line, f"Java syntax not understood: {what}")
+        return ParseFailure(rel, _syntax_error_line(text, getattr(exc, "at", None), what),
+                            f"Java syntax not understood: {what}")
     except javalang.tokenizer.LexerError as exc:
         return ParseFailure(rel, _lexer_line(str(exc)), f"Java tokens not understood: {exc}")
     except (RecursionError, IndexError, TypeError, StopIteration) as exc:  # javalang's own failure modes
-        return ParseFailure(rel, 0, f"the Java parser gave up on this file ({type(exc).__name__})")
+        return ParseFailure(rel, None, f"the Java parser gave up on this file ({type(exc).__name__})")
     return ParsedFile(rel, text, tree)
 
 
-def _lexer_line(message: str) -> int:
+def _syntax_error_line(text: str, at, what: str) -> int:
+    """The line javac names: a missing ';' is reported at the end of the token
+    before it, which may be lines above the token the parser stopped at; the end of the file
+    where the parser ran out of input."""
+    pos = getattr(at, "position", None)
+    last_line = text.rstrip("\n").count("\n") + 1
+    if pos is None:
+        return last_line
+    if not what.startswith("Expected ';'"):
+        return pos.line
+    try:
+        before = [t for t in javalang.tokenizer.tokenize(text)
+                  if t.position and (t.position.line, t.position.column) < (pos.line, pos.column)]
+    except javalang.tokenizer.LexerError:
+        return pos.line
+    # back over the tokens on the stopping line: a statement that ends a line without its token
+    # is where javac points
+    while before and before[-1].position.line == pos.line:
+        before.pop()
+    if before and before[-1].value not in (";", "{", "}"):
+        return before[-1].position.line + before[-1].value.count("\n")
+    return pos.line
+
+
+def _lexer_line(message: str) -> int | None:
     import re
 
     m = re.search(r"line (\d+)", message)
-    return int(m.group(1)) if m else 0
+    return int(m.group(1)) if m else None
 
 
 def logical_sloc(lines: list[str]) -> int:

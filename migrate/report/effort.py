@@ -84,7 +84,7 @@ def pert_sum(items: list[tuple[float, float, float]]) -> tuple[float, float]:
 @dataclass(frozen=True)
 class Model:
     """The constants of the estimate. `basis` says where each came from: published (COCOMO II.2000,
-    label as in EFFORT.md), mrlift's default, or the user's file; `pert` holds the team's own
+    label in words), mrlift's default, or the user's file; `pert` holds the team's own
     three-point hours per hand-work item of a category, which then replace COCOMO for those items."""
 
     a: float = A
@@ -101,10 +101,16 @@ class Model:
     basis: dict = field(default_factory=lambda: dict(BASIS))
 
 
-BASIS = {"a": "published [P]", "b": "published [P]", "sum_sf": "published, all five at Nominal [S]",
-         "atprod": "published [S]", "hours_per_pm": "published [S]", "range": "published [S]",
-         "su": "mrlift default (the Nominal rating) [S]", "unfm": "mrlift default (rating 0.4)",
-         "profiles": "mrlift default (P1-P3, EFFORT.md)"}
+# What each constant rests on, in words a report reader can follow without this repository:
+# "read in the model definition" (COCOMO II Model Definition Manual 2000.0) or "as quoted by
+# secondary sources that agree" where the value was checked in notes derived from it.
+_MANUAL = "published: COCOMO II Model Definition Manual 2000.0"
+_QUOTED = "published: COCOMO II.2000 value as quoted by secondary sources that agree"
+BASIS = {"a": _MANUAL, "b": _MANUAL, "sum_sf": f"{_QUOTED} (all five scale factors at Nominal)",
+         "atprod": _QUOTED, "hours_per_pm": _QUOTED, "range": _QUOTED,
+         "su": "mrlift default (the Nominal software-understanding rating of the model)",
+         "unfm": "mrlift default (unfamiliarity rating 0.4)",
+         "profiles": "mrlift default (P1 re-express, P2 partial redesign, P3 full redesign; see the README, Effort)"}
 DEFAULT = Model()
 
 

@@ -6,7 +6,7 @@ import json
 from migrate.lift.job import JobResult
 from migrate.plan import Join
 from migrate.report.effort import DEFAULT, JobEffort, Model, repository_hours
-from migrate.java.source import ParseFailure
+from migrate.java.source import MAX_FILE_BYTES, ParseFailure
 
 VERIFY_WARNING = ("Generated jobs must be verified on real data before they replace production jobs: "
                   "run the original and the script on the same representative input and compare the outputs.")
@@ -19,12 +19,64 @@ def job_effort(job: JobResult, name: str) -> JobEffort:
     return JobEffort(name, job.sloc_total, tuple((h.profile, h.sloc, h.category) for h in job.plan.hand_work))
 
 
+UNREAD_WORDS = {"file": "the file could not be read", "driver": "the driver's job could not be read",
+                "job": "the job could not be converted"}
+
+
+def where(file: str, line: int | None) -> str:
+    """`file:line`, or the file and "whole file" where no line applies."""
+    return f"{file}:{line}" if line is not None else f"{file} (whole file)"
+
+
+def _unread_sloc(source: str | None, path: str, max_bytes: int) -> tuple[int, int]:
+    """SLOC and line count of a file that was not converted (0, 0 where it cannot be read as text)."""
+    from pathlib import Path
+
+    from migrate.java.source import logical_sloc, read_inside
+
+    try:
+        text = read_inside(Path(source or "."), path, max_bytes).decode("utf-8", "replace")
+    except OSError:  # not a regular file, gone, over the limit: nothing to count
+        return 0, 0
+    lines = text.replace("\r\n", "\n").split("\n")
+    return logical_sloc(lines), len(lines)
+
+
+def unread_entry(u, hours: float, sloc: int, lines: int) -> dict:
+    """A `not_converted` job entry for code that could not be read or converted at all."""
+    e = u.error
+    return {
+        "name": f"{u.name} (not read)" if u.kind == "file" else u.name, "kind": f"not-read-{u.kind}",
+        "driver": u.name if u.kind != "file" else "", "script": "", "status": "not_converted", "classes": {},
+        "files": {"source": f"{e.path}:1-{lines}"} if lines else {}, "shapes": [], "arguments": [],
+        "hand_work": [{"category": "not-read", "file": e.path, "line": e.line,
+                       "reason": f"{UNREAD_WORDS[u.kind]}: {e.message}",
+                       "suggestion": "fix what the message names (javac must accept the file) and run mrlift "
+                                     "again, or translate the code by hand", "snippet": "", "profile": "P3",
+                       "sloc": sloc}],
+        "notes": [], "reduce_tasks": None, "task_files": False, "findings": [], "aggregates": [], "inputs": [],
+        "join": None, "side_tables": [], "chain": [], "counters": [], "comparison": "bytes", "verification": None,
+        "sloc": {"total": sloc, "automatic": 0, "hand": sloc}, "effort_hours": round(hours, 2),
+    }
+
+
 def build_report(jobs: list[tuple[JobResult, str]], errors: list[ParseFailure], root_label: str,
-                 source: str | None = None, model: Model | None = None) -> dict:
-    """The report as plain data (what report.json holds); `model`: the effort constants (default: published)."""
+                 source: str | None = None, model: Model | None = None, unread: list | None = None,
+                 max_file_bytes: int | None = None) -> dict:
+    """The report as plain data (what report.json holds); `model`: the effort constants (default: published);
+    `unread`: code that could not be read or converted at all (scan.Unread), each a not_converted entry."""
     model = model or DEFAULT
     efforts = [job_effort(j, script) for j, script in jobs]
-    est = repository_hours(efforts, model)
+    unread = list(unread or [])
+    seen: set[str] = set()
+    unread_sloc = []  # a file's lines count once, whatever number of entries name it
+    for u in unread:
+        sloc, lines = _unread_sloc(source, u.error.path, max_file_bytes or MAX_FILE_BYTES)
+        unread_sloc.append((0 if u.error.path in seen else sloc, lines))
+        seen.add(u.error.path)
+    unread_efforts = [JobEffort(f"(not read) {k}", sloc, (("P3", sloc, "not-read"),))
+                      for k, (sloc, _) in enumerate(unread_sloc)]
+    est = repository_hours(efforts + unread_efforts, model)
     out_jobs = []
     for (job, script), eff in zip(jobs, efforts):
         out_jobs.append({
@@ -56,13 +108,15 @@ def build_report(jobs: list[tuple[JobResult, str]], errors: list[ParseFailure], 
             "sloc": {"total": eff.sloc_total, "automatic": eff.sloc_auto, "hand": eff.sloc_manual},
             "effort_hours": round(est["jobs"][script], 2),
         })
+    for u, eff, (sloc, lines) in zip(unread, unread_efforts, unread_sloc):
+        out_jobs.append(unread_entry(u, est["jobs"][eff.name], sloc, lines))
     counts = {s: sum(1 for j in out_jobs if j["status"] == s) for s in ("converted", "partial", "not_converted")}
     return {
         "tool": "mrlift",
         "repository": root_label,
         "source": source,  # the legacy sources, for `mrlift verify` to compile
         "warning": VERIFY_WARNING,
-        "summary": {"jobs": len(out_jobs), **counts, "errors": len(errors)},
+        "summary": {"jobs": len(out_jobs), **counts, "errors": len(errors), "not_read": len(unread), "verified": 0},
         "jobs": out_jobs,
         "errors": [{"file": e.path, "line": e.line, "message": e.message} for e in errors],
         "effort": {
@@ -124,13 +178,31 @@ def to_json(report: dict) -> str:
     return json.dumps(report, indent=2, ensure_ascii=False, sort_keys=False) + "\n"
 
 
+class _SafeCsv:
+    """A csv writer whose text cells cannot run as spreadsheet formulas: a cell starting with
+    = + - @ TAB or CR gets a leading apostrophe (the OWASP "CSV injection" advice). Numbers
+    are written as numbers."""
+
+    def __init__(self, writer):
+        self.writer = writer
+
+    def writerow(self, row: list) -> None:
+        self.writer.writerow([f"'{c}" if isinstance(c, str) and c[:1] in ("=", "+", "-", "@", "\t", "\r") else c
+                              for c in row])
+
+
+def md_cell(text) -> str:
+    """Text for one cell of a Markdown table: no line breaks, no column separators."""
+    return " ".join(str(text).split()).replace("|", "\\|")
+
+
 def to_csv(report: dict) -> str:
     """effort.csv: a row per job, then a row per hand-work item (for spreadsheets)."""
     import csv
     import io
 
     buf = io.StringIO()
-    w = csv.writer(buf, lineterminator="\n")
+    w = _SafeCsv(csv.writer(buf, lineterminator="\n"))
     w.writerow(["row", "job", "script", "status", "verdict", "category", "file", "line", "profile", "sloc",
                 "effort_hours", "reason"])
     for j in report["jobs"]:
@@ -138,7 +210,8 @@ def to_csv(report: dict) -> str:
         w.writerow(["job", j["name"], j["script"], j["status"], verdict, "", "", "", "", j["sloc"]["total"],
                     f"{j['effort_hours']:.2f}", ""])
         for h in j["hand_work"]:
-            w.writerow(["hand-work", j["name"], j["script"], j["status"], verdict, h["category"], h["file"], h["line"],
+            w.writerow(["hand-work", j["name"], j["script"], j["status"], verdict, h["category"], h["file"],
+                        "whole file" if h["line"] is None else h["line"],
                         h["profile"], h["sloc"], "", h["reason"]])
     e = report["effort"]
     w.writerow(["repository", report["repository"], "", "", "", "", "", "", "", "", f"{e['hours']:.2f}",
@@ -150,13 +223,15 @@ def to_markdown(report: dict) -> str:
     s = report["summary"]
     out = [f"# mrlift conversion report: {report['repository']}", "",
            f"> **{report['warning']}**", "",
-           f"{s['jobs']} jobs: {s['converted']} converted, {s['partial']} partial, {s['not_converted']} not converted; "
-           f"{s['errors']} file(s) could not be read.", "",
+           f"{s['jobs']} jobs: {s['converted']} converted, {s['partial']} partial, {s['not_converted']} not converted"
+           f" ({s.get('not_read', 0)} of them code that could not be read or converted at all: a file, a driver or a "
+           f"job, each listed with its reason); {s['errors']} error entries, listed at the end.", "",
            "| job | driver | script | status | checked against Hadoop | shapes | hand-work items | effort (h) |",
            "|---|---|---|---|---|---|---|---|"]
     for j in report["jobs"]:
-        out.append(f"| {j['name']} | `{j['driver']}` | `{j['script']}` | {j['status']} | {checked_label(j)} | "
-                   f"{', '.join(j['shapes'])} | {len(j['hand_work'])} | {j['effort_hours']:.1f} |")
+        out.append(f"| {md_cell(j['name'])} | `{md_cell(j['driver'])}` | `{md_cell(j['script'] or '(none)')}` | "
+                   f"{j['status']} | {md_cell(checked_label(j))} | {md_cell(', '.join(j['shapes']))} | "
+                   f"{len(j['hand_work'])} | {j['effort_hours']:.1f} |")
     e = report["effort"]
     out += ["", f"Estimated effort for the repository: **{e['hours']:.1f} h** "
                 f"(range {e['range_hours'][0]:.1f} to {e['range_hours'][1]:.1f} h). {e['caveat']}", ""]
@@ -174,7 +249,7 @@ def to_markdown(report: dict) -> str:
         if not (j["hand_work"] or j["notes"] or j["counters"] or j["findings"] or j["aggregates"] or j["inputs"]
                 or j["side_tables"] or j["chain"] or v.get("verdict") in ("error", "differs")):
             continue
-        out += [f"## {j['name']} ({j['status']})", ""]
+        out += [f"## {md_cell(j['name'])} ({j['status']})", ""]
         if v.get("verdict") in ("error", "differs"):
             out.append(f"- **checked against Hadoop: {v['verdict']}**: {v['detail']} ({v['checked_at']})")
             for d in (v.get("comparison") or {}).get("differences", []):
@@ -182,7 +257,7 @@ def to_markdown(report: dict) -> str:
             if v.get("log"):
                 out += ["", "```", v["log"], "```", ""]
         for h in j["hand_work"]:
-            out += [f"- **{h['category']}** at `{h['file']}:{h['line']}`: {h['reason']}",
+            out += [f"- **{h['category']}** at `{where(h['file'], h['line'])}`: {h['reason']}",
                     f"  - code: `{h['snippet']}`" if h["snippet"] else "  - code: (see file)",
                     f"  - suggestion: {h['suggestion']}"]
         for f in j["findings"]:
@@ -208,7 +283,7 @@ def to_markdown(report: dict) -> str:
         out.append("")
     if report["errors"]:
         out += ["## Files not read", ""]
-        out += [f"- `{e['file']}:{e['line']}`: {e['message']}" for e in report["errors"]]
+        out += [f"- `{where(e['file'], e['line'])}`: {e['message']}" for e in report["errors"]]
         out.append("")
     return "\n".join(out)
 

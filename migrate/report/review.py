@@ -17,7 +17,8 @@ from pygments import lex
 from pygments.formatters.html import HtmlFormatter, _get_ttype_class
 from pygments.lexers import JavaLexer, PythonLexer
 
-from migrate.report.render import checked_label
+from migrate.java.source import read_inside
+from migrate.report.render import checked_label, where
 
 _STEP = re.compile(r"#\s+([\w$]+\.java):(\d+)")
 STATUS_COLOURS = {"converted": "#2f7d32", "partial": "#b7791f", "not_converted": "#b42318"}
@@ -44,12 +45,21 @@ def _files_of(job: dict) -> list[str]:
     return list(dict.fromkeys(span.rpartition(":")[0] for span in job["files"].values()))
 
 
+def _java_text(source: Path, path: str) -> str:
+    """A Java file's text for the page, read as the scan read it (a regular file, within the size limit)."""
+    try:
+        return read_inside(source, path).decode("utf-8", "replace").replace("\r\n", "\n").replace("\r", "\n")
+    except OSError as exc:  # gone, not a regular file, over the limit: say so instead
+        return f"// {path}: not shown ({exc})\n"
+
+
 def _job_section(k: int, job: dict, source: Path, out_dir: Path) -> str:
     files = _files_of(job)
     by_name = {Path(p).name: i for i, p in enumerate(files)}
-    script_path = out_dir / job["script"]
-    script = script_path.read_text(encoding="utf-8") if script_path.exists() else "# (script not written)\n"
-    py_lines = highlighted_lines(script, PythonLexer())
+    script_path = out_dir / job["script"] if job["script"] else None
+    script = (script_path.read_text(encoding="utf-8") if script_path and script_path.is_file() else
+              "# (no script: this code could not be read or converted; see the item on the left)\n")
+    py_lines = highlighted_lines(script, PythonLexer(stripnl=False))
     raw_py = script.splitlines()
     links: dict[str, list[str]] = {}  # java line id -> python line ids
     py_html = []
@@ -66,10 +76,9 @@ def _job_section(k: int, job: dict, source: Path, out_dir: Path) -> str:
     java_html = []
     placed: set[tuple[str, int]] = set()  # hand-work lines shown inline
     for i, path in enumerate(files):
-        f = source / path
-        text = f.read_text(encoding="utf-8", errors="replace") if f.exists() else f"// {path} is not at {source}\n"
+        text = _java_text(source, path)
         java_html.append(f'<div class="file">{html.escape(path)}</div>')
-        for n, line in enumerate(highlighted_lines(text, JavaLexer()), 1):
+        for n, line in enumerate(highlighted_lines(text, JavaLexer(stripnl=False)), 1):
             jid = f"j{k}-f{i}-{n}"
             py = links.get(jid, [])
             attr = f' data-py="{" ".join(py)}" class="ln linked"' if py else ' class="ln"'
@@ -86,7 +95,7 @@ def _job_section(k: int, job: dict, source: Path, out_dir: Path) -> str:
             f'<p class="meta"><code>{html.escape(job["driver"])}</code> → <code>{html.escape(job["script"])}</code>'
             f' · {html.escape(", ".join(job["shapes"]))} · effort {job["effort_hours"]:.1f} h'
             f' · hand work: {len(job["hand_work"])} · checked against Hadoop: {html.escape(verdict)}</p>')
-    extra = "".join(f'<div class="hw"><b>{html.escape(h["category"])}</b> at {html.escape(h["file"])}:{h["line"]}: '
+    extra = "".join(f'<div class="hw"><b>{html.escape(h["category"])}</b> at {html.escape(where(h["file"], h["line"]))}: '
                     f'{html.escape(h["reason"])}</div>' for h in loose)
     return (f'<section class="job" id="job-{k}" data-status="{job["status"]}" data-categories="{" ".join(cats)}" '
             f'tabindex="-1">{head}{extra}<div class="pair"><div class="java code">{"".join(java_html)}</div>'
