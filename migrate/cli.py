@@ -3,6 +3,7 @@ from __future__ import annotations
 
 import argparse
 import json
+import sys
 from pathlib import Path
 
 from rich.console import Console
@@ -85,7 +86,8 @@ def _size_option(p: argparse.ArgumentParser) -> None:
 
 def main(argv: list[str] | None = None) -> int:
     args = _parser().parse_args(argv)
-    console = Console(soft_wrap=True)
+    # not a terminal (a pipe, a CI log): wide enough that no table cell is cut to "…"
+    console = Console(soft_wrap=True, width=None if sys.stdout.isatty() else 240)
     try:
         return _run(console, args)
     except KeyboardInterrupt:
@@ -176,7 +178,8 @@ def _verify(console: Console, args) -> int:
     for col in ("job", "verdict", "compared as", "seconds", "detail"):
         t.add_column(col)
     for c in checks:
-        t.add_row(c.job, f"[{VERDICT_STYLE[c.verdict]}]{c.verdict}[/]", c.mode or "-", f"{c.seconds:.0f}", c.detail)
+        t.add_row(shown(c.job), f"[{VERDICT_STYLE[c.verdict]}]{c.verdict}[/]", c.mode or "-", f"{c.seconds:.0f}",
+                  shown(c.detail))
     console.print(t)
     for c in checks:
         if c.verdict == "differs" and c.comparison:
@@ -184,7 +187,7 @@ def _verify(console: Console, args) -> int:
             for col in ("line", "original", "script"):
                 d.add_column(col)
             for row in c.comparison["differences"]:
-                d.add_row(str(row["line"]), row["original"], row["converted"])
+                d.add_row(str(row["line"]), shown(row["original"]), shown(row["converted"]))
             console.print(d)
         if c.verdict == "error" and c.log:
             console.print(f"[red]{c.job}[/red]: {c.detail}")
@@ -210,6 +213,11 @@ def _inventory(scan: RepoScan) -> dict:
     }
 
 
+def shown(text) -> str:
+    """Text from the sources as the console shows it: markup escaped, control characters visible."""
+    return escape("".join(c if c.isprintable() else repr(c)[1:-1] for c in str(text)))
+
+
 def _short(fq: str | None) -> str:
     return fq.rsplit(".", 1)[-1] if fq else "-"
 
@@ -220,7 +228,8 @@ def _print_inventory(console: Console, scan: RepoScan) -> None:
         t.add_column(col)
     for j in scan.jobs:
         reducer = "(map only)" if j.spec.reduces == 0 else _short(j.classes.get("reducer")) if j.classes.get("reducer") else "(identity)"
-        t.add_row(j.spec.name, _short(j.spec.driver.fqcn), j.spec.api, _short(j.classes.get("mapper")), reducer,
+        t.add_row(shown(j.spec.name), shown(_short(j.spec.driver.fqcn)), j.spec.api, shown(_short(j.classes.get("mapper"))),
+                  shown(reducer),
                   ", ".join(j.plan.shapes), f"[{STATUS_STYLE[j.status]}]{j.status}[/]")
     console.print(t)
     _print_errors(console, scan)
@@ -228,7 +237,7 @@ def _print_inventory(console: Console, scan: RepoScan) -> None:
 
 def _print_errors(console: Console, scan: RepoScan) -> None:
     for e in scan.errors:
-        console.print("[red]not read[/red] " + escape(f"{where(e.path, e.line)}: {e.message}"))
+        console.print("[red]not read[/red] " + shown(f"{where(e.path, e.line)}: {e.message}"))
 
 
 def _print_summary(console: Console, report: dict, out: Path) -> None:
@@ -236,11 +245,11 @@ def _print_summary(console: Console, report: dict, out: Path) -> None:
     for col in ("job", "script", "status", "hand work", "effort (h)"):
         t.add_column(col)
     for j in report["jobs"]:
-        t.add_row(j["name"], j["script"], f"[{STATUS_STYLE[j['status']]}]{j['status']}[/]", str(len(j["hand_work"])),
+        t.add_row(shown(j["name"]), j["script"], f"[{STATUS_STYLE[j['status']]}]{j['status']}[/]", str(len(j["hand_work"])),
                   f"{j['effort_hours']:.1f}")
     console.print(t)
     for e in report["errors"]:
-        console.print("[red]not read[/red] " + escape(f"{where(e['file'], e['line'])}: {e['message']}"))
+        console.print("[red]not read[/red] " + shown(f"{where(e['file'], e['line'])}: {e['message']}"))
     s, e = report["summary"], report["effort"]
     console.print(f"jobs: [green]{s['converted']} converted[/green], [yellow]{s['partial']} partial[/yellow], "
                   f"[red]{s['not_converted']} not converted[/red] of {s['jobs']}")

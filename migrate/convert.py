@@ -202,7 +202,8 @@ def write_outputs(scan: RepoScan, out: Path, root_label: str, force: bool = Fals
         name = script_name(job, taken)
         try:
             text = render_script(job.plan, header_for(job, name), list(job.plan.hand_work))
-        except (TypeError, ValueError, KeyError, black.InvalidInput) as exc:  # a generator bug: report, go on
+            compile(text, name, "exec")  # a script that Python cannot even read is never written
+        except (TypeError, ValueError, KeyError, SyntaxError, black.InvalidInput) as exc:  # a generator bug: report
             errors.append(ParseFailure(job.spec.driver.file.path, job.spec.origin.line_start,
                                        f"could not write a script for {job.spec.name!r}: {type(exc).__name__}: {exc}"))
             unread.append(Unread("job", job.spec.name or job.spec.driver.fqcn, errors[-1]))
@@ -223,7 +224,7 @@ def write_outputs(scan: RepoScan, out: Path, root_label: str, force: bool = Fals
 
 def _write_checks(writer: _Writer, report: dict) -> None:
     """tests/test_<script>.py per job whose script runs, and a runs.json skeleton to fill with sample data."""
-    from migrate.gen.pyspark import _ENV
+    from migrate.gen.pyspark import _ENV, docstring_text
     from migrate.verify.compare import MODES
 
     from migrate.verify.runner import runnable
@@ -235,8 +236,10 @@ def _write_checks(writer: _Writer, report: dict) -> None:
         stem = Path(j["script"]).stem
         text = _ENV.get_template("check_job.py.j2").render(
             script=j["script"], driver=j["driver"], mode=j["comparison"], mode_text=MODES[j["comparison"]],
-            test_name=stem)
-        writer.write(f"tests/test_{stem}.py", black.format_str(text, mode=black.Mode(line_length=100)))
+            test_name=stem, doc=docstring_text)
+        text = black.format_str(text, mode=black.Mode(line_length=100))
+        compile(text, f"test_{stem}.py", "exec")  # names are sanitised: a failure here is a bug, not input
+        writer.write(f"tests/test_{stem}.py", text)
         args = sorted((a for a in j["arguments"] if a["position"] is not None), key=lambda a: a["position"])
         runs.append({"driver": j["driver"], "args": ["@out" if a["name"] == "output_path" else
                                                     "@tmp" + a["name"].split("_")[1] if a["name"].startswith("job_")

@@ -87,12 +87,20 @@ def scan_repo(root: Path, progress=None, max_file_bytes: int = MAX_FILE_BYTES) -
 
 
 def script_name(job: JobResult, taken: set[str]) -> str:
-    """A file name for the generated script: snake_case of the driver class, unique in the batch."""
+    """A file name for the generated script: snake_case of the driver class, unique in the batch.
+    Only ASCII letters, digits and `_`, so that it is a Python module name and a test name too
+    (`Tally$Job` → tally_job, `Fare€Tally` → fare_tally)."""
     import re
 
-    base = re.sub(r"(?<=[a-z0-9])(?=[A-Z])", "_", job.spec.driver.name).lower()
-    if base + ".py" in taken and job.spec.name:  # a driver that runs several jobs
-        base = f"{base}_{re.sub(r'[^a-z0-9]+', '_', job.spec.name.lower()).strip('_')}"
+    def snake(text: str) -> str:
+        text = re.sub(r"(?<=[a-z0-9])(?=[A-Z])", "_", text).lower()
+        return re.sub(r"[^a-z0-9]+", "_", text).strip("_")
+
+    base = snake(job.spec.driver.name) or "job"
+    if base[0].isdigit():
+        base = "job_" + base
+    if base + ".py" in taken and job.spec.name and snake(job.spec.name):  # a driver that runs several jobs
+        base = f"{base}_{snake(job.spec.name)}"
     name, i = base + ".py", 2
     while name in taken:
         name, i = f"{base}_{i}.py", i + 1

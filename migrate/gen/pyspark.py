@@ -2,6 +2,7 @@
 from __future__ import annotations
 
 import math
+import uuid
 from dataclasses import dataclass, field
 from pathlib import Path
 
@@ -827,8 +828,9 @@ def render_script(plan: Plan, header: dict, hand_work: list[HandWork]) -> str:
         found = [p for p in positional if p.position == i]
         slots.append(found[0] if found else None)
     build_args, build_call = _signature(plan, x)
+    doc_end = f"<mrlift-docstring-end-{uuid.uuid4().hex}>"  # unguessable: Java text cannot fake the end
     text = _ENV.get_template("job.py.j2").render(
-        plan=plan, header=header, body=parts.body, helpers=helpers,
+        doc_end=doc_end, plan=plan, header=header, body=parts.body, helpers=helpers,
         uses_window=parts.uses_window or any(st["uses_window"] for st in stages),
         slots=slots, options=[p for p in plan.params if p.position is None], sink=plan.sink,
         build_args=build_args, build_call=build_call, hand_work=hand_work, stages=stages,
@@ -838,7 +840,28 @@ def render_script(plan: Plan, header: dict, hand_work: list[HandWork]) -> str:
         sort_note=("cleanup() wrote the kept entries in map order, one reduce task after another: the same here"
                    if isinstance(plan.reduce, TopN) else "One reducer wrote one file sorted by key: the same here"),
     )
-    return format_code(text)
+    doc, _, code = text.partition(doc_end)
+    return format_code('"""' + docstring_text(doc[3:]) + code)
+
+
+def docstring_text(text: str) -> str:
+    """Text from the Java sources made safe inside a triple-quoted (non-raw) docstring: backslashes
+    doubled (a Windows path, `\\u`, `\\N{...}`), every third quote of a run and a closing quote
+    escaped, control characters (NUL, CR) written as escapes. It then reads as the text itself."""
+    out, quotes = [], 0
+    for i, c in enumerate(text):
+        quotes = quotes + 1 if c == '"' else 0
+        if c == "\\":
+            out.append("\\\\")
+        elif c == '"' and (quotes == 3 or i == len(text) - 1):
+            out.append('\\"')
+            quotes = 0
+        elif c in "\n\t" or (c.isprintable() and c not in "\u2028\u2029"):
+            out.append(c)
+        else:
+            out.append(f"\\x{ord(c):02x}" if ord(c) < 0x100 else f"\\u{ord(c):04x}" if ord(c) < 0x10000
+                       else f"\\U{ord(c):08x}")
+    return "".join(out)
 
 
 def _signature(plan: Plan, x: ExprWriter) -> tuple[str, str]:
