@@ -841,7 +841,32 @@ def render_script(plan: Plan, header: dict, hand_work: list[HandWork]) -> str:
                    if isinstance(plan.reduce, TopN) else "One reducer wrote one file sorted by key: the same here"),
     )
     doc, _, code = text.partition(doc_end)
+    check_size(code)
     return format_code('"""' + docstring_text(doc[3:]) + code)
+
+
+MAX_NESTING = 40  # brackets inside brackets: the samples' deepest script has 15
+MAX_SCRIPT_BYTES = 256 * 1024  # the samples' largest script has 17 KB
+
+
+class ScriptTooLarge(ValueError):
+    """A script too large or too deeply nested to read (and for black, whose time grows steeply with nesting)."""
+
+
+def check_size(code: str) -> None:
+    """Refuse a script no reviewer could read: the job is then reported, not converted."""
+    depth = deepest = 0
+    for c in code:
+        if c in "([{":
+            depth += 1
+            deepest = max(deepest, depth)
+        elif c in ")]}":
+            depth -= 1
+    if deepest > MAX_NESTING or len(code) > MAX_SCRIPT_BYTES:
+        raise ScriptTooLarge(
+            f"the script would be {len(code):,} characters with expressions nested {deepest} deep (limits: "
+            f"{MAX_SCRIPT_BYTES:,} and {MAX_NESTING}); a long if/else-if chain is the usual cause: rewrite it as a "
+            "lookup table (a small DataFrame joined on the key, or F.create_map) by hand")
 
 
 def docstring_text(text: str) -> str:

@@ -56,3 +56,22 @@ def test_docstring_text_round_trips_any_string():
     for text in ['"', '""', '"""', 'a"""b""""', "\\", "\\N{X}", "\\u12", "x\x00\r\x1b\u2028\U0001F600y", "end\""]:
         doc = ast.literal_eval('"""' + docstring_text(text) + '"""')
         assert doc == text, text
+
+
+def test_a_giant_else_if_chain_is_declined_with_its_reason_not_formatted_for_minutes(tmp_path):
+    """An else-if chain of 120 branches used to give a 343 KB expression nested 242 deep, which black
+    formatted for about a minute (time grows steeply with nesting) and Python then refused to compile
+    ("too many nested parentheses"). It is now refused before formatting, with the reason."""
+    branches = "".join(f'      else if (s.startsWith("z{i}")) {{ zone = "a{i}"; }}\n' for i in range(1, 120))
+    body = ('      String s = value.toString();\n      String zone;\n'
+            '      if (s.startsWith("z0")) { zone = "a0"; }\n' + branches +
+            '      else { zone = "none"; }\n      context.write(new Text(zone), new IntWritable(1));')
+    repo = tmp_path / "repo"
+    scan_text(repo, {"Main.java": job_source(body, reducer_class=None)})
+    out = tmp_path / "out"
+    assert main(["convert", str(repo), "-o", str(out)]) == 0
+    report = json.loads((out / "report.json").read_text())
+    (job,) = report["jobs"]
+    assert job["status"] == "not_converted" and job["script"] == ""
+    assert "nested" in job["hand_work"][0]["reason"] and "lookup table" in job["hand_work"][0]["reason"]
+    assert not list(out.glob("*.py"))
