@@ -39,6 +39,11 @@ def _parser() -> argparse.ArgumentParser:
     c.add_argument("--effort", type=Path, metavar="FILE",
                    help="TOML file with effort constants, category profiles and your own PERT hours per category "
                         "(see README, Effort)")
+    c.add_argument("--compile-check", action="store_true",
+                   help="compile the sources with javac first (a JDK and the Hadoop jars are needed); a job whose "
+                        "files javac rejects is not converted, with javac's message at each line")
+    c.add_argument("--classpath", help="Hadoop jars for --compile-check (default: HADOOP_HOME, `hadoop classpath`, "
+                   "or the jars the pyspark wheel ships)")
     c.add_argument("--with-tests", action="store_true",
                    help="also write tests/test_<script>.py per job (the verify comparison, for your own CI) and a "
                         "tests/runs.json to fill with sample data")
@@ -131,6 +136,19 @@ def _run(console: Console, args) -> int:
             files = find_java_files(args.path.resolve())
             t = bar.add_task("reading Java", total=len(files))
             scan = scan_repo(args.path, progress=lambda _p: bar.advance(t), max_file_bytes=args.max_file_size)
+            if args.compile_check:
+                from migrate.scan import compile_with_javac
+                from migrate.verify.classpath import find_classpath, repository_jars
+                from migrate.verify.hadoop import HadoopUnavailable
+
+                root = args.path.resolve()
+                try:
+                    cp = ":".join((*find_classpath(args.classpath).entries,
+                                   *repository_jars(root if root.is_dir() else root.parent)))
+                    scan = compile_with_javac(scan, cp)
+                except HadoopUnavailable as exc:
+                    console.print(f"[red]mrlift: --compile-check: {exc}[/red]")
+                    return 2
             t2 = bar.add_task("writing scripts", total=len(scan.jobs))
             if not scan.files:
                 _print_errors(console, scan)

@@ -12,7 +12,7 @@ import black
 from migrate.gen.pyspark import render_script
 from migrate.java.source import ParseFailure
 from migrate.lift.job import JobResult
-from migrate.plan import EachValue, Group, Identity, TopN, TopPerKey
+from migrate.plan import EachValue, Group, Identity, Join, TopN, TopPerKey
 from migrate.report.render import build_report, to_csv, to_json, to_markdown
 from migrate.scan import RepoScan, Unread, script_name
 
@@ -157,6 +157,10 @@ def _what(p, map_only: bool) -> str:
         what = "the mapper's values, each written (or filtered) by the reducer as it meets them, sorted by key"
     elif isinstance(r, Identity):
         what = "the mapper's pairs sorted by key"
+    elif isinstance(r, Join):
+        kind = next((s for s in p.shapes if s.startswith("reduce-side join")), "reduce-side join")
+        what = (f"a {kind} of the inputs' values, told apart by their tags "
+                f"({', '.join(side.name for side in r.sides)}), written per key, sorted by key")
     else:
         what = "not determined: the reduce side needs hand work"
     return what
@@ -165,6 +169,7 @@ def _what(p, map_only: bool) -> str:
 def header_for(job: JobResult, script: str) -> dict:
     classes = []
     roles = ("driver", "mapper", "combiner", "reducer", "partitioner", "sort_comparator", "grouping_comparator")
+    roles += tuple(r for r in job.classes if r not in roles)  # "mapper 1", "mapper 2" of MultipleInputs
     if job.plan.upstream:  # a chain: "job 1 mapper", "job 2 reducer", ...
         roles = tuple(job.classes)
     for role in roles:

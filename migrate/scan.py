@@ -5,6 +5,7 @@ import os
 from dataclasses import dataclass, field
 from pathlib import Path
 
+from migrate.java.compile_checks import CompileProblem, compile_problems
 from migrate.java.driver import read_drivers
 from migrate.java.index import ClassIndex
 from migrate.java.roles import classify
@@ -83,7 +84,69 @@ def scan_repo(root: Path, progress=None, max_file_bytes: int = MAX_FILE_BYTES) -
             continue
         scan.jobs.append(job)
     scan.jobs = chain_jobs(scan.jobs)  # jobs that read the folder the one before wrote: one script
+    problems = {f.path: _with_snippets(compile_problems(f.tree, Path(f.path).stem), f) for f in files}
+    scan.jobs = [decline_uncompilable(job, {p: problems[p] for p in job_files(job, index) if problems.get(p)})
+                 for job in scan.jobs]
     return scan
+
+
+MAX_PROBLEMS_PER_FILE = 20  # javac itself stops at 100; a few name the trouble
+
+
+def _with_snippets(found: list, f: ParsedFile) -> list[tuple]:
+    """The first problems of a file, each with the text of its line."""
+    if not found:
+        return []
+    lines = f.lines
+    return [(p, lines[p.line - 1].strip() if 0 < p.line <= len(lines) else "") for p in found[:MAX_PROBLEMS_PER_FILE]]
+
+
+def job_files(job: JobResult, index: ClassIndex) -> list[str]:
+    """The Java files a job's classes come from (driver, mapper, reducer, ..., custom Writables)."""
+    paths = {span.file for span in job.files.values()}
+    for fq in list(job.classes.values()) + [t for t in job.spec.types.values() if t]:
+        c = index.get(fq)
+        if c is not None:
+            paths.add(c.file.path)
+    return sorted(paths)
+
+
+def compile_with_javac(scan: RepoScan, classpath: str) -> RepoScan:
+    """`convert --compile-check`: javac itself over the repository's files; a job whose files it
+    rejects is declined at each line javac names."""
+    from migrate.java.source import shown_path
+    from migrate.verify.hadoop import javac_errors
+
+    base = scan.root if scan.root.is_dir() else scan.root.parent
+    read = [base / f.path for f in scan.files if (base / f.path).is_file()]
+    errors = javac_errors(read, classpath) if read else {}
+    texts = {f.path: f for f in scan.files}
+    by_path = {}
+    for path, found in errors.items():
+        rel = shown_path(path, base)
+        if base in path.parents and rel in texts:
+            by_path[rel] = _with_snippets([CompileProblem(line, f"javac: {msg}") for line, msg in found], texts[rel])
+    scan.jobs = [decline_uncompilable(job, {p: by_path[p] for p in job_files(job, scan.index) if p in by_path})
+                 for job in scan.jobs]
+    return scan
+
+
+def decline_uncompilable(job: JobResult, problems: dict[str, list]) -> JobResult:
+    """A job whose files javac would reject is not converted: parity with code that never ran
+    cannot be proven. Each problem becomes a blocking item at its line."""
+    from dataclasses import replace
+
+    from migrate.plan import HandWork, Span
+
+    if not problems:
+        return job
+    items = tuple(HandWork("does-not-compile", Span(path, p.line, p.line),
+                           p.message if p.message.startswith("javac: ") else f"javac would reject this file: "
+                                                                               f"{p.message}",
+                           "fix the Java so that it compiles (and check that the job still does what it did), "
+                           "then run mrlift again", snippet, "P1", 1)
+                  for path, found in sorted(problems.items()) for p, snippet in found)
+    return replace(job, plan=replace(job.plan, hand_work=job.plan.hand_work + items))
 
 
 def script_name(job: JobResult, taken: set[str]) -> str:

@@ -1,6 +1,8 @@
 """Read a driver's Job / JobConf calls into a JobSpec: classes, types, formats, paths, conf, reducers."""
 from __future__ import annotations
 
+import re
+
 from dataclasses import dataclass, field
 
 from javalang import tree as T
@@ -91,6 +93,7 @@ LIBRARY_CONSTANTS = {
     ("KeyValueLineRecordReader", "KEY_VALUE_SEPARATOR"): "mapreduce.input.keyvaluelinerecordreader.key.value.separator",
     ("TextOutputFormat", "SEPARATOR"): "mapreduce.output.textoutputformat.separator",
 }
+MAX_ARGUMENTS = 255  # a driver reading args[N] beyond this is not a command line mrlift rebuilds
 _CONF_SETTERS = {"set", "setInt", "setLong", "setBoolean", "setFloat", "setDouble", "setStrings"}
 _HARMLESS = {"setJarByClass", "setJar", "waitForCompletion", "submit", "setJobName", "exit", "println", "printf",
              "getInstance", "getConfiguration", "getRemainingArgs", "runJob", "print", "run", "getFileSystem", "get",
@@ -99,6 +102,15 @@ _HARMLESS = {"setJarByClass", "setJar", "waitForCompletion", "submit", "setJobNa
              "isSuccessful", "currentTimeMillis"}
 # Calls that read what a finished job left: its counters, or files (its output) opened by the driver.
 _AFTER_JOB = {"getCounters", "open", "listStatus", "globStatus", "getJobState"}
+# Calls and classes that change files (Hadoop FileSystem, java.io.File, java.nio.file.Files): in a
+# driver, I/O outside the job's own output, which a script that only writes the output does not do.
+_FILE_CHANGES = {"deleteOnExit", "renameTo", "mkdirs", "createNewFile", "copyFromLocalFile", "copyToLocalFile",
+                 "moveFromLocalFile", "moveToLocalFile", "writeString", "deleteIfExists", "createFile",
+                 "createDirectory", "createDirectories", "createTempFile", "fullyDelete", "createSymlink"}
+# Names that change files only on a file system or Files/FileUtil (`sb.append`, `URI.create` do not).
+_FS_CHANGES = {"create", "append", "rename", "copy", "move", "write", "setPermission", "setOwner", "setReplication",
+               "setTimes", "truncate", "concat", "mkdir"}
+_FILE_WRITERS = {"FileWriter", "FileOutputStream", "PrintWriter", "PrintStream", "RandomAccessFile"}
 
 
 def read_drivers(index: ClassIndex) -> tuple[list[JobSpec], list[tuple[ClassInfo, int, str]]]:
@@ -146,6 +158,8 @@ class _DriverReader:
         self.submitted: list[str] = []
         self.method_name = "main"
         self.pending_delete: list[PathRef] = []  # paths deleted before any job names its output
+        self.deletes: list[tuple[PathRef | None, int]] = []  # every delete: (the path if known, line)
+        self.file_io: list[tuple[int, str]] = []  # (line, call) that change files other than by a delete
         self.pending_conf: dict[str, str] = {}  # settings made on a Configuration before the job exists
 
     # -- walking
@@ -158,6 +172,18 @@ class _DriverReader:
     def jobs(self) -> list[JobSpec]:
         ids = [j for j in self.order if j in self.submitted] or self.order
         out = [self.specs[j] for j in ids]
+        outputs = {s.output for s in self.specs.values() if s.output is not None}
+        changes = sorted(self.file_io + [(line, "a delete of " + (p.text or p.literal or "a path" if p is not None
+                                                                  else "a file or folder"))
+                                         for p, line in self.deletes if p is None or p not in outputs])
+        for s in out:
+            if not self.submitted:
+                s.extra.append(("not-submitted", s.origin.line_start,
+                                "the driver configures this job but never submits it (no waitForCompletion, submit "
+                                "or JobClient.runJob was found): the original may write nothing"))
+            for line, what in changes:
+                s.extra.append(("io-outside-output", line, f"the driver changes files outside the job's output: "
+                                                           f"{what}"))
         if len(out) > 1:
             for s in out:
                 s.extra.append(("chained-jobs", s.origin.line_start,
@@ -206,7 +232,8 @@ class _DriverReader:
         if isinstance(e, T.MemberReference):
             base = self.env.get(e.member, ("unknown", e.member)) if not e.qualifier else ("unknown", f"{e.qualifier}.{e.member}")
             for sel in e.selectors or []:
-                if isinstance(sel, T.ArraySelector) and base[0] == "args" and isinstance(sel.index, T.Literal):
+                if isinstance(sel, T.ArraySelector) and base[0] == "args" and isinstance(sel.index, T.Literal) \
+                        and re.fullmatch(r"\d{1,3}", sel.index.value) and int(sel.index.value) <= MAX_ARGUMENTS:
                     base = ("arg", int(sel.index.value))
                 elif isinstance(sel, T.ArraySelector):
                     base = ("unknown", "array element")
@@ -225,6 +252,11 @@ class _DriverReader:
                 return got
             if tname in ("Configuration",):
                 return ("conf",)
+            simple = e.type
+            while getattr(simple, "sub_type", None) is not None:  # `new java.io.PrintWriter(...)`
+                simple = simple.sub_type
+            if simple.name in _FILE_WRITERS:
+                self.file_io.append((_line(e), f"`new {simple.name}(...)`"))
             for a in e.arguments or []:  # `new BufferedReader(new InputStreamReader(fs.open(…)))` reads a file
                 self._value(a, None)
             for sel in e.selectors or []:
@@ -301,8 +333,22 @@ class _DriverReader:
             self.specs[recv[1]].call_lines.setdefault(m, line)
             self._submit(recv[1])
             return ("unknown", "bool")
+        if m == "delete" and not args:  # java.io.File.delete()
+            self.deletes.append((None, line))
+            return ("unknown", "bool")
+        static = recv[1].split(".")[-1] if recv[0] == "static" else None
+        if m in ("get", "getLocal", "newInstance") and static == "FileSystem" or m == "getFileSystem":
+            for a in args:
+                self._value(a, None)
+            return ("fs",)
+        if m in _FILE_CHANGES or m in _FS_CHANGES and (recv[0] == "fs" or static in ("Files", "FileUtil")):
+            for a in args:
+                self._value(a, None)
+            self.file_io.append((line, f"`{m}(...)`"))
+            return ("unknown", m)
         if m == "delete" and args:
             p = self._value(args[0], None)
+            self.deletes.append((p[1] if p[0] == "path" else None, line))
             for spec in self.specs.values():
                 if spec.output is not None and p[0] == "path" and p[1] == spec.output:
                     spec.deletes_output = True

@@ -4,6 +4,7 @@ from __future__ import annotations
 import os
 import stat
 from dataclasses import dataclass
+from functools import cached_property
 from pathlib import Path
 
 import javalang
@@ -17,7 +18,7 @@ class ParsedFile:
     text: str
     tree: javalang.tree.CompilationUnit
 
-    @property
+    @cached_property  # split once: rules read lines of the same file many times
     def lines(self) -> list[str]:
         return self.text.split("\n")
 

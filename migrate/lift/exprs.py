@@ -115,6 +115,7 @@ class Scope:
     caught: frozenset[str] = frozenset()
     file: str = ""  # the Java file, for the origin of every lifted expression
     notes: list[str] = field(default_factory=list)  # assumptions the lift made, for the report
+    findings: list = field(default_factory=list)  # what the original does that a reviewer should know (Finding)
     methods: dict[str, list] = field(default_factory=dict)  # helper methods of the class, for inlining
     depth: int = 0
     enums: frozenset[str] = frozenset()  # simple names of enum types in the repository
@@ -611,8 +612,10 @@ def _binary(node: T.BinaryOperation, scope: Scope) -> Expr:
         if l.jtype == "String" or r.jtype == "String":
             if op in ("==", "!=") and "null" in (l.jtype, r.jtype):
                 return Lit("boolean", op == "!=")  # values read from text lines are never null
-            raise Unsupported(node, "Strings compared with == or <: Java compares references, not text",
-                              "use .equals() semantics deliberately: F.col(a) == F.col(b)")
+            if op in ("==", "!="):
+                return _reference_equality(node, l, r, scope)
+            raise Unsupported(node, f"Strings compared with {op}: Java does not compare Strings with {op}",
+                              "compare with compareTo() semantics deliberately: F.col(a) < F.col(b)")
         if l.jtype in NUMERIC and r.jtype in NUMERIC:
             t = promote(l.jtype, r.jtype)
             return Compare("boolean", op, _widen(l, t), _widen(r, t))
@@ -622,6 +625,40 @@ def _binary(node: T.BinaryOperation, scope: Scope) -> Expr:
             return Lit("boolean", (l.value == r.value) == (op == "=="))
         raise Unsupported(node, f"comparison {op} of {l.jtype} and {r.jtype}")
     raise Unsupported(node, f"operator {op} is not lifted yet")
+
+
+# Where a lifted String comes from Text.toString() of the record (the line, or the key of a
+# KeyValueTextInputFormat line): Hadoop's Text.decode makes a new String object every time.
+_FRESH_STRINGS = {"value", "key"}
+
+
+def _reference_equality(node: T.BinaryOperation, l: Expr, r: Expr, scope: Scope) -> Expr:
+    """`s == "x"` on Strings compares references. A String made from the record at run time is a
+    new object, never the interned literal, so the original's answer is false (`!=`: true) for
+    every record; that is reproduced and raised as a finding. Anything else is declined."""
+    from migrate.java.index import node_lines
+    from migrate.plan import Finding
+
+    def fresh(e: Expr) -> bool:
+        return isinstance(e, Col) and e.jtype == "String" and e.name in _FRESH_STRINGS
+
+    def literal(e: Expr) -> bool:
+        return isinstance(e, Lit) and e.jtype == "String" and e.value is not None
+
+    if not (fresh(l) and literal(r) or literal(l) and fresh(r)):
+        raise Unsupported(node, "Strings compared with ==: Java compares references (is it the same object?), not "
+                                "text, and which objects these are depends on how each String was made",
+                          "find out what the original really did before choosing: `.equals()` semantics "
+                          "(F.col(a) == F.col(b)) give different output wherever the references differed")
+    line = node_lines(node)[0]
+    text = r.value if literal(r) else l.value
+    scope.findings.append(Finding(
+        "reference-equality", Span(scope.file, line, line),
+        f"`{node.operator} \"{text}\"` compares references: the String read from the record is a new object for every "
+        f"record, never the interned literal, so the comparison is {'false' if node.operator == '==' else 'true'} "
+        "for every record in the original; so it is in the script",
+        "if the job meant to compare text, use equals() in Java and == in the script; that changes the output"))
+    return Lit("boolean", node.operator == "!=")
 
 
 def _null_test(node: T.BinaryOperation, scope: Scope) -> Expr | None:

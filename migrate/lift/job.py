@@ -141,13 +141,15 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
     tables: list[SideTable] = []  # side files the mappers load in setup() and look keys up in
     _chain_hand_work(spec, add)
     if any(c.role == "map" for c in spec.chain):
-        steps, skip_first = _chained_maps(spec, index, fmt, hand, notes, add, combining, tables, structs)
+        steps, skip_first = _chained_maps(spec, index, fmt, hand, notes, add, combining, tables, structs, findings)
         shapes.append(f"{sum(c.role == 'map' for c in spec.chain)} chained mappers")
     elif spec.branches:
-        branches = _branches(spec, index, input_params[len(spec.inputs):], kv_sep, hand, notes, add, combining, tables)
+        branches = _branches(spec, index, input_params[len(spec.inputs):], kv_sep, hand, notes, add, combining, tables,
+                             findings)
         shapes.append(f"{len(branches)} inputs, one mapper each")
     elif mcls is not None and "mapper" in mcls.roles:
-        steps, skip_first = _lift_mapper(mcls, fmt, hand, notes, index, spec.conf, combining, tables)
+        steps, skip_first = _lift_mapper(mcls, fmt, hand, notes, index, spec.conf, combining, tables,
+                                         findings=findings)
     elif mapper_fq in KNOWN_CLASSES or mapper_fq in IDENTITY_MAPPERS:
         lib_steps, why = library_mapper(mapper_fq, fmt, spec.conf)
         if lib_steps is None:
@@ -241,8 +243,8 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
         shapes.append("map-side join (" + ", ".join(f"{t.field}: {'HashSet' if t.kind == 'set' else 'HashMap'}"
                                                     for t in tables) + ")")
     for category, line, text in spec.extra:
-        add(category, Span(drv, line, line), f"{text} is not converted in this version",
-            EXTRA_ADVICE.get(category, "rewrite this driver call as DataFrame code by hand"), "P2")
+        add(category, Span(drv, line, line), text if category in WHOLE_REASONS else f"{text} is not converted in "
+            "this version", EXTRA_ADVICE.get(category, "rewrite this driver call as DataFrame code by hand"), "P2")
     if spec.reduces != 0 and "reducer" not in spec.classes:
         for c in index:
             if "reducer" in c.roles and c.file.path == spec.driver.file.path and c.fqcn != spec.classes.get("combiner"):
@@ -293,8 +295,14 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
     return JobResult(spec, plan, classes, files, sloc, notes)
 
 
+# Driver items whose text is the whole reason (not "… is not converted in this version").
+WHOLE_REASONS = {"not-submitted", "io-outside-output"}
 # What to write by hand for the driver features this version does not convert (common practice).
 EXTRA_ADVICE = {
+    "not-submitted": "find out how the job really runs (a scheduler, another class) before converting it; if it never "
+                     "runs, there is nothing to convert",
+    "io-outside-output": "do the same file operation outside the Spark job (in main() or the scheduler), and only "
+                         "after checking that it is still wanted; the script writes only the job's output",
     "side-files": "a side file read in setup(): read it with spark.read and join it with F.broadcast(side) on the "
                   "looked-up key, keeping the Java rule for a miss (skip the record, a default, or pass it through)",
     "chained-maps": "apply the mapper's steps to the reducer's rows (a select after the groupBy); the lines keep "
@@ -320,7 +328,8 @@ FORMAT_ADVICE = {
 
 
 def _branches(spec: JobSpec, index: ClassIndex, params: list[str], kv_sep: str, hand: list[HandWork],
-              notes: list[str], add, combining: list[str], tables: list[SideTable]) -> list[Branch]:
+              notes: list[str], add, combining: list[str], tables: list[SideTable],
+              findings: list[Finding] | None = None) -> list[Branch]:
     """MultipleInputs: each input read with its format and mapped by its own mapper."""
     out = []
     drv = spec.driver.file.path
@@ -338,14 +347,16 @@ def _branches(spec: JobSpec, index: ClassIndex, params: list[str], kv_sep: str, 
             add("missing-source", where, f"mapper {mapper_fq} of this input is not in the repository",
                 "add its source to the scanned folder", "P2")
         else:
-            steps, skip_first = _lift_mapper(mcls, fmt, hand, notes, index, spec.conf, combining, tables)
+            steps, skip_first = _lift_mapper(mcls, fmt, hand, notes, index, spec.conf, combining, tables,
+                                             findings=findings)
         source = Source((param,), fmt or "text", skip_first, (ref.split_commas,), _reads_file_name(steps), where, kv_sep)
         out.append(Branch(source, tuple(steps), mapper_fq))
     return out
 
 
 def _chained_maps(spec: JobSpec, index: ClassIndex, fmt: str, hand: list[HandWork], notes: list[str], add,
-                  combining: list[str], tables: list[SideTable], structs: dict) -> tuple[list[Step], bool]:
+                  combining: list[str], tables: list[SideTable], structs: dict,
+                  findings: list[Finding] | None = None) -> tuple[list[Step], bool]:
     """ChainMapper: each mapper's steps after the previous one's, its input the previous output."""
     drv = spec.driver.file.path
     steps: list[Step] = []
@@ -362,7 +373,7 @@ def _chained_maps(spec: JobSpec, index: ClassIndex, fmt: str, hand: list[HandWor
             add("custom-writable", Span(drv, c.line, c.line), "a chained mapper's input is a custom Writable",
                 "model its fields as struct columns", "P1")
             return [], False
-        own, skip = _lift_mapper(mcls, fmt, hand, notes, index, spec.conf, combining, tables, in_types)
+        own, skip = _lift_mapper(mcls, fmt, hand, notes, index, spec.conf, combining, tables, in_types, findings)
         if not own:
             return steps, skip_first
         # what the next mapper (or the shuffle) reads must be what this one writes
@@ -626,7 +637,7 @@ def _method_hand_work(owner: ClassInfo, m, category: str, reason: str, suggestio
 
 def _lift_mapper(mcls: ClassInfo, fmt: str, hand: list[HandWork], notes: list[str], index: ClassIndex,
                  driver_conf: dict[str, str], combining_fields: list[str], tables: list[SideTable],
-                 in_types: tuple[str, str] | None = None):
+                 in_types: tuple[str, str] | None = None, findings: list[Finding] | None = None):
     """map() as steps; `in_types`: the (key, value) types of a chained mapper's input, which is the
     previous mapper's output (else the input format's record)."""
     owner, m = _find_method(mcls, index, "map", (3, 4))
@@ -668,6 +679,8 @@ def _lift_mapper(mcls: ClassInfo, fmt: str, hand: list[HandWork], notes: list[st
         sloc = logical_sloc(owner.file.lines[h.origin.line_start - 1 : node_lines(m)[1]])
         hand.append(_named(owner, h, max(sloc, 1), side.filled))
     notes.extend(res.notes)
+    if findings is not None:
+        findings.extend(f for f in res.findings if f not in findings)
     return res.steps, res.skip_first_line
 
 

@@ -42,6 +42,7 @@ class MapResult:
     notes: list[str] = field(default_factory=list)
     combining: list[str] = field(default_factory=list)  # Map fields summed in map() and flushed in cleanup()
     tables: list[SideTable] = field(default_factory=list)  # side tables map() looks keys up in
+    findings: list = field(default_factory=list)  # what the original does that a reviewer should know (plan.Finding)
 
 
 def _and(a: Expr | None, b: Expr | None) -> Expr | None:
@@ -162,7 +163,7 @@ class MapBodyLifter:
                 self.steps.append(Project(self._span(where), "map output", tuple(self.emit_list)))
         notes = self.notes + [n for n in self.scope.notes if n not in self.notes]
         return MapResult(self.steps, self.hand, self.skip_first_line, notes, sorted(self.combining),
-                         list(self.tables.values()))
+                         list(self.tables.values()), list(dict.fromkeys(self.scope.findings)))
 
     def _hand(self, category: str, line: int, reason: str, suggestion: str, profile: str = "P1") -> None:
         snippet = self.cls.file.lines[line - 1].strip() if 0 < line <= len(self.cls.file.lines) else ""

@@ -223,9 +223,10 @@ def to_markdown(report: dict) -> str:
     s = report["summary"]
     out = [f"# mrlift conversion report: {report['repository']}", "",
            f"> **{report['warning']}**", "",
-           f"{s['jobs']} jobs: {s['converted']} converted, {s['partial']} partial, {s['not_converted']} not converted"
-           f" ({s.get('not_read', 0)} of them code that could not be read or converted at all: a file, a driver or a "
-           f"job, each listed with its reason); {s['errors']} error entries, listed at the end.", "",
+           f"{s['jobs']} jobs: {s['converted']} converted, {s['partial']} partial, {s['not_converted']} not converted."
+           + (f" {s['not_read']} of the not converted are code that could not be read or converted at all (a file, a "
+              "driver or a job), each listed with its reason." if s.get("not_read") else "")
+           + (f" {s['errors']} error entries are listed at the end." if s["errors"] else ""), "",
            "| job | driver | script | status | checked against Hadoop | shapes | hand-work items | effort (h) |",
            "|---|---|---|---|---|---|---|---|"]
     for j in report["jobs"]:

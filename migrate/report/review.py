@@ -139,12 +139,12 @@ header h1{font-size:18px;margin:0 0 6px}
 .filters label{margin-right:12px}
 main{padding:0 20px 40px}
 .summary{display:flex;flex-wrap:wrap;gap:16px}
-.job{border-top:2px solid #d0d7e2;margin-top:24px;padding-top:8px}
+.job{border-top:2px solid #d0d7e2;margin-top:24px;padding-top:8px;scroll-margin-top:var(--header,120px)}
 .job.current h2{color:#0b57d0}
 .badge{font-size:12px;padding:2px 8px;border-radius:10px;color:#fff;vertical-align:middle}
 .badge.converted{background:#2f7d32}.badge.partial{background:#b7791f}.badge.not_converted{background:#b42318}
 .meta{color:#4a5568;margin:2px 0 8px}
-.pair{display:grid;grid-template-columns:1fr 1fr;gap:8px}
+.pair{display:grid;grid-template-columns:minmax(0,1fr) minmax(0,1fr);gap:8px}
 .code{font:12px/1.45 ui-monospace,monospace;background:#fff;border:1px solid #d0d7e2;overflow:auto;max-height:70vh}
 .ln{white-space:pre;padding:0 6px}
 .ln .no{display:inline-block;width:3.5em;color:#8a94a6;user-select:none}
@@ -159,6 +159,9 @@ main{padding:0 20px 40px}
 
 _JS = """
 (function(){
+  var head=document.querySelector('header');
+  function pad(){document.documentElement.style.setProperty('--header',(head.offsetHeight+8)+'px');}
+  pad();window.addEventListener('resize',pad);
   var jobs=[].slice.call(document.querySelectorAll('section.job')), cur=-1;
   function clear(){[].forEach.call(document.querySelectorAll('.ln.hl'),function(e){e.classList.remove('hl');});}
   function mark(ids){var first=null;ids.forEach(function(id){var e=document.getElementById(id);

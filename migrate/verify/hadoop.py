@@ -1,8 +1,10 @@
 """Compile legacy Java against the Hadoop client jars that ship in the pyspark wheel and run it locally."""
 from __future__ import annotations
 
+import re
 import shutil
 import subprocess
+import tempfile
 from dataclasses import dataclass
 from pathlib import Path
 
@@ -78,3 +80,31 @@ def run_job(classes: Path, driver: str, args: list[str], cwd: Path, timeout: flo
         out = (exc.stdout or b"").decode("utf-8", "replace") if isinstance(exc.stdout, bytes) else (exc.stdout or "")
         return RunResult(TIMED_OUT, out + f"\nstopped: the job ran longer than {timeout:g} s")
     return RunResult(p.returncode, p.stdout + p.stderr)
+
+
+_JAVAC_ERROR = re.compile(r"^(?P<file>.+?\.java):(?P<line>\d+): error: (?P<message>.*)$")
+
+
+def javac_errors(sources: list[Path], classpath: str, timeout: float = 600) -> dict[Path, list[tuple[int, str]]]:
+    """Compile the files together (classes to a throw-away folder) and return javac's errors per file:
+    (line, message). javac reports on every file it could read, so one broken file does not hide
+    another's errors; a file that compiles has no entry."""
+    if shutil.which("javac") is None:
+        raise HadoopUnavailable("javac is not on PATH (a JDK 17+ is needed for --compile-check)")
+    with tempfile.TemporaryDirectory(prefix="mrlift-javac-") as out:
+        # FLOW: go on to attribution and flow analysis even after errors, so every file is checked
+        cmd = ["javac", "-nowarn", "-encoding", "UTF-8", "-Xmaxerrs", "100000", "-proc:none",
+               "-XDshould-stop.ifError=FLOW", "-cp", classpath,
+               "-d", out, *map(str, sources)]
+        try:
+            p = subprocess.run(cmd, capture_output=True, text=True, timeout=timeout)
+        except subprocess.TimeoutExpired:
+            raise HadoopUnavailable(f"javac ran longer than {timeout:g} s") from None
+    found: dict[Path, list[tuple[int, str]]] = {}
+    for line in (p.stdout + p.stderr).splitlines():
+        m = _JAVAC_ERROR.match(line)
+        if m:
+            found.setdefault(Path(m["file"]).resolve(), []).append((int(m["line"]), m["message"]))
+    if p.returncode != 0 and not found:
+        raise HadoopUnavailable(f"javac failed without naming a file: {(p.stdout + p.stderr).strip()[:500]}")
+    return found

@@ -147,8 +147,10 @@ def test_distinct_reducer_ignores_values(tmp_path):
 
 
 def test_string_reference_comparison_is_declined(tmp_path):
+    # a split element: whether it is the interned literal depends on the JDK (test_reference_equality.py
+    # covers the record's own String, which is reproduced)
     job, _ = _plan(tmp_path, """
-      String s = value.toString();
+      String s = value.toString().split(",")[0];
       if (s == "x") return;
       context.write(new Text(s), new IntWritable(1));""")
     assert job.status == "partial"

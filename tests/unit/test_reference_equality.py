@@ -1,0 +1,78 @@
+"""`==` between Strings compares references in Java. A String read from the record (Text.toString())
+is a new object every time, never the interned literal: `line == "the"` is false for every record.
+The script reproduces that and says so as a finding; other String `==` stay hand work."""
+from __future__ import annotations
+
+import json
+import shutil
+import subprocess
+
+import pytest
+
+from tests.helpers import job_source, scan_text
+
+BODY = ('      String line = value.toString();\n'
+        '      if (line == "the") { context.write(new Text("never"), new IntWritable(1)); return; }\n'
+        '      if (value.toString() != "a") context.write(new Text(line), new IntWritable(1));')
+
+
+def test_a_record_string_compared_by_reference_is_reproduced_and_raised(tmp_path):
+    scan = scan_text(tmp_path, {"Main.java": job_source(BODY, reducer_class=None)})
+    (job,) = scan.jobs
+    assert job.status == "converted"
+    assert [f.category for f in job.plan.findings] == ["reference-equality", "reference-equality"]
+    assert "false for every record" in job.plan.findings[0].message
+    assert "true for every record" in job.plan.findings[1].message
+
+
+def test_other_string_reference_comparisons_stay_hand_work_without_a_misleading_fix(tmp_path):
+    body = ('      String[] f = value.toString().split(",");\n      if (f[0] == "") return;\n'
+            '      context.write(new Text(f[0]), new IntWritable(1));')
+    (job,) = scan_text(tmp_path, {"Main.java": job_source(body, reducer_class=None)}).jobs
+    (item,) = job.plan.hand_work
+    assert "references" in item.reason and "different output" in item.suggestion
+
+
+JAVA = """
+import org.apache.hadoop.io.Text;
+public class RefEq {
+    public static void main(String[] args) {
+        String[] lines = {"the", "a", "", "x y"};
+        for (String s : lines) {
+            Text t = new Text(s);
+            System.out.println(s + "\\t" + (t.toString() == "the") + "\\t" + (t.toString() != "a")
+                               + "\\t" + (t.toString() == ""));
+        }
+    }
+}
+"""
+
+
+@pytest.mark.skipif(shutil.which("javac") is None, reason="needs a JDK on PATH")
+def test_the_jvm_says_a_text_to_string_is_never_the_literal(tmp_path):
+    """The reference: the real JVM with Hadoop's Text (the client jars the pyspark wheel ships)."""
+    from migrate.verify.hadoop import compile_classpath, spark_jars
+
+    (tmp_path / "RefEq.java").write_text(JAVA)
+    subprocess.run(["javac", "-cp", compile_classpath(), "-d", str(tmp_path), str(tmp_path / "RefEq.java")],
+                   check=True)
+    out = subprocess.run(["java", "-cp", f"{tmp_path}:{spark_jars()}/*", "RefEq"], check=True, capture_output=True,
+                         text=True).stdout
+    rows = [line.split("\t") for line in out.splitlines()]
+    assert [r[1:] for r in rows] == [["false", "true", "false"]] * 4  # even for "the", "a" and ""
+
+
+@pytest.mark.parity
+def test_hadoop_and_the_script_agree_on_a_reference_comparison(tmp_path):
+    from migrate.convert import write_outputs
+    from migrate.scan import scan_repo
+    from migrate.verify.runner import load_runs, verify
+
+    scan_text(tmp_path / "repo", {"Main.java": job_source(BODY, reducer_class=None)})
+    written = write_outputs(scan_repo(tmp_path / "repo"), tmp_path / "out", "repo")
+    assert written.report["jobs"][0]["status"] == "converted"
+    (tmp_path / "data").mkdir()
+    (tmp_path / "data" / "words.txt").write_text("the\na\nb\nthe\n")
+    (tmp_path / "runs.json").write_text(json.dumps({"runs": [{"driver": "Main", "args": ["data", "@out"]}]}))
+    (check,), _ = verify(tmp_path / "out", load_runs(tmp_path / "runs.json"), timeout=120)
+    assert check.verdict == "agrees", f"{check.detail}\n{check.log}"
