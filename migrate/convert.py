@@ -168,8 +168,9 @@ def _what(p, map_only: bool) -> str:
 
 def header_for(job: JobResult, script: str) -> dict:
     classes = []
-    roles = ("driver", "mapper", "combiner", "reducer", "partitioner", "sort_comparator", "grouping_comparator")
-    roles += tuple(r for r in job.classes if r not in roles)  # "mapper 1", "mapper 2" of MultipleInputs
+    rest = ("combiner", "reducer", "partitioner", "sort_comparator", "grouping_comparator")
+    inputs = tuple(r for r in job.classes if r.startswith("mapper "))  # "mapper 1", "mapper 2" of MultipleInputs
+    roles = ("driver", "mapper", *inputs, *rest)
     if job.plan.upstream:  # a chain: "job 1 mapper", "job 2 reducer", ...
         roles = tuple(job.classes)
     for role in roles:

@@ -4,10 +4,13 @@ PySpark DataFrame version of the Hadoop MapReduce job "plan of ride", written by
 
 Original classes:
     driver       demo.join.PlanOfRide  (PlanOfRide.java:19-62)
+    mapper 1     demo.join.PlanOfRide.MemberMapper  (PlanOfRide.java:20-25)
+    mapper 2     demo.join.PlanOfRide.RideMapper  (PlanOfRide.java:27-32)
     reducer      demo.join.PlanOfRide.PlanJoin  (PlanOfRide.java:34-50)
 
-What it computes: not determined: the reduce side needs hand work. Shapes: 2 inputs, one mapper
-each, reduce-side join (lookup with a default: left outer).
+What it computes: a reduce-side join (lookup with a default: left outer) of the inputs' values,
+told apart by their tags (plan, rides), written per key, sorted by key. Shapes: 2 inputs, one
+mapper each, reduce-side join (lookup with a default: left outer).
 Status: converted.
 
 Usage (the same positional arguments as the original driver):

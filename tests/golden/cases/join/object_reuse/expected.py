@@ -4,6 +4,8 @@ PySpark DataFrame version of the Hadoop MapReduce job "plan of ride", written by
 
 Original classes:
     driver       demo.join.KeptObjects  (KeptObjects.java:19-62)
+    mapper 1     demo.join.KeptObjects.MemberMapper  (KeptObjects.java:20-25)
+    mapper 2     demo.join.KeptObjects.RideMapper  (KeptObjects.java:27-32)
     reducer      demo.join.KeptObjects.PlanJoin  (KeptObjects.java:34-50)
 
 What it computes: not determined: the reduce side needs hand work. Shapes: 2 inputs, one mapper
