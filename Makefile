@@ -26,8 +26,11 @@ browser:
 	      { apt-get update -q >/dev/null 2>&1 && apt-get install -y -q chromium >/dev/null 2>&1; }; }; } || \
 	  echo "Chromium is not installed: the review page's browser test will be skipped"
 
+# pytest's exit 5 (no tests collected) is a failure here, said as such rather than passed on by accident.
 test: setup browser
-	$(BIN)/python -m pytest tests
+	$(BIN)/python -m pytest tests; rc=$$?; \
+	  if [ $$rc -eq 5 ]; then echo "make test: pytest collected no tests: failing on purpose" >&2; exit 1; fi; \
+	  exit $$rc
 
 clean:
 	rm -rf demo-out .pytest_cache

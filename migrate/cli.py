@@ -39,11 +39,15 @@ def _parser() -> argparse.ArgumentParser:
     c.add_argument("--effort", type=Path, metavar="FILE",
                    help="TOML file with effort constants, category profiles and your own PERT hours per category "
                         "(see README, Effort)")
-    c.add_argument("--compile-check", action="store_true",
-                   help="compile the sources with javac first (a JDK and the Hadoop jars are needed); a job whose "
-                        "files javac rejects is not converted, with javac's message at each line")
-    c.add_argument("--classpath", help="Hadoop jars for --compile-check (default: HADOOP_HOME, `hadoop classpath`, "
-                   "or the jars the pyspark wheel ships)")
+    check = c.add_mutually_exclusive_group()
+    check.add_argument("--compile-check", dest="compile_check", action="store_const", const="on", default="auto",
+                       help="require javac: a job whose files javac rejects is not converted, with javac's message "
+                            "at each line (by default javac runs where a JDK and Hadoop jars are found, and a file "
+                            "whose imported libraries are missing is noted, not declined)")
+    check.add_argument("--no-compile-check", dest="compile_check", action="store_const", const="off",
+                       help="do not run javac: only mrlift's own checks of what javac would reject")
+    c.add_argument("--classpath", help="jars javac compiles against (default: HADOOP_HOME, `hadoop classpath`, or "
+                   "the Hadoop jars the pyspark wheel ships; plus the repository's lib/*.jar)")
     c.add_argument("--with-tests", action="store_true",
                    help="also write tests/test_<script>.py per job (the verify comparison, for your own CI) and a "
                         "tests/runs.json to fill with sample data")
@@ -136,19 +140,14 @@ def _run(console: Console, args) -> int:
             files = find_java_files(args.path.resolve())
             t = bar.add_task("reading Java", total=len(files))
             scan = scan_repo(args.path, progress=lambda _p: bar.advance(t), max_file_bytes=args.max_file_size)
-            if args.compile_check:
-                from migrate.scan import compile_with_javac
-                from migrate.verify.classpath import find_classpath, repository_jars
-                from migrate.verify.hadoop import HadoopUnavailable
+            from migrate.scan import compile_check
+            from migrate.verify.hadoop import HadoopUnavailable
 
-                root = args.path.resolve()
-                try:
-                    cp = ":".join((*find_classpath(args.classpath).entries,
-                                   *repository_jars(root if root.is_dir() else root.parent)))
-                    scan = compile_with_javac(scan, cp)
-                except HadoopUnavailable as exc:
-                    console.print(f"[red]mrlift: --compile-check: {exc}[/red]")
-                    return 2
+            try:
+                scan = compile_check(scan, args.compile_check, args.classpath)
+            except HadoopUnavailable as exc:
+                console.print(f"[red]mrlift: --compile-check: {exc}[/red]")
+                return 2
             t2 = bar.add_task("writing scripts", total=len(scan.jobs))
             if not scan.files:
                 _print_errors(console, scan)

@@ -36,6 +36,8 @@ class RepoScan:
     jobs: list[JobResult] = field(default_factory=list)
     unread: list[Unread] = field(default_factory=list)
     max_file_bytes: int = MAX_FILE_BYTES
+    compiled: str = "not run: only mrlift's own checks of what javac would reject"  # see compile_check()
+    not_compiled: list[str] = field(default_factory=list)  # files javac could not check (a missing library)
 
 
 def scan_repo(root: Path, progress=None, max_file_bytes: int = MAX_FILE_BYTES) -> RepoScan:
@@ -111,23 +113,55 @@ def job_files(job: JobResult, index: ClassIndex) -> list[str]:
     return sorted(paths)
 
 
-def compile_with_javac(scan: RepoScan, classpath: str) -> RepoScan:
-    """`convert --compile-check`: javac itself over the repository's files; a job whose files it
-    rejects is declined at each line javac names."""
-    from migrate.java.source import shown_path
-    from migrate.verify.hadoop import javac_errors
+MISSING_DEPENDENCY = ("does not exist", "cannot access", "class file for", "bad class file")
 
+
+def compile_check(scan: RepoScan, mode: str, classpath: str | None = None) -> RepoScan:
+    """javac over the repository's files (mode "on": required; "auto": where a JDK and Hadoop jars
+    are found; "off"). A job whose files javac rejects is declined at each line it names. In
+    "auto", a file javac cannot check because a library it imports is missing is not declined:
+    its jobs get a note, and the report lists it."""
+    from migrate.java.source import shown_path
+    from migrate.verify.classpath import find_classpath, repository_jars
+    from migrate.verify.hadoop import HadoopUnavailable, javac_errors
+
+    if mode == "off":
+        scan.compiled = "off (--no-compile-check): only mrlift's own checks of what javac would reject"
+        return scan
     base = scan.root if scan.root.is_dir() else scan.root.parent
-    read = [base / f.path for f in scan.files if (base / f.path).is_file()]
-    errors = javac_errors(read, classpath) if read else {}
+    try:
+        hadoop = find_classpath(classpath)
+        errors = javac_errors([base / f.path for f in scan.files], ":".join((*hadoop.entries, *repository_jars(base))))
+    except HadoopUnavailable as exc:
+        if mode == "on":
+            raise
+        scan.compiled = f"not run ({exc}): only mrlift's own checks of what javac would reject"
+        return scan
     texts = {f.path: f for f in scan.files}
-    by_path = {}
+    by_path, unchecked = {}, []
     for path, found in errors.items():
         rel = shown_path(path, base)
-        if base in path.parents and rel in texts:
-            by_path[rel] = _with_snippets([CompileProblem(line, f"javac: {msg}") for line, msg in found], texts[rel])
-    scan.jobs = [decline_uncompilable(job, {p: by_path[p] for p in job_files(job, scan.index) if p in by_path})
-                 for job in scan.jobs]
+        if base not in path.parents or rel not in texts:
+            continue
+        if mode == "auto" and any(any(m in msg for m in MISSING_DEPENDENCY) for _, msg in found):
+            unchecked.append(rel)
+            continue
+        by_path[rel] = _with_snippets([CompileProblem(line, f"javac: {msg}") for line, msg in found], texts[rel])
+    jobs = []
+    for job in scan.jobs:
+        files = job_files(job, scan.index)
+        job = decline_uncompilable(job, {p: by_path[p] for p in files if p in by_path})
+        missing = [p for p in files if p in unchecked]
+        if missing:
+            from dataclasses import replace
+
+            note = (f"javac could not check {', '.join(missing)}: a library it imports is not on the classpath "
+                    "(give the jars with --classpath to check it)")
+            job = replace(job, plan=replace(job.plan, notes=job.plan.notes + (note,)))
+        jobs.append(job)
+    scan.jobs = jobs
+    scan.not_compiled = sorted(unchecked)
+    scan.compiled = f"javac with {hadoop.origin}" + (" (auto)" if mode == "auto" else "")
     return scan
 
 

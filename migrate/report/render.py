@@ -227,6 +227,9 @@ def to_markdown(report: dict) -> str:
            + (f" {s['not_read']} of the not converted are code that could not be read or converted at all (a file, a "
               "driver or a job), each listed with its reason." if s.get("not_read") else "")
            + (f" {s['errors']} error entries are listed at the end." if s["errors"] else ""), "",
+           *([f"Compile check: {report['settings']['compile_check']}." + (
+               f" Not checked (a library they import is missing): {', '.join(report['settings']['not_compiled'])}."
+               if report["settings"].get("not_compiled") else ""), ""] if report.get("settings") else []),
            "| job | driver | script | status | checked against Hadoop | shapes | hand-work items | effort (h) |",
            "|---|---|---|---|---|---|---|---|"]
     for j in report["jobs"]:
@@ -294,8 +297,11 @@ def checked_label(j: dict) -> str:
     v = j.get("verification")
     if not v or v["verdict"] == "skipped":
         return "unverified" + (f" ({v['detail']})" if v else "")
+    ran = f"; arguments {' '.join(v['arguments'])}" if v.get("arguments") else ""
+    if v.get("tolerance") is not None:
+        ran += f"; relative tolerance {v['tolerance']:g}"
     if v["verdict"] == "agrees":
-        return f"agrees ({v['detail']}; data {v['data']}, {v['checked_at']})"
+        return f"agrees ({v['detail']}; data {v['data']}{ran}, {v['checked_at']})"
     return f"**{v['verdict']}**: {v['detail']} ({v['checked_at']})"
 
 

@@ -62,3 +62,23 @@ def test_page_numbers_and_charts_match_the_report(converted_samples):
         assert f">{round(j['effort_hours'], 1):g} h</text>" in page
     csv_lines = (out_dir / "effort.csv").read_text().splitlines()
     assert len(csv_lines) == 1 + len(report["jobs"]) + sum(len(j["hand_work"]) for j in report["jobs"]) + 1
+
+
+def test_line_numbers_hold_when_a_java_file_starts_with_blank_lines(tmp_path):
+    import re
+
+    (tmp_path / "repo" / "p").mkdir(parents=True)
+    text = "\n\n\n" + HOSTILE  # pygments strips leading newlines unless told not to
+    (tmp_path / "repo" / "p" / "Hostile.java").write_text(text)
+    write_outputs(scan_repo(tmp_path / "repo"), tmp_path / "out", "repo")
+    page = (tmp_path / "out" / "review.html").read_text()
+    java_line = next(i for i, l in enumerate(text.split("\n"), 1) if "public class Hostile" in l)
+    row = re.search(rf'<div id="j0-f0-{java_line}"[^>]*><span class="no">{java_line}</span>(.*?)</div>', page)
+    assert row and "Hostile" in row.group(1)
+    # a script line that names a Java line links to the row that shows that line
+    for target in set(re.findall(r'data-java="(j0-f0-\d+)', page)):
+        n = int(target.rsplit("-", 1)[1])
+        shown = re.search(rf'<div id="{target}"[^>]*><span class="no">{n}</span>(.*?)</div>', page).group(1)
+        plain = re.sub(r"<[^>]+>", "", shown).replace("&lt;", "<").replace("&gt;", ">").replace("&amp;", "&")
+        plain = plain.replace("&quot;", '"').replace("&#x27;", "'")
+        assert plain.strip() == text.split("\n")[n - 1].strip()
