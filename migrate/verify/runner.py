@@ -370,8 +370,9 @@ def _verdict_dict(v: Verdict) -> dict:
 def _summary(v: Verdict, intermediates: list[dict], tolerance: float | None = None) -> str:
     if v.agrees:
         text = f"{v.original_lines} lines, {MODES[v.mode].split(' (')[0]}"
-        if v.tolerance_used:
-            text += f", numbers equal within a relative tolerance of {tolerance:g} (some differ in their last digits)"
+        if v.tolerance_used:  # not "the same bytes": some numbers differ in their last digits
+            text = (text.replace("the same bytes", "the same lines") +
+                    f", numbers equal within a relative tolerance of {tolerance:g} (some differ in their last digits)")
     else:
         text = (f"{v.original_lines} lines in the original, {v.converted_lines} in the script's output: "
                 f"{v.missing} missing, {v.extra} extra")

@@ -66,4 +66,13 @@ def test_review_page_opens_from_disk_offline_and_links_lines(browser, converted_
     assert len(visible) == sum(1 for j in report["jobs"] if j["status"] != "converted")
     page.keyboard.press("j")
     assert "current" in visible[0].get_attribute("class")
+    # the job's title stands below the sticky header, not under it
+    title = visible[0].locator("h2").bounding_box()
+    header = page.locator("header").bounding_box()
+    assert title["y"] >= header["y"] + header["height"] - 1
+    # a script line wider than its pane scrolls inside the pane instead of being cut off
+    pane = page.locator("section.job").first.locator(".python")
+    widths = pane.evaluate("e => [e.scrollWidth, e.clientWidth, getComputedStyle(e).overflowX]")
+    box = pane.bounding_box()
+    assert widths[2] == "auto" and box["x"] + box["width"] <= 1400 + 1
     page.close()

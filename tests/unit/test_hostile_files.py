@@ -79,7 +79,7 @@ def test_a_folder_that_cannot_be_listed_is_reported(tmp_path, monkeypatch):
     real = os.scandir
 
     def scandir(path="."):
-        if Path(path).name == "locked":
+        if isinstance(path, (str, os.PathLike)) and Path(path).name == "locked":
             raise PermissionError(13, "Permission denied", str(path))
         return real(path)
 
@@ -177,3 +177,27 @@ def test_a_missing_semicolon_is_reported_at_the_line_javac_names(tmp_path):
     p = subprocess.run(["javac", "-d", str(tmp_path / "c"), str(src)], capture_output=True, text=True)
     javac_line = int(p.stderr.split("Syn.java:")[1].split(":")[0])
     assert read_java(src, tmp_path).line == javac_line == 3
+
+
+def test_reports_stand_on_their_own_and_tables_are_not_cut_when_piped(tmp_path):
+    """report.md names its sources in words (no pointer to a file of this repository, no [P]/[S]
+    markers); the console tables keep whole cells when the output is a pipe or a CI log."""
+    long_name = "rides per start station with a deliberately long job name for the table"
+    repo = tmp_path / "repo"
+    scan_text(repo, {"Main.java": GOOD.replace('"test job"', f'"{long_name}"')})
+    p = subprocess.run([sys.executable, "-m", "migrate", "convert", str(repo), "-o", str(tmp_path / "out")],
+                       capture_output=True, text=True, timeout=300)
+    assert p.returncode == 0 and long_name in p.stdout and "…" not in p.stdout
+    md = (tmp_path / "out" / "report.md").read_text()
+    assert "EFFORT.md" not in md and "[P]" not in md and "[S]" not in md
+    assert "COCOMO II Model Definition Manual" in md
+
+
+def test_a_tolerance_is_named_where_it_was_needed():
+    from migrate.verify.compare import Verdict
+    from migrate.verify.runner import _summary
+
+    v = Verdict(True, "bytes", 3, 3, 0, 0, (), tolerance_used=True)
+    text = _summary(v, [], 1e-9)
+    assert "within a relative tolerance of 1e-09" in text and "the same lines in the same order" in text
+    assert "bytes" not in text  # "the same bytes … some numbers differ" would contradict itself
