@@ -49,3 +49,13 @@ def test_file_changes_outside_the_output_are_hand_work_at_their_line(tmp_path, c
 def test_deleting_the_own_output_and_string_building_stay_converted(tmp_path, code):
     job, _ = _job(tmp_path, code)
     assert job.status == "converted", [h.reason for h in job.plan.hand_work]
+
+
+@pytest.mark.parametrize("code", [
+    '      new java.io.File("/tmp/x").delete();\n',
+    '      java.nio.file.Files.deleteIfExists(java.nio.file.Paths.get("/tmp/x"));\n',
+    '      java.io.FileWriter w = new java.io.FileWriter("/tmp/log", true); w.write("x"); w.close();\n',
+])
+def test_file_changes_in_map_are_never_converted(tmp_path, code):
+    (job,) = scan_text(tmp_path, {"Main.java": job_source(code + WRITE, reducer_class=None)}).jobs
+    assert job.status != "converted" and job.plan.hand_work[0].origin.line_start > 0
