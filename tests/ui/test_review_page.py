@@ -71,7 +71,7 @@ def test_review_page_opens_from_disk_offline_and_links_lines(browser, converted_
     header = page.locator("header").bounding_box()
     assert title["y"] >= header["y"] + header["height"] - 1
     # a script line wider than its pane scrolls inside the pane instead of being cut off
-    pane = page.locator("section.job").first.locator(".python")
+    pane = visible[0].locator(".python")
     widths = pane.evaluate("e => [e.scrollWidth, e.clientWidth, getComputedStyle(e).overflowX]")
     box = pane.bounding_box()
     assert widths[2] == "auto" and box["x"] + box["width"] <= 1400 + 1
