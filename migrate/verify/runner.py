@@ -182,18 +182,12 @@ def copy_inputs(args: tuple[str, ...], inputs: tuple[int, ...], into: Path, n: i
     return tuple(out)
 
 
-def fingerprint(folder: Path, skip: Path | None = None) -> dict[str, tuple[int, int]]:
-    """(size, modification time) of every file under `folder` (not under `skip`): enough to see a write."""
+def fingerprint(folder: Path) -> dict[str, tuple[int, int]]:
+    """(size, modification time) of every file under `folder`: enough to see a write."""
     seen = {}
-    if not folder.is_dir():
-        return seen
-    for dirpath, dirnames, filenames in os.walk(folder):
-        here = Path(dirpath)
-        if skip is not None and (here == skip or skip in here.parents):
-            dirnames[:] = []
-            continue
+    for dirpath, _, filenames in os.walk(folder):
         for name in filenames:
-            f = here / name
+            f = Path(dirpath) / name
             try:
                 st = f.lstat()
             except OSError:
@@ -314,11 +308,11 @@ class Verifier:
         (here / "original").mkdir()
         original_args = placed("original")
         outputs = [here / "original" / a[1:] for a in ("@out", *run.args) if a.startswith("@")]
-        watched = [(self.source, None), (Path(run.root), None), (here / "original", None)]
-        before = [fingerprint(f, skip) for f, skip in watched]
+        watched = [self.source, Path(run.root), here / "original"]  # the repository, the data, the copies
+        before = [fingerprint(f) for f in watched]
         ran = run_job(classes, job["driver"], original_args, cwd=here / "original", timeout=self.timeout,
                       classpath=self.classpath)
-        after = [fingerprint(f, skip) for f, skip in watched]
+        after = [fingerprint(f) for f in watched]
         c.writes_outside = [w for b, a in zip(before, after) for w in changed(b, a)
                             if not any(o == Path(w.split(": ", 1)[1]) or o in Path(w.split(": ", 1)[1]).parents
                                        for o in outputs)]
