@@ -111,14 +111,13 @@ class _Writer:
         write_atomically(self.out / MARKER, (json.dumps(body, indent=2) + "\n").encode("utf-8"))
 
     def close(self) -> None:
-        files = {}
-        for name, digests in self.known.items():  # what is on disk now, where mrlift wrote it
+        files = dict(self.wrote)
+        for name, digests in self.known.items():  # earlier files still on disk as mrlift wrote them
             target = self.out / name
-            if target.exists():
+            if name not in files and target.exists():
                 d = _digest(target.read_bytes())
                 if d in digests:
                     files[name] = d
-        files.update(self.wrote)
         self._write_marker(files)
         (self.out / self.JOURNAL).unlink(missing_ok=True)
 
@@ -282,6 +281,10 @@ def _keep_verdicts(writer: _Writer, report: dict) -> None:
         v = before.get(j["script"])
         if v and v.get("fingerprint") == job_fingerprint(writer.out, j, report["source"]):
             j["verification"] = v
+    _count_verified(report)
+
+
+def _count_verified(report: dict) -> None:
     report["summary"]["verified"] = sum(1 for j in report["jobs"]
                                         if (j.get("verification") or {}).get("verdict") == "agrees")
 
@@ -294,8 +297,7 @@ def record_checks(out: Path, report: dict, checks) -> list[tuple[str, str]]:
         c = by_script.get(j["script"])
         if c is not None:
             j["verification"] = {**c.for_report(), "fingerprint": job_fingerprint(out, j, report["source"])}
-    report["summary"]["verified"] = sum(1 for j in report["jobs"]
-                                        if (j.get("verification") or {}).get("verdict") == "agrees")
+    _count_verified(report)
     writer = _Writer(out)
     _write_reports(writer, report, out)
     writer.close()

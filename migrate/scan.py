@@ -2,7 +2,7 @@
 from __future__ import annotations
 
 import os
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 from pathlib import Path
 
 from migrate.java.compile_checks import CompileProblem, compile_problems
@@ -13,6 +13,7 @@ from migrate.java.source import MAX_FILE_BYTES, ParsedFile, ParseFailure, java_s
 from migrate.lift.exprs import Unsupported
 from migrate.lift.chain import chain_jobs
 from migrate.lift.job import JobResult, plan_job
+from migrate.plan import HandWork, Span
 
 
 @dataclass(frozen=True)
@@ -86,9 +87,13 @@ def scan_repo(root: Path, progress=None, max_file_bytes: int = MAX_FILE_BYTES) -
             continue
         scan.jobs.append(job)
     scan.jobs = chain_jobs(scan.jobs)  # jobs that read the folder the one before wrote: one script
-    problems = {f.path: _with_snippets(compile_problems(f.tree, Path(f.path).stem), f) for f in files}
-    scan.jobs = [decline_uncompilable(job, {p: problems[p] for p in job_files(job, index) if problems.get(p)})
-                 for job in scan.jobs]
+    used = [job_files(job, index) for job in scan.jobs]
+    by_path = {f.path: f for f in files}
+    # only files some job uses: the rest of a monorepo's Java is never converted, so never checked
+    problems = {p: _with_snippets(compile_problems(by_path[p].tree, Path(p).stem), by_path[p])
+                for p in sorted({p for paths in used for p in paths}) if p in by_path}
+    scan.jobs = [decline_uncompilable(job, {p: problems[p] for p in paths if problems.get(p)})
+                 for job, paths in zip(scan.jobs, used)]
     return scan
 
 
@@ -153,8 +158,6 @@ def compile_check(scan: RepoScan, mode: str, classpath: str | None = None) -> Re
         job = decline_uncompilable(job, {p: by_path[p] for p in files if p in by_path})
         missing = [p for p in files if p in unchecked]
         if missing:
-            from dataclasses import replace
-
             note = (f"javac could not check {', '.join(missing)}: a library it imports is not on the classpath "
                     "(give the jars with --classpath to check it)")
             job = replace(job, plan=replace(job.plan, notes=job.plan.notes + (note,)))
@@ -168,9 +171,6 @@ def compile_check(scan: RepoScan, mode: str, classpath: str | None = None) -> Re
 def decline_uncompilable(job: JobResult, problems: dict[str, list]) -> JobResult:
     """A job whose files javac would reject is not converted: parity with code that never ran
     cannot be proven. Each problem becomes a blocking item at its line."""
-    from dataclasses import replace
-
-    from migrate.plan import HandWork, Span
 
     if not problems:
         return job
