@@ -184,6 +184,14 @@ class _DriverReader:
             for line, what in changes:
                 s.extra.append(("io-outside-output", line, f"the driver changes files outside the job's output: "
                                                            f"{what}"))
+        created = _job_creations(self.cls)
+        if len(created) > len(self.specs):
+            unread = created[len(self.specs):] if self.specs else created
+            for s in out:
+                s.extra.append(("unread-jobs", unread[0],
+                                f"the driver creates {len(created)} jobs and {len(self.specs)} of them could be read "
+                                f"(the other at line {', '.join(map(str, unread))}): the driver's output may come from "
+                                "a job the script does not run"))
         if len(out) > 1:
             for s in out:
                 s.extra.append(("chained-jobs", s.origin.line_start,
@@ -558,12 +566,35 @@ def _empty_conf(e) -> bool:
         [getattr(a, "value", None) for a in e.arguments or []] == ["false"]
 
 
+def _job_creations(cls: ClassInfo) -> list[int]:
+    """Lines of every `Job.getInstance(...)`, `new Job(...)` and `new JobConf(...)` in the driver class
+    (`new JobConf(false)`, a chain link's own empty settings, is not a job)."""
+    lines = []
+    for _, node in cls.node:
+        if isinstance(node, T.MethodInvocation) and node.member == "getInstance" and \
+                (node.qualifier or "").split(".")[-1] == "Job" or \
+                isinstance(node, T.ClassCreator) and node.type.name in ("Job", "JobConf") and not _empty_conf(node):
+            lines.append(_line(node) or cls.line_start)
+    return sorted(lines)
+
+
+_USAGE_CALLS = {"println", "print", "printf", "format", "printGenericCommandUsage", "printUsage", "usage", "exit"}
+
+
 def _exits(stmt) -> bool:
-    """An `if` branch that only prints usage and exits or returns (argument checks)."""
-    for _, node in stmt:
-        if isinstance(node, T.ReturnStatement) or (isinstance(node, T.MethodInvocation) and node.member == "exit"):
-            return True
-    return False
+    """An `if` branch that only prints usage and exits or returns (argument checks). A branch that
+    also does work (configures and runs a second job, then returns) is walked like any other."""
+    stmts = stmt.statements if isinstance(stmt, T.BlockStatement) else [stmt]
+    leaves = False
+    for s in stmts or []:
+        if isinstance(s, T.ReturnStatement) or isinstance(s, T.ThrowStatement):
+            leaves = True
+        elif isinstance(s, T.StatementExpression) and isinstance(s.expression, T.MethodInvocation) \
+                and s.expression.member in _USAGE_CALLS:
+            leaves = leaves or s.expression.member == "exit"
+        else:
+            return False
+    return leaves
 
 
 def _category_of(name: str) -> str:
