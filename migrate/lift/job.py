@@ -21,7 +21,7 @@ from migrate.lift.partitioning import custom_partition, hash_partition
 from migrate.lift.topn import lift_top_n, top_n_findings
 from migrate.lift.joins import JoinLifter
 from migrate.lift.sidefiles import read_side_files
-from migrate.plan import (AggRef, BoolOp, Branch, Cast, Col, EachValue, Join, Emit, Explode, Expr, Filter, Finding, Group, HandWork, Identity, Param, Plan,
+from migrate.plan import (ADVISORY_CATEGORIES, AggRef, BoolOp, Branch, Cast, Col, EachValue, Join, Emit, Explode, Expr, Filter, Finding, Group, HandWork, Identity, Param, Plan,
                           Project, SideTable, Sink, Source, Span, Step, TopN, TopPerKey)
 
 
@@ -691,7 +691,10 @@ def _named(owner: ClassInfo, h: HandWork, sloc: int, tables: set[str] = frozense
     lim = explain(owner, h.origin.line_start, tables) if h.category in ("map-logic", "reduce-logic") else None
     if lim is None:
         return HandWork(h.category, h.origin, h.reason, h.suggestion, h.snippet, h.profile, sloc)
-    return HandWork(lim.category, h.origin, f"{lim.reason} ({h.reason})", lim.suggestion, h.snippet, lim.profile, sloc)
+    # lifting stopped here, so the rest of the method is missing from the script: the item stays
+    # blocking even where the API's own category is advisory (a counter the script cannot report)
+    category = h.category if lim.category in ADVISORY_CATEGORIES else lim.category
+    return HandWork(category, h.origin, f"{lim.reason} ({h.reason})", lim.suggestion, h.snippet, lim.profile, sloc)
 
 
 def _lifecycle(owner: ClassInfo, what: str, suggestion: str, profile: str, skip=()) -> list[HandWork]:

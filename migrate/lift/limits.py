@@ -45,7 +45,7 @@ LIMITS = (
           "the aggregation or window function the collection stands for (groupBy/agg, Window + row_number)", "P2",
           fields_only=True),
     Limit("counter", r"getCounter|incrCounter",
-          "Hadoop counters are not reported by the script in this version",
+          "a Hadoop counter update the converter could not read",
           "count with a separate aggregation over the same DataFrame", "P1"),
 )
 
