@@ -57,11 +57,21 @@ class Outcome:
     seconds: float = 0.0
 
 
-def _reason(item: dict) -> str:
-    """A hand-work item as a reason shared by many jobs: its category and its text without the code."""
+def _reason(item: dict, own_classes: set[str]) -> str:
+    """A hand-work item as a reason shared by many jobs: its category and its text without the
+    code, the numbers and the names of the job's own classes."""
     text = re.sub(r"`[^`]*`", "`…`", item.get("reason", ""))
     text = re.sub(r"\b\d+\b", "N", text)
+    text = re.sub(r"\b\w+\b", lambda m: "C" if m.group(0) in own_classes else m.group(0), text)
     return f"{item.get('category', '?')}: {text[:160]}"
+
+
+def _own_classes(job: Job) -> set[str]:
+    names = set()
+    for path in source_files(job):
+        code = re.sub(r"/\*.*?\*/|//[^\n]*", " ", path.read_text(encoding="utf-8", errors="replace"), flags=re.S)
+        names |= set(re.findall(r"\b(?:class|interface|enum)\s+([A-Za-z_$][\w$]*)", code))
+    return names
 
 
 def convert(job: Job, work: Path, timeout: float) -> tuple[dict | None, str]:
@@ -108,7 +118,8 @@ def _run(job: Job, status: dict, timeout: float, work: Path, o: Outcome) -> None
     rank = {"not_converted": 0, "partial": 1, "converted": 2}
     entry = min(entries, key=lambda e: rank.get(e["status"], 0))
     o.status = entry["status"]
-    o.reasons = sorted({_reason(h) for e in entries for h in e.get("hand_work", [])})
+    own = _own_classes(job)
+    o.reasons = sorted({_reason(h, own) for e in entries for h in e.get("hand_work", [])})
     if runnable(entry) is not None:
         return
     unset = [a["name"] for a in entry.get("arguments", []) if a["position"] is None and a["default"] is None]
