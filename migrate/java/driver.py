@@ -190,8 +190,8 @@ class _DriverReader:
             for s in out:
                 s.extra.append(("unread-jobs", unread[0],
                                 f"the driver creates {len(created)} jobs and {len(self.specs)} of them could be read "
-                                f"(the other at line {', '.join(map(str, unread))}): the driver's output may come from "
-                                "a job the script does not run"))
+                                f"(not read: line {', '.join(map(str, unread))}): the driver's output may come from a "
+                                "job the script does not run"))
         if len(out) > 1:
             for s in out:
                 s.extra.append(("chained-jobs", s.origin.line_start,
