@@ -19,7 +19,7 @@ import tomllib
 from pathlib import Path
 
 sys.path.insert(0, str(Path(__file__).resolve().parents[2]))
-from benchmarks.realworld.common import MANIFEST, SELECTION, git_dir, git_show  # noqa: E402
+from benchmarks.realworld.common import MANIFEST, SELECTION, git_dir, git_show, load_manifest  # noqa: E402
 from migrate.verify.hadoop import compile_classpath  # noqa: E402
 
 SEED = 14  # the draw is made once; changing it re-deals dev and holdout
@@ -68,11 +68,16 @@ def api_of(texts: list[str]) -> str:
     return "both" if new and old else "mapred" if old else "mapreduce"
 
 
-def draw_splits(jobs_per_repo: dict[str, int], seed: int = SEED) -> dict[str, str]:
-    repos = sorted(jobs_per_repo)
-    random.Random(seed).shuffle(repos)
+def draw_splits(jobs_per_repo: dict[str, int], seed: int = SEED, drawn: dict[str, str] | None = None) -> dict[str, str]:
+    """dev or holdout per repository. Repositories already `drawn` keep their side (a split is never
+    re-dealt once jobs were converted); the others are shuffled with the seed and each goes to the
+    side with fewer jobs so far."""
+    split = {r: s for r, s in (drawn or {}).items() if r in jobs_per_repo}
     count = {"dev": 0, "holdout": 0}
-    split = {}
+    for r, s in split.items():
+        count[s] += jobs_per_repo[r]
+    repos = sorted(r for r in jobs_per_repo if r not in split)
+    random.Random(seed).shuffle(repos)
     for r in repos:
         side = min(count, key=lambda s: (count[s], s == "holdout"))
         split[r] = side
@@ -85,6 +90,8 @@ def _toml_value(v) -> str:
         return "true" if v else "false"
     if isinstance(v, str):
         return '"' + v.replace("\\", "\\\\").replace('"', '\\"') + '"'
+    if isinstance(v, (list, tuple)) and v and isinstance(v[0], dict):
+        return "[\n" + "".join(f"  {_toml_value(x)},\n" for x in v) + "]"
     if isinstance(v, (list, tuple)):
         return "[" + ", ".join(_toml_value(x) for x in v) + "]"
     if isinstance(v, dict):
@@ -97,7 +104,8 @@ def write_manifest(jobs: list[dict], path: Path) -> None:
            "# selection.toml; the sources are fetched by pull.py and never committed.", ""]
     for j in jobs:
         out.append("[[job]]")
-        for k in ("id", "repo", "commit", "main", "api", "split", "tags", "args", "place", "output", "float_sums", "note"):
+        for k in ("id", "repo", "commit", "main", "api", "split", "tags", "args", "place", "output", "float_sums", "note",
+                  "patch"):
             if k in j and j[k] not in ("", {}, None) and not (k == "output" and j[k] == "{out}") \
                     and not (k == "float_sums" and not j[k]):
                 out.append(f"{k} = {_toml_value(j[k])}")
@@ -148,7 +156,8 @@ def main(argv: list[str] | None = None) -> int:
     per_repo: dict[str, int] = {}
     for j in built:
         per_repo[j["repo"]] = per_repo.get(j["repo"], 0) + 1
-    split = draw_splits(per_repo)
+    drawn = {j.repo: j.split for j in load_manifest(a.output)} if a.output.is_file() else {}
+    split = draw_splits(per_repo, drawn=drawn)
     for j in built:
         j["split"] = split[j["repo"]]
     write_manifest(built, a.output)

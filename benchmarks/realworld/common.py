@@ -40,6 +40,7 @@ class Job:
     output: str = "{out}"  # where the job writes its final output (a fixed relative path, or {out})
     float_sums: bool = False  # the job sums floating-point numbers: a tolerance is allowed, counted apart
     note: str = ""
+    patches: tuple[tuple[str, str, str], ...] = ()  # (path, old, new): the smallest edit that lets it run locally
 
     @property
     def cache_dir(self) -> Path:
@@ -64,7 +65,8 @@ def load_manifest(path: Path = MANIFEST) -> list[Job]:
             files=tuple(SourceFile(f["path"], f["sha256"]) for f in j["files"]),
             args=tuple(j.get("args", [])), api=j["api"], tags=tuple(j.get("tags", [])), split=j["split"],
             place=dict(j.get("place", {})), output=j.get("output", "{out}"), float_sums=j.get("float_sums", False),
-            note=j.get("note", "")))
+            note=j.get("note", ""),
+            patches=tuple((p["path"], p["old"], p["new"]) for p in j.get("patch", []))))
     return jobs
 
 
@@ -122,3 +124,21 @@ def git_show(git: Path, commit: str, path: str) -> bytes:
     if p.returncode != 0:
         raise FileNotFoundError(f"{git}: no {path} at {commit[:12]} ({p.stderr.decode(errors='replace').strip()})")
     return p.stdout
+
+
+def prepared_sources(job: Job, into: Path) -> list[Path]:
+    """The job's files copied from the cache into `into` (at their repository paths), with the
+    manifest's patches applied to the copies; the cache is never edited."""
+    out = []
+    for f, src in zip(job.files, source_files(job)):
+        text = src.read_bytes()
+        for path, old, new in job.patches:
+            if path == f.path:
+                if old.encode() not in text:
+                    raise ValueError(f"{job.id}: the patch's text is not in {path}: {old!r}")
+                text = text.replace(old.encode(), new.encode())
+        target = into / f.path
+        target.parent.mkdir(parents=True, exist_ok=True)
+        target.write_bytes(text)
+        out.append(target)
+    return out

@@ -16,7 +16,7 @@ import time
 from pathlib import Path
 
 sys.path.insert(0, str(Path(__file__).resolve().parents[2]))
-from benchmarks.realworld.common import EXPECTED, WORK, lay_out, load_manifest, source_files  # noqa: E402
+from benchmarks.realworld.common import EXPECTED, WORK, lay_out, load_manifest, prepared_sources, source_files  # noqa: E402
 from migrate.verify.compare import part_files  # noqa: E402
 from migrate.verify.hadoop import compile_sources, run_job  # noqa: E402
 
@@ -30,7 +30,7 @@ def run_original(job, work: Path, timeout: float = 300) -> dict:
     missing = [str(f) for f in files if not f.is_file()]
     if missing:
         return {"ran": False, "why": f"not in the cache (run pull.py): {missing[0]}"}
-    built = compile_sources(files, work / "classes")
+    built = compile_sources(prepared_sources(job, work / "src"), work / "classes")
     if not built.ok:
         return {"ran": False, "why": "does not compile", "log": built.log[-2000:]}
     args, output = lay_out(job, work / "run")

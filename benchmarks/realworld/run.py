@@ -32,7 +32,8 @@ from pathlib import Path
 
 ROOT = Path(__file__).resolve().parents[2]
 sys.path.insert(0, str(ROOT))
-from benchmarks.realworld.common import EXPECTED, HERE, WORK, Job, lay_out, load_manifest, source_files  # noqa: E402
+from benchmarks.realworld.common import (EXPECTED, HERE, WORK, Job, lay_out, load_manifest, prepared_sources,  # noqa: E402
+                                         source_files)
 from migrate.verify.compare import compare_folders, part_files  # noqa: E402
 from migrate.verify.runner import runnable  # noqa: E402
 
@@ -77,10 +78,7 @@ def _own_classes(job: Job) -> set[str]:
 def convert(job: Job, work: Path, timeout: float) -> tuple[dict | None, str]:
     """mrlift convert on the job's files alone (a folder holding them at their repository paths)."""
     src = work / "src"
-    for f, path in zip(job.files, source_files(job)):
-        target = src / f.path
-        target.parent.mkdir(parents=True, exist_ok=True)
-        shutil.copyfile(path, target)
+    prepared_sources(job, src)
     out = work / "mrlift"
     try:
         p = subprocess.run([sys.executable, "-m", "migrate", "convert", str(src), "-o", str(out), "--force"],

@@ -41,7 +41,9 @@ def test_the_split_is_per_repository_and_about_half():
     per_repo = defaultdict(int)
     for j in JOBS:
         per_repo[j.repo] += 1
-    assert draw_splits(dict(per_repo)) == {r: next(iter(s)) for r, s in side.items()}  # the seeded draw
+    sides = {r: next(iter(s)) for r, s in side.items()}
+    assert draw_splits(dict(per_repo), drawn=sides) == sides  # rebuilding the manifest keeps every side
+    assert draw_splits(dict(per_repo)) == draw_splits(dict(per_repo))  # a seeded draw
 
 
 def test_the_manifest_is_the_selection_plus_what_was_measured():
@@ -96,3 +98,30 @@ def test_pull_takes_only_files_whose_sha256_matches(tmp_path):
 
 def test_the_manifest_file_is_where_the_scripts_read_it():
     assert MANIFEST.name == "manifest.toml" and MANIFEST.is_file()
+
+
+def test_a_patch_edits_the_scratch_copy_never_the_cache(tmp_path, monkeypatch):
+    from dataclasses import replace
+
+    import pytest
+
+    from benchmarks.realworld import common
+
+    cache = tmp_path / "cache"
+    (cache / "o+r" / "src").mkdir(parents=True)
+    original = b'new Path("hdfs://nn:9000/data/in.txt")\n'
+    (cache / "o+r" / "src" / "D.java").write_bytes(original)
+    monkeypatch.setattr(common, "CACHE", cache)
+    job = replace(JOBS[0], repo="o/r", files=(common.SourceFile("src/D.java", hashlib.sha256(original).hexdigest()),),
+                  patches=(("src/D.java", "hdfs://nn:9000/data/", ""),))
+    [copy] = common.prepared_sources(job, tmp_path / "scratch")
+    assert copy.read_bytes() == b'new Path("in.txt")\n'
+    assert (cache / "o+r" / "src" / "D.java").read_bytes() == original
+    with pytest.raises(ValueError, match="not in src/D.java"):
+        common.prepared_sources(replace(job, patches=(("src/D.java", "hdfs://other/", ""),)), tmp_path / "s2")
+
+
+def test_a_new_repository_never_re_deals_the_ones_drawn():
+    drawn = {"a/x": "dev", "b/y": "holdout"}
+    split = draw_splits({"a/x": 5, "b/y": 1, "c/z": 2}, drawn=drawn)
+    assert split["a/x"] == "dev" and split["b/y"] == "holdout" and split["c/z"] == "holdout"
