@@ -59,7 +59,7 @@ def closure(tree: Path, driver: str) -> tuple[list[str], str]:
     used = {Path(m) for m in re.findall(r"\[parsing started SimpleFileObject\[(.+?)\]\]", p.stderr)}
     used |= {Path(a) / b for a, b in re.findall(r"\[parsing started DirectoryFileObject\[(.+?):(.+?)\]\]", p.stderr)}
     files = sorted(str(u.resolve().relative_to(tree.resolve())) for u in used)
-    return files, (package + "." if package else "") + f.stem
+    return files, (package + "." if package else "") + f.stem  # the package as declared, not the folders
 
 
 def api_of(texts: list[str]) -> str:
@@ -99,6 +99,10 @@ def _toml_value(v) -> str:
     raise TypeError(v)
 
 
+# values load_manifest() assumes when a key is absent: not written
+_OMITTED = {"place": {}, "output": "{out}", "float_sums": False, "note": ""}
+
+
 def write_manifest(jobs: list[dict], path: Path) -> None:
     out = ["# Public MapReduce jobs the real-world benchmark converts. Written by build_manifest.py from",
            "# selection.toml; the sources are fetched by pull.py and never committed.", ""]
@@ -106,8 +110,7 @@ def write_manifest(jobs: list[dict], path: Path) -> None:
         out.append("[[job]]")
         for k in ("id", "repo", "commit", "main", "api", "split", "tags", "args", "place", "output", "float_sums", "note",
                   "patch"):
-            if k in j and j[k] not in ("", {}, None) and not (k == "output" and j[k] == "{out}") \
-                    and not (k == "float_sums" and not j[k]):
+            if k in j and j[k] != _OMITTED.get(k, ""):
                 out.append(f"{k} = {_toml_value(j[k])}")
         out.append("files = [")
         out += [f"  {{ path = {_toml_value(f['path'])}, sha256 = {_toml_value(f['sha256'])} }}," for f in j["files"]]

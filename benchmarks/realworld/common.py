@@ -3,6 +3,7 @@ arguments and inputs are laid out in the folder it runs in (the same for Hadoop 
 from __future__ import annotations
 
 import hashlib
+import re
 import shutil
 import tomllib
 from dataclasses import dataclass, field
@@ -77,15 +78,12 @@ def lay_out(job: Job, cwd: Path) -> tuple[list[str], Path]:
     cwd.mkdir(parents=True, exist_ok=True)
     for rel, name in job.place.items():
         _copy(INPUTS / name, cwd / rel)
-    args = []
-    for a in job.args:
-        while "{in:" in a:
-            start = a.index("{in:")
-            end = a.index("}", start)
-            name = a[start + 4:end]
-            _copy(INPUTS / name, cwd / "in" / name)
-            a = a[:start] + str(cwd / "in" / name) + a[end + 1:]
-        args.append(a.replace("{out}", str(cwd / "out")).replace("{tmp}", str(cwd / "tmp")))
+    def copied(m: re.Match) -> str:
+        _copy(INPUTS / m[1], cwd / "in" / m[1])
+        return str(cwd / "in" / m[1])
+
+    args = [re.sub(r"\{in:([^}]+)\}", copied, a).replace("{out}", str(cwd / "out")).replace("{tmp}", str(cwd / "tmp"))
+            for a in job.args]
     output = cwd / job.output.replace("{out}", "out")
     return args, output
 
