@@ -11,6 +11,7 @@ from migrate.java.index import ClassIndex
 from migrate.java.roles import classify
 from migrate.java.source import MAX_FILE_BYTES, ParsedFile, ParseFailure, java_sources, read_java
 from migrate.lift.exprs import Unsupported
+from migrate.lower import lower_task_classes
 from migrate.lift.chain import chain_jobs
 from migrate.lift.job import JobResult, plan_job
 from migrate.plan import HandWork, Span
@@ -70,6 +71,7 @@ def scan_repo(root: Path, progress=None, max_file_bytes: int = MAX_FILE_BYTES) -
             c = index.get(spec.classes.get(role))
             if c is not None:
                 c.roles.add(role.replace("_", "-"))
+    lower_task_classes(index)  # one core form of each meaning before the lift rules match
     for cls, line, msg in problems:
         errors.append(ParseFailure(cls.file.path, line, msg))
         unread.append(Unread("driver", cls.fqcn, errors[-1]))

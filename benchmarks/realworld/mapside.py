@@ -30,28 +30,32 @@ def map_side(item: dict) -> bool:
     return item["category"] == "task-lifecycle" and "of the reducer" not in item["reason"]
 
 
-def current_items(split: str = "dev") -> list[dict]:
-    out = []
+def current_items(split: str = "dev") -> tuple[list[dict], set[str]]:
+    """The map-side items of the split's converted jobs, and the ids of jobs with no report."""
+    out, missing = [], set()
     for job in load_manifest():
         if job.split != split:
             continue
         report = WORK / job.id / "bench" / "mrlift" / "report.json"
         if not report.exists():
+            missing.add(job.id)
             continue
         for j in json.loads(report.read_text())["jobs"]:
             for h in j["hand_work"]:
                 if map_side(h):
                     out.append({"job": job.id, "category": h["category"], "file": h["file"], "line": h["line"],
                                 "reason": h["reason"]})
-    return out
+    return out, missing
 
 
-def compare(baseline: list[dict], now: list[dict]) -> list[tuple[str, dict, dict | None]]:
+def compare(baseline: list[dict], now: list[dict], missing: set[str]) -> list[tuple[str, dict, dict | None]]:
     at = {(i["job"], i["file"], i["line"]): i for i in now}
     out = []
     for b in baseline:
         n = at.get((b["job"], b["file"], b["line"]))
-        out.append(("gone" if n is None else "left" if n["reason"] == b["reason"] else "sharper", b, n))
+        state = "no report" if b["job"] in missing else "gone" if n is None else \
+            "left" if n["reason"] == b["reason"] else "sharper"
+        out.append((state, b, n))
     return out
 
 
@@ -59,17 +63,17 @@ def main(argv: list[str] | None = None) -> int:
     ap = argparse.ArgumentParser(description=__doc__.splitlines()[0])
     ap.add_argument("--record", action="store_true", help="write the baseline from work/ (first measurement only)")
     a = ap.parse_args(argv)
-    now = current_items()
+    now, missing = current_items()
     if a.record:
         BASELINE.write_text(json.dumps(now, indent=1) + "\n")
         print(f"{len(now)} map-side items recorded in {BASELINE.name}")
         return 0
-    rows = compare(json.loads(BASELINE.read_text()), now)
+    rows = compare(json.loads(BASELINE.read_text()), now, missing)
     for state, b, n in rows:
-        print(f"{state:8} {b['job']:34} {b['file'].rsplit('/', 1)[-1]}:{b['line']}  {b['reason'][:90]}")
+        print(f"{state:9} {b['job']:34} {b['file'].rsplit('/', 1)[-1]}:{b['line']}  {b['reason'][:90]}")
         if state == "sharper":
             print(f"{'':8} {'':34} now: {n['reason'][:100]}")
-    done = sum(1 for s, _, _ in rows if s != "left")
+    done = sum(1 for s, _, _ in rows if s in ("gone", "sharper"))
     new = [i for i in now if (i["job"], i["file"], i["line"]) not in {(b["job"], b["file"], b["line"]) for _, b, _ in rows}]
     for i in new:
         print(f"{'new':8} {i['job']:34} {i['file'].rsplit('/', 1)[-1]}:{i['line']}  {i['reason'][:90]}")

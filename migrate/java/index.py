@@ -24,6 +24,7 @@ class ClassInfo:
     line_end: int
     roles: set[str] = field(default_factory=set)
     api: str | None = None  # "mapreduce" | "mapred"
+    lowered: list[tuple[int, str]] = field(default_factory=list)  # (line, what) rewrites of migrate.lower
 
     @property
     def span(self) -> Span:

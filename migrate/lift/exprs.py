@@ -9,6 +9,7 @@ which the calling rule turns into a hand-work item; nothing is guessed.
 """
 from __future__ import annotations
 
+import dataclasses
 import re
 from dataclasses import dataclass, field, replace
 from typing import Any
@@ -80,6 +81,7 @@ class Writable:
     field: bool = False
     set_this_record: bool = False
     set_only_if: Expr | None = None
+    fields_set: set = dataclasses.field(default_factory=set)  # custom Writables: fields set on every path this record
 
 
 @dataclass
@@ -320,6 +322,11 @@ def _invocation(node: T.MethodInvocation, scope: Scope) -> Expr:
             raise Unsupported(node, f"{q}.{m} of a {s.jtype}")
         op = PARSERS[(q, m)]
         return _selectors(Call(PARSED_TYPE[op], op, (s,), scope.on_error(op)), node.selectors or [], scope, node)
+    if q in ("Objects", "java.util.Objects") and m == "equals" and len(args) == 2:
+        a, b = (lift(x, scope) for x in args)  # lifted values are never null (MaybeNull cannot be read)
+        if a.jtype == b.jtype == "String":
+            return _selectors(Compare("boolean", "==", a, b), node.selectors or [], scope, node)
+        raise Unsupported(node, f"Objects.equals of a {a.jtype} and a {b.jtype}")
     if (q, m) in (("String", "valueOf"), ("Integer", "toString"), ("Long", "toString"), ("Double", "toString"),
                   ("Float", "toString"), ("Boolean", "toString"), ("Character", "toString")) and len(args) == 1:
         return _selectors(to_string(lift(args[0], scope)), node.selectors or [], scope, node)
@@ -442,6 +449,11 @@ def _method(recv: Expr, node: T.MethodInvocation, scope: Scope) -> Expr:
         return _struct(scope, t, node).call(recv, m, [lift(x, scope) for x in args], node, scope)
     if t in ("LocalDateTime", "LocalDate", "DayOfWeek"):
         return _java_time_method(recv, node, scope)
+    if m in ("toLowerCase", "toUpperCase") and len(args) == 1 and t == "String":
+        if not _plain_locale(args[0]):
+            raise Unsupported(node, f"{m}() with a locale other than a java.util.Locale constant",
+                              "Turkish, Azeri and Lithuanian map some letters differently; check the locale")
+        return Call("String", "lower" if m == "toLowerCase" else "upper", (recv,))
     a = [lift(x, scope) for x in args]
     if m == "toString" and not a:
         return to_string(recv)
@@ -469,7 +481,7 @@ def _method(recv: Expr, node: T.MethodInvocation, scope: Scope) -> Expr:
     if m in ("trim", "strip", "stripLeading", "stripTrailing") and not a:
         return Call("String", {"trim": "trim", "strip": "strip", "stripLeading": "strip_leading",
                                "stripTrailing": "strip_trailing"}[m], (recv,))
-    if m in ("toLowerCase", "toUpperCase") and len(a) <= 1:
+    if m in ("toLowerCase", "toUpperCase") and not a:
         if not a:
             from migrate.java.index import node_lines
 
@@ -477,7 +489,10 @@ def _method(recv: Expr, node: T.MethodInvocation, scope: Scope) -> Expr:
                                "assumes it was not Turkish or Azeri (where I/i map differently)")
         return Call("String", "lower" if m == "toLowerCase" else "upper", (recv,))
     if m == "equals" and len(a) == 1:
-        return Compare("boolean", "==", recv, a[0]) if a[0].jtype in ("String",) else Lit("boolean", False)
+        if a[0].jtype != "String":
+            return Lit("boolean", False)
+        # `"x".equals(s)` is `s.equals("x")` here: lifted values are never null
+        return Compare("boolean", "==", *((a[0], recv) if isinstance(recv, Lit) else (recv, a[0])))
     if m == "equalsIgnoreCase" and len(a) == 1 and a[0].jtype == "String":
         return Call("boolean", "equals_ignore_case", (recv, a[0]))
     if m in ("startsWith", "endsWith", "contains") and len(a) == 1 and a[0].jtype == "String":
@@ -505,6 +520,13 @@ def _method(recv: Expr, node: T.MethodInvocation, scope: Scope) -> Expr:
     if m == "concat" and len(a) == 1 and a[0].jtype == "String":
         return Call("String", "concat", (recv, a[0]))
     raise Unsupported(node, f"String.{m}(...) is not lifted yet")
+
+
+def _plain_locale(arg) -> bool:
+    """`Locale.ROOT`, `Locale.US`, ...: java.util.Locale's constants name no locale whose case
+    mapping differs from the root locale's (only tr, az and lt differ; Java SE API, String.toLowerCase)."""
+    return isinstance(arg, T.MemberReference) and arg.qualifier in ("Locale", "java.util.Locale") \
+        and arg.member.isupper() and not arg.selectors
 
 
 def _java_time_formatter(call: T.MethodInvocation):

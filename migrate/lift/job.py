@@ -257,6 +257,8 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
                                 "delete the call that does not count, so readers of the driver are not misled"))
     for line, call in spec.unread:
         notes.append(f"{drv}:{line} driver call `{call}` was not read")
+    for c in dict.fromkeys(index.get(fq) for fq in classes.values()):  # migrate.lower's rewrites
+        notes.extend(f"{c.file.path}:{line} {what}" for line, what in (c.lowered if c is not None else ()))
     if isinstance(reduce, Identity):
         notes.append("the values of one key come out in no defined order, in Hadoop as here")
     if isinstance(reduce, Group) and any(a.fn == "sum" and a.jtype in ("double", "float") for a in reduce.aggs):

@@ -16,14 +16,14 @@ from dataclasses import dataclass, field
 from javalang import tree as T
 
 from migrate.java.index import ClassInfo, node_lines
-from migrate.lift.writables import structs_of
+from migrate.lift.writables import is_struct, structs_of
 from migrate.lift.exprs import (CATCH_ALL, WRITABLE_OF, MaybeNull, Opaque, Scope, Tokenizer, Unsupported, Writable,
                                 lift, lookup_key, refined, widen, writable_creator, writable_set, write_argument)
 from migrate.lift import dates
 from migrate.lift.combining import combining_update, map_fields
 from migrate.lift.counters import counter_update, is_counter_call
 from migrate.plan import (BoolOp, Call, Col, Compare, Count, Emit, Explode, Expr, Filter, HandWork, Let, Lit, Lookup,
-                          Project, SideTable, Span, Step, walk)
+                          Project, SideTable, Span, Step, StructNew, walk)
 
 SKIP_NOTE = "catch: skip the record"
 _DECLARED = {"int": "int", "long": "long", "double": "double", "float": "float", "boolean": "boolean",
@@ -251,6 +251,9 @@ class MapBodyLifter:
         if tname in WRITABLE_OF and isinstance(init, T.ClassCreator):
             self.scope.env[d.name] = writable_creator(init, self.scope)
             return
+        if tname in self.scope.structs:  # a custom key or value object: a value that setters change
+            self.scope.env[d.name] = struct_holder(init, self.scope, s)
+            return
         table = self.scope.env.get(init.qualifier) if isinstance(init, T.MethodInvocation) else None
         if isinstance(table, SideTable) and init.member == "get" and not init.selectors:
             self._declare_lookup(s, d, table, tname)
@@ -261,6 +264,8 @@ class MapBodyLifter:
             return
         e = lift(init, self.scope)
         declared = _DECLARED.get(tname)
+        if tname == "var" and (e.jtype in _DECLARED.values() or e.jtype == "String[]"):
+            declared, dims = e.jtype, 0  # javac gives `var` the initializer's type
         if declared is None:
             raise Unsupported(s, f"local of type {tname} is not lifted")
         if dims:
@@ -353,6 +358,8 @@ class MapBodyLifter:
                     raise Unsupported(s, "Calendar.setTime of something other than a Date, or under a condition")
                 target.date = d
                 return
+            if isinstance(self.scope.env.get(q), Writable) and is_struct(self.scope.env[q].kind):
+                return self._struct_setter(s, e, self.scope.env[q], guard)
             if q in self.scope.env and isinstance(self.scope.env[q], Writable) and m == "set" and len(e.arguments) == 1:
                 w = self.scope.env[q]
                 new = writable_set(w, lift(e.arguments[0], self.scope), e)
@@ -373,6 +380,24 @@ class MapBodyLifter:
             fake = T.BinaryOperation(operator="+" if "++" in ops else "-", operandl=T.MemberReference(member=e.member, qualifier=e.qualifier, selectors=[], prefix_operators=[], postfix_operators=[]), operandr=one)
             return self._assign_value(s, e.member, fake, guard)
         raise Unsupported(s, "expression statement is not lifted")
+
+    def _struct_setter(self, s, call: T.MethodInvocation, w: Writable, guard) -> None:
+        """`key.setFirst(x)` on a custom Writable: its content with the setter's fields replaced."""
+        info = self.scope.structs[w.kind]
+        new = info.setter(w.content, call.member, [lift(a, self.scope) for a in call.arguments], call, self.scope)
+        g = self._eff(guard)
+        changed = [f for (f, a), (_, b) in zip(w.content.items, new.items) if a != b]
+        if g is not None:
+            if w.field:
+                raise Unsupported(s, f"`{call.qualifier}` is a field set only under a condition; where it is not "
+                                     "set, Hadoop writes the fields left from the previous record",
+                                  "set it on every path, or make a new object for each record")
+            new = StructNew(new.jtype, tuple((f, v if f not in changed or v == old else
+                                              Call(v.jtype, "if_else", (g, v, old)))
+                                             for (f, v), (_, old) in zip(new.items, w.content.items)))
+        else:
+            w.fields_set |= info.assigned_by(call.member, len(call.arguments))
+        w.content = new
 
     def _assign(self, s, e: T.Assignment, guard) -> None:
         target = e.expressionl
@@ -420,6 +445,10 @@ class MapBodyLifter:
                 raise Unsupported(s, f"`{a.member}` is a field set only under a condition; where it is not set, "
                                      "Hadoop writes the value left from the previous record",
                                   "set it on every path, or write a new Writable")
+        for a in call.arguments:
+            w = self.scope.env.get(a.member) if isinstance(a, T.MemberReference) and not a.qualifier else None
+            if isinstance(w, Writable) and is_struct(w.kind):
+                check_struct_written(w, a.member, s, self.method, self.scope.structs[w.kind])
         k, v = (write_argument(a, self.scope) for a in call.arguments)
         for side in (k, v):
             for risky in _has_null_on_error(side) if side is not None else []:
@@ -639,6 +668,15 @@ def class_constants(cls: ClassInfo, index=None) -> dict[str, object]:
             if d.name in assigned:
                 continue
             init = d.initializer
+            structs = structs_of(index)
+            if tname in structs and isinstance(init, T.ClassCreator):
+                try:
+                    w = struct_holder(init, Scope({}, structs=structs), f)
+                except Unsupported:
+                    continue
+                w.field = True
+                env[d.name] = w
+                continue
             if tname in WRITABLE_OF and isinstance(init, T.ClassCreator):
                 try:
                     w = writable_creator(init, Scope({}))
@@ -654,7 +692,8 @@ def class_constants(cls: ClassInfo, index=None) -> dict[str, object]:
             if made is not None:
                 env[d.name] = made
                 continue
-            elif init is not None and ("final" in f.modifiers):
+            elif init is not None and ("final" in f.modifiers or "private" in f.modifiers and "static" not in f.modifiers):
+                # a private field nothing assigns (setup() constants land here, migrate.lower) is as final
                 try:
                     e = lift(init, Scope(dict(env)))
                 except Unsupported:
@@ -663,6 +702,33 @@ def class_constants(cls: ClassInfo, index=None) -> dict[str, object]:
                 if isinstance(e, Lit):
                     env[d.name] = e
     return env
+
+
+def struct_holder(init, scope: Scope, node) -> Writable:
+    """A variable holding a custom Writable made with `new K(...)`: its fields as a struct value."""
+    if not isinstance(init, T.ClassCreator) or init.type.name not in scope.structs:
+        raise Unsupported(node, "a custom Writable taken from somewhere other than `new`")
+    info = scope.structs[init.type.name]
+    if isinstance(info, Unsupported):
+        raise Unsupported(node, info.reason, info.suggestion)
+    content = info.construct(init, scope, unset_ok=True)
+    return Writable(info.jtype, content)
+
+
+def check_struct_written(w: Writable, name: str, node, method, info) -> None:
+    """A custom Writable is written only with every field known: a field never set is null (write()
+    throws), and a field holder keeps what the previous record set in the fields not set again."""
+    touched = set()
+    for _, n in method:  # every setter the method calls on it, before or after this write
+        if isinstance(n, T.MethodInvocation) and n.qualifier == name:
+            touched |= info.assigned_by(n.member, len(n.arguments or []))
+    for f, v in w.content.items:
+        if isinstance(v, Lit) and v.value is None:
+            raise Unsupported(node, f"`{name}.{f}` is never set before the write: the original's write() would "
+                                    "fail on the null field")
+        if w.field and f in touched and f not in w.fields_set:
+            raise Unsupported(node, f"`{name}` is a field whose `{f}` is set only on some records: on the others "
+                                    "Hadoop writes the previous record's value")
 
 
 def date_object(init, node):

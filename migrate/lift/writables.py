@@ -23,7 +23,7 @@ from javalang import tree as T
 
 from migrate.java.index import ClassIndex, ClassInfo
 from migrate.lift.exprs import WRITABLE_OF, Scope, Unsupported, lift, widen, writable_creator
-from migrate.plan import Call, Expr, Field, StructNew
+from migrate.plan import Call, Expr, Field, Lit, StructNew
 
 STRUCT = "struct:"
 _FIELD_TYPES = {"String": "String", "Text": "String", "int": "int", "long": "long", "double": "double",
@@ -48,37 +48,82 @@ class StructInfo:
     def jtype(self) -> str:
         return STRUCT + self.cls.fqcn
 
-    def construct(self, node: T.ClassCreator, scope: Scope) -> Expr:
+    def construct(self, node: T.ClassCreator, scope: Scope, unset_ok: bool = False) -> Expr:
+        """`new K(args)` as a struct; `unset_ok`: a field the constructor leaves null is a NULL
+        placeholder (a holder whose setters run before it is written) instead of an error."""
         args = [lift(a, scope) for a in node.arguments or []]
         ctors = [c for c in self.cls.node.constructors if len(c.parameters) == len(args)]
-        if len(ctors) != 1:
+        if not args and not self.cls.node.constructors:  # the default constructor
+            ctor = None
+        elif len(ctors) != 1:
             raise Unsupported(node, f"new {self.cls.name}(...) with {len(args)} arguments: no single constructor")
-        ctor = ctors[0]
-        env = {p.name: a for p, a in zip(ctor.parameters, args)}
-        values: dict[str, Expr] = {}
-        inner = Scope(env, file=scope.file, enums=scope.enums)
-        for s in ctor.body or []:
+        else:
+            ctor = ctors[0]
+        values = self._assign_fields(ctor, args, {}, scope, "constructor") if ctor is not None else {}
+        for name, t in self.fields.items():  # fields the constructor leaves alone keep their initial value
+            if name not in values:
+                try:
+                    values[name] = self._initial(name, node)
+                except Unsupported:
+                    if not unset_ok:
+                        raise
+                    values[name] = Lit(t, None)
+        return StructNew(self.jtype, tuple(values.items()))
+
+    def setter(self, current: StructNew, name: str, args: list[Expr], node, scope: Scope) -> StructNew:
+        """`k.setX(v)`: the struct after the method's field assignments (`this.x = v;`, `x.set(v)`)."""
+        ms = [m for m in self.cls.methods(name) if len(m.parameters) == len(args)]
+        if len(ms) != 1 or ms[0].body is None:
+            raise Unsupported(node, f"{self.cls.name}.{name}() with {len(args)} arguments is not one plain method")
+        values = self._assign_fields(ms[0], args, dict(current.items), scope, f"{name}()")
+        return StructNew(self.jtype, tuple((f, values[f]) for f in self.fields))
+
+    def assigned_by(self, name: str, arity: int) -> set[str]:
+        """The fields a method of the class assigns (syntactically): what a setter call changes."""
+        out = set()
+        for m in self.cls.methods(name):
+            if len(m.parameters) == arity:
+                for _, n in m:
+                    got = _assigned_field(n, self.fields)
+                    if got is not None:
+                        out.add(got)
+                    elif isinstance(n, T.MethodInvocation) and n.member == "set" and \
+                            (n.qualifier or "").removeprefix("this.") in self.fields:
+                        out.add(n.qualifier.removeprefix("this."))
+        return out
+
+    def _assign_fields(self, method, args: list[Expr], values: dict, scope: Scope, what: str) -> dict:
+        """Run a constructor or setter whose statements only assign fields (from its parameters and
+        the fields' values so far); returns the fields' new values."""
+        values = dict(values)
+        env = {p.name: a for p, a in zip(method.parameters, args)}
+        for s in method.body or []:
             e = s.expression if isinstance(s, T.StatementExpression) else None
             if isinstance(e, T.SuperConstructorInvocation) or isinstance(s, T.SuperConstructorInvocation):
                 continue
+            inner = Scope({**{f: v for f, v in values.items() if not (isinstance(v, Lit) and v.value is None)},
+                           **env}, file=scope.file, enums=scope.enums)
             target = _assigned_field(e, self.fields)
-            if target is None:
-                raise Unsupported(s, f"the {self.cls.name} constructor does more than assign fields")
-            v = e.value
+            if target is None and isinstance(e, T.MethodInvocation) and e.member == "set" and \
+                    e.qualifier in self.text_fields | {f"this.{f}" for f in self.text_fields} and len(e.arguments) == 1:
+                target, v = e.qualifier.removeprefix("this."), e.arguments[0]  # `first.set(s)` on a Text field
+            elif target is not None:
+                lhs = e.expressionl
+                if isinstance(lhs, T.MemberReference) and lhs.qualifier in ("", None) and lhs.member in env:
+                    raise Unsupported(s, f"`{lhs.member} = ...` in the {self.cls.name} {what} assigns the parameter, "
+                                         "not the field (Java's shadowing): the field keeps its old value")
+                v = e.value
+            else:
+                raise Unsupported(s, f"the {self.cls.name} {what} does more than assign fields")
             if isinstance(v, T.ClassCreator) and v.type.name in WRITABLE_OF:
                 got = writable_creator(v, inner).content
             else:
                 got = lift(v, inner)
             values[target] = self._typed(got, target, s)
-        for name, t in self.fields.items():  # fields the constructor leaves alone keep their initial value
-            if name not in values:
-                values[name] = self._initial(name, node)
-        return StructNew(self.jtype, tuple(values.items()))
+        return values
 
     def _initial(self, name: str, node) -> Expr:
         """A field's value before the constructor runs: its initializer, or Java's default."""
-        from migrate.plan import Lit
-
         init = next((d.initializer for f in self.cls.fields() for d in f.declarators if d.name == name), None)
         t = self.fields[name]
         if init is None and t != "String":

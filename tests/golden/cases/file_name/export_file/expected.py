@@ -89,7 +89,7 @@ def build(spark: SparkSession, input_path: str) -> DataFrame:
                         ),
                         # RidesPerExportFile.java:36  context.write(new Text(exportName.replace(".csv", "") + " members"), ONE);
                         F.when(
-                            F.lit("member") == F.col("f")[6],
+                            F.col("f")[6] == "member",
                             F.struct(
                                 F.concat(
                                     F.replace(F.col("input_file_name"), F.lit(".csv"), F.lit("")),

@@ -1,0 +1,40 @@
+"""Lowering: rewrite each task class's Java into one core form before the lift rules match it.
+
+Users write one meaning in many surface forms: a field set in setup() or at its declaration, a
+counting loop or a for-each, a field used as a scratch local, a stack trace printed in a catch.
+Each rule here is a meaning-preserving rewrite of the javalang tree of one task class (mapper,
+reducer, combiner), so the lift rules only ever see one form of each meaning. The rules work on a
+copy of the class's tree: the file's own tree (javac's checks, the review) is left as written.
+
+Every rewrite keeps the source positions of the code it replaces, so hand work and comments still
+point at the user's lines, and records what it did (`ClassInfo.lowered`) for the report's notes.
+"""
+from __future__ import annotations
+
+import copy
+
+from migrate.java.index import ClassIndex, ClassInfo
+from migrate.lower import fields, logging, loops, names
+
+TASK_ROLES = {"mapper", "reducer", "combiner"}
+
+# Order matters: names first (`this.x` is x for the rules after), logging (it hides reads of
+# fields), then fields, then loops.
+RULES = (names.this_fields, names.var_types, logging.drop_logging, fields.fields_used_as_locals,
+         fields.setup_constants, loops.counting_loops)
+
+
+def lower_task_classes(index: ClassIndex) -> None:
+    """Lower every mapper, reducer and combiner class of the index, in place of its tree."""
+    for cls in index:
+        if cls.roles & TASK_ROLES:
+            lower_class(cls, index)
+
+
+def lower_class(cls: ClassInfo, index: ClassIndex | None = None) -> list[tuple[int, str]]:
+    cls.node = copy.deepcopy(cls.node)
+    done: list[tuple[int, str]] = []
+    for rule in RULES:
+        done += rule(cls, index)
+    cls.lowered = done
+    return done

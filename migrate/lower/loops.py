@@ -1,0 +1,162 @@
+"""Counting loops that only walk an array: `for (int i = 0; i < a.length; i++)` whose body reads
+the index only as `a[i]` (and never assigns `i` or `a`) is the for-each `for (T x : a)`. When the
+body starts with `T x = a[i];`, that local becomes the loop variable.
+"""
+from __future__ import annotations
+
+import copy
+
+from javalang import tree as T
+
+from migrate.lower.walk import line_of, mentions, name_ref, positioned, statement_lists
+
+
+def counting_loops(cls, index=None) -> list[tuple[int, str]]:
+    done = []
+    for method in cls.node.methods:
+        for stmts, _ in list(statement_lists(method)):
+            for i, s in enumerate(stmts):
+                got = _as_for_each(s, method, cls)
+                if got is not None:
+                    stmts[i] = got
+                    done.append((line_of(s), "a counting loop over an array is a for-each over its elements"))
+    return done
+
+
+def _index_loop(s):
+    """(index name, array name) of `for (int i = 0; i < a.length; i++)`, else None."""
+    if not isinstance(s, T.ForStatement) or not isinstance(s.control, T.ForControl):
+        return None
+    c = s.control
+    init = c.init
+    if not (isinstance(init, T.VariableDeclaration) and getattr(init.type, "name", "") == "int"
+            and len(init.declarators) == 1 and isinstance(init.declarators[0].initializer, T.Literal)
+            and init.declarators[0].initializer.value == "0"):
+        return None
+    i = init.declarators[0].name
+    cond = c.condition
+    if not (isinstance(cond, T.BinaryOperation) and cond.operator == "<" and _is_name(cond.operandl, i)):
+        return None
+    bound = cond.operandr
+    if not (isinstance(bound, T.MemberReference) and bound.member == "length" and bound.qualifier
+            and "." not in bound.qualifier and not bound.selectors):
+        return None
+    if not _is_increment(c.update, i):
+        return None
+    return i, bound.qualifier
+
+
+def _is_name(n, name) -> bool:
+    return isinstance(n, T.MemberReference) and n.member == name and not n.qualifier and not n.selectors \
+        and not n.prefix_operators and not n.postfix_operators
+
+
+def _is_increment(update, i) -> bool:
+    if not update or len(update) != 1:
+        return False
+    u = update[0]
+    if isinstance(u, T.MemberReference) and u.member == i and not u.qualifier and \
+            ((u.postfix_operators or []) + (u.prefix_operators or [])) == ["++"]:
+        return True
+    if isinstance(u, T.Assignment) and _is_name(u.expressionl, i):
+        v = u.value
+        if u.type == "+=" and isinstance(v, T.Literal) and v.value == "1":
+            return True
+        return u.type == "=" and isinstance(v, T.BinaryOperation) and v.operator == "+" and _is_name(v.operandl, i) \
+            and isinstance(v.operandr, T.Literal) and v.operandr.value == "1"
+    return False
+
+
+def _element_ref(n, arr: str, i: str) -> bool:
+    """`arr[i]` and nothing more."""
+    return isinstance(n, T.MemberReference) and n.member == arr and not n.qualifier and len(n.selectors or []) == 1 \
+        and isinstance(n.selectors[0], T.ArraySelector) and _is_name(n.selectors[0].index, i)
+
+
+def _as_for_each(s, method, cls):
+    got = _index_loop(s)
+    if got is None:
+        return None
+    i, arr = got
+    element_type = _element_type(arr, method, cls)
+    if element_type is None:
+        return None
+    body = s.body
+    stmts = body.statements if isinstance(body, T.BlockStatement) else [body]
+    # every use of i is arr[i]; nothing assigns arr, its elements or i
+    uses = sum(1 for _, n in s.body if _mentions_name(n, i))
+    uses_ok = uses == sum(1 for _, n in s.body if _element_ref(n, arr, i))
+    if not uses_ok or _writes(s.body, arr) or _writes(s.body, i):
+        return None
+    var, rest = None, stmts
+    first = stmts[0] if stmts else None
+    if isinstance(first, T.LocalVariableDeclaration) and len(first.declarators) == 1 and \
+            _element_ref(first.declarators[0].initializer, arr, i) and not first.declarators[0].dimensions and \
+            _same_type(first.type, element_type) and not _writes(stmts[1:], first.declarators[0].name):
+        var, rest = first.declarators[0].name, stmts[1:]
+    if var is None:
+        var = f"{arr}_{i}"
+        if any(mentions(m, var) for m in cls.node.methods):
+            return None
+    rest = [_replace_elements(copy.deepcopy(x), arr, i, var) for x in rest]
+    loop_var = T.VariableDeclaration(modifiers=set(), annotations=[], type=element_type,
+                                     declarators=[T.VariableDeclarator(name=var, dimensions=[], initializer=None)])
+    control = positioned(T.EnhancedForControl(var=loop_var, iterable=name_ref(arr, s)), s)
+    new_body = positioned(T.BlockStatement(label=None, statements=rest), body)
+    return positioned(T.ForStatement(label=s.label, control=control, body=new_body), s)
+
+
+def _mentions_name(n, name) -> bool:
+    return isinstance(n, T.MemberReference) and n.member == name and not n.qualifier
+
+
+def _writes(node, name) -> bool:
+    nodes = node if isinstance(node, list) else [node]
+    for top in nodes:
+        for _, n in top:
+            if isinstance(n, T.Assignment):
+                target = n.expressionl
+                if isinstance(target, T.MemberReference) and target.member == name and not target.qualifier:
+                    return True
+            if isinstance(n, T.MemberReference) and n.member == name and not n.qualifier and \
+                    {"++", "--"} & set((n.prefix_operators or []) + (n.postfix_operators or [])):
+                return True
+    return False
+
+
+def _replace_elements(node, arr, i, var):
+    if _element_ref(node, arr, i):
+        return name_ref(var, node)
+    for attr in node.attrs:
+        v = getattr(node, attr)
+        if isinstance(v, list):
+            setattr(node, attr, [_replace_elements(x, arr, i, var) if hasattr(x, "attrs") else x for x in v])
+        elif hasattr(v, "attrs"):
+            setattr(node, attr, _replace_elements(v, arr, i, var))
+    return node
+
+
+def _same_type(a, b) -> bool:
+    return getattr(a, "name", None) == getattr(b, "name", None) and not getattr(a, "dimensions", None) \
+        and not getattr(b, "dimensions", None)
+
+
+def _element_type(arr: str, method, cls):
+    """The element type of the array `arr` declared in the method (local, parameter) or as a field."""
+    decls = []
+    for _, n in method:
+        if isinstance(n, (T.LocalVariableDeclaration, T.VariableDeclaration)):
+            decls += [(n.type, d.dimensions) for d in n.declarators if d.name == arr]
+        elif isinstance(n, T.FormalParameter) and n.name == arr:
+            decls.append((n.type, []))
+    if not decls:
+        decls = [(f.type, d.dimensions) for f in cls.fields() for d in f.declarators if d.name == arr]
+    if len(decls) != 1:
+        return None
+    t, extra = decls[0]
+    dims = len(t.dimensions or []) + len(extra or [])
+    if dims != 1:
+        return None
+    out = copy.copy(t)
+    out.dimensions = []
+    return out

@@ -1,0 +1,99 @@
+"""Walking and building javalang trees for the lowering rules."""
+from __future__ import annotations
+
+from javalang import ast
+from javalang import tree as T
+
+from migrate.java.index import node_lines
+
+
+def line_of(node) -> int:
+    return node_lines(node)[0]
+
+
+def statement_lists(method, caught: frozenset[str] = frozenset()):
+    """Every list of statements in a method, with the names of the exceptions caught around it.
+    The lists are the tree's own: a rule may edit them in place."""
+    if method.body is not None:
+        yield from _lists(method.body, caught)
+
+
+def _lists(stmts: list, caught):
+    yield stmts, caught
+    for s in list(stmts):
+        yield from _inner(s, caught)
+
+
+def _inner(s, caught):
+    if isinstance(s, T.BlockStatement):
+        yield from _lists(s.statements, caught)
+    elif isinstance(s, T.TryStatement):
+        yield from _lists(s.block or [], caught)
+        for c in s.catches or []:
+            yield from _lists(c.block or [], caught | {c.parameter.name})
+        if s.finally_block:
+            yield from _lists(s.finally_block, caught)
+    elif isinstance(s, T.IfStatement):
+        yield from _inner(s.then_statement, caught)
+        if s.else_statement is not None:
+            yield from _inner(s.else_statement, caught)
+    elif isinstance(s, (T.ForStatement, T.WhileStatement, T.DoStatement)):
+        yield from _inner(s.body, caught)
+    elif isinstance(s, T.SwitchStatement):
+        for c in s.cases:
+            yield from _lists(c.statements, caught)
+
+
+def name_ref(name: str, like=None) -> T.MemberReference:
+    ref = T.MemberReference(prefix_operators=[], postfix_operators=[], qualifier="", selectors=[], member=name)
+    return positioned(ref, like)
+
+
+def positioned(node, like):
+    """Give a new node the source position of the node it stands for."""
+    if like is not None and getattr(like, "position", None) is not None:
+        node._position = like.position
+    return node
+
+
+def mentions(node, name: str) -> bool:
+    """Does `node` read or write the simple name `name` (a local or a field without `this.`)?"""
+    return any(uses for uses in _uses(node, name))
+
+
+def _uses(node, name):
+    if not isinstance(node, (ast.Node, list, tuple)):
+        return
+    for _, n in (node if isinstance(node, ast.Node) else _walk_list(node)):
+        q = getattr(n, "qualifier", None) or ""
+        if isinstance(n, (T.MemberReference, T.MethodInvocation)) and (q == name or q.startswith(name + ".")):
+            yield True  # `name.length`, `name.get()`
+        elif isinstance(n, T.MemberReference) and n.member == name and q in ("", "this"):
+            yield True
+        elif isinstance(n, T.This) and n.selectors and isinstance(n.selectors[0], T.MemberReference) \
+                and n.selectors[0].member == name:
+            yield True
+
+
+def _walk_list(items):
+    for x in items:
+        if isinstance(x, ast.Node):
+            yield from x
+
+
+def replace_nodes(node, swap) -> None:
+    """Replace, bottom-up, every node n under `node` for which swap(n) returns a new node."""
+    for attr in getattr(node, "attrs", ()):
+        v = getattr(node, attr)
+        if isinstance(v, list):
+            for k, x in enumerate(v):
+                if isinstance(x, ast.Node):
+                    replace_nodes(x, swap)
+                    new = swap(x)
+                    if new is not None:
+                        v[k] = new
+        elif isinstance(v, ast.Node):
+            replace_nodes(v, swap)
+            new = swap(v)
+            if new is not None:
+                setattr(node, attr, new)

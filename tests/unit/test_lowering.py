@@ -1,0 +1,162 @@
+"""migrate.lower: each rewrite fires where the meaning is the same, and only there.
+(The behaviour of the lowered jobs against Hadoop is proven by tests/parity/test_variants.py and
+the RidesPerRoute sample; these tests pin where each rule must decline.)"""
+from __future__ import annotations
+
+from tests.helpers import job_source, scan_text
+
+
+def _job(tmp_path, body: str, fields: str = "", extra: str = ""):
+    scan = scan_text(tmp_path, {"Main.java": job_source(body, fields=fields, reducer_class=None,
+                                                        extra_driver="job.setNumReduceTasks(0);").replace("public class Main {",
+                                                                                     "public class Main {\n" + extra)})
+    (job,) = scan.jobs
+    return job
+
+
+def _reasons(job) -> list[str]:
+    return [h.reason for h in job.plan.hand_work]
+
+
+def test_a_scratch_field_set_first_in_map_is_a_local(tmp_path):
+    job = _job(tmp_path, """
+      f = value.toString().split(",");
+      context.write(new Text(f[0]), new IntWritable(f.length));""", fields="private String[] f;")
+    assert not _reasons(job)
+    assert any("set before every read" in n for n in job.plan.notes)
+
+
+def test_a_field_read_before_it_is_set_keeps_state_and_is_declined(tmp_path):
+    job = _job(tmp_path, """
+      if (f != null) { context.write(new Text(f[0]), new IntWritable(1)); }
+      f = value.toString().split(",");""", fields="private String[] f;")
+    assert any("keeps state across records" in r or "not a value the converter can follow" in r
+               for r in _reasons(job)), _reasons(job)
+
+
+def test_a_field_set_only_under_a_condition_is_not_a_local(tmp_path):
+    job = _job(tmp_path, """
+      if (value.getLength() > 3) { last = value.toString(); }
+      context.write(new Text(last), new IntWritable(1));""", fields="private String last = \"\";")
+    assert _reasons(job), "the previous record's value would be written: must not convert"
+
+
+def test_printing_a_stack_trace_in_a_catch_is_the_same_skip(tmp_path):
+    job = _job(tmp_path, """
+      try {
+        int n = Integer.parseInt(value.toString().trim());
+        context.write(new Text("n"), new IntWritable(n));
+      } catch (NumberFormatException e) {
+        e.printStackTrace();
+        System.err.println("bad line: " + value);
+      }""")
+    assert not _reasons(job)
+
+
+def test_logging_that_advances_a_tokenizer_is_not_dropped(tmp_path):
+    job = _job(tmp_path, """
+      StringTokenizer it = new StringTokenizer(value.toString());
+      while (it.hasMoreTokens()) {
+        System.out.println(it.nextToken());
+        context.write(new Text(it.nextToken()), new IntWritable(1));
+      }""")
+    assert _reasons(job), "println(it.nextToken()) consumes a token: dropping it would change the output"
+
+
+def test_a_counting_loop_that_reads_a_neighbour_stays_a_counting_loop(tmp_path):
+    job = _job(tmp_path, """
+      String[] w = value.toString().split(" ");
+      for (int i = 0; i < w.length; i++) {
+        context.write(new Text(w[i] + w[i + 1]), new IntWritable(1));
+      }""")
+    assert any("counting for-loop" in r for r in _reasons(job)), _reasons(job)
+
+
+def test_a_counting_loop_over_an_array_converts_like_for_each(tmp_path):
+    job = _job(tmp_path, """
+      String[] w = value.toString().split(" ");
+      for (int i = 0; i < w.length; i++) {
+        String word = w[i];
+        context.write(new Text(word), new IntWritable(1));
+      }""")
+    assert not _reasons(job)
+
+
+def test_a_field_set_in_setup_from_constants_is_a_task_constant(tmp_path):
+    job = _job(tmp_path, """
+      context.write(new Text(tag + value.toString()), new IntWritable(1));""",
+               fields="""private String tag;
+    protected void setup(Context context) { tag = "line:"; }""")
+    assert not _reasons(job)
+
+
+def test_a_field_set_in_setup_from_the_context_is_not_moved(tmp_path):
+    job = _job(tmp_path, """
+      context.write(new Text(tag + value.toString()), new IntWritable(1));""",
+               fields="""private String tag;
+    protected void setup(Context context) { tag = context.getJobName(); }""")
+    assert _reasons(job)
+
+
+def test_this_qualified_fields_and_var_locals(tmp_path):
+    job = _job(tmp_path, """
+      var line = value.toString();
+      this.word.set(line.trim());
+      context.write(this.word, new IntWritable(1));""", fields="private Text word = new Text();")
+    assert not _reasons(job)
+
+
+def test_a_turkish_locale_is_declined(tmp_path):
+    job = _job(tmp_path, """
+      context.write(new Text(value.toString().toLowerCase(new java.util.Locale("tr"))), new IntWritable(1));""")
+    assert any("locale" in r for r in _reasons(job)), _reasons(job)
+
+
+KEY = """
+  public static class Pair implements WritableComparable<Pair> {
+    private String a = "";
+    private String b = "";
+    public void setA(String a) { this.a = a; }
+    public void setB(String b) { this.b = b; }
+    public void write(java.io.DataOutput out) throws IOException { out.writeUTF(a); out.writeUTF(b); }
+    public void readFields(java.io.DataInput in) throws IOException { a = in.readUTF(); b = in.readUTF(); }
+    public int compareTo(Pair o) { int c = a.compareTo(o.a); if (c != 0) { return c; } return b.compareTo(o.b); }
+    public String toString() { return a + "/" + b; }
+  }
+"""
+
+
+def test_a_key_object_set_through_its_setters_is_a_value(tmp_path):
+    scan = scan_text(tmp_path, {"Main.java": job_source("""
+      String[] f = value.toString().split(",");
+      pair.setA(f[0]);
+      pair.setB(f[1]);
+      context.write(pair, new IntWritable(1));""", fields="private Pair pair = new Pair();", map_out=("Pair", "IntWritable"),
+        out=("Pair", "IntWritable"), reducer_class=None,
+        extra_driver="job.setNumReduceTasks(0);").replace("public class Main {", "public class Main {\n" + KEY)})
+    (job,) = scan.jobs
+    assert not _reasons(job)
+
+
+def test_a_key_field_set_only_on_some_records_is_declined(tmp_path):
+    scan = scan_text(tmp_path, {"Main.java": job_source("""
+      String[] f = value.toString().split(",");
+      pair.setA(f[0]);
+      if (f.length > 2) { pair.setB(f[1]); }
+      context.write(pair, new IntWritable(1));""", fields="private Pair pair = new Pair();", map_out=("Pair", "IntWritable"),
+        out=("Pair", "IntWritable"), reducer_class=None,
+        extra_driver="job.setNumReduceTasks(0);").replace("public class Main {", "public class Main {\n" + KEY)})
+    (job,) = scan.jobs
+    assert any("previous record" in r for r in _reasons(job)), _reasons(job)
+
+
+def test_a_setter_that_assigns_its_own_parameter_is_declined(tmp_path):
+    key = KEY.replace("public void setB(String b) { this.b = b; }", "public void setB(String b) { b = b; }")
+    scan = scan_text(tmp_path, {"Main.java": job_source("""
+      Pair p = new Pair();
+      p.setB(value.toString());
+      context.write(p, new IntWritable(1));""", map_out=("Pair", "IntWritable"),
+        out=("Pair", "IntWritable"), reducer_class=None,
+        extra_driver="job.setNumReduceTasks(0);").replace("public class Main {", "public class Main {\n" + key)})
+    (job,) = scan.jobs
+    assert any("assigns the parameter" in r for r in _reasons(job)), _reasons(job)

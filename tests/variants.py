@@ -1,0 +1,297 @@
+"""Metamorphic variants of the sample jobs: the same meaning in another author's style.
+
+Each axis rewrites Java source text into a form with the same behaviour (javac accepts it and the
+job writes the same output on Hadoop); applied to the whole sample tree, it gives a variant tree.
+mrlift must give every job of a variant tree the same status as the unvaried job, and a script
+whose output is byte-identical (tests/parity/test_variants.py). An axis that changes no file is
+useless: the test requires each axis to change at least one job it converts.
+
+The rewrites are textual on purpose (they are what an author would type); where they need to
+know the code's structure (which lines are a map() body's locals, which names are arrays), they
+read it with javalang first.
+"""
+from __future__ import annotations
+
+import re
+import shutil
+from dataclasses import dataclass
+from pathlib import Path
+from typing import Callable
+
+import javalang
+from javalang import tree as T
+
+
+@dataclass(frozen=True)
+class Axis:
+    name: str
+    what: str  # the two styles
+    rewrite: Callable[[str], str]
+
+
+def _parse(text: str):
+    try:
+        return javalang.parse.parse(text)
+    except (javalang.parser.JavaSyntaxError, javalang.tokenizer.LexerError):
+        return None
+
+
+def _map_methods(tree):
+    for _, c in tree.filter(T.ClassDeclaration):
+        for m in c.methods:
+            if m.name in ("map", "reduce") and len(m.parameters) in (3, 4) and m.body:
+                yield c, m
+
+
+def _top_locals(m):
+    """Local declarations at the top level of a method body: (statement, line)."""
+    for s in m.body:
+        if isinstance(s, T.LocalVariableDeclaration) and s.position:
+            yield s
+
+
+# ---------------------------------------------------------------------------------------- the axes
+def catch_logs(text: str) -> str:
+    """An empty-handed catch block vs one that prints the stack trace and a message first."""
+    def add(m: re.Match) -> str:
+        indent = m.group(1)
+        var = m.group(3)
+        return (f"{m.group(0)}\n{indent}    System.err.println(\"skipping a record: \" + {var}.getMessage());"
+                f"\n{indent}    {var}.printStackTrace();")
+    return re.sub(r"(?m)^([ \t]*)\}? ?catch \(([\w.| ]+?) (\w+)\) \{", add, text)
+
+
+def field_scratch(text: str) -> str:
+    """A `String[]` local of map() vs the same array kept in a private field set first thing in map()."""
+    tree = _parse(text)
+    if tree is None:
+        return text
+    lines = text.split("\n")
+    inserts: list[tuple[int, str]] = []
+    for cls, m in _map_methods(tree):
+        if m.name != "map":
+            continue
+        taken = {d.name for f in cls.fields for d in f.declarators}
+        for s in _top_locals(m):
+            d = s.declarators[0]
+            if getattr(s.type, "name", "") != "String" or len(s.type.dimensions or []) != 1 or len(s.declarators) != 1 \
+                    or d.name in taken or s is not m.body[0]:
+                continue
+            i = s.position.line - 1
+            new = re.sub(r"\bString\s*\[\]\s+" + d.name + r"\s*=", d.name + " =", lines[i], count=1)
+            if new == lines[i]:
+                continue
+            lines[i] = new
+            inserts.append((_body_line(lines, cls), f"private String[] {d.name};"))
+    for at, decl in sorted(inserts, reverse=True):
+        indent = re.match(r"\s*", lines[at + 1]).group(0) or "        "
+        lines.insert(at + 1, indent + decl)
+    return "\n".join(lines)
+
+
+def _body_line(lines: list[str], cls) -> int:
+    """The index of the line holding the `{` that opens a class body."""
+    i = cls.position.line - 1
+    while "{" not in lines[i]:
+        i += 1
+    return i
+
+
+def setup_fields(text: str) -> str:
+    """A Writable field made at its declaration vs declared bare and made in setup()."""
+    tree = _parse(text)
+    if tree is None:
+        return text
+    lines = text.split("\n")
+    edits = []
+    for _, cls in tree.filter(T.ClassDeclaration):
+        ext = cls.extends
+        if ext is None or ext.name not in ("Mapper", "Reducer") or any(m.name == "setup" for m in cls.methods):
+            continue
+        moved = []
+        for f in cls.fields:
+            if "static" in f.modifiers or len(f.declarators) != 1 or not f.position:
+                continue
+            d = f.declarators[0]
+            i = f.position.line - 1  # a final field cannot be set in setup(): it loses `final`
+            got = re.match(r"(\s*)(private |protected |)(?:final )?(\w+) (\w+) = (new \w+\([^()]*\));\s*$", lines[i])
+            if got is None or got.group(4) != d.name:
+                continue
+            moved.append((i, got))
+        if moved:
+            edits.append((cls, moved))
+    for cls, moved in reversed(edits):
+        indent = moved[0][1].group(1)
+        body = [f"{indent}@Override", f"{indent}protected void setup(Context context) {{"]
+        body += [f"{indent}    {g.group(4)} = {g.group(5)};" for _, g in moved]
+        body += [f"{indent}}}"]
+        last = max(i for i, _ in moved)
+        for i, g in moved:
+            lines[i] = f"{g.group(1)}{g.group(2)}{g.group(3)} {g.group(4)};"
+        lines[last + 1:last + 1] = body
+    return "\n".join(lines)
+
+
+def counting_loops(text: str) -> str:
+    """`for (T x : arr)` over an array vs `for (int i = 0; i < arr.length; i++) { T x = arr[i]; ...`."""
+    arrays = set(re.findall(r"\b\w+\s*\[\]\s+(\w+)\s*[=;]", text))
+
+    def loop(m: re.Match) -> str:
+        t, x, arr = m.group(2), m.group(3), m.group(4)
+        if arr not in arrays:
+            return m.group(0)
+        i = f"{x}Index"
+        return f"{m.group(1)}for (int {i} = 0; {i} < {arr}.length; {i}++) {{ {t} {x} = {arr}[{i}];"
+    text = re.sub(r"(?m)^(\s*)for \((?:final )?([\w.<>]+) (\w+) : (\w+)\) \{", loop, text)
+
+    def split_loop(m: re.Match) -> str:  # over split(): the array becomes a local first
+        indent, t, x, expr = m.group(1), m.group(2), m.group(3), m.group(4)
+        arr, i = f"{x}All", f"{x}Index"
+        return (f"{indent}{t}[] {arr} = {expr};\n"
+                f"{indent}for (int {i} = 0; {i} < {arr}.length; {i}++) {{ {t} {x} = {arr}[{i}];")
+    return re.sub(r"(?m)^(\s*)for \((?:final )?(String) (\w+) : ([\w.()]+\.split\(\"[^\"]*\"\))\) \{",
+                  split_loop, text)
+
+
+def locale_case(text: str) -> str:
+    """`toLowerCase()` vs `toLowerCase(Locale.ROOT)` (the same mapping, stated)."""
+    return re.sub(r"\.to(Lower|Upper)Case\(\)", r".to\1Case(java.util.Locale.ROOT)", text)
+
+
+def literal_receiver(text: str) -> str:
+    """`x.equals("lit")` vs `"lit".equals(x)`."""
+    return re.sub(r"(\b\w+(?:\[\d+\])?)\.equals\((\"[^\"\\]*\")\)", r"\2.equals(\1)", text)
+
+
+def objects_equals(text: str) -> str:
+    """`a.equals(b)` vs `Objects.equals(a, b)` where a cannot be null (a record's field)."""
+    return re.sub(r"(\b\w+\[\d+\])\.equals\(([^()]*)\)", r"java.util.Objects.equals(\1, \2)", text)
+
+
+def boxed_parse(text: str) -> str:
+    """`Integer.parseInt(s)` vs `Integer.valueOf(s)` unboxed (and the same for Long and Double)."""
+    return re.sub(r"\b(Integer\.parseInt|Long\.parseLong|Double\.parseDouble)\(",
+                  lambda m: m.group(1).split(".")[0] + ".valueOf(", text)
+
+
+def this_fields(text: str) -> str:
+    """A field named bare vs through `this.` in map()/reduce()."""
+    tree = _parse(text)
+    if tree is None:
+        return text
+    lines = text.split("\n")
+    for cls, m in _map_methods(tree):
+        names = {d.name for f in cls.fields if "static" not in f.modifiers for d in f.declarators}
+        if not names or not m.body:
+            continue
+        params = {p.name for p in m.parameters}
+        local = {d.name for _, s in m.filter(T.LocalVariableDeclaration) for d in s.declarators}
+        names -= params | local
+        start, end = m.position.line, _method_end(lines, m.position.line)
+        for i in range(start, end):
+            for n in names:
+                lines[i] = re.sub(r"(?<![\w.\"])" + n + r"\.(set|get|put|add|clear)\(", f"this.{n}.\\1(", lines[i])
+                lines[i] = re.sub(r"(write|collect)\(" + n + r",", f"\\1(this.{n},", lines[i])
+    return "\n".join(lines)
+
+
+def _method_end(lines: list[str], start: int) -> int:
+    depth, seen = 0, False
+    for i in range(start - 1, len(lines)):
+        depth += lines[i].count("{") - lines[i].count("}")
+        seen = seen or "{" in lines[i]
+        if seen and depth <= 0:
+            return i + 1
+    return len(lines)
+
+
+def increments(text: str) -> str:
+    """`n += 1;` vs `n++;` (both ways)."""
+    text = re.sub(r"(?m)^(\s*)(\w+)\+\+;", r"\1\2 += 1;", text)
+    return text
+
+
+def final_locals(text: str) -> str:
+    """Locals of map()/reduce() declared plain vs `final` where they are never reassigned."""
+    tree = _parse(text)
+    if tree is None:
+        return text
+    lines = text.split("\n")
+    for _, m in _map_methods(tree):
+        end = _method_end(lines, m.position.line)
+        body = "\n".join(lines[m.position.line:end])
+        for _, s in m.filter(T.LocalVariableDeclaration):
+            if not s.position or "final" in s.modifiers or len(s.declarators) != 1:
+                continue
+            name = s.declarators[0].name
+            if len(re.findall(r"\b" + name + r"\s*(=[^=]|[-+*/%&|^]=|<<=|>>>?=|\+\+|--)", body)) != 1 or \
+                    re.search(r"(\+\+|--)" + name + r"\b", body):
+                continue
+            i = s.position.line - 1
+            lines[i] = re.sub(r"^(\s*)(?=[\w<>\[\], ]+\s" + name + r"\s*=)", r"\1final ", lines[i], count=1)
+    return "\n".join(lines)
+
+
+def var_locals(text: str) -> str:
+    """`String s = ...` / `String[] f = ...` locals vs `var` (Java 10+; the type is the initializer's)."""
+    tree = _parse(text)
+    if tree is None:
+        return text
+    lines = text.split("\n")
+    for _, m in _map_methods(tree):
+        for _, s in m.filter(T.LocalVariableDeclaration):
+            if not s.position or len(s.declarators) != 1 or s.declarators[0].initializer is None:
+                continue
+            if getattr(s.type, "name", "") != "String" or s.declarators[0].dimensions:
+                continue
+            init = s.declarators[0].initializer
+            if isinstance(init, T.Literal) and init.value == "null":
+                continue
+            i = s.position.line - 1
+            lines[i] = re.sub(r"\bString\s*(\[\])?\s+(" + s.declarators[0].name + r")\s*=", r"var \2 =", lines[i], count=1)
+    return "\n".join(lines)
+
+
+def new_per_write(text: str) -> str:
+    """A Text field set then written vs a new Text made in the write."""
+    texts = set(re.findall(r"\bText (\w+) = new Text\(\);", text))
+
+    def inline(m: re.Match) -> str:
+        name, value, between, rest = m.group(2), m.group(3), m.group(4), m.group(5)
+        if name not in texts or re.search(r"\b" + name + r"\b", between):
+            return m.group(0)
+        return f"{m.group(1)}{between}{rest}new Text({value}), "
+    return re.sub(r"(?m)^(\s*)(\w+)\.set\(([^;]*)\);\n((?:(?!.*\bwrite\().*\n)*?)(\s*context\.write\()\2, ",
+                  inline, text)
+
+
+AXES = (
+    Axis("catch-logs", "empty catch vs logging then skipping", catch_logs),
+    Axis("field-scratch", "array local vs scratch field", field_scratch),
+    Axis("setup-fields", "field made at declaration vs in setup()", setup_fields),
+    Axis("counting-loops", "for-each over an array vs a counting loop", counting_loops),
+    Axis("locale-case", "toLowerCase() vs toLowerCase(Locale.ROOT)", locale_case),
+    Axis("literal-receiver", "x.equals(\"lit\") vs \"lit\".equals(x)", literal_receiver),
+    Axis("objects-equals", "a.equals(b) vs Objects.equals(a, b)", objects_equals),
+    Axis("boxed-parse", "Integer.parseInt vs Integer.valueOf", boxed_parse),
+    Axis("this-fields", "field vs this.field", this_fields),
+    Axis("increments", "n++ vs n += 1", increments),
+    Axis("final-locals", "plain locals vs final locals", final_locals),
+    Axis("var-locals", "String locals vs var", var_locals),
+    Axis("new-per-write", "reused Text vs new Text per write", new_per_write),
+)
+
+
+def write_variant(src: Path, dst: Path, axis: Axis) -> list[str]:
+    """Copy the tree `src` to `dst` with `axis` applied to every .java file; the files it changed."""
+    if dst.exists():
+        shutil.rmtree(dst)
+    shutil.copytree(src, dst)
+    changed = []
+    for p in sorted(dst.rglob("*.java")):
+        text = p.read_text(encoding="utf-8")
+        new = axis.rewrite(text)
+        if new != text:
+            p.write_text(new, encoding="utf-8")
+            changed.append(str(p.relative_to(dst)))
+    return changed
