@@ -662,6 +662,10 @@ def class_constants(cls: ClassInfo, index=None) -> dict[str, object]:
                 and isinstance(n.expressionl, T.MemberReference)}
     assigned |= {n.expressionl.selectors[0].member for _, n in cls.node if isinstance(n, T.Assignment)
                  and isinstance(n.expressionl, T.This) and n.expressionl.selectors}
+    assigned |= {n.member for _, n in cls.node if isinstance(n, T.MemberReference)  # n++, --n
+                 and {"++", "--"} & set((n.prefix_operators or []) + (n.postfix_operators or []))}
+    assigned |= {n.selectors[0].member for _, n in cls.node if isinstance(n, T.This) and n.selectors
+                 and {"++", "--"} & set((n.prefix_operators or []) + (n.postfix_operators or []))}
     for f in cls.fields():
         tname = getattr(f.type, "name", "")
         for d in f.declarators:

@@ -160,3 +160,10 @@ def test_a_setter_that_assigns_its_own_parameter_is_declined(tmp_path):
         extra_driver="job.setNumReduceTasks(0);").replace("public class Main {", "public class Main {\n" + key)})
     (job,) = scan.jobs
     assert any("assigns the parameter" in r for r in _reasons(job)), _reasons(job)
+
+
+def test_a_private_field_bumped_with_plus_plus_is_not_a_constant(tmp_path):
+    job = _job(tmp_path, """
+      seen++;
+      context.write(new Text(value.toString()), new IntWritable(seen));""", fields="private int seen = 0;")
+    assert _reasons(job), "seen counts the records of the task: it is state, never the constant 0"
