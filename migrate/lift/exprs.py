@@ -284,6 +284,9 @@ def _binding_value(b, node, name: str) -> Expr:
     if isinstance(b, Writable):
         if b.content is None:
             raise Unsupported(node, f"Writable `{name}` is read before anything was set into it")
+        unset = [f for f, v in getattr(b.content, "items", ()) if isinstance(v, Lit) and v.value is None]
+        if unset:  # Java would print "null" or fail where Spark would carry NULL on
+            raise Unsupported(node, f"`{name}.{unset[0]}` is read before it is set (null in Java)")
         return b.content
     if isinstance(b, MaybeNull):
         raise Unsupported(node, f"`{name}` may be null (a key missing from the side table) where it is read: Java "

@@ -124,6 +124,7 @@ class MapBodyLifter:
         self.locals: set[str] = set()
         env: dict[str, object] = {}
         env.update(class_constants(cls, index))
+        env.update(struct_fields(cls, index))  # custom key/value objects reused through setters
         env.update(settings or {})  # fields set once per task from the job configuration
         params = [p.name for p in method.parameters]
         self.key_param = params[0] if params else None
@@ -672,15 +673,6 @@ def class_constants(cls: ClassInfo, index=None) -> dict[str, object]:
             if d.name in assigned:
                 continue
             init = d.initializer
-            structs = structs_of(index)
-            if tname in structs and isinstance(init, T.ClassCreator):
-                try:
-                    w = struct_holder(init, Scope({}, structs=structs), f)
-                except Unsupported:
-                    continue
-                w.field = True
-                env[d.name] = w
-                continue
             if tname in WRITABLE_OF and isinstance(init, T.ClassCreator):
                 try:
                     w = writable_creator(init, Scope({}))
@@ -706,6 +698,26 @@ def class_constants(cls: ClassInfo, index=None) -> dict[str, object]:
                 if isinstance(e, Lit):
                     env[d.name] = e
     return env
+
+
+def struct_fields(cls: ClassInfo, index=None) -> dict[str, Writable]:
+    """Fields holding a custom Writable made at their declaration and never reassigned: map()
+    sets them through setters (checked at each write by check_struct_written)."""
+    structs = structs_of(index)
+    assigned = {n.expressionl.member for _, n in cls.node if isinstance(n, T.Assignment)
+                and isinstance(n.expressionl, T.MemberReference)}
+    out = {}
+    for f in cls.fields():
+        for d in f.declarators:
+            if getattr(f.type, "name", "") in structs and isinstance(d.initializer, T.ClassCreator) \
+                    and d.name not in assigned:
+                try:
+                    w = struct_holder(d.initializer, Scope({}, structs=structs), f)
+                except Unsupported:
+                    continue
+                w.field = True
+                out[d.name] = w
+    return out
 
 
 def struct_holder(init, scope: Scope, node) -> Writable:

@@ -60,6 +60,10 @@ def fields_used_as_locals(cls, index=None) -> list[tuple[int, str]]:
         if len(users) != 1 or not isinstance(users[0], T.MethodDeclaration) or users[0].name not in PER_RECORD \
                 or _this_mentions(users[0], d.name):
             continue
+        rest = [b for b in cls.node.body if b is not f and b is not users[0] and not isinstance(b, T.MethodDeclaration)
+                and not isinstance(b, T.ConstructorDeclaration)]
+        if any(mentions(b, d.name) for b in rest):  # a nested class or another field's initializer reads it
+            continue
         method = users[0]
         found = _first_assignment(method, d.name)
         if found is None:

@@ -142,16 +142,14 @@ def _same_type(a, b) -> bool:
 
 
 def _element_type(arr: str, method, cls):
-    """The element type of the array `arr` declared in the method (local, parameter) or as a field."""
+    """The element type of the array `arr` declared in the method (local or parameter)."""
     decls = []
     for _, n in method:
         if isinstance(n, (T.LocalVariableDeclaration, T.VariableDeclaration)):
             decls += [(n.type, d.dimensions) for d in n.declarators if d.name == arr]
         elif isinstance(n, T.FormalParameter) and n.name == arr:
             decls.append((n.type, []))
-    if not decls:
-        decls = [(f.type, d.dimensions) for f in cls.fields() for d in f.declarators if d.name == arr]
-    if len(decls) != 1:
+    if len(decls) != 1:  # only a local or parameter: a field could be replaced by a call in the loop
         return None
     t, extra = decls[0]
     dims = len(t.dimensions or []) + len(extra or [])
