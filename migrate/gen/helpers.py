@@ -183,6 +183,18 @@ def java_substring(s: Column, begin: Column, end: Column | None = None, *, skip_
     return F.when(ok, value).otherwise(F.raise_error(F.lit("StringIndexOutOfBoundsException in substring")))
 """, ("java_length",))
 
+_h("java_chars", """
+def java_chars(s: Column) -> Column:
+    \"\"\"String.toCharArray(): one string per UTF-16 code unit, in order (empty for ""). Half of a
+    surrogate pair (a character beyond U+FFFF) is no string Spark can hold: the job fails there.\"\"\"
+    n = java_length(s)
+    units = F.transform(F.sequence(F.lit(0), F.greatest(n - 1, F.lit(0))), lambda i: java_substring(s, i, i + 1))
+    whole = F.octet_length(F.encode(s, "UTF-16BE")) == F.length(s) * 2  # no surrogate pairs
+    chars = F.when(whole, units).otherwise(
+        F.raise_error(F.lit("a character beyond U+FFFF: Java's chars split it into halves no Spark string holds")))
+    return F.when(n > 0, chars).otherwise(F.array().cast("array<string>"))
+""", ("java_length", "java_substring"))
+
 _h("java_index_of", """
 def java_index_of(s: Column, t: Column) -> Column:
     \"\"\"String.indexOf(str): UTF-16 index of the first occurrence, -1 if absent.\"\"\"

@@ -27,6 +27,7 @@ PLAIN_CALLS = {
     "is_empty": ("(F.length({0}) == 0)", None),
     "utf8_length": ("F.octet_length({0})", None),
     "length": ("java_length({0})", "java_length"),
+    "chars": ("java_chars({0})", "java_chars"),
     "greatest": ("F.greatest({0}, {1})", None),
     "least": ("F.least({0}, {1})", None),
     "index_of": ("java_index_of({0}, {1})", "java_index_of"),

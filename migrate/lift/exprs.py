@@ -39,12 +39,18 @@ THROWS = {"parse_int": "NumberFormatException", "parse_long": "NumberFormatExcep
           "parse_double": "NumberFormatException", "parse_float": "NumberFormatException",
           "index": "ArrayIndexOutOfBoundsException", "substring": "StringIndexOutOfBoundsException",
           "char_at": "StringIndexOutOfBoundsException", "date_parse": "ParseException",
-          "jt_parse": "DateTimeParseException"}
+          "jt_parse": "DateTimeParseException", "token_at": "NoSuchElementException"}
 CATCH_ALL = {"Exception", "RuntimeException", "Throwable", "IllegalArgumentException"}
-_SUPERS = {"ParseException": {"Exception"}, "DateTimeParseException": {"DateTimeException"},
-           "NumberFormatException": {"IllegalArgumentException"},
-           "ArrayIndexOutOfBoundsException": {"IndexOutOfBoundsException"},
-           "StringIndexOutOfBoundsException": {"IndexOutOfBoundsException"}}
+# Each exception's superclasses up to Throwable (Java SE API docs, java.lang / java.text /
+# java.time / java.util): a catch of any of them catches it. ParseException is checked: a catch of
+# RuntimeException does not catch it.
+_RUNTIME = {"RuntimeException", "Exception", "Throwable"}
+_SUPERS = {"ParseException": {"Exception", "Throwable"},
+           "DateTimeParseException": {"DateTimeException"} | _RUNTIME,
+           "NumberFormatException": {"IllegalArgumentException"} | _RUNTIME,
+           "ArrayIndexOutOfBoundsException": {"IndexOutOfBoundsException"} | _RUNTIME,
+           "StringIndexOutOfBoundsException": {"IndexOutOfBoundsException"} | _RUNTIME,
+           "NoSuchElementException": _RUNTIME}
 
 CONSTANTS = {
     ("Integer", "MAX_VALUE"): (2147483647, "int"), ("Integer", "MIN_VALUE"): (-2147483648, "int"),
@@ -90,6 +96,9 @@ class Tokenizer:
 
     tokens: Expr
     current: Expr | None = None  # set while lifting the body of its loop
+    # outside a token loop: how many tokens nextToken() has taken so far on this path (None: it
+    # depends on the path, or a loop takes them, so the next token is not known here)
+    taken: int | None = 0
 
 
 @dataclass
@@ -125,13 +134,14 @@ class Scope:
     # map() only: look a key up in a side table (SideTable, key, node, conditions) -> the looked-up column
     lookup: Any = None
     conditions: tuple = ()  # `a && b`, `c ? x : y`: what holds where the sub-expression runs
+    defs: dict = field(default_factory=dict)  # map(): column name -> the expression a Let gave it
 
     def on_error(self, op: str) -> str:
         exc = THROWS.get(op)
         if exc is None:
             return "fail"
         kinds = {exc} | _SUPERS.get(exc, set())
-        return "null" if (kinds & self.caught) or (self.caught & CATCH_ALL) else "fail"
+        return "null" if kinds & self.caught else "fail"
 
 
 def promote(a: str, b: str) -> str:
@@ -180,9 +190,13 @@ def _lift(node, scope: Scope) -> Expr:
     if isinstance(node, T.TernaryExpression):
         c = _bool(lift(node.condition, scope), node)
         then_env, else_env = refined(node.condition, scope.env)
+        toks = _tokenizers(scope)
         a = lift(node.if_true, replace(scope, env=then_env, conditions=(*scope.conditions, c)))
+        after_a = toks.taken_now()
+        toks.reset()
         b = lift(node.if_false, replace(scope, env=else_env,
                                         conditions=(*scope.conditions, BoolOp("boolean", "!", (c,)))))
+        toks.join(after_a)
         t = a.jtype if a.jtype == b.jtype else promote(a.jtype, b.jtype) if {a.jtype, b.jtype} <= NUMERIC else None
         if t is None:
             raise Unsupported(node, f"conditional mixes {a.jtype} and {b.jtype}")
@@ -398,7 +412,7 @@ def _invocation(node: T.MethodInvocation, scope: Scope) -> Expr:
         if isinstance(recv, Tokenizer):
             if m == "nextToken" and recv.current is not None:
                 return _selectors(recv.current, node.selectors or [], scope, node)
-            raise Unsupported(node, f"StringTokenizer.{m}() outside a token loop")
+            return _selectors(_token_cursor(recv, node, scope), node.selectors or [], scope, node)
         base = _binding_value(recv, node, q)
         return _selectors(_method(base, node, scope), node.selectors or [], scope, node)
     if "." in q and q.rsplit(".", 1)[0].split(".")[-1] in scope.enums:  # Kind.LONG_RIDE.name()
@@ -407,6 +421,48 @@ def _invocation(node: T.MethodInvocation, scope: Scope) -> Expr:
         return _selectors(inline_call(node, scope), node.selectors or [], scope, node)
     raise Unsupported(node, f"call `{(q + '.') if q else ''}{m}(...)` is not lifted",
                       "inline the helper by hand, or express it with pyspark.sql.functions")
+
+
+class _tokenizers:
+    """The StringTokenizers in scope around code that runs on some paths only (a ternary's
+    branches, the right side of && and ||): where the paths took different numbers of tokens,
+    the cursor is unknown afterwards."""
+
+    def __init__(self, scope: Scope):
+        self.toks = [t for t in scope.env.values() if isinstance(t, Tokenizer)]
+        self.before = self.taken_now()
+
+    def taken_now(self) -> list:
+        return [t.taken for t in self.toks]
+
+    def reset(self) -> None:
+        for t, k in zip(self.toks, self.before):
+            t.taken = k
+
+    def join(self, other: list) -> None:
+        for t, k in zip(self.toks, other):
+            if t.taken != k:
+                t.taken = None
+
+
+def _token_cursor(tok: Tokenizer, node: T.MethodInvocation, scope: Scope) -> Expr:
+    """StringTokenizer calls outside a token loop, where the number of tokens taken so far is
+    the same on every path: the k-th nextToken() is tokens[k] (NoSuchElementException where
+    there is none), hasMoreTokens() is size(tokens) > k, countTokens() is size(tokens) - k."""
+    m = node.member
+    if tok.current is not None or tok.taken is None or node.arguments:
+        raise Unsupported(node, f"StringTokenizer.{m}() where the tokens taken before it depend on the path "
+                                "or on a loop", "split the line once and index the array")
+    k = Lit("int", tok.taken)
+    size = Call("int", "size", (tok.tokens,))
+    if m in ("hasMoreTokens", "hasMoreElements"):
+        return Compare("boolean", ">", size, k)
+    if m == "countTokens":
+        return Arith("int", "-", size, k)
+    if m in ("nextToken", "nextElement"):
+        tok.taken += 1
+        return Call("String", "index", (tok.tokens, k), scope.on_error("token_at"))
+    raise Unsupported(node, f"StringTokenizer.{m}() is not lifted")
 
 
 def lookup_key(table, arg, scope: Scope, node) -> Expr:
@@ -506,6 +562,8 @@ def _method(recv: Expr, node: T.MethodInvocation, scope: Scope) -> Expr:
         return Call("boolean", "is_blank", (recv,))
     if m == "length" and not a:
         return Call("int", "length", (recv,))
+    if m == "toCharArray" and not a:
+        return Call("char[]", "chars", (recv,))
     if m == "getLength" and not a:  # Text.getLength(): bytes of the UTF-8 encoding
         return Call("int", "utf8_length", (recv,))
     if m == "substring" and 1 <= len(a) <= 2 and all(x.jtype in ("int",) for x in a):
@@ -615,7 +673,9 @@ def _binary(node: T.BinaryOperation, scope: Scope) -> Expr:
     l = lift(node.operandl, scope)
     if op in ("&&", "||"):  # the right side runs only where the left side did not decide
         runs = _bool(l, node) if op == "&&" else BoolOp("boolean", "!", (_bool(l, node),))
+        toks = _tokenizers(scope)
         r = lift(node.operandr, replace(scope, conditions=(*scope.conditions, runs)))
+        toks.join(toks.before)  # a token the right side takes is taken on some rows only
     else:
         r = lift(node.operandr, scope)
     if op in ("&&", "||"):
@@ -670,6 +730,20 @@ def _reference_equality(node: T.BinaryOperation, l: Expr, r: Expr, scope: Scope)
     def literal(e: Expr) -> bool:
         return isinstance(e, Lit) and e.jtype == "String" and e.value is not None
 
+    def cut(e: Expr, depth: int = 0) -> bool:  # made by substring/split/trim, which may return the interned ""
+        from migrate.plan import walk
+
+        return depth < 20 and any(
+            isinstance(x, Call) and x.op in ("substring", "split", "split_limit", "trim", "strip")
+            or isinstance(x, Col) and x.name in scope.defs and cut(scope.defs[x.name], depth + 1) for x in walk(e))
+
+    empty = Lit("String", "")
+    if (l == empty and cut(r)) or (r == empty and cut(l)):
+        raise Unsupported(node, f"a String cut from the line is compared with \"\" by reference ({node.operator}): "
+                                "on Java 9 and later an empty substring, split piece or trim result is the interned "
+                                "\"\" (so the test is true exactly when it is empty; checked on Java 17), on Java 8 "
+                                "it is a new object (never equal); the output depends on the JVM the job ran on",
+                          "ask which Java ran the job; then write isEmpty() in Java and F.length(c) == 0 in the script")
     if not (fresh(l) and literal(r) or literal(l) and fresh(r)):
         raise Unsupported(node, "Strings compared with ==: Java compares references (is it the same object?), not "
                                 "text, and which objects these are depends on how each String was made",

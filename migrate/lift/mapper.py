@@ -157,7 +157,11 @@ class MapBodyLifter:
             self._hand("map-logic", u.line or self._line(where), u.reason, u.suggestion or
                        "express this step with pyspark.sql.functions by hand")
         if not self.hand:
-            if not self.emit_list:
+            if not self.emit_list and body is None and not self.method.body:
+                self._hand("map-logic", self._line(where), "map() is empty: the original writes no map output, so "
+                           "the job's output is empty; the code looks unfinished",
+                           "find the intended mapper before migrating; an empty job needs no script")
+            elif not self.emit_list:
                 self._hand("map-logic", self._line(where), "map() writes nothing the converter could follow",
                            "check what the mapper emits and write the select by hand")
             else:
@@ -313,6 +317,7 @@ class MapBodyLifter:
         if risky and self.in_try_emitted:
             raise Unsupported(node, "a value that may throw is computed after a write in the same try block")
         self.steps.append(Let(self._span(node), self._note(node), col, e if g is None else Call(e.jtype, "guarded", (g, e))))
+        self.scope.defs[col] = e
         self.scope.env[name] = Col(e.jtype, col)
         if risky:
             present = Call("boolean", "is_not_null", (Col(e.jtype, col),))
@@ -349,6 +354,16 @@ class MapBodyLifter:
                 self.steps.append(Count(self._span(s), self._note(s), cu.group, cu.name, self._eff(guard), cu.amount))
                 return
             if m in ("progress", "setStatus"):
+                return
+            tok = self.scope.env.get(q)
+            if isinstance(tok, Tokenizer) and m in ("nextToken", "nextElement") and tok.taken is not None:
+                # a token skipped: the cursor moves on. Where none is left Java throws, which an unused
+                # column cannot reproduce, so the statement must run only where hasMoreTokens() held.
+                has = Compare("boolean", ">", Call("int", "size", (tok.tokens,)), Lit("int", tok.taken))
+                if not _implies(self._eff(guard), has) and tok.current is None:
+                    raise Unsupported(s, "a token skipped with nextToken() where there may be none (Java throws)",
+                                      "test hasMoreTokens() first, or split the line and index the array")
+                lift(e, self.scope)
                 return
             target = self.scope.env.get(q)
             if isinstance(target, dates.DateFormat) and m == "setLenient" and len(e.arguments) == 1:
@@ -466,12 +481,24 @@ class MapBodyLifter:
             raise Unsupported(s, "if condition is not a boolean")
         then_env, else_env = refined(s.condition, self.scope.env)
         self.if_nodes.append(s)
+        toks = {n: t for n, t in self.scope.env.items() if isinstance(t, Tokenizer)}
+        before = {n: t.taken for n, t in toks.items()}
         try:
             self._branch(s.then_statement, _and(guard, c), then_env)
+            after_then = {n: t.taken for n, t in toks.items()}
+            for n, t in toks.items():
+                t.taken = before[n]
             if s.else_statement is not None:
                 self._branch(s.else_statement, _and(guard, _not(c)), else_env)
         finally:
             self.if_nodes.pop()
+        for n, t in toks.items():  # tokens taken on one path only: the cursor is unknown after the if
+            if self._leaves(s.then_statement):
+                continue
+            if s.else_statement is not None and self._leaves(s.else_statement):
+                t.taken = after_then[n]
+            elif t.taken != after_then[n]:
+                t.taken = None
         if s.else_statement is None and self._leaves(s.then_statement):
             for name, v in else_env.items():  # `if (x == null) return;`: below it x holds a value
                 if isinstance(self.scope.env.get(name), MaybeNull) and not isinstance(v, MaybeNull):
@@ -533,6 +560,9 @@ class MapBodyLifter:
             self.steps.append(Filter(self._span(s), "loop guard", g))
         col = self._fresh(var)
         self.steps.append(Explode(self._span(s), self._note(s), col, array))
+        for t in self.scope.env.values():  # a token taken inside the loop is taken once per row
+            if isinstance(t, Tokenizer):
+                t.taken = None
         self.dead = None
         self.loop_depth += 1
         self.loop_locals.append(set())
@@ -557,6 +587,9 @@ class MapBodyLifter:
             tok = self.scope.env.get(c.qualifier)
         if not isinstance(tok, Tokenizer):
             raise Unsupported(s, "while loop that is not a loop over StringTokenizer tokens")
+        if tok.taken != 0:
+            raise Unsupported(s, "a token loop after tokens were taken one by one",
+                              "split the line once; loop over F.slice of the rest")
         body = s.body
         stmts = body.statements if isinstance(body, T.BlockStatement) else [body]
         calls = [n for st in stmts for _, n in st if isinstance(n, T.MethodInvocation) and n.qualifier == c.qualifier

@@ -151,7 +151,7 @@ def setup_constants(cls, index=None) -> list[tuple[int, str]]:
             if others or any(mentions(x, name) for x in earlier + later):
                 continue
             value = s.expression.value
-            if not _constant(value, statics):
+            if not _constant(value, statics, _writables(index)):
                 continue
             d.initializer = value
             body.remove(s)
@@ -183,9 +183,15 @@ CONSTANT_CLASSES = {"Pattern", "Integer", "Long", "Double", "Float", "Boolean", 
                     "Random"}  # a Random made in setup() or at its declaration: once per task either way
 
 
-def _constant(value, statics: set[str]) -> bool:
+def _writables(index) -> set[str]:
+    """The repository's own Writable classes: their constructors only set fields (or the lift
+    rules refuse them later, wherever they are made)."""
+    return {c.name for c in index if "writable" in c.roles} if index is not None else set()
+
+
+def _constant(value, statics: set[str], writables: set[str] = frozenset()) -> bool:
     for _, n in value:
-        if isinstance(n, T.ClassCreator) and n.type.name.rsplit(".", 1)[-1] not in CONSTANT_CLASSES:
+        if isinstance(n, T.ClassCreator) and n.type.name.rsplit(".", 1)[-1] not in CONSTANT_CLASSES | writables:
             return False
         if isinstance(n, T.MethodInvocation) and n.qualifier and n.qualifier.split(".")[0] not in CONSTANT_CLASSES:
             return False

@@ -1,6 +1,7 @@
-"""Counting loops that only walk an array: `for (int i = 0; i < a.length; i++)` whose body reads
-the index only as `a[i]` (and never assigns `i` or `a`) is the for-each `for (T x : a)`. When the
-body starts with `T x = a[i];`, that local becomes the loop variable.
+"""Counting loops that only walk an array or a String: `for (int i = 0; i < a.length; i++)` whose
+body reads the index only as `a[i]` (and never assigns `i` or `a`) is the for-each `for (T x : a)`;
+`for (int i = 0; i < s.length(); i++)` reading only `s.charAt(i)` is `for (char c : s.toCharArray())`.
+When the body starts with `T x = a[i];` (or `char c = s.charAt(i);`), that local is the loop variable.
 """
 from __future__ import annotations
 
@@ -14,12 +15,20 @@ from migrate.lower.walk import line_of, mentions, name_ref, positioned, statemen
 def counting_loops(cls, index=None) -> list[tuple[int, str]]:
     done = []
     for method in cls.node.methods:
-        for stmts, _ in list(statement_lists(method)):
-            for i, s in enumerate(stmts):
-                got = _as_for_each(s, method, cls)
-                if got is not None:
-                    stmts[i] = got
-                    done.append((line_of(s), "a counting loop over an array is a for-each over its elements"))
+        changed = True
+        while changed:  # a rewritten loop's body is a new tree: look again for the loops inside it
+            changed = False
+            for stmts, _ in statement_lists(method):
+                for i, s in enumerate(stmts):
+                    got = _as_for_each(s, method, cls)
+                    if got is not None:
+                        stmts[i] = got
+                        what = "an array" if isinstance(got.control.iterable, T.MemberReference) else "a String's chars"
+                        done.append((line_of(s), f"a counting loop over {what} is a for-each over its elements"))
+                        changed = True
+                        break
+                if changed:
+                    break
     return done
 
 
@@ -38,12 +47,17 @@ def _index_loop(s):
     if not (isinstance(cond, T.BinaryOperation) and cond.operator == "<" and _is_name(cond.operandl, i)):
         return None
     bound = cond.operandr
-    if not (isinstance(bound, T.MemberReference) and bound.member == "length" and bound.qualifier
-            and "." not in bound.qualifier and not bound.selectors):
+    if isinstance(bound, T.MemberReference) and bound.member == "length" and bound.qualifier \
+            and "." not in bound.qualifier and not bound.selectors:
+        kind = "array"
+    elif isinstance(bound, T.MethodInvocation) and bound.member == "length" and not bound.arguments \
+            and bound.qualifier and "." not in bound.qualifier and not bound.selectors:
+        kind = "string"
+    else:
         return None
     if not _is_increment(c.update, i):
         return None
-    return i, bound.qualifier
+    return i, bound.qualifier, kind
 
 
 def _is_name(n, name) -> bool:
@@ -68,7 +82,10 @@ def _is_increment(update, i) -> bool:
 
 
 def _element_ref(n, arr: str, i: str) -> bool:
-    """`arr[i]` and nothing more."""
+    """`arr[i]` or `arr.charAt(i)` and nothing more."""
+    if isinstance(n, T.MethodInvocation):
+        return n.qualifier == arr and n.member == "charAt" and len(n.arguments or []) == 1 and not n.selectors \
+            and _is_name(n.arguments[0], i) and not n.prefix_operators and not n.postfix_operators
     return isinstance(n, T.MemberReference) and n.member == arr and not n.qualifier and len(n.selectors or []) == 1 \
         and isinstance(n.selectors[0], T.ArraySelector) and _is_name(n.selectors[0].index, i)
 
@@ -77,8 +94,8 @@ def _as_for_each(s, method, cls):
     got = _index_loop(s)
     if got is None:
         return None
-    i, arr = got
-    element_type = _element_type(arr, method, cls)
+    i, arr, kind = got
+    element_type = _element_type(arr, method, cls) if kind == "array" else _char_of(arr, method)
     if element_type is None:
         return None
     body = s.body
@@ -101,7 +118,10 @@ def _as_for_each(s, method, cls):
     rest = [_replace_elements(copy.deepcopy(x), arr, i, var) for x in rest]
     loop_var = T.VariableDeclaration(modifiers=set(), annotations=[], type=element_type,
                                      declarators=[T.VariableDeclarator(name=var, dimensions=[], initializer=None)])
-    control = positioned(T.EnhancedForControl(var=loop_var, iterable=name_ref(arr, s)), s)
+    iterable = name_ref(arr, s) if kind == "array" else positioned(T.MethodInvocation(
+        qualifier=arr, member="toCharArray", arguments=[], selectors=[], prefix_operators=[], postfix_operators=[],
+        type_arguments=None), s)
+    control = positioned(T.EnhancedForControl(var=loop_var, iterable=iterable), s)
     new_body = positioned(T.BlockStatement(label=None, statements=rest), body)
     return positioned(T.ForStatement(label=s.label, control=control, body=new_body), s)
 
@@ -139,6 +159,16 @@ def _replace_elements(node, arr, i, var):
 def _same_type(a, b) -> bool:
     return getattr(a, "name", None) == getattr(b, "name", None) and not getattr(a, "dimensions", None) \
         and not getattr(b, "dimensions", None)
+
+
+def _char_of(name: str, method):
+    """`char` when `name` is a String local or parameter of the method, else None."""
+    types = [n.type for _, n in method if isinstance(n, (T.LocalVariableDeclaration, T.VariableDeclaration))
+             for d in n.declarators if d.name == name and not d.dimensions]
+    types += [n.type for _, n in method if isinstance(n, T.FormalParameter) and n.name == name]
+    if len(types) != 1 or getattr(types[0], "name", "") != "String" or types[0].dimensions:
+        return None
+    return T.BasicType(name="char", dimensions=[])
 
 
 def _element_type(arr: str, method, cls):

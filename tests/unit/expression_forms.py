@@ -147,6 +147,12 @@ FORMS = [
     ("ternary_empty", 's.isEmpty() ? "none" : s'),
     ("ternary_numeric", "a > b ? a : l"),
     ("null_check", "s != null && s.length() > 2"),
+    # spellings the lowering reads as the forms above (Java SE API: Objects.equals, String.toLowerCase(Locale))
+    ("objects_equals", "java.util.Objects.equals(s, t)"),
+    ("literal_receiver", '"a,b,,c,,".equals(s)'),
+    ("lower_root", "s.toLowerCase(java.util.Locale.ROOT)"),
+    ("upper_root", "t.toUpperCase(java.util.Locale.ROOT)"),
+    ("upper_us", "s.toUpperCase(java.util.Locale.US)"),
     # boxing
     ("boxed_value_of", "Integer.valueOf(a) + 1"),
     ("boxed_int_value", "Integer.valueOf(a).intValue() * 2"),

@@ -164,9 +164,18 @@ def test_values_iterated_twice_are_declined(tmp_path):
 def test_loop_with_side_effects_is_declined(tmp_path):
     job, _ = _plan(tmp_path, """
       int n = 0;
-      for (IntWritable v : values) { n++; System.out.println(v); }
+      for (IntWritable v : values) { n++; System.setProperty("last", v.toString()); }
       context.write(key, new IntWritable(n));""")
     assert "not a recognised accumulator update" in _declined(job).reason
+
+
+def test_logging_in_the_loop_is_not_a_side_effect_on_the_output(tmp_path):
+    job, _ = _plan(tmp_path, """
+      int n = 0;
+      for (IntWritable v : values) { n++; System.out.println(v); }
+      context.write(key, new IntWritable(n));""")
+    assert job.status == "converted"
+    assert any("logging to System.out is not carried over" in n for n in job.plan.notes)
 
 
 def test_trimmed_tree_set_is_a_top_n_per_key(tmp_path):

@@ -3,6 +3,7 @@
 the RidesPerRoute sample; these tests pin where each rule must decline.)"""
 from __future__ import annotations
 
+from migrate.plan import dump_plan
 from tests.helpers import job_source, scan_text
 
 
@@ -167,3 +168,37 @@ def test_a_private_field_bumped_with_plus_plus_is_not_a_constant(tmp_path):
       seen++;
       context.write(new Text(value.toString()), new IntWritable(seen));""", fields="private int seen = 0;")
     assert _reasons(job), "seen counts the records of the task: it is state, never the constant 0"
+
+
+def test_tokens_taken_one_by_one_outside_a_loop(tmp_path):
+    job = _job(tmp_path, """
+      StringTokenizer itr = new StringTokenizer(value.toString());
+      if (itr.hasMoreTokens()) {
+        String first = itr.nextToken();
+        String second = itr.hasMoreTokens() ? itr.nextToken() : "-";
+        context.write(new Text(first + "/" + second), new IntWritable(1));
+      }""", fields="")
+    assert not _reasons(job), _reasons(job)
+    dump = dump_plan(job.plan)
+    assert "index(tokens(value), 0)" in dump and "index(tokens(value), 1)" in dump, dump
+
+
+def test_a_token_taken_on_one_path_only_leaves_the_cursor_unknown(tmp_path):
+    job = _job(tmp_path, """
+      StringTokenizer itr = new StringTokenizer(value.toString());
+      if (value.getLength() > 10 && itr.hasMoreTokens()) { itr.nextToken(); }
+      context.write(new Text(itr.nextToken()), new IntWritable(1));""")
+    assert any("depend on the path" in r for r in _reasons(job)), _reasons(job)
+
+
+def test_a_token_skipped_where_there_may_be_none_is_declined(tmp_path):
+    job = _job(tmp_path, """
+      StringTokenizer itr = new StringTokenizer(value.toString());
+      itr.nextToken();
+      if (itr.hasMoreTokens()) { context.write(new Text(itr.nextToken()), new IntWritable(1)); }""")
+    assert any("may be none" in r for r in _reasons(job)), _reasons(job)
+
+
+def test_an_empty_map_is_named_as_such(tmp_path):
+    job = _job(tmp_path, "      // to do")
+    assert any("map() is empty" in r for r in _reasons(job)), _reasons(job)

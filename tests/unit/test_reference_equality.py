@@ -30,7 +30,33 @@ def test_other_string_reference_comparisons_stay_hand_work_without_a_misleading_
             '      context.write(new Text(f[0]), new IntWritable(1));')
     (job,) = scan_text(tmp_path, {"Main.java": job_source(body, reducer_class=None)}).jobs
     (item,) = job.plan.hand_work
+    assert "by reference" in item.reason and "Java 9 and later" in item.reason and "Java 8" in item.reason
+    body = ('      String s = value.toString().trim();\n      if (s == "x") return;\n'
+            '      context.write(new Text(s), new IntWritable(1));')
+    (job,) = scan_text(tmp_path / "other", {"Main.java": job_source(body, reducer_class=None)}).jobs
+    (item,) = job.plan.hand_work
     assert "references" in item.reason and "different output" in item.suggestion
+
+
+CUT = """
+public class Cut {
+    public static void main(String[] args) {
+        String line = new String("ab,");
+        System.out.println((line.substring(3) == "") + "\t" + (line.split(",", -1)[1] == "")
+                           + "\t" + (new String("  ").trim() == "") + "\t" + (line.substring(1) == "b,"));
+    }
+}
+"""
+
+
+@pytest.mark.skipif(shutil.which("javac") is None, reason="needs a JDK on PATH")
+def test_the_jvm_says_an_empty_cut_is_the_interned_empty_string(tmp_path):
+    """Why a cut String compared with "" is declined, not reproduced: on this JVM (Java 17) an empty
+    substring, split piece or trim result IS the literal "" (Java 8 made a new object)."""
+    (tmp_path / "Cut.java").write_text(CUT)
+    subprocess.run(["javac", "-d", str(tmp_path), str(tmp_path / "Cut.java")], check=True)
+    out = subprocess.run(["java", "-cp", str(tmp_path), "Cut"], check=True, capture_output=True, text=True).stdout
+    assert out.split() == ["true", "true", "true", "false"]
 
 
 JAVA = """
