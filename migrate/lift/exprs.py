@@ -88,6 +88,7 @@ class Writable:
     set_this_record: bool = False
     set_only_if: Expr | None = None
     fields_set: set = dataclasses.field(default_factory=set)  # custom Writables: fields set on every path this record
+    fields_guard: dict = dataclasses.field(default_factory=dict)  # ... and those set only where a guard holds
 
 
 @dataclass

@@ -402,17 +402,14 @@ class MapBodyLifter:
         info = self.scope.structs[w.kind]
         new = info.setter(w.content, call.member, [lift(a, self.scope) for a in call.arguments], call, self.scope)
         g = self._eff(guard)
-        changed = [f for (f, a), (_, b) in zip(w.content.items, new.items) if a != b]
-        if g is not None:
-            if w.field:
-                raise Unsupported(s, f"`{call.qualifier}` is a field set only under a condition; where it is not "
-                                     "set, Hadoop writes the fields left from the previous record",
-                                  "set it on every path, or make a new object for each record")
-            new = StructNew(new.jtype, tuple((f, v if f not in changed or v == old else
-                                              Call(v.jtype, "if_else", (g, v, old)))
+        assigned = info.assigned_by(call.member, len(call.arguments))
+        if g is not None:  # where g does not hold, the object keeps what it had (a field: the last record's)
+            new = StructNew(new.jtype, tuple((f, v if v == old else Call(v.jtype, "if_else", (g, v, old)))
                                              for (f, v), (_, old) in zip(new.items, w.content.items)))
+            for f in assigned - w.fields_set:
+                w.fields_guard[f] = _or(w.fields_guard[f], g) if f in w.fields_guard else g
         else:
-            w.fields_set |= info.assigned_by(call.member, len(call.arguments))
+            w.fields_set |= assigned
         w.content = new
 
     def _assign(self, s, e: T.Assignment, guard) -> None:
@@ -464,7 +461,7 @@ class MapBodyLifter:
         for a in call.arguments:
             w = self.scope.env.get(a.member) if isinstance(a, T.MemberReference) and not a.qualifier else None
             if isinstance(w, Writable) and is_struct(w.kind):
-                check_struct_written(w, a.member, s, self.method, self.scope.structs[w.kind])
+                check_struct_written(w, a.member, s, self.method, self.scope.structs[w.kind], g)
         k, v = (write_argument(a, self.scope) for a in call.arguments)
         for side in (k, v):
             for risky in _has_null_on_error(side) if side is not None else []:
@@ -764,7 +761,7 @@ def struct_holder(init, scope: Scope, node) -> Writable:
     return Writable(info.jtype, content)
 
 
-def check_struct_written(w: Writable, name: str, node, method, info) -> None:
+def check_struct_written(w: Writable, name: str, node, method, info, guard: Expr | None = None) -> None:
     """A custom Writable is written only with every field known: a field never set is null (write()
     throws), and a field holder keeps what the previous record set in the fields not set again."""
     touched = set()
@@ -775,7 +772,8 @@ def check_struct_written(w: Writable, name: str, node, method, info) -> None:
         if isinstance(v, Lit) and v.value is None:
             raise Unsupported(node, f"`{name}.{f}` is never set before the write: the original's write() would "
                                     "fail on the null field")
-        if w.field and f in touched and f not in w.fields_set:
+        if w.field and f in touched and f not in w.fields_set and \
+                not (f in w.fields_guard and _implies(guard, w.fields_guard[f])):
             raise Unsupported(node, f"`{name}` is a field whose `{f}` is set only on some records: on the others "
                                     "Hadoop writes the previous record's value")
 

@@ -52,13 +52,10 @@ class StructInfo:
         """`new K(args)` as a struct; `unset_ok`: a field the constructor leaves null is a NULL
         placeholder (a holder whose setters run before it is written) instead of an error."""
         args = [lift(a, scope) for a in node.arguments or []]
-        ctors = [c for c in self.cls.node.constructors if len(c.parameters) == len(args)]
         if not args and not self.cls.node.constructors:  # the default constructor
             ctor = None
-        elif len(ctors) != 1:
-            raise Unsupported(node, f"new {self.cls.name}(...) with {len(args)} arguments: no single constructor")
         else:
-            ctor = ctors[0]
+            ctor = self._constructor(node.arguments or [], args, scope, node)
         values = self._assign_fields(ctor, args, {}, scope, "constructor") if ctor is not None else {}
         for name, t in self.fields.items():  # fields the constructor leaves alone keep their initial value
             if name not in values:
@@ -69,6 +66,18 @@ class StructInfo:
                         raise
                     values[name] = Lit(t, None)
         return StructNew(self.jtype, tuple(values.items()))
+
+    def _constructor(self, arg_nodes: list, args: list[Expr], scope: Scope, node):
+        """The constructor javac picks for these arguments (JLS 15.12.2, the cases met here: exact
+        Writable classes, primitives with widening, String)."""
+        ctors = [c for c in self.cls.node.constructors if len(c.parameters) == len(args)]
+        if len(ctors) > 1:
+            kinds = [_java_kind(n, a, scope) for n, a in zip(arg_nodes, args)]
+            ctors = [c for c in ctors if all(_accepts(p.type, k) for p, k in zip(c.parameters, kinds))]
+        if len(ctors) != 1:
+            raise Unsupported(node, f"new {self.cls.name}(...) with {len(args)} arguments: no single constructor "
+                                    "the converter could pick")
+        return ctors[0]
 
     def setter(self, current: StructNew, name: str, args: list[Expr], node, scope: Scope) -> StructNew:
         """`k.setX(v)`: the struct after the method's field assignments (`this.x = v;`, `x.set(v)`)."""
@@ -103,6 +112,13 @@ class StructInfo:
                 continue
             inner = Scope({**{f: v for f, v in values.items() if not (isinstance(v, Lit) and v.value is None)},
                            **env}, file=scope.file, enums=scope.enums)
+            if isinstance(e, T.ExplicitConstructorInvocation):  # this(...): the other constructor's assignments
+                more = [lift(a, inner) for a in e.arguments or []]
+                other = self._constructor(e.arguments or [], more, inner, s)
+                if other is method:
+                    raise Unsupported(s, f"the {self.cls.name} constructor calls itself")
+                values = self._assign_fields(other, more, values, scope, what)
+                continue
             target = _assigned_field(e, self.fields)
             if target is None and isinstance(e, T.MethodInvocation) and e.member == "set" and \
                     e.qualifier in self.text_fields | {f"this.{f}" for f in self.text_fields} and len(e.arguments) == 1:
@@ -182,6 +198,36 @@ class StructInfo:
             utf16 = self.fields[name] == "String" and name not in self.text_fields
             terms.append((Call("binary", "utf16_order", (f,)) if utf16 else f, asc))
         return tuple(terms)
+
+
+_WIDER = {"int": ("int", "long", "float", "double"), "long": ("long", "float", "double"),
+          "float": ("float", "double"), "double": ("double",), "char": ("char", "int", "long", "float", "double")}
+
+
+def _java_kind(arg_node, lifted: Expr, scope: Scope) -> str:
+    """The Java type of an argument, as overload resolution sees it: a Writable's class, or the value's type."""
+    from migrate.lift.exprs import Writable
+
+    if isinstance(arg_node, T.ClassCreator) and arg_node.type.name in WRITABLE_OF:
+        return arg_node.type.name
+    if isinstance(arg_node, T.MemberReference) and not arg_node.qualifier and not arg_node.selectors:
+        bound = scope.env.get(arg_node.member)
+        if isinstance(bound, Writable):
+            return bound.kind
+    return lifted.jtype
+
+
+def _accepts(ptype, kind: str) -> bool:
+    name = getattr(ptype, "name", "")
+    if getattr(ptype, "dimensions", None):
+        return False
+    if name in WRITABLE_OF or kind in WRITABLE_OF:
+        return name == kind
+    want = {"Integer": "int", "Long": "long", "Double": "double", "Float": "float", "Boolean": "boolean",
+            "Character": "char"}.get(name, name)
+    if want == "String":
+        return kind == "String"
+    return want in _WIDER.get(kind, (kind,)) if name == want else want == kind
 
 
 def _assigned_field(e, names) -> str | None:

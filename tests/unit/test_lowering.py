@@ -202,3 +202,42 @@ def test_a_token_skipped_where_there_may_be_none_is_declined(tmp_path):
 def test_an_empty_map_is_named_as_such(tmp_path):
     job = _job(tmp_path, "      // to do")
     assert any("map() is empty" in r for r in _reasons(job)), _reasons(job)
+
+
+def _pair_job(tmp_path, body: str, key: str = KEY, fields: str = "private Pair pair = new Pair();"):
+    scan = scan_text(tmp_path, {"Main.java": job_source(body, fields=fields, map_out=("Pair", "IntWritable"),
+                                                        out=("Pair", "IntWritable"), reducer_class=None,
+                                                        extra_driver="job.setNumReduceTasks(0);")
+                                .replace("public class Main {", "public class Main {\n" + key)})
+    (job,) = scan.jobs
+    return job
+
+
+def test_a_key_field_set_and_written_under_the_same_guard_converts(tmp_path):
+    job = _pair_job(tmp_path, """
+      String[] f = value.toString().split(",");
+      if (f.length > 1) {
+        pair.setA(f[0]);
+        pair.setB(f[1]);
+        context.write(pair, new IntWritable(1));
+      }""")
+    assert not _reasons(job), _reasons(job)
+
+
+OVERLOADED = KEY.replace("public void setA(String a) { this.a = a; }", """
+    public Pair() { }
+    public Pair(String a, String b) { this(new Text(a), new Text(b)); }
+    public Pair(Text a, Text b) { this.a = a.toString(); this.b = b.toString(); }
+    public Pair(int a, int b) { this.a = "#" + a; this.b = "#" + b; }
+    public void setA(String a) { this.a = a; }""")
+
+
+def test_constructor_overloads_are_picked_by_argument_type(tmp_path):
+    job = _pair_job(tmp_path, """
+      String[] f = value.toString().split(",");
+      context.write(new Pair(f[0], f[1]), new IntWritable(1));
+      context.write(new Pair(new Text(f[0]), new Text("x")), new IntWritable(2));
+      context.write(new Pair(f.length, 7), new IntWritable(3));""", key=OVERLOADED, fields="")
+    assert not _reasons(job), _reasons(job)
+    dump = dump_plan(job.plan)
+    assert "concat('#'" in dump, dump  # the (int, int) constructor for the third write
