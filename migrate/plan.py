@@ -523,19 +523,24 @@ class Plan:
 # ----------------------------------------------------------------------------- text dump
 
 
-def walk(e: Expr | None):
-    """The expression and every sub-expression in it, depth first."""
+def walk(e: Expr | None, inner=None):
+    """The expression and every sub-expression in it, depth first; `inner(x)`, when given, names the
+    sub-expressions of x to visit (instead of all)."""
     if e is None:
         return
     yield e
+    if inner is not None and inner(e) is not None:
+        for sub in inner(e):
+            yield from walk(sub, inner)
+        return
     for a in getattr(e, "args", ()) or ():
-        yield from walk(a)
+        yield from walk(a, inner)
     for _, item in getattr(e, "items", ()) or ():
-        yield from walk(item)
+        yield from walk(item, inner)
     for name in ("left", "right", "arg", "cond", "then", "other", "base"):
         sub = getattr(e, name, None)
         if isinstance(sub, Expr):
-            yield from walk(sub)
+            yield from walk(sub, inner)
 
 
 def dump_expr(e: Expr | None) -> str:

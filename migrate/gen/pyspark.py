@@ -28,6 +28,7 @@ PLAIN_CALLS = {
     "utf8_length": ("F.octet_length({0})", None),
     "length": ("java_length({0})", "java_length"),
     "chars": ("java_chars({0})", "java_chars"),
+    "or_default": ("F.coalesce({0}, {1})", None),  # a helper's value, or what its catch returns
     "greatest": ("F.greatest({0}, {1})", None),
     "least": ("F.least({0}, {1})", None),
     "index_of": ("java_index_of({0}, {1})", "java_index_of"),

@@ -17,7 +17,8 @@ from typing import Any
 from javalang import tree as T
 
 from migrate.java.literals import number_value, string_value
-from migrate.plan import INTEGRAL, NO_SPAN, NUMERIC, Arith, BoolOp, Call, Cast, Col, Compare, Cond, Expr, Lit, SideTable, Span
+from migrate.plan import (INTEGRAL, NO_SPAN, NUMERIC, Arith, BoolOp, Call, Cast, Col, Compare, Cond, Expr, Lit,
+                          SideTable, Span, walk)
 
 
 class Unsupported(Exception):
@@ -732,8 +733,6 @@ def _reference_equality(node: T.BinaryOperation, l: Expr, r: Expr, scope: Scope)
         return isinstance(e, Lit) and e.jtype == "String" and e.value is not None
 
     def cut(e: Expr, depth: int = 0) -> bool:  # made by substring/split/trim, which may return the interned ""
-        from migrate.plan import walk
-
         return depth < 20 and any(
             isinstance(x, Call) and x.op in ("substring", "split", "split_limit", "trim", "strip")
             or isinstance(x, Col) and x.name in scope.defs and cut(scope.defs[x.name], depth + 1) for x in walk(e))
@@ -948,9 +947,44 @@ def _body_value(stmts: list, scope: Scope, decl) -> Expr:
             if t is None:
                 raise Unsupported(st, f"helper {decl.name}() returns different types on its branches")
             return Cond(t, c, _widen(then, t), _widen(other, t))
+        if isinstance(st, T.TryStatement):
+            return _try_value(st, scope, decl)
         raise Unsupported(st, f"helper {decl.name}() does more than compute a value (pure helpers are inlined)",
                           "inline it by hand, or keep it as a Python function over Columns")
     raise Unsupported(decl, f"helper {decl.name}() can end without returning a value")
+
+
+def _try_value(st: T.TryStatement, scope: Scope, decl) -> Expr:
+    """`try { ...; return v; } catch (E e) { [logging] return d; }` in a helper: v where nothing in
+    the try block threw one of the caught exceptions, else d (the throwing operations become NULL
+    where they would throw, exactly as in a catch-and-skip block)."""
+    from migrate.lower.logging import is_logging
+
+    if st.finally_block or st.resources:
+        raise Unsupported(st, f"helper {decl.name}(): try with finally or resources")
+    kinds: set[str] = set()
+    default = None
+    for c in st.catches or []:
+        kinds.update(n.split(".")[-1] for n in c.parameter.types)
+        body = [x for x in c.block or [] if is_logging(x, {c.parameter.name}) is None]
+        if len(body) != 1 or not isinstance(body[0], T.ReturnStatement) or body[0].expression is None:
+            raise Unsupported(c, f"helper {decl.name}(): a catch block that does more than return a value")
+        d = lift(body[0].expression, scope)
+        if default is not None and d != default:
+            raise Unsupported(c, f"helper {decl.name}(): catch blocks that return different values")
+        default = d
+    if default is None:
+        raise Unsupported(st, f"helper {decl.name}(): try without a catch")
+    inner = replace(scope, env=dict(scope.env), caught=scope.caught | frozenset(kinds))
+    v = _body_value(list(st.block or []), inner, decl)
+    if not any(isinstance(x, Call) and x.on_error == "null" for x in walk(v)):
+        return v  # nothing in it can throw what is caught
+    t = v.jtype if v.jtype == default.jtype else promote(v.jtype, default.jtype) \
+        if {v.jtype, default.jtype} <= NUMERIC else None
+    if t is None:
+        raise Unsupported(st, f"helper {decl.name}() returns a {v.jtype} or, when it catches, a {default.jtype}")
+    return Call(t, "or_default", (_widen(v, t), _widen(default, t)))
+
 
 
 def _block_of(st) -> list:

@@ -73,7 +73,9 @@ def _not(a: Expr) -> Expr:
 
 def _has_null_on_error(e) -> list[Expr]:
     """Sub-expressions that become NULL where Java would have thrown (inside catch-and-skip)."""
-    return [x for x in walk(e) if isinstance(x, Call) and x.on_error == "null"]
+    # an `or_default` gives its own value where its first argument is NULL (a helper's catch)
+    inner = lambda x: (x.args[1],) if isinstance(x, Call) and x.op == "or_default" else None  # noqa: E731
+    return [x for x in walk(e, inner) if isinstance(x, Call) and x.on_error == "null"]
 
 
 def _conjuncts(e: Expr | None) -> list[Expr]:

@@ -241,3 +241,19 @@ def test_constructor_overloads_are_picked_by_argument_type(tmp_path):
     assert not _reasons(job), _reasons(job)
     dump = dump_plan(job.plan)
     assert "concat('#'" in dump, dump  # the (int, int) constructor for the third write
+
+
+def test_a_helper_that_returns_a_default_when_parsing_fails(tmp_path):
+    scan = scan_text(tmp_path, {"Main.java": job_source("""
+      context.write(new Text("n"), new IntWritable(toInt(value.toString())));""",
+        fields="""static int toInt(String s) {
+      try {
+        return Integer.parseInt(s.trim());
+      } catch (NumberFormatException e) {
+        e.printStackTrace();
+        return -1;
+      }
+    }""", reducer_class=None, extra_driver="job.setNumReduceTasks(0);")})
+    (job,) = scan.jobs
+    assert not _reasons(job), _reasons(job)
+    assert "or_default" in dump_plan(job.plan)

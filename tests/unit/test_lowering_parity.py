@@ -42,6 +42,17 @@ CASES = {
         e.printStackTrace();
         System.err.println("skipped: " + e.getMessage());
       }""", "private String[] parts;"),
+    "helper_with_a_default": ("""
+      String first = value.toString().split(" ")[0];
+      context.write(new Text(first.isEmpty() ? "empty" : "n"), new IntWritable(toInt(first)));""", """
+    static int toInt(String s) {
+      try {
+        return Integer.parseInt(s) * 10;
+      } catch (NumberFormatException e) {
+        e.printStackTrace();
+        return -1;
+      }
+    }"""),
     "this_var_and_locale": ("""
       var line = value.toString();
       this.word.set(line.trim().toUpperCase(java.util.Locale.ROOT));
