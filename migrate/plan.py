@@ -443,6 +443,7 @@ class Source:
     origin: Span = NO_SPAN
     kv_separator: str = "\t"  # KeyValueTextInputFormat: the line is split at its first occurrence
     upstream: int | None = None  # a chained job: reads the lines of Plan.upstream[i] (params is empty)
+    offsets: bool = False  # the mapper reads TextInputFormat's key: each line's byte offset in its file
 
 
 @dataclass(frozen=True)

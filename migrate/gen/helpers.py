@@ -139,6 +139,32 @@ def java_length(s: Column) -> Column:
     return (F.octet_length(F.encode(s, "UTF-16BE")) / 2).cast("int")
 ''')
 
+_h("text_lines_with_offsets", '''
+def text_lines_with_offsets(spark, paths, *, file_name: bool = False) -> DataFrame:
+    """TextInputFormat's records with their keys: `byte_offset` = the byte offset of the line in its file,
+    `value` = the line. As Hadoop's LineRecordReader: a line ends at LF, CR or CRLF, an empty file
+    has no records, a UTF-8 byte order mark is left out of the first line (its bytes still count).
+    Each file is read whole (one row per file), so a file must fit in a task's memory; compressed
+    files are refused (Hadoop counts offsets in the decompressed stream)."""
+    files = spark.read.format("binaryFile").load(paths)
+    compressed = F.col("path").rlike(r"\\.(gz|bz2|deflate|lz4|snappy|zst)$")
+    latin = F.decode(F.col("content"), "ISO-8859-1")  # one char per byte: char positions are byte offsets
+    chunks = F.when(~compressed, F.regexp_extract_all(latin, F.lit(r"[^\\r\\n]*(?:\\r\\n|\\r|\\n)|[^\\r\\n]+\\z"), 0)) \\
+        .otherwise(F.raise_error(F.lit("byte offsets of a compressed file are not read: decompress it first")))
+    rows = files.select("path", F.posexplode(chunks).alias("_pos", "_chunk"))
+    before = Window.partitionBy("path").orderBy("_pos").rowsBetween(Window.unboundedPreceding, -1)
+    line = F.regexp_replace("_chunk", r"(?:\\r\\n|\\r|\\n)\\z", "")
+    line = F.when(F.col("_pos") == 0, F.regexp_replace(line, "^\\u00ef\\u00bb\\u00bf", "")).otherwise(line)
+    out = rows.select(
+        "path",
+        F.coalesce(F.sum(F.length("_chunk")).over(before), F.lit(0)).cast("long").alias("byte_offset"),
+        F.encode(line, "ISO-8859-1").cast("string").alias("value"),  # the line's own bytes, as Text holds them
+    )
+    if file_name:
+        out = out.withColumn("input_file_name", F.url_decode(F.element_at(F.split("path", "/"), -1)))
+    return out.drop("path")
+''')
+
 _h("java_abs", '''
 def java_abs(c: Column, minimum: int) -> Column:
     """Math.abs: the type's MIN_VALUE stays negative in Java; Spark's abs raises an overflow."""

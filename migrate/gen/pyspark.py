@@ -453,13 +453,21 @@ def _read_code(src: Source, var: str, x: ExprWriter, parts: ScriptParts) -> list
         out.append(f"pair = F.split(F.col(\"value\"), {regex!r}, 2)")
         out.append(f"{var} = {read}.select(pair[0].alias(\"key\"), "
                    f"F.coalesce(F.try_element_at(pair, F.lit(2)), F.lit(\"\")).alias(\"value\"))")
+    elif src.offsets:
+        x.helpers.add("text_lines_with_offsets")
+        parts.uses_window = True
+        items = read[len("spark.read.text("):-1] if read.startswith("spark.read.text(") else read
+        out.append("# TextInputFormat's records with their keys: `byte_offset` = the line's byte offset in its file")
+        out.append(f"{var} = text_lines_with_offsets(spark, {items}, file_name={src.file_name})")
     else:
         out.append("# TextInputFormat: one row per line, column `value` (LF, CRLF and CR end a line)")
         out.append(f"{var} = {read}")
-    if src.file_name:
+    if src.file_name and not src.offsets:
         out.append("# the mapper reads its input split's file name: Spark's file metadata holds it")
         out.append(f'{var} = {var}.withColumn("input_file_name", F.col("_metadata.file_name"))')
-    if src.skip_first_line:
+    if src.skip_first_line and src.offsets:
+        out.append(f'{var} = {var}.where(F.col("byte_offset") != 0)  # the mapper skipped byte offset 0 of each file')
+    elif src.skip_first_line:
         x.helpers.add("drop_first_line_per_file")
         parts.uses_window = True
         out.append(f"{var} = drop_first_line_per_file({var})  # the mapper skipped byte offset 0 of each file")

@@ -3,12 +3,13 @@
 Recognises: TokenCounterMapper / TokenCountMapper, InverseMapper, RegexMapper, identity
 Mapper / IdentityMapper, IntSumReducer, LongSumReducer, identity Reducer / IdentityReducer.
 Produces: the same plan steps a lifted body would. Caveats: the identity and inverse
-mappers read the input key, which on TextInputFormat is the byte offset: hand work.
+mappers read the input key, which on TextInputFormat is the byte offset (Source.offsets).
 """
 from __future__ import annotations
 
 from migrate.java.hadoop_api import MAPRED, MAPREDUCE
 from migrate.plan import Agg, AggRef, Call, Col, Emit, Explode, Group, Identity, Lit, Project, Span, Step
+from migrate.lift.exprs import BYTE_OFFSET
 
 TOKEN_MAPPERS = {f"{MAPREDUCE}.lib.map.TokenCounterMapper", f"{MAPRED}.lib.TokenCountMapper"}
 INVERSE_MAPPERS = {f"{MAPREDUCE}.lib.map.InverseMapper", f"{MAPRED}.lib.InverseMapper"}
@@ -39,10 +40,12 @@ def library_mapper(fqcn: str | None, input_fmt: str, conf: dict[str, str]) -> tu
         return [Explode(LIB, f"every match of {conf[pattern_key]!r}", "match", matches),
                 Project(LIB, "emit (match, 1L)", (Emit(LIB, "write(match, 1L)", Col("String", "match"), Lit("long", 1)),))], ""
     if fqcn in INVERSE_MAPPERS or fqcn in IDENTITY_MAPPERS:
-        if input_fmt != "keyvalue":
-            return None, ("the mapper passes on the input key, which for TextInputFormat is the line's byte offset; "
-                          "Spark's text source has no per-line offset")
-        k, v = Col("String", "key"), Col("String", "value")
+        if input_fmt == "other":
+            return None, ("the mapper passes on the input key, which is what the input format (not converted) "
+                          "reads; convert the input first")
+        # TextInputFormat's key is the line's byte offset (Source.offsets reads it)
+        k = Col("String", "key") if input_fmt == "keyvalue" else Col("long", BYTE_OFFSET)
+        v = Col("String", "value")
         pair = (v, k) if fqcn in INVERSE_MAPPERS else (k, v)
         return [Project(LIB, "emit the pair unchanged" if pair[0] is k else "emit (value, key)",
                         (Emit(LIB, "write", pair[0], pair[1]),))], ""

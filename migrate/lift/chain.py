@@ -63,7 +63,7 @@ def why_not_chained(group: list[JobResult]) -> str | None:
         src = job.plan.source
         if job.plan.branches or len(job.spec.inputs) != 1 or not _same_path(job.spec.inputs[0], prev.spec.output):
             return f"job {k + 1} does not read exactly the folder job {k} writes"
-        if src.file_name or src.skip_first_line:
+        if src.file_name or src.skip_first_line or src.offsets:
             return f"job {k + 1} reads its input's file names or byte offsets, which only files have"
         if prev.plan.sink.compression:
             return f"job {k} compresses the folder job {k + 1} reads"

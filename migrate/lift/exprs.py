@@ -219,6 +219,7 @@ def _lift(node, scope: Scope) -> Expr:
 
 
 INPUT_FILE_NAME = "input_file_name"
+BYTE_OFFSET = "byte_offset"  # TextInputFormat's key: the line's byte offset in its file (Source.offsets)
 
 
 def _is_input_split(node: T.Cast) -> bool:

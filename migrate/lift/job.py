@@ -151,7 +151,9 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
         steps, skip_first = _lift_mapper(mcls, fmt, hand, notes, index, spec.conf, combining, tables,
                                          findings=findings)
     elif mapper_fq in KNOWN_CLASSES or mapper_fq in IDENTITY_MAPPERS:
-        lib_steps, why = library_mapper(mapper_fq, fmt, spec.conf)
+        known = not spec.input_format or spec.input_format.rsplit(".", 1)[-1] in ("TextInputFormat", "NLineInputFormat",
+                                                                                 "KeyValueTextInputFormat")
+        lib_steps, why = library_mapper(mapper_fq, fmt if known else "other", spec.conf)
         if lib_steps is None:
             add("map-logic", spec.origin, why, "read the input with the key you need and select it by hand", "P2")
         else:
@@ -290,7 +292,8 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
                 partition=partition if spec.reduces > 1 and not isinstance(reduce, Identity) else None,
                 sort_terms=sort_terms, compression=compression)
     splits = tuple(ref.split_commas for ref in spec.inputs) or (False,)
-    source = Source(tuple(input_params), fmt, skip_first, splits, _reads_file_name(steps), spec.origin, kv_sep)
+    source = Source(tuple(input_params), fmt, skip_first, splits, _reads_file_name(steps), spec.origin, kv_sep,
+                    offsets=_reads_offsets(steps, fmt) and not branches)
     plan = Plan(spec.name, source, tuple(steps), reduce, sink, tuple(params), tuple(hand), tuple(dict.fromkeys(shapes)),
                 tuple(notes), tuple(findings), tuple(branches), tuple(tables))
     sloc = sum(c.sloc for c in {index.get(fq) for fq in classes.values()} if c is not None)
@@ -353,7 +356,8 @@ def _branches(spec: JobSpec, index: ClassIndex, params: list[str], kv_sep: str, 
         else:
             steps, skip_first = _lift_mapper(mcls, fmt, hand, notes, index, spec.conf, combining, tables,
                                              findings=findings)
-        source = Source((param,), fmt or "text", skip_first, (ref.split_commas,), _reads_file_name(steps), where, kv_sep)
+        source = Source((param,), fmt or "text", skip_first, (ref.split_commas,), _reads_file_name(steps), where, kv_sep,
+                        offsets=_reads_offsets(steps, fmt or "text"))
         out.append(Branch(source, tuple(steps), mapper_fq))
     return out
 
@@ -577,10 +581,22 @@ def _partition_of(spec: JobSpec, index: ClassIndex, key_t: str, reduce: Step) ->
 def _reads_file_name(steps: list[Step]) -> bool:
     """Does any step read the input split's file name (the column lift.exprs names for it)?"""
     from migrate.lift.exprs import INPUT_FILE_NAME
+
+    return _reads_column(steps, INPUT_FILE_NAME)
+
+
+def _reads_offsets(steps: list[Step], fmt: str) -> bool:
+    """Does the map side read TextInputFormat's key (the line's byte offset)?"""
+    from migrate.lift.exprs import BYTE_OFFSET
+
+    return fmt == "text" and _reads_column(steps, BYTE_OFFSET)
+
+
+def _reads_column(steps: list[Step], name: str) -> bool:
     from migrate.plan import Col as _Col
 
     def walk(x) -> bool:
-        if isinstance(x, _Col) and x.name == INPUT_FILE_NAME:
+        if isinstance(x, _Col) and x.name == name:
             return True
         if isinstance(x, (list, tuple)):
             return any(walk(i) for i in x)

@@ -17,7 +17,7 @@ from javalang import tree as T
 
 from migrate.java.index import ClassInfo, node_lines
 from migrate.lift.writables import is_struct, structs_of
-from migrate.lift.exprs import (CATCH_ALL, WRITABLE_OF, MaybeNull, Opaque, Scope, Tokenizer, Unsupported, Writable,
+from migrate.lift.exprs import (BYTE_OFFSET, CATCH_ALL, WRITABLE_OF, MaybeNull, Opaque, Scope, Tokenizer, Unsupported, Writable,
                                 lift, lookup_key, refined, widen, writable_creator, writable_set, write_argument)
 from migrate.lift import dates
 from migrate.lift.combining import combining_update, map_fields
@@ -135,8 +135,11 @@ class MapBodyLifter:
         if key_type not in ("offset", "null") and params:  # KeyValueTextInputFormat's key, or a chained mapper's
             env[params[0]] = Col(key_type, "key")
             self.columns.add("key")
+        elif params and key_type == "offset":  # TextInputFormat's key: the line's byte offset in its file
+            env[params[0]] = Col("long", BYTE_OFFSET)
         elif params:
-            env[params[0]] = Opaque("the byte offset of the line" if key_type == "offset" else "a NullWritable")
+            env[params[0]] = Opaque("a NullWritable")
+        self.key_is_offset = key_type == "offset"
         self.emit_target = params[2] if len(params) >= 3 else None
         for p in params[2:]:
             env[p] = Opaque("the task context")
@@ -528,7 +531,7 @@ class MapBodyLifter:
         left, right = c.operandl, c.operandr
         is_key = isinstance(left, T.MethodInvocation) and left.qualifier == self.key_param and left.member == "get"
         is_zero = isinstance(right, T.Literal) and right.value.rstrip("lL") == "0"
-        if not (is_key and is_zero and isinstance(self.scope.env.get(self.key_param), Opaque)):
+        if not (is_key and is_zero and self.key_is_offset):
             return False
         if self.steps or self.emit_list or self.dead is not None:
             raise Unsupported(s, "the first-line check is not the first thing map() does")

@@ -78,12 +78,23 @@ def test_same_package_classes_in_other_files_resolve(tmp_path):
 def test_chained_jobs_in_one_driver_become_one_pipeline(tmp_path):
     src = HEADER + """
 public class Two {
+  public static class M extends Mapper<LongWritable, Text, Text, IntWritable> {
+    protected void map(LongWritable k, Text v, Context c) throws IOException, InterruptedException {
+      c.write(v, new IntWritable(1));
+    }
+  }
   public static void main(String[] args) throws Exception {
     Job first = Job.getInstance(new Configuration(), "first");
+    first.setMapperClass(M.class);
+    first.setOutputKeyClass(Text.class);
+    first.setOutputValueClass(IntWritable.class);
     FileInputFormat.addInputPath(first, new Path(args[0]));
     FileOutputFormat.setOutputPath(first, new Path(args[1]));
     first.waitForCompletion(true);
     Job second = Job.getInstance(new Configuration(), "second");
+    second.setMapperClass(M.class);
+    second.setOutputKeyClass(Text.class);
+    second.setOutputValueClass(IntWritable.class);
     FileInputFormat.addInputPath(second, new Path(args[1]));
     FileOutputFormat.setOutputPath(second, new Path(args[2]));
     second.waitForCompletion(true);
@@ -97,6 +108,10 @@ public class Two {
     assert [(p.name, p.position) for p in job.plan.params] == [("input_path", 0), ("job_1_output", 1),
                                                               ("output_path", 2)]
     assert not any(h.category == "chained-jobs" for h in job.plan.hand_work)
+    # the identity mapper passes on TextInputFormat's byte offsets, which only files have: no chain
+    scan = scan_text(tmp_path, {"Two.java": src.replace("    second.setMapperClass(M.class);\n", "")})
+    assert [j.spec.name for j in scan.jobs] == ["first", "second"]
+    assert any("byte offsets" in h.reason for h in scan.jobs[1].plan.hand_work if h.category == "chained-jobs")
     # a folder computed at run time is not followed: one script per job, and the item says why
     scan = scan_text(tmp_path, {"Two.java": src.replace("new Path(args[1]));\n    first", "new Path(args[1] + \"_t\"));\n    first")})
     assert [j.spec.name for j in scan.jobs] == ["first", "second"]

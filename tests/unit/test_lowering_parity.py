@@ -146,3 +146,39 @@ def test_key_objects_by_overload_and_guarded_setters_agree_with_hadoop(tmp_path)
     (tmp_path / "runs.json").write_text(json.dumps({"runs": [{"driver": "Main", "args": ["data", "@out"]}]}))
     (check,), _ = verify(tmp_path / "out", load_runs(tmp_path / "runs.json"), timeout=180)
     assert check.verdict == "agrees", f"{check.detail}\n{check.log[-3000:]}"
+
+
+OFFSET_INPUT = "\ufeffalpha,1\r\nbeta,2\rgamma,3\n\nÄö,4\nlast,no newline"
+
+
+@pytest.mark.parametrize("body, reducer", [
+    ('      context.write(new Text(key.get() + "@" + value), new IntWritable(value.getLength()));', None),
+    ("      if (key.get() > 0) { context.write(new Text(value.toString()), new IntWritable((int) key.get())); }", "R"),
+], ids=["offset_in_the_key_map_only", "offset_as_a_value"])
+def test_byte_offsets_agree_with_hadoop(body, reducer, tmp_path):
+    """TextInputFormat's key (LineRecordReader): the byte offset of each line, over CRLF, CR and LF line
+    ends, an empty line, a UTF-8 byte order mark, two-byte characters and a last line without an end."""
+    from migrate.convert import write_outputs
+    from migrate.scan import scan_repo
+    from migrate.verify.runner import load_runs, verify
+
+    red = """
+  public static class R extends Reducer<Text, IntWritable, Text, IntWritable> {
+    protected void reduce(Text k, Iterable<IntWritable> vs, Context c) throws IOException, InterruptedException {
+      int s = 0;
+      for (IntWritable v : vs) { s += v.get(); }
+      c.write(k, new IntWritable(s));
+    }
+  }"""
+    source = job_source(body, reducer=red if reducer else "", reducer_class=reducer,
+                        extra_driver="" if reducer else "job.setNumReduceTasks(0);")
+    scan_text(tmp_path / "repo", {"Main.java": source})
+    written = write_outputs(scan_repo(tmp_path / "repo"), tmp_path / "out", "repo")
+    (job,) = written.report["jobs"]
+    assert job["status"] == "converted", job["hand_work"]
+    (tmp_path / "data").mkdir()
+    (tmp_path / "data" / "a.txt").write_bytes(OFFSET_INPUT.encode("utf-8"))
+    (tmp_path / "data" / "b.txt").write_bytes(b"one\ntwo\n")
+    (tmp_path / "runs.json").write_text(json.dumps({"runs": [{"driver": "Main", "args": ["data", "@out"]}]}))
+    (check,), _ = verify(tmp_path / "out", load_runs(tmp_path / "runs.json"), timeout=180)
+    assert check.verdict == "agrees", f"{check.detail}\n{check.log[-3000:]}"
