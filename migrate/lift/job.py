@@ -140,20 +140,22 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
     branches: list[Branch] = []
     tables: list[SideTable] = []  # side files the mappers load in setup() and look keys up in
     _chain_hand_work(spec, add)
+    # what the mapper's input key is: an input format not converted reads keys of its own
+    known = not spec.input_format or spec.input_format.rsplit(".", 1)[-1] in ("TextInputFormat", "NLineInputFormat",
+                                                                             "KeyValueTextInputFormat")
+    map_fmt = fmt if known else "other"
     if any(c.role == "map" for c in spec.chain):
-        steps, skip_first = _chained_maps(spec, index, fmt, hand, notes, add, combining, tables, structs, findings)
+        steps, skip_first = _chained_maps(spec, index, map_fmt, hand, notes, add, combining, tables, structs, findings)
         shapes.append(f"{sum(c.role == 'map' for c in spec.chain)} chained mappers")
     elif spec.branches:
         branches = _branches(spec, index, input_params[len(spec.inputs):], kv_sep, hand, notes, add, combining, tables,
                              findings)
         shapes.append(f"{len(branches)} inputs, one mapper each")
     elif mcls is not None and "mapper" in mcls.roles:
-        steps, skip_first = _lift_mapper(mcls, fmt, hand, notes, index, spec.conf, combining, tables,
+        steps, skip_first = _lift_mapper(mcls, map_fmt, hand, notes, index, spec.conf, combining, tables,
                                          findings=findings)
     elif mapper_fq in KNOWN_CLASSES or mapper_fq in IDENTITY_MAPPERS:
-        known = not spec.input_format or spec.input_format.rsplit(".", 1)[-1] in ("TextInputFormat", "NLineInputFormat",
-                                                                                 "KeyValueTextInputFormat")
-        lib_steps, why = library_mapper(mapper_fq, fmt if known else "other", spec.conf)
+        lib_steps, why = library_mapper(mapper_fq, map_fmt, spec.conf)
         if lib_steps is None:
             add("map-logic", spec.origin, why, "read the input with the key you need and select it by hand", "P2")
         else:
@@ -683,7 +685,7 @@ def _lift_mapper(mcls: ClassInfo, fmt: str, hand: list[HandWork], notes: list[st
                              owner.file.lines[line - 1].strip() if line else "", "P1", 1))
     unread = {f: Opaque(f"the side table filled in setup(), whose read was not lifted (line {side.problems[0][0]})")
               for f in side.filled - set(side.tables)} if side.problems else {}
-    key_t, val_t = in_types or ("String" if fmt == "keyvalue" else "offset", "String")
+    key_t, val_t = in_types or ({"keyvalue": "String", "other": "unknown"}.get(fmt, "offset"), "String")
     lifter = MapBodyLifter(owner, m, key_t, val_t, owner.api or "mapreduce", index, {**settings, **unread, **side.tables})
     res = lifter.run()
     tables.extend(t for t in res.tables if t not in tables)

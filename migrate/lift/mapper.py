@@ -132,7 +132,9 @@ class MapBodyLifter:
         self.key_param = params[0] if params else None
         if len(params) >= 2:  # a line (Text), or a chained mapper's input value
             env[params[1]] = Col(value_type, "value") if value_type != "null" else Opaque("a NullWritable")
-        if key_type not in ("offset", "null") and params:  # KeyValueTextInputFormat's key, or a chained mapper's
+        if key_type == "unknown" and params:
+            env[params[0]] = Opaque("the key that the input format (not converted) reads")
+        elif key_type not in ("offset", "null") and params:  # KeyValueTextInputFormat's key, or a chained mapper's
             env[params[0]] = Col(key_type, "key")
             self.columns.add("key")
         elif params and key_type == "offset":  # TextInputFormat's key: the line's byte offset in its file

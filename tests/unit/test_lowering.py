@@ -257,3 +257,13 @@ def test_a_helper_that_returns_a_default_when_parsing_fails(tmp_path):
     (job,) = scan.jobs
     assert not _reasons(job), _reasons(job)
     assert "or_default" in dump_plan(job.plan)
+
+
+def test_the_key_of_an_input_format_not_converted_is_not_a_byte_offset(tmp_path):
+    scan = scan_text(tmp_path, {"Main.java": job_source("""
+      context.write(new Text(key.toString()), new IntWritable(1));""", reducer_class=None,
+        extra_driver="job.setNumReduceTasks(0); job.setInputFormatClass(my.FileNameInputFormat.class);")})
+    (job,) = scan.jobs
+    reasons = _reasons(job)
+    assert any("input format (not converted)" in r for r in reasons), reasons
+    assert not job.plan.source.offsets
