@@ -38,6 +38,9 @@ from migrate.verify.compare import compare_folders, part_files  # noqa: E402
 from migrate.verify.runner import runnable  # noqa: E402
 
 RESULTS = HERE / "RESULTS.md"
+HISTORY = HERE / "history.json"  # one entry per full run that rewrote RESULTS.md: the before/after record
+AGREES = ("exact", "same rows", "within tolerance")
+HISTORY_KEYS = ("converted", "converted with parity", "trust violations", "crashes")
 TOLERANCE = 1e-9  # relative; only for jobs that sum floating-point numbers
 SPLITS = ("dev", "holdout")
 
@@ -172,6 +175,7 @@ def totals(outcomes: list[Outcome], manifest_jobs: int) -> dict:
         "parity: same rows": sum(o.parity == "same rows" for o in runs),
         "parity: within tolerance": sum(o.parity == "within tolerance" for o in runs),
         "parity: differs": sum(o.parity == "differs" for o in runs),
+        "converted with parity": sum(o.status == "converted" and o.parity in AGREES for o in outcomes),
         "trust violations": sum(o.trust_violation for o in outcomes),
         "crashes": sum(bool(o.crash) for o in outcomes),
     }
@@ -207,6 +211,7 @@ def write_results(by_split: dict[str, list[Outcome]], counts: dict[str, int], se
     ]
     for k in t["dev"]:
         lines.append(f"| {k} | " + " | ".join(str(t[s][k]) for s in SPLITS) + " |")
+    lines += _history(commit, t)
     lines += ["", "## The 20 most frequent hand-work reasons (dev split)", "",
               "| jobs | reason |", "|---:|---|"]
     lines += [f"| {n} | {_md(r)} |" for r, n in reasons_table(by_split["dev"])]
@@ -216,6 +221,23 @@ def write_results(by_split: dict[str, list[Outcome]], counts: dict[str, int], se
         lines.append(f"| {o.id} | {o.status} | {o.parity or '-'} | {_md(note[:200])} |")
     lines += ["", "The holdout split is shown only in totals: its jobs are not read while rules are written.", ""]
     RESULTS.write_text("\n".join(lines), encoding="utf-8")
+
+
+def _history(commit: str, t: dict) -> list[str]:
+    """Append this run to history.json (one entry per commit) and render the before/after table."""
+    runs = json.loads(HISTORY.read_text(encoding="utf-8")) if HISTORY.exists() else []
+    entry = {"commit": commit, "date": datetime.now(timezone.utc).date().isoformat(),
+             **{s: {k: t[s][k] for k in HISTORY_KEYS} for s in SPLITS}}
+    runs = [r for r in runs if r["commit"] != commit] + [entry]
+    HISTORY.write_text(json.dumps(runs, indent=1) + "\n", encoding="utf-8")
+    lines = ["", "## Before and after (every full run, history.json)", "",
+             "| commit | date | " + " | ".join(f"{s}: {k}" for s in SPLITS for k in HISTORY_KEYS[:2]) +
+             " | trust violations | crashes |", "|---|---|" + "---:|" * (2 * len(SPLITS) + 2)]
+    for r in runs:
+        cells = [str(r[s].get(k, "-")) for s in SPLITS for k in HISTORY_KEYS[:2]]
+        bad = [sum(r[s].get(k, 0) for s in SPLITS) for k in HISTORY_KEYS[2:]]
+        lines.append(f"| `{r['commit']}` | {r['date']} | " + " | ".join(cells) + f" | {bad[0]} | {bad[1]} |")
+    return lines
 
 
 def main(argv: list[str] | None = None) -> int:

@@ -221,6 +221,8 @@ class ExprWriter:
             self.helpers.add("java_strip")
             opts = {"strip": "", "strip_leading": ", trailing=False", "strip_trailing": ", leading=False"}[op]
             return f"java_strip({self(args[0])}{opts})"
+        if op == "isin":  # a constant collection's contains()
+            return f"{self(args[0])}.isin({', '.join(repr(a.value) for a in args[1:])})"
         if op in ("substring", "char_at"):
             self.helpers.add("java_substring")
             s_, begin = self(args[0]), self(args[1])

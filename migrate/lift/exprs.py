@@ -412,6 +412,10 @@ def _invocation(node: T.MethodInvocation, scope: Scope) -> Expr:
             raise Unsupported(node, f"Calendar.{m}() is not lifted")
         if isinstance(recv, SideTable):
             return _selectors(_table_call(recv, node, scope), node.selectors or [], scope, node)
+        from migrate.lift.collections import ConstCollection
+
+        if isinstance(recv, ConstCollection):
+            return _selectors(_collection_call(recv, node, scope), node.selectors or [], scope, node)
         if isinstance(recv, Tokenizer):
             if m == "nextToken" and recv.current is not None:
                 return _selectors(recv.current, node.selectors or [], scope, node)
@@ -446,6 +450,22 @@ class _tokenizers:
         for t, k in zip(self.toks, other):
             if t.taken != k:
                 t.taken = None
+
+
+def _collection_call(c, node: T.MethodInvocation, scope: Scope) -> Expr:
+    """A read of a constant collection (lift.collections): membership, size, emptiness."""
+    m, args = node.member, node.arguments or []
+    if m == "contains" and len(args) == 1:
+        e = lift(args[0], scope)
+        if e.jtype != c.jtype:
+            raise Unsupported(node, f"{c.name}.contains() of a {e.jtype} in a collection of {c.jtype}: equals() "
+                                    "across boxed types is false in Java", "compare values of one type")
+        return Call("boolean", "isin", (e, *(Lit(c.jtype, v) for v in dict.fromkeys(c.values))))
+    if m == "size" and not args:
+        return Lit("int", len(set(c.values)) if c.is_set else len(c.values))
+    if m == "isEmpty" and not args:
+        return Lit("boolean", not c.values)
+    raise Unsupported(node, f"{c.name}.{m}() of a constant collection is not lifted")
 
 
 def _token_cursor(tok: Tokenizer, node: T.MethodInvocation, scope: Scope) -> Expr:

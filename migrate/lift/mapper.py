@@ -695,7 +695,9 @@ def class_constants(cls: ClassInfo, index=None) -> dict[str, object]:
     env: dict[str, object] = {}
     outer = index.get(cls.outer) if index is not None and cls.outer else None
     if outer is not None:
-        env.update({k: v for k, v in class_constants(outer, index).items() if isinstance(v, Lit)})
+        from migrate.lift.collections import ConstCollection
+
+        env.update({k: v for k, v in class_constants(outer, index).items() if isinstance(v, (Lit, ConstCollection))})
     assigned = {n.expressionl.member for _, n in cls.node if isinstance(n, T.Assignment)
                 and isinstance(n.expressionl, T.MemberReference)}
     assigned |= {n.expressionl.selectors[0].member for _, n in cls.node if isinstance(n, T.Assignment)
@@ -704,10 +706,13 @@ def class_constants(cls: ClassInfo, index=None) -> dict[str, object]:
                  and {"++", "--"} & set((n.prefix_operators or []) + (n.postfix_operators or []))}
     assigned |= {n.selectors[0].member for _, n in cls.node if isinstance(n, T.This) and n.selectors
                  and {"++", "--"} & set((n.prefix_operators or []) + (n.postfix_operators or []))}
+    from migrate.lift.collections import constant_collections
+
+    env.update({k: v for k, v in constant_collections(cls).items() if k not in assigned})
     for f in cls.fields():
         tname = getattr(f.type, "name", "")
         for d in f.declarators:
-            if d.name in assigned:
+            if d.name in assigned or d.name in env:
                 continue
             init = d.initializer
             if tname in WRITABLE_OF and isinstance(init, T.ClassCreator):

@@ -267,3 +267,34 @@ def test_the_key_of_an_input_format_not_converted_is_not_a_byte_offset(tmp_path)
     reasons = _reasons(job)
     assert any("input format (not converted)" in r for r in reasons), reasons
     assert not job.plan.source.offsets
+
+
+STOP_WORDS = """private static final Set<String> STOP = new HashSet<>(Arrays.asList("a", "the", "of"));
+    private static final Set<String> MORE = new HashSet<>();
+    static { MORE.add("and"); Collections.addAll(MORE, "or", "nor"); }
+    private static final List<String> KEEP = Arrays.asList("x", "y", "x");"""
+
+
+def test_constant_sets_and_lists_become_membership_tests(tmp_path):
+    job = _job(tmp_path, """
+      for (String w : value.toString().split(" ")) {
+        if (STOP.contains(w) || MORE.contains(w)) continue;
+        context.write(new Text(w + (KEEP.contains(w) ? "!" : "") + KEEP.size()), new IntWritable(MORE.size()));
+      }""", fields=STOP_WORDS)
+    assert not _reasons(job), _reasons(job)
+    dump = dump_plan(job.plan)
+    assert "isin(" in dump and "'nor'" in dump, dump
+
+
+def test_a_collection_changed_in_map_is_not_a_constant(tmp_path):
+    job = _job(tmp_path, """
+      if (STOP.contains(value.toString())) { STOP.remove(value.toString()); }
+      context.write(new Text(value.toString()), new IntWritable(1));""", fields=STOP_WORDS.replace("final ", ""))
+    assert _reasons(job)
+
+
+def test_contains_of_another_type_is_declined(tmp_path):
+    job = _job(tmp_path, """
+      if (NUMS.contains(value.getLength())) { context.write(new Text(value.toString()), new IntWritable(1)); }""",
+               fields='private static final Set<Long> NUMS = new HashSet<>(Arrays.asList(1L, 2L));')
+    assert any("false in Java" in r for r in _reasons(job)), _reasons(job)

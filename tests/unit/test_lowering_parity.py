@@ -182,3 +182,29 @@ def test_byte_offsets_agree_with_hadoop(body, reducer, tmp_path):
     (tmp_path / "runs.json").write_text(json.dumps({"runs": [{"driver": "Main", "args": ["data", "@out"]}]}))
     (check,), _ = verify(tmp_path / "out", load_runs(tmp_path / "runs.json"), timeout=180)
     assert check.verdict == "agrees", f"{check.detail}\n{check.log[-3000:]}"
+
+
+def test_constant_collections_agree_with_hadoop(tmp_path):
+    from migrate.convert import write_outputs
+    from migrate.scan import scan_repo
+    from migrate.verify.runner import load_runs, verify
+
+    body = """
+      for (String w : value.toString().split(" ")) {
+        if (STOP.contains(w.toLowerCase()) || MORE.contains(w)) continue;
+        context.write(new Text(w + (KEEP.contains(w) ? "!" : "") + KEEP.size()), new IntWritable(MORE.size()));
+      }"""
+    fields = """private static final Set<String> STOP = new HashSet<>(Arrays.asList("ab", "q", ""));
+    private static final Set<String> MORE = new TreeSet<>();
+    static { MORE.add("7"); java.util.Collections.addAll(MORE, "zz,1", "7"); }
+    private static final List<String> KEEP = Arrays.asList("8", "9", "8");"""
+    scan_text(tmp_path / "repo", {"Main.java": job_source(body, fields=fields, reducer_class=None,
+                                                          extra_driver="job.setNumReduceTasks(0);")})
+    written = write_outputs(scan_repo(tmp_path / "repo"), tmp_path / "out", "repo")
+    (job,) = written.report["jobs"]
+    assert job["status"] == "converted", job["hand_work"]
+    (tmp_path / "data").mkdir()
+    (tmp_path / "data" / "lines.txt").write_text(INPUT, encoding="utf-8")
+    (tmp_path / "runs.json").write_text(json.dumps({"runs": [{"driver": "Main", "args": ["data", "@out"]}]}))
+    (check,), _ = verify(tmp_path / "out", load_runs(tmp_path / "runs.json"), timeout=180)
+    assert check.verdict == "agrees", f"{check.detail}\n{check.log[-3000:]}"
