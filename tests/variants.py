@@ -36,6 +36,19 @@ def _parse(text: str):
         return None
 
 
+def _on_tree(rewrite):
+    """An axis that edits the lines of a file it could parse (the rewrite reads the tree, edits `lines`)."""
+    def axis(text: str) -> str:
+        tree = _parse(text)
+        if tree is None:
+            return text
+        lines = text.split("\n")
+        rewrite(tree, lines)
+        return "\n".join(lines)
+    axis.__doc__ = rewrite.__doc__
+    return axis
+
+
 def _map_methods(tree):
     for _, c in tree.filter(T.ClassDeclaration):
         for m in c.methods:
@@ -61,12 +74,9 @@ def catch_logs(text: str) -> str:
     return re.sub(r"(?m)^([ \t]*)\}? ?catch \(([\w.| ]+?) (\w+)\) \{", add, text)
 
 
-def field_scratch(text: str) -> str:
+@_on_tree
+def field_scratch(tree, lines: list[str]) -> None:
     """A `String[]` local of map() vs the same array kept in a private field set first thing in map()."""
-    tree = _parse(text)
-    if tree is None:
-        return text
-    lines = text.split("\n")
     inserts: list[tuple[int, str]] = []
     for cls, m in _map_methods(tree):
         if m.name != "map":
@@ -86,7 +96,6 @@ def field_scratch(text: str) -> str:
     for at, decl in sorted(inserts, reverse=True):
         indent = re.match(r"\s*", lines[at + 1]).group(0) or "        "
         lines.insert(at + 1, indent + decl)
-    return "\n".join(lines)
 
 
 def _body_line(lines: list[str], cls) -> int:
@@ -97,12 +106,9 @@ def _body_line(lines: list[str], cls) -> int:
     return i
 
 
-def setup_fields(text: str) -> str:
+@_on_tree
+def setup_fields(tree, lines: list[str]) -> None:
     """A Writable field made at its declaration vs declared bare and made in setup()."""
-    tree = _parse(text)
-    if tree is None:
-        return text
-    lines = text.split("\n")
     edits = []
     for _, cls in tree.filter(T.ClassDeclaration):
         ext = cls.extends
@@ -129,7 +135,6 @@ def setup_fields(text: str) -> str:
         for i, g in moved:
             lines[i] = f"{g.group(1)}{g.group(2)}{g.group(3)} {g.group(4)};"
         lines[last + 1:last + 1] = body
-    return "\n".join(lines)
 
 
 def counting_loops(text: str) -> str:
@@ -174,12 +179,9 @@ def boxed_parse(text: str) -> str:
                   lambda m: m.group(1).split(".")[0] + ".valueOf(", text)
 
 
-def this_fields(text: str) -> str:
+@_on_tree
+def this_fields(tree, lines: list[str]) -> None:
     """A field named bare vs through `this.` in map()/reduce()."""
-    tree = _parse(text)
-    if tree is None:
-        return text
-    lines = text.split("\n")
     for cls, m in _map_methods(tree):
         names = {d.name for f in cls.fields if "static" not in f.modifiers for d in f.declarators}
         if not names or not m.body:
@@ -192,7 +194,6 @@ def this_fields(text: str) -> str:
             for n in names:
                 lines[i] = re.sub(r"(?<![\w.\"])" + n + r"\.(set|get|put|add|clear)\(", f"this.{n}.\\1(", lines[i])
                 lines[i] = re.sub(r"(write|collect)\(" + n + r",", f"\\1(this.{n},", lines[i])
-    return "\n".join(lines)
 
 
 def _method_end(lines: list[str], start: int) -> int:
@@ -206,17 +207,14 @@ def _method_end(lines: list[str], start: int) -> int:
 
 
 def increments(text: str) -> str:
-    """`n += 1;` vs `n++;` (both ways)."""
+    """`n++;` vs `n += 1;`."""
     text = re.sub(r"(?m)^(\s*)(\w+)\+\+;", r"\1\2 += 1;", text)
     return text
 
 
-def final_locals(text: str) -> str:
+@_on_tree
+def final_locals(tree, lines: list[str]) -> None:
     """Locals of map()/reduce() declared plain vs `final` where they are never reassigned."""
-    tree = _parse(text)
-    if tree is None:
-        return text
-    lines = text.split("\n")
     for _, m in _map_methods(tree):
         end = _method_end(lines, m.position.line)
         body = "\n".join(lines[m.position.line:end])
@@ -229,15 +227,11 @@ def final_locals(text: str) -> str:
                 continue
             i = s.position.line - 1
             lines[i] = re.sub(r"^(\s*)(?=[\w<>\[\], ]+\s" + name + r"\s*=)", r"\1final ", lines[i], count=1)
-    return "\n".join(lines)
 
 
-def var_locals(text: str) -> str:
+@_on_tree
+def var_locals(tree, lines: list[str]) -> None:
     """`String s = ...` / `String[] f = ...` locals vs `var` (Java 10+; the type is the initializer's)."""
-    tree = _parse(text)
-    if tree is None:
-        return text
-    lines = text.split("\n")
     for _, m in _map_methods(tree):
         for _, s in m.filter(T.LocalVariableDeclaration):
             if not s.position or len(s.declarators) != 1 or s.declarators[0].initializer is None:
@@ -249,7 +243,6 @@ def var_locals(text: str) -> str:
                 continue
             i = s.position.line - 1
             lines[i] = re.sub(r"\bString\s*(\[\])?\s+(" + s.declarators[0].name + r")\s*=", r"var \2 =", lines[i], count=1)
-    return "\n".join(lines)
 
 
 def new_per_write(text: str) -> str:

@@ -405,9 +405,9 @@ class _DriverReader:
             if m in _CONF_SETTERS and len(args) >= 2:
                 k, v = self._value(args[0], None), self._value(args[1], None)
                 if spec is not None and k[0] == "str":
-                    spec.conf[k[1]] = str(v[1]) if v[0] in ("str", "int", "lit") else f"<{v[1]}>"
+                    spec.conf[k[1]] = _conf_text(v)
                 elif spec is None and k[0] == "str":
-                    self.pending_conf[k[1]] = str(v[1]) if v[0] in ("str", "int", "lit") else f"<{v[1]}>"
+                    self.pending_conf[k[1]] = _conf_text(v)
             return ("unknown", m)
         if m not in _HARMLESS and recv[0] not in ("unknown", "obj", "static", "self"):
             spec = self._only_spec()
@@ -471,7 +471,7 @@ class _DriverReader:
         elif m in _CONF_SETTERS and len(args) >= 2:
             k, v = self._value(args[0], None), self._value(args[1], None)
             if k[0] == "str":
-                spec.conf[k[1]] = str(v[1]) if v[0] in ("str", "int", "lit") else f"<{v[1]}>"
+                spec.conf[k[1]] = _conf_text(v)
         elif m == "addCacheFile" and len(args) == 1:
             spec.cache_files.append(self._cache_file(args[0], line))
         elif m in ("addCacheArchive", "addFileToClassPath"):
@@ -605,3 +605,10 @@ def _category_of(name: str) -> str:
 
 def _line(node) -> int:
     return node_lines(node)[0]
+
+
+def _conf_text(v: tuple) -> str:
+    """A `conf.set` value as the job reads it, or `<what it is>` when the driver computes it at run time."""
+    if v[0] in ("str", "int", "lit"):
+        return str(v[1])
+    return f"<args[{v[1]}]>" if v[0] == "arg" else f"<{v[1]}>"

@@ -34,6 +34,10 @@ def library_mapper(fqcn: str | None, input_fmt: str, conf: dict[str, str]) -> tu
     if fqcn in REGEX_MAPPERS:
         pattern_key, group_key = REGEX_MAPPERS[fqcn]
         if pattern_key not in conf or conf[pattern_key].startswith("<"):
+            source = conf.get(pattern_key, "")
+            if source.startswith("<args["):  # the pattern is a command-line argument of the driver
+                return None, (f"RegexMapper's pattern `{pattern_key}` is the driver's {source[1:-1]}, an argument "
+                              "given at run time; the script does not take it yet")
             return None, f"RegexMapper needs `{pattern_key}`, which the driver does not set to a constant"
         group = int(conf.get(group_key, "0"))
         matches = Call("String[]", "regex_matches", (value, Lit("String", conf[pattern_key]), Lit("int", group)))

@@ -298,3 +298,13 @@ def test_contains_of_another_type_is_declined(tmp_path):
       if (NUMS.contains(value.getLength())) { context.write(new Text(value.toString()), new IntWritable(1)); }""",
                fields='private static final Set<Long> NUMS = new HashSet<>(Arrays.asList(1L, 2L));')
     assert any("false in Java" in r for r in _reasons(job)), _reasons(job)
+
+
+def test_a_regex_pattern_from_an_argument_is_named_as_such(tmp_path):
+    src = job_source("", reducer_class=None).replace(
+        "job.setMapperClass(M.class);", "job.setMapperClass(org.apache.hadoop.mapreduce.lib.map.RegexMapper.class);")
+    src = src.replace('Job job = Job.getInstance(new Configuration(), "test job");',
+                      'Configuration conf = new Configuration();\n    conf.set("mapreduce.mapper.regex", args[2]);\n'
+                      '    Job job = Job.getInstance(conf, "test job");')
+    (job,) = scan_text(tmp_path, {"Main.java": src}).jobs
+    assert any("the driver's args[2]" in r for r in _reasons(job)), _reasons(job)

@@ -61,12 +61,26 @@ CASES = {
 }
 
 
-@pytest.mark.parametrize("case", sorted(CASES))
-def test_lowered_job_agrees_with_hadoop(case, tmp_path):
+def _agrees_with_hadoop(tmp_path, source: str, data: dict[str, bytes]) -> None:
+    """Convert the one-job repository, then `mrlift verify` it: Hadoop and the script on `data`."""
     from migrate.convert import write_outputs
     from migrate.scan import scan_repo
     from migrate.verify.runner import load_runs, verify
 
+    scan_text(tmp_path / "repo", {"Main.java": source})
+    written = write_outputs(scan_repo(tmp_path / "repo"), tmp_path / "out", "repo")
+    (job,) = written.report["jobs"]
+    assert job["status"] == "converted", job["hand_work"]
+    (tmp_path / "data").mkdir()
+    for name, content in data.items():
+        (tmp_path / "data" / name).write_bytes(content)
+    (tmp_path / "runs.json").write_text(json.dumps({"runs": [{"driver": "Main", "args": ["data", "@out"]}]}))
+    (check,), _ = verify(tmp_path / "out", load_runs(tmp_path / "runs.json"), timeout=180)
+    assert check.verdict == "agrees", f"{check.detail}\n{check.log[-3000:]}"
+
+
+@pytest.mark.parametrize("case", sorted(CASES))
+def test_lowered_job_agrees_with_hadoop(case, tmp_path):
     body, fields, *given = CASES[case]
     reducer = """
   public static class R extends Reducer<Text, IntWritable, Text, IntWritable> {
@@ -76,15 +90,8 @@ def test_lowered_job_agrees_with_hadoop(case, tmp_path):
       c.write(k, new IntWritable(s));
     }
   }"""
-    scan_text(tmp_path / "repo", {"Main.java": job_source(body, reducer=reducer, fields=fields)})
-    written = write_outputs(scan_repo(tmp_path / "repo"), tmp_path / "out", "repo")
-    (job,) = written.report["jobs"]
-    assert job["status"] == "converted", job["hand_work"]
-    (tmp_path / "data").mkdir()
-    (tmp_path / "data" / "lines.txt").write_text(given[0] if given else INPUT, encoding="utf-8")
-    (tmp_path / "runs.json").write_text(json.dumps({"runs": [{"driver": "Main", "args": ["data", "@out"]}]}))
-    (check,), _ = verify(tmp_path / "out", load_runs(tmp_path / "runs.json"), timeout=180)
-    assert check.verdict == "agrees", f"{check.detail}\n{check.log[-3000:]}"
+    _agrees_with_hadoop(tmp_path, job_source(body, reducer=reducer, fields=fields),
+                        {"lines.txt": (given[0] if given else INPUT).encode("utf-8")})
 
 
 def test_chars_are_utf16_units_and_fail_loudly_beyond_the_bmp(spark):
@@ -123,10 +130,6 @@ KEY = """
 
 
 def test_key_objects_by_overload_and_guarded_setters_agree_with_hadoop(tmp_path):
-    from migrate.convert import write_outputs
-    from migrate.scan import scan_repo
-    from migrate.verify.runner import load_runs, verify
-
     body = """
       String[] f = value.toString().split(" ");
       context.write(new Pair(f[0], "s"), new IntWritable(1));
@@ -137,15 +140,8 @@ def test_key_objects_by_overload_and_guarded_setters_agree_with_hadoop(tmp_path)
       }"""
     source = job_source(body, fields="private final Pair pair = new Pair();", map_out=("Pair", "IntWritable"),
                         out=("Pair", "IntWritable"), reducer_class=None, extra_driver="job.setNumReduceTasks(0);")
-    scan_text(tmp_path / "repo", {"Main.java": source.replace("public class Main {", "public class Main {\n" + KEY)})
-    written = write_outputs(scan_repo(tmp_path / "repo"), tmp_path / "out", "repo")
-    (job,) = written.report["jobs"]
-    assert job["status"] == "converted", job["hand_work"]
-    (tmp_path / "data").mkdir()
-    (tmp_path / "data" / "lines.txt").write_text(INPUT, encoding="utf-8")
-    (tmp_path / "runs.json").write_text(json.dumps({"runs": [{"driver": "Main", "args": ["data", "@out"]}]}))
-    (check,), _ = verify(tmp_path / "out", load_runs(tmp_path / "runs.json"), timeout=180)
-    assert check.verdict == "agrees", f"{check.detail}\n{check.log[-3000:]}"
+    _agrees_with_hadoop(tmp_path, source.replace("public class Main {", "public class Main {\n" + KEY),
+                        {"lines.txt": INPUT.encode("utf-8")})
 
 
 OFFSET_INPUT = "\ufeffalpha,1\r\nbeta,2\rgamma,3\n\nÄö,4\nlast,no newline"
@@ -158,10 +154,6 @@ OFFSET_INPUT = "\ufeffalpha,1\r\nbeta,2\rgamma,3\n\nÄö,4\nlast,no newline"
 def test_byte_offsets_agree_with_hadoop(body, reducer, tmp_path):
     """TextInputFormat's key (LineRecordReader): the byte offset of each line, over CRLF, CR and LF line
     ends, an empty line, a UTF-8 byte order mark, two-byte characters and a last line without an end."""
-    from migrate.convert import write_outputs
-    from migrate.scan import scan_repo
-    from migrate.verify.runner import load_runs, verify
-
     red = """
   public static class R extends Reducer<Text, IntWritable, Text, IntWritable> {
     protected void reduce(Text k, Iterable<IntWritable> vs, Context c) throws IOException, InterruptedException {
@@ -172,23 +164,10 @@ def test_byte_offsets_agree_with_hadoop(body, reducer, tmp_path):
   }"""
     source = job_source(body, reducer=red if reducer else "", reducer_class=reducer,
                         extra_driver="" if reducer else "job.setNumReduceTasks(0);")
-    scan_text(tmp_path / "repo", {"Main.java": source})
-    written = write_outputs(scan_repo(tmp_path / "repo"), tmp_path / "out", "repo")
-    (job,) = written.report["jobs"]
-    assert job["status"] == "converted", job["hand_work"]
-    (tmp_path / "data").mkdir()
-    (tmp_path / "data" / "a.txt").write_bytes(OFFSET_INPUT.encode("utf-8"))
-    (tmp_path / "data" / "b.txt").write_bytes(b"one\ntwo\n")
-    (tmp_path / "runs.json").write_text(json.dumps({"runs": [{"driver": "Main", "args": ["data", "@out"]}]}))
-    (check,), _ = verify(tmp_path / "out", load_runs(tmp_path / "runs.json"), timeout=180)
-    assert check.verdict == "agrees", f"{check.detail}\n{check.log[-3000:]}"
+    _agrees_with_hadoop(tmp_path, source, {"a.txt": OFFSET_INPUT.encode("utf-8"), "b.txt": b"one\ntwo\n"})
 
 
 def test_constant_collections_agree_with_hadoop(tmp_path):
-    from migrate.convert import write_outputs
-    from migrate.scan import scan_repo
-    from migrate.verify.runner import load_runs, verify
-
     body = """
       for (String w : value.toString().split(" ")) {
         if (STOP.contains(w.toLowerCase()) || MORE.contains(w)) continue;
@@ -198,13 +177,6 @@ def test_constant_collections_agree_with_hadoop(tmp_path):
     private static final Set<String> MORE = new TreeSet<>();
     static { MORE.add("7"); java.util.Collections.addAll(MORE, "zz,1", "7"); }
     private static final List<String> KEEP = Arrays.asList("8", "9", "8");"""
-    scan_text(tmp_path / "repo", {"Main.java": job_source(body, fields=fields, reducer_class=None,
-                                                          extra_driver="job.setNumReduceTasks(0);")})
-    written = write_outputs(scan_repo(tmp_path / "repo"), tmp_path / "out", "repo")
-    (job,) = written.report["jobs"]
-    assert job["status"] == "converted", job["hand_work"]
-    (tmp_path / "data").mkdir()
-    (tmp_path / "data" / "lines.txt").write_text(INPUT, encoding="utf-8")
-    (tmp_path / "runs.json").write_text(json.dumps({"runs": [{"driver": "Main", "args": ["data", "@out"]}]}))
-    (check,), _ = verify(tmp_path / "out", load_runs(tmp_path / "runs.json"), timeout=180)
-    assert check.verdict == "agrees", f"{check.detail}\n{check.log[-3000:]}"
+    _agrees_with_hadoop(tmp_path, job_source(body, fields=fields, reducer_class=None,
+                                             extra_driver="job.setNumReduceTasks(0);"),
+                        {"lines.txt": INPUT.encode("utf-8")})
