@@ -119,6 +119,7 @@ class MapBodyLifter:
         self.skip_first_line = False
         self.columns = {"value"}
         self.loop_locals: list[set[str]] = []
+        self.loop_writes: list[int] = []  # per enclosing loop: how many writes came before its body
         self.if_nodes: list = []  # enclosing if statements (for comments on the filters they become)
         self.field_names = {d.name for f in cls.fields() for d in f.declarators}
         self.map_fields = map_fields(cls)
@@ -409,6 +410,12 @@ class MapBodyLifter:
         info = self.scope.structs[w.kind]
         new = info.setter(w.content, call.member, [lift(a, self.scope) for a in call.arguments], call, self.scope)
         g = self._eff(guard)
+        q = call.qualifier
+        if self.loop_depth and q not in self.loop_locals[-1] and (g is not None or len(self.emit_list) > self.loop_writes[-1]):
+            # the object outlives one iteration: what a later iteration writes depends on this one
+            raise Unsupported(s, f"`{q}` is set inside a loop {'under a condition' if g is not None else 'after a write'}: "
+                                 "the next iteration writes what this one left in it",
+                              "set every field before each write, or make a new object in the loop")
         assigned = info.assigned_by(call.member, len(call.arguments))
         if g is not None:  # where g does not hold, the object keeps what it had (a field: the last record's)
             new = StructNew(new.jtype, tuple((f, v if v == old else Call(v.jtype, "if_else", (g, v, old)))
@@ -570,6 +577,7 @@ class MapBodyLifter:
         self.dead = None
         self.loop_depth += 1
         self.loop_locals.append(set())
+        self.loop_writes.append(len(self.emit_list))
         return col, (body.statements if isinstance(body, T.BlockStatement) else [body])
 
     def _loop_body(self, stmts) -> None:
@@ -581,6 +589,7 @@ class MapBodyLifter:
     def _end_loop(self, saved_dead) -> None:
         self.loop_depth -= 1
         self.loop_locals.pop()
+        self.loop_writes.pop()
         self.dead = saved_dead
         self.after_loop = True
 

@@ -308,3 +308,25 @@ def test_a_regex_pattern_from_an_argument_is_named_as_such(tmp_path):
                       '    Job job = Job.getInstance(conf, "test job");')
     (job,) = scan_text(tmp_path, {"Main.java": src}).jobs
     assert any("the driver's args[2]" in r for r in _reasons(job)), _reasons(job)
+
+
+def test_a_key_object_set_after_the_write_inside_a_loop_is_declined(tmp_path):
+    job = _pair_job(tmp_path, """
+      Pair p = new Pair();
+      p.setA("first");
+      p.setB("-");
+      for (String w : value.toString().split(" ")) {
+        context.write(p, new IntWritable(1));
+        p.setA(w);
+      }""", fields="")
+    assert any("after a write" in r for r in _reasons(job)), _reasons(job)
+
+
+def test_a_key_object_set_before_each_write_inside_a_loop_converts(tmp_path):
+    job = _pair_job(tmp_path, """
+      for (String w : value.toString().split(" ")) {
+        pair.setA(w);
+        pair.setB(value.toString());
+        context.write(pair, new IntWritable(1));
+      }""")
+    assert not _reasons(job), _reasons(job)
