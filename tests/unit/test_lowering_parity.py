@@ -61,6 +61,16 @@ CASES = {
 }
 
 
+SUM_REDUCER = """
+  public static class R extends Reducer<Text, IntWritable, Text, IntWritable> {
+    protected void reduce(Text k, Iterable<IntWritable> vs, Context c) throws IOException, InterruptedException {
+      int s = 0;
+      for (IntWritable v : vs) { s += v.get(); }
+      c.write(k, new IntWritable(s));
+    }
+  }"""
+
+
 def _agrees_with_hadoop(tmp_path, source: str, data: dict[str, bytes]) -> None:
     """Convert the one-job repository, then `mrlift verify` it: Hadoop and the script on `data`."""
     from migrate.convert import write_outputs
@@ -82,15 +92,7 @@ def _agrees_with_hadoop(tmp_path, source: str, data: dict[str, bytes]) -> None:
 @pytest.mark.parametrize("case", sorted(CASES))
 def test_lowered_job_agrees_with_hadoop(case, tmp_path):
     body, fields, *given = CASES[case]
-    reducer = """
-  public static class R extends Reducer<Text, IntWritable, Text, IntWritable> {
-    protected void reduce(Text k, Iterable<IntWritable> vs, Context c) throws IOException, InterruptedException {
-      int s = 0;
-      for (IntWritable v : vs) { s += v.get(); }
-      c.write(k, new IntWritable(s));
-    }
-  }"""
-    _agrees_with_hadoop(tmp_path, job_source(body, reducer=reducer, fields=fields),
+    _agrees_with_hadoop(tmp_path, job_source(body, reducer=SUM_REDUCER, fields=fields),
                         {"lines.txt": (given[0] if given else INPUT).encode("utf-8")})
 
 
@@ -154,15 +156,7 @@ OFFSET_INPUT = "\ufeffalpha,1\r\nbeta,2\rgamma,3\n\nÄö,4\nlast,no newline"
 def test_byte_offsets_agree_with_hadoop(body, reducer, tmp_path):
     """TextInputFormat's key (LineRecordReader): the byte offset of each line, over CRLF, CR and LF line
     ends, an empty line, a UTF-8 byte order mark, two-byte characters and a last line without an end."""
-    red = """
-  public static class R extends Reducer<Text, IntWritable, Text, IntWritable> {
-    protected void reduce(Text k, Iterable<IntWritable> vs, Context c) throws IOException, InterruptedException {
-      int s = 0;
-      for (IntWritable v : vs) { s += v.get(); }
-      c.write(k, new IntWritable(s));
-    }
-  }"""
-    source = job_source(body, reducer=red if reducer else "", reducer_class=reducer,
+    source = job_source(body, reducer=SUM_REDUCER if reducer else "", reducer_class=reducer,
                         extra_driver="" if reducer else "job.setNumReduceTasks(0);")
     _agrees_with_hadoop(tmp_path, source, {"a.txt": OFFSET_INPUT.encode("utf-8"), "b.txt": b"one\ntwo\n"})
 
