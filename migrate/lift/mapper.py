@@ -22,6 +22,7 @@ from migrate.lift.exprs import (BYTE_OFFSET, CATCH_ALL, WRITABLE_OF, MaybeNull, 
 from migrate.lift import dates
 from migrate.lift.combining import combining_update, map_fields
 from migrate.lift.counters import counter_update, is_counter_call
+from migrate.lower.walk import assigned_names
 from migrate.plan import (BoolOp, Call, Col, Compare, Count, Emit, Explode, Expr, Filter, HandWork, Let, Lit, Lookup,
                           Project, SideTable, Span, Step, StructNew, walk)
 
@@ -707,14 +708,7 @@ def class_constants(cls: ClassInfo, index=None) -> dict[str, object]:
         from migrate.lift.collections import ConstCollection
 
         env.update({k: v for k, v in class_constants(outer, index).items() if isinstance(v, (Lit, ConstCollection))})
-    assigned = {n.expressionl.member for _, n in cls.node if isinstance(n, T.Assignment)
-                and isinstance(n.expressionl, T.MemberReference)}
-    assigned |= {n.expressionl.selectors[0].member for _, n in cls.node if isinstance(n, T.Assignment)
-                 and isinstance(n.expressionl, T.This) and n.expressionl.selectors}
-    assigned |= {n.member for _, n in cls.node if isinstance(n, T.MemberReference)  # n++, --n
-                 and {"++", "--"} & set((n.prefix_operators or []) + (n.postfix_operators or []))}
-    assigned |= {n.selectors[0].member for _, n in cls.node if isinstance(n, T.This) and n.selectors
-                 and {"++", "--"} & set((n.prefix_operators or []) + (n.postfix_operators or []))}
+    assigned = assigned_names(cls.node)
     from migrate.lift.collections import constant_collections
 
     env.update({k: v for k, v in constant_collections(cls).items() if k not in assigned})
@@ -755,8 +749,7 @@ def struct_fields(cls: ClassInfo, index=None) -> dict[str, Writable]:
     """Fields holding a custom Writable made at their declaration and never reassigned: map()
     sets them through setters (checked at each write by check_struct_written)."""
     structs = structs_of(index)
-    assigned = {n.expressionl.member for _, n in cls.node if isinstance(n, T.Assignment)
-                and isinstance(n.expressionl, T.MemberReference)}
+    assigned = assigned_names(cls.node)
     out = {}
     for f in cls.fields():
         for d in f.declarators:

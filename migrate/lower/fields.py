@@ -10,7 +10,7 @@ from __future__ import annotations
 
 from javalang import tree as T
 
-from migrate.lower.walk import line_of, mentions, positioned, statement_lists
+from migrate.lower.walk import assigned_names, line_of, mentions, positioned, statement_lists
 
 PER_RECORD = {"map", "reduce"}
 SETUP = {"setup", "configure"}
@@ -145,7 +145,7 @@ def setup_constants(cls, index=None) -> list[tuple[int, str]]:
             f, d = field
             if d.initializer is not None and not (isinstance(d.initializer, T.Literal) and d.initializer.value == "null"):
                 continue
-            others = [m for m in _members(cls) if m is not method and _assigns(m, name)]
+            others = [m for m in _members(cls) if m is not method and name in assigned_names(m)]
             earlier = body[: body.index(s)]
             later = body[body.index(s) + 1:]  # filled or configured later: not a plain constant
             if others or any(mentions(x, name) for x in earlier + later):
@@ -158,20 +158,6 @@ def setup_constants(cls, index=None) -> list[tuple[int, str]]:
             done.append((line_of(s), f"`{name}` is set once in {method.name}() from constants: "
                                      "a constant of the task, as if set at its declaration"))
     return done
-
-
-def _assigns(node, name: str) -> bool:
-    for _, n in node:
-        if isinstance(n, T.Assignment) and isinstance(n.expressionl, T.MemberReference) and \
-                n.expressionl.member == name and n.expressionl.qualifier in ("", None, "this"):
-            return True
-        if isinstance(n, T.Assignment) and isinstance(n.expressionl, T.This) and n.expressionl.selectors and \
-                getattr(n.expressionl.selectors[0], "member", None) == name:
-            return True
-        if isinstance(n, T.MemberReference) and n.member == name and \
-                {"++", "--"} & set((n.prefix_operators or []) + (n.postfix_operators or [])):
-            return True
-    return False
 
 
 # Library classes whose static calls and new objects depend on nothing but their arguments.

@@ -97,3 +97,18 @@ def replace_nodes(node, swap) -> None:
             new = swap(v)
             if new is not None:
                 setattr(node, attr, new)
+
+
+def assigned_names(node) -> set[str]:
+    """The simple names `node` assigns (`x = …`, `this.x = …`, `x += …`) or steps (`x++`, `--this.x`):
+    what cannot be a constant."""
+    out = set()
+    for _, n in node:
+        steps = {"++", "--"} & set((getattr(n, "prefix_operators", None) or []) +
+                                   (getattr(n, "postfix_operators", None) or []))
+        target = n.expressionl if isinstance(n, T.Assignment) else n if steps else None
+        if isinstance(target, T.MemberReference):
+            out.add(target.member)
+        elif isinstance(target, T.This) and target.selectors:
+            out.add(getattr(target.selectors[0], "member", None))
+    return out - {None}
