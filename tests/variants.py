@@ -258,6 +258,94 @@ def new_per_write(text: str) -> str:
                   inline, text)
 
 
+def _top_level_pluses(expr: str) -> list[str]:
+    """`a + "," + b` -> ["a", "\",\"", "b"]: split at `+` outside brackets, strings and chars."""
+    parts, depth, quote, start, i = [], 0, "", 0, 0
+    while i < len(expr):
+        c = expr[i]
+        if quote:
+            if c == "\\":
+                i += 1
+            elif c == quote:
+                quote = ""
+        elif c in "\"'":
+            quote = c
+        elif c in "([{":
+            depth += 1
+        elif c in ")]}":
+            depth -= 1
+        elif c == "+" and depth == 0 and expr[i + 1:i + 2] not in ("+", "=") and expr[i - 1:i] not in ("+",):
+            parts.append(expr[start:i].strip())
+            start = i + 1
+        i += 1
+    return parts + [expr[start:].strip()]
+
+
+def _closing(text: str, open_at: int) -> int:
+    """The index of the `)` matching the `(` at open_at (strings and chars skipped)."""
+    depth, quote, i = 0, "", open_at
+    while i < len(text):
+        c = text[i]
+        if quote:
+            if c == "\\":
+                i += 1
+            elif c == quote:
+                quote = ""
+        elif c in "\"'":
+            quote = c
+        elif c == "(":
+            depth += 1
+        elif c == ")":
+            depth -= 1
+            if depth == 0:
+                return i
+        i += 1
+    return -1
+
+
+def while_loops(text: str) -> str:
+    """`for (T x : arr) {` over an array vs `int i = 0; while (i < arr.length) { T x = arr[i]; i++; ...`
+    (the step right after the element is read: the rest of the body never reads i)."""
+    arrays = set(re.findall(r"\b\w+\s*\[\]\s+(\w+)\s*[=;]", text))
+
+    def loop(m: re.Match) -> str:
+        indent, t, x, arr = m.group(1), m.group(2), m.group(3), m.group(4)
+        if arr not in arrays:
+            return m.group(0)
+        i = f"{x}At"
+        return f"{indent}int {i} = 0;\n{indent}while ({i} < {arr}.length) {{ {t} {x} = {arr}[{i}]; {i}++;"
+    return re.sub(r"(?m)^(\s*)for \((?:final )?([\w.<>]+) (\w+) : (\w+)\) \{", loop, text)
+
+
+def string_builder(text: str) -> str:
+    """A written Text made from `a + "," + b` vs a StringBuilder appended piece by piece first.
+    The pieces are appended one by one only where the first `+` is already a String concatenation
+    (a string literal among the first two operands): `1 + 2 + ","` is "3,", not "12,"."""
+    lines = text.split("\n")
+    out, k = [], 0
+    for i, line in enumerate(lines):
+        m = re.match(r"^(\s*)(\w+)\.(write|collect)\(new Text\(", line)
+        prev = next((x.strip() for x in reversed(out) if x.strip()), "")
+        if m is None or not line.rstrip().endswith(");") or not prev.endswith((";", "{", "}")):
+            out.append(line)
+            continue
+        open_at = m.end() - 1
+        close = _closing(line, open_at)
+        inner = line[open_at + 1:close] if close > 0 else ""
+        pieces = _top_level_pluses(inner)
+        if len(pieces) < 2:
+            out.append(line)
+            continue
+        if not any(p.startswith('"') for p in pieces[:2]):
+            pieces = [inner]
+        k += 1
+        sb, indent = f"built{k}", m.group(1)
+        out.append(f"{indent}StringBuilder {sb} = new StringBuilder();")
+        out.append(f"{indent}{sb}" + "".join(f".append({p})" for p in pieces) + ";")
+        out.append(line[:open_at + 1] + f"{sb}.toString()" + line[close:])
+    return "\n".join(out)
+
+
 AXES = (
     Axis("catch-logs", "empty catch vs logging then skipping", catch_logs),
     Axis("field-scratch", "array local vs scratch field", field_scratch),
@@ -272,6 +360,8 @@ AXES = (
     Axis("final-locals", "plain locals vs final locals", final_locals),
     Axis("var-locals", "String locals vs var", var_locals),
     Axis("new-per-write", "reused Text vs new Text per write", new_per_write),
+    Axis("string-builder", "a + b written vs a StringBuilder appended first", string_builder),
+    Axis("while-loops", "for-each over an array vs a while loop stepping an index", while_loops),
 )
 
 

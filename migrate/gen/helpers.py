@@ -493,7 +493,7 @@ def jt_parse(s: Column, pattern: str, *, date_only: bool = False, skip_bad_recor
 ''', ("date_fields",))
 
 
-_h("hadoop_partition", '''
+_h("java_code_units", '''
 def _int32(u: Column) -> Column:
     """An unsigned 32-bit value (0 <= u < 2**32, bigint) as the Java int with those bits."""
     return F.when(u >= 2**31, u - 2**32).otherwise(u).cast("int")
@@ -511,15 +511,48 @@ def _hex_units(s: Column, charset: str, width: int) -> Column:
                        lambda h: F.conv(h, 16, 10).cast("int"))
 
 
+def string_hash(s: Column) -> Column:
+    """String.hashCode(): s[0]*31^(n-1) + ... over the UTF-16 code units, starting at 0."""
+    return _fold_hash(_hex_units(s, "UTF-16BE", 4), 0)
+
+''')
+
+_h("java_char_code", '''
+def java_char_code(c: Column) -> Column:
+    """A char as an int: its UTF-16 code unit (a char here is one code unit of the BMP)."""
+    return F.conv(F.hex(F.encode(c, "UTF-16BE")), 16, 10).cast("int")
+''')
+
+_h("java_compare_to", '''
+def _compare_units(ua: Column, ub: Column) -> Column:
+    """String.compareTo over code unit arrays: the first difference, else the difference in length."""
+    n = F.least(F.size(ua), F.size(ub))
+    diffs = F.filter(F.zip_with(F.slice(ua, 1, n), F.slice(ub, 1, n), lambda x, y: x - y), lambda d: d != 0)
+    return F.when(F.size(diffs) > 0, F.element_at(diffs, 1)).otherwise(F.size(ua) - F.size(ub))
+
+
+def java_compare_to(a: Column, b: Column) -> Column:
+    """String.compareTo(b): compares UTF-16 code units (Spark's own order is by UTF-8 bytes)."""
+    return _compare_units(_hex_units(a, "UTF-16BE", 4), _hex_units(b, "UTF-16BE", 4))
+
+
+def java_compare_to_ignore_case(a: Column, b: Column) -> Column:
+    """String.compareToIgnoreCase(b) over ASCII text: each char folded to lower case. Java folds any
+    char through Character.toUpperCase then toLowerCase, which is not reproduced: the job fails on
+    a char beyond ASCII instead of ordering it differently."""
+    def folded(s: Column) -> Column:
+        return F.transform(_hex_units(s, "UTF-16BE", 4), lambda u: F.when((u >= 65) & (u <= 90), u + 32)
+                           .when(u < 128, u).otherwise(F.raise_error(F.lit("compareToIgnoreCase of a char beyond "
+                                                                            "ASCII is not reproduced"))))
+
+    return _compare_units(folded(a), folded(b))
+''', ("java_code_units",))
+
+_h("hadoop_partition", '''
 def text_hash(s: Column) -> Column:
     """Text.hashCode(): WritableComparator.hashBytes over the UTF-8 bytes (signed), starting at 1."""
     signed = F.transform(_hex_units(s, "UTF-8", 2), lambda b: F.when(b > 127, b - 256).otherwise(b))
     return _fold_hash(signed, 1)
-
-
-def string_hash(s: Column) -> Column:
-    """String.hashCode(): s[0]*31^(n-1) + ... over the UTF-16 code units, starting at 0."""
-    return _fold_hash(_hex_units(s, "UTF-16BE", 4), 0)
 
 
 def first_code_unit(s: Column) -> Column:
@@ -536,7 +569,7 @@ def long_hash(v: Column) -> Column:
 def partition_of(hash_code: Column, reduce_tasks: int) -> Column:
     """(hashCode & Integer.MAX_VALUE) % numReduceTasks: the reduce task (part file) of a key."""
     return hash_code.bitwiseAND(F.lit(2147483647)) % reduce_tasks
-''')
+''', ("java_code_units",))
 
 
 def helper_source(names: set[str]) -> str:

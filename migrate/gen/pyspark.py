@@ -2,6 +2,7 @@
 from __future__ import annotations
 
 import math
+import re
 import uuid
 from dataclasses import dataclass, field
 from pathlib import Path
@@ -50,7 +51,10 @@ PLAIN_CALLS = {
     "is_not_null": ("{0}.isNotNull()", None),
     "is_null": ("{0}.isNull()", None),
     "text_hash": ("text_hash({0})", "hadoop_partition"),
-    "string_hash": ("string_hash({0})", "hadoop_partition"),
+    "string_hash": ("string_hash({0})", "java_code_units"),
+    "compare_to": ("java_compare_to({0}, {1})", "java_compare_to"),
+    "compare_to_ignore_case": ("java_compare_to_ignore_case({0}, {1})", "java_compare_to"),
+    "char_code": ("java_char_code({0})", "java_char_code"),
     "first_code_unit": ("first_code_unit({0})", "hadoop_partition"),
     "int_hash": ("{0}", None),
     "long_hash": ("long_hash({0})", "hadoop_partition"),
@@ -74,6 +78,23 @@ _ENV = jinja2.Environment(loader=jinja2.FileSystemLoader(str(_templates_dir())),
                           keep_trailing_newline=True, trim_blocks=True, lstrip_blocks=True, autoescape=False)
 
 
+def raw_string(text: str) -> str:
+    """A Python literal for a regex: raw (as the regex reads in Java, less Java's own escaping)
+    where the text allows it, else an ordinary literal."""
+    for q in ('"', "'"):
+        if q not in text and text.isprintable() and not text.endswith("\\"):
+            return f"r{q}{text}{q}"
+    return repr(text)
+
+
+def _reserved_names() -> set[str]:
+    """Upper-case names a script already defines (F, the helpers' constants): a regex constant
+    named after a Java field must not shadow them."""
+    from migrate.gen.helpers import HELPERS
+
+    return {"F"} | {m for _, src in HELPERS.values() for m in re.findall(r"^([A-Z][A-Z0-9_]*) =", src, re.M)}
+
+
 class ExprWriter:
     """Spells plan expressions as Column code and remembers which helpers they need."""
 
@@ -82,6 +103,7 @@ class ExprWriter:
         self.settings: dict[str, ConfValue] = {}  # script variable -> the job setting it holds
         self.counters = False  # the plan updates Hadoop counters
         self.dates = False  # the plan reads or writes dates in the JVM's time zone
+        self.regexes: dict[str, str] = {}  # script constant -> regex (java.util.regex syntax)
 
     def __call__(self, e: Expr | None) -> str:
         if e is None:
@@ -90,6 +112,20 @@ class ExprWriter:
         if method is None:
             raise TypeError(f"the generator has no handler for {type(e).__name__}")
         return method(e)
+
+    def regex(self, lit: Lit) -> str:
+        """A regex as code: a named constant of the script where the Java Pattern had a name."""
+        name = getattr(lit, "name", "")
+        if not name:
+            return repr(lit.value)
+        name = re.sub(r"(?<=[a-z0-9])(?=[A-Z])", "_", name).upper()
+        if name in _reserved_names():
+            name += "_REGEX"
+        base, i = name, 2
+        while self.regexes.get(name, lit.value) != lit.value:
+            name, i = f"{base}_{i}", i + 1
+        self.regexes[name] = lit.value
+        return name
 
     def visit_Col(self, e: Col) -> str:
         return f'F.col("{e.name}")'
@@ -195,7 +231,7 @@ class ExprWriter:
                 return f"java_tokens({self(args[0])})"
             return f"java_tokens({self(args[0])}, {tokenizer_regex(args[1].value)!r})"
         if op == "regex_matches":
-            return f"F.regexp_extract_all({self(args[0])}, F.lit({args[1].value!r}), {args[2].value})"
+            return f"F.regexp_extract_all({self(args[0])}, F.lit({self.regex(args[1])}), {args[2].value})"
         if op == "index":
             if e.on_error == "null":
                 return f"F.get({self(args[0])}, {self(args[1]) if not isinstance(args[1], Lit) else args[1].value})"
@@ -232,6 +268,25 @@ class ExprWriter:
                 return f"java_substring({s_}, {begin}, {end}{skip})"
             end = f", {self(args[2])}" if len(args) > 2 else ""
             return f"java_substring({s_}, {begin}{end}{skip})"
+        if op == "div_or_null":  # an integer division by zero throws; a catch skips the record
+            div = args[0]
+            return f"F.when({self(div.right)} != 0, {self(div)})"
+        if op == "regex_finds":  # Matcher.find(); matches() and lookingAt() come anchored (lift.regex)
+            return f"{self(args[0])}.rlike({self.regex(args[1])})"
+        if op == "regex_group":  # Matcher.group(n): after a successful match (else Java throws)
+            found = f"F.regexp_extract({self(args[0])}, {self.regex(args[1])}, {args[2].value})"
+            if len(args) == 3:  # the match is proved where this is read
+                return found
+            found = f"F.when({bare(self(args[3]))}, {found})"
+            if e.on_error == "null":
+                return found
+            return f'{found}.otherwise(F.raise_error(F.lit("IllegalStateException: No match found")))'
+        if op == "char_is":  # Character.isDigit(c) and friends: the regex class defined as that method
+            return f"{self(args[0])}.rlike({(chr(92) + 'A' + chr(92) + 'p{' + args[1].value + '}' + chr(92) + 'z')!r})"
+        if op == "join":  # String.join(sep, a, b, ...): no part is ever null here
+            return f"F.concat_ws({args[0].value!r}, {', '.join(self(a) for a in args[1:])})"
+        if op == "join_array":
+            return f"F.array_join({self(args[0])}, {args[1].value!r})"
         if op == "is_blank":
             return f'{self(args[0])}.rlike(r"^\\p{{javaWhitespace}}*\\z")'
         if op == "matches":
@@ -834,6 +889,11 @@ def render_script(plan: Plan, header: dict, hand_work: list[HandWork]) -> str:
     writers = [x, *(st["x"] for st in stages)]
     used = set().union(*(w.helpers for w in writers))
     helpers = helper_source(used) if used else ""
+    regexes: dict[str, str] = {}
+    for w in writers:
+        for k, v in w.regexes.items():
+            if regexes.setdefault(k, v) != v:
+                raise TypeError(f"two regexes named {k} in one script")
     positional = sorted([p for p in plan.params if p.position is not None], key=lambda p: p.position)
     slots = []
     for i in range(max([p.position for p in positional], default=-1) + 1):
@@ -842,7 +902,7 @@ def render_script(plan: Plan, header: dict, hand_work: list[HandWork]) -> str:
     build_args, build_call = _signature(plan, x)
     doc_end = f"<mrlift-docstring-end-{uuid.uuid4().hex}>"  # unguessable: Java text cannot fake the end
     text = _ENV.get_template("job.py.j2").render(
-        doc_end=doc_end, plan=plan, header=header, body=parts.body, helpers=helpers,
+        doc_end=doc_end, plan=plan, header=header, body=parts.body, helpers=helpers, regexes=[(k, raw_string(v)) for k, v in regexes.items()],
         uses_window=parts.uses_window or any(st["uses_window"] for st in stages),
         slots=slots, options=[p for p in plan.params if p.position is None], sink=plan.sink,
         build_args=build_args, build_call=build_call, hand_work=hand_work, stages=stages,

@@ -17,6 +17,7 @@ from typing import Any
 from javalang import tree as T
 
 from migrate.java.literals import number_value, string_value
+from migrate.lift import regex as rx
 from migrate.plan import (INTEGRAL, NO_SPAN, NUMERIC, Arith, BoolOp, Call, Cast, Col, Compare, Cond, Expr, Lit,
                           SideTable, Span, walk)
 
@@ -40,7 +41,8 @@ THROWS = {"parse_int": "NumberFormatException", "parse_long": "NumberFormatExcep
           "parse_double": "NumberFormatException", "parse_float": "NumberFormatException",
           "index": "ArrayIndexOutOfBoundsException", "substring": "StringIndexOutOfBoundsException",
           "char_at": "StringIndexOutOfBoundsException", "date_parse": "ParseException",
-          "jt_parse": "DateTimeParseException", "token_at": "NoSuchElementException"}
+          "jt_parse": "DateTimeParseException", "token_at": "NoSuchElementException",
+          "div_or_null": "ArithmeticException", "regex_group": "IllegalStateException"}
 CATCH_ALL = {"Exception", "RuntimeException", "Throwable", "IllegalArgumentException"}
 # Each exception's superclasses up to Throwable (Java SE API docs, java.lang / java.text /
 # java.time / java.util): a catch of any of them catches it. ParseException is checked: a catch of
@@ -51,7 +53,8 @@ _SUPERS = {"ParseException": {"Exception", "Throwable"},
            "NumberFormatException": {"IllegalArgumentException"} | _RUNTIME,
            "ArrayIndexOutOfBoundsException": {"IndexOutOfBoundsException"} | _RUNTIME,
            "StringIndexOutOfBoundsException": {"IndexOutOfBoundsException"} | _RUNTIME,
-           "NoSuchElementException": _RUNTIME}
+           "NoSuchElementException": _RUNTIME, "ArithmeticException": _RUNTIME,
+           "IllegalStateException": _RUNTIME}
 
 CONSTANTS = {
     ("Integer", "MAX_VALUE"): (2147483647, "int"), ("Integer", "MIN_VALUE"): (-2147483648, "int"),
@@ -350,6 +353,32 @@ def _invocation(node: T.MethodInvocation, scope: Scope) -> Expr:
     if (q, m) in (("String", "valueOf"), ("Integer", "toString"), ("Long", "toString"), ("Double", "toString"),
                   ("Float", "toString"), ("Boolean", "toString"), ("Character", "toString")) and len(args) == 1:
         return _selectors(to_string(lift(args[0], scope)), node.selectors or [], scope, node)
+    if q in ("Pattern", "java.util.regex.Pattern") and m == "matches" and len(args) == 2:
+        regex, text = lift(args[0], scope), lift(args[1], scope)  # Pattern.matches(r, s) is s.matches(r)
+        if not (isinstance(regex, Lit) and regex.jtype == "String") or text.jtype != "String":
+            raise Unsupported(node, "Pattern.matches of a computed regex or of something that is not a String")
+        return _selectors(Call("boolean", "matches", (text, regex)), node.selectors or [], scope, node)
+    if q in ("Pattern", "java.util.regex.Pattern") and m == "compile" or \
+            q and "." not in q and isinstance(scope.env.get(q), (rx.CompiledPattern, rx.MatcherVar)):
+        obj = regex_object(node, scope)
+        if not isinstance(obj, Expr):
+            raise Unsupported(node, f"a {type(obj).__name__} is used as a value")
+        return obj
+    if q == "Character" and m in CHAR_CLASSES and len(args) == 1:
+        c = lift(args[0], scope)
+        if c.jtype != "char":
+            raise Unsupported(node, f"Character.{m} of a {c.jtype} (a code point) is not lifted")
+        return _selectors(Call("boolean", "char_is", (c, Lit("String", CHAR_CLASSES[m]))), node.selectors or [],
+                          scope, node)
+    if (q, m) == ("String", "join") and len(args) >= 2:
+        sep, *parts = (lift(x, scope) for x in args)
+        if not (isinstance(sep, Lit) and sep.jtype == "String"):
+            raise Unsupported(node, "String.join with a computed separator")
+        if len(parts) == 1 and parts[0].jtype == "String[]":
+            return _selectors(Call("String", "join_array", (parts[0], sep)), node.selectors or [], scope, node)
+        if any(p.jtype != "String" for p in parts):
+            raise Unsupported(node, "String.join of values that are not Strings")
+        return _selectors(Call("String", "join", (sep, *parts)), node.selectors or [], scope, node)
     if q in ("LocalDateTime", "LocalDate") and m == "parse" and len(args) == 2:
         from migrate.lift import dates
 
@@ -428,6 +457,31 @@ def _invocation(node: T.MethodInvocation, scope: Scope) -> Expr:
         return _selectors(inline_call(node, scope), node.selectors or [], scope, node)
     raise Unsupported(node, f"call `{(q + '.') if q else ''}{m}(...)` is not lifted",
                       "inline the helper by hand, or express it with pyspark.sql.functions")
+
+
+def regex_object(node, scope: Scope):
+    """A Pattern or Matcher expression (`Pattern.compile(...)`, `P.matcher(s)`, a local or field
+    holding one) with its selectors applied: a CompiledPattern, a MatcherVar, or a lifted value."""
+    if isinstance(node, T.MemberReference) and not node.qualifier and not node.selectors:
+        obj = scope.env.get(node.member)
+        if isinstance(obj, (rx.CompiledPattern, rx.MatcherVar)):
+            return obj
+        raise Unsupported(node, f"`{node.member}` is not a Pattern or Matcher the converter knows")
+    if not isinstance(node, T.MethodInvocation):
+        raise Unsupported(node, "a Pattern or Matcher made in a way the converter does not read")
+    q, sels = node.qualifier or "", list(node.selectors or [])
+    if q in ("Pattern", "java.util.regex.Pattern") and node.member == "compile":
+        obj = rx.compile_pattern(node, scope, lift, Unsupported)
+    else:
+        obj = scope.env.get(q)
+        sels.insert(0, node)
+    while sels and isinstance(obj, (rx.CompiledPattern, rx.MatcherVar)):
+        sel = sels.pop(0)
+        if not isinstance(sel, T.MethodInvocation):
+            raise Unsupported(node, "a Pattern or Matcher used in a way the converter does not read")
+        obj = rx.pattern_call(obj, sel, scope, lift, Unsupported) if isinstance(obj, rx.CompiledPattern) \
+            else rx.matcher_call(obj, sel, scope, Unsupported)
+    return _selectors(obj, sels, scope, node) if isinstance(obj, Expr) else obj
 
 
 class _tokenizers:
@@ -603,7 +657,25 @@ def _method(recv: Expr, node: T.MethodInvocation, scope: Scope) -> Expr:
         return Call("String", "replace_all" if m == "replaceAll" else "replace_first", (recv, a[0], a[1]))
     if m == "concat" and len(a) == 1 and a[0].jtype == "String":
         return Call("String", "concat", (recv, a[0]))
+    if m == "hashCode" and not a:  # s[0]*31^(n-1) + ... over UTF-16 units, int wrap-around (Java SE API)
+        return Call("int", "string_hash", (recv,))
+    if m in ("compareTo", "compareToIgnoreCase") and len(a) == 1 and a[0].jtype == "String":
+        return Call("int", "compare_to" if m == "compareTo" else "compare_to_ignore_case", (recv, a[0]))
     raise Unsupported(node, f"String.{m}(...) is not lifted yet")
+
+
+# Character.isX(char) -> the java.util.regex class that is defined as that very method
+# (Java SE API, java.util.regex.Pattern: "java.lang.Character classes"); Spark's rlike is java.util.regex.
+CHAR_CLASSES = {"isDigit": "javaDigit", "isLetter": "javaLetter", "isLetterOrDigit": "javaLetterOrDigit",
+                "isWhitespace": "javaWhitespace", "isUpperCase": "javaUpperCase", "isLowerCase": "javaLowerCase",
+                "isAlphabetic": "javaAlphabetic", "isSpaceChar": "javaSpaceChar"}
+
+
+def char_code(e: Expr) -> Expr:
+    """A char as the int of its UTF-16 code unit (JLS 5.6: a char in arithmetic is promoted to int)."""
+    if isinstance(e, Lit):
+        return Lit("int", ord(e.value))
+    return Call("int", "char_code", (e,))
 
 
 def _plain_locale(arg) -> bool:
@@ -710,12 +782,24 @@ def _binary(node: T.BinaryOperation, scope: Scope) -> Expr:
             return l
         return BoolOp("boolean", op, (l, r))
     if op == "+" and "String" in (l.jtype, r.jtype):
+        empty = Lit("String", "")
+        if empty in (l, r):  # `"" + x` is String.valueOf(x)
+            return to_string(r if l == empty else l, scope)
         return Call("String", "concat", (to_string(l, scope), to_string(r, scope)))
-    if op in ("+", "-", "*", "/", "%"):
+    if op in ("+", "-", "*", "/", "%", "<", ">", "<=", ">=", "==", "!=") and "char" in (l.jtype, r.jtype) \
+            and {l.jtype, r.jtype} <= NUMERIC | {"char"} and not (l.jtype == r.jtype == "char" and op not in ARITH):
+        if op in ARITH:
+            _char_arithmetic(node, scope)
+        l, r = (char_code(x) if x.jtype == "char" else x for x in (l, r))
+    if op in ARITH:
         if l.jtype not in NUMERIC or r.jtype not in NUMERIC:
             raise Unsupported(node, f"arithmetic {op} on {l.jtype} and {r.jtype}")
         t = promote(l.jtype, r.jtype)
-        return Arith(t, op, _widen(l, t), _widen(r, t))
+        e = Arith(t, op, widen_at(l, t, scope, node), widen_at(r, t, scope, node))
+        if t in INTEGRAL and op in ("/", "%") and not (isinstance(r, Lit) and r.value) \
+                and scope.on_error("div_or_null") == "null":  # `/ 0` throws ArithmeticException, caught here
+            return Call(t, "div_or_null", (e,), "null")
+        return e
     if op in ("<", ">", "<=", ">=", "==", "!="):
         if l.jtype == "String" or r.jtype == "String":
             if op in ("==", "!=") and "null" in (l.jtype, r.jtype):
@@ -729,10 +813,27 @@ def _binary(node: T.BinaryOperation, scope: Scope) -> Expr:
             return Compare("boolean", op, _widen(l, t), _widen(r, t))
         if l.jtype == r.jtype and l.jtype in ("boolean", "char") and op in ("==", "!="):
             return Compare("boolean", op, l, r)
+        if l.jtype == r.jtype == "char":  # one BMP char each: Spark's order (UTF-8 bytes) is the code unit order
+            return Compare("boolean", op, l, r)
         if l.jtype == r.jtype == "enum" and op in ("==", "!=") and isinstance(l, Lit) and isinstance(r, Lit):
             return Lit("boolean", (l.value == r.value) == (op == "=="))
         raise Unsupported(node, f"comparison {op} of {l.jtype} and {r.jtype}")
     raise Unsupported(node, f"operator {op} is not lifted yet")
+
+
+ARITH = ("+", "-", "*", "/", "%")
+
+
+def _char_arithmetic(node, scope: Scope) -> None:
+    from migrate.java.index import node_lines
+    from migrate.plan import Finding
+
+    line = node_lines(node)[0]
+    scope.findings.append(Finding(
+        "char-arithmetic", Span(scope.file, line, line),
+        "arithmetic on a char works on its UTF-16 code unit number and gives an int ('a' + 1 is 98, not \"a1\" "
+        "and not 'b'; JLS 5.6.2); the script does the same",
+        "if text was meant, concatenate a String (\"\" + c + 1) or cast back with (char)"))
 
 
 # Where a lifted String comes from Text.toString() of the record (the line, or the key of a
@@ -836,6 +937,8 @@ def _cast(node: T.Cast, scope: Scope) -> Expr:
                 ("long", "float")}
     if (e.jtype, target) in widening:
         return _widen(e, target)
+    if e.jtype == "char" and target in NUMERIC:
+        return _widen(char_code(e), target)
     if (e.jtype, target) in NARROWING:
         return Call(target, NARROWING[(e.jtype, target)], (e,))
     raise Unsupported(node, f"cast ({target}) of a {e.jtype} is not lifted", "check the value range, then cast explicitly")
@@ -894,6 +997,22 @@ def writable_set(w: Writable, value: Expr, node) -> Expr:
 
 
 def widen(e: Expr, t: str) -> Expr:
+    return _widen(e, t)
+
+
+def widen_at(e: Expr, t: str, scope: Scope, node) -> Expr:
+    """`widen`, raising a finding where an integer division is widened to a floating value: Java
+    divided first and truncated (`double avg = sum / n` with int sum and n), and so does the script."""
+    if t in ("double", "float") and isinstance(e, Arith) and e.op in ("/", "%") and e.jtype in INTEGRAL:
+        from migrate.java.index import node_lines
+        from migrate.plan import Finding
+
+        line = node_lines(node)[0]
+        scope.findings.append(Finding(
+            "integer-division", Span(scope.file, line, line),
+            f"an {e.jtype} division is used as a {t}: Java divides the integers first and drops the fraction "
+            f"(7 / 2 is 3, so the {t} is 3.0; JLS 15.17.2); the script does the same",
+            f"if the fraction was meant, cast an operand to {t} before dividing; that changes the output"))
     return _widen(e, t)
 
 

@@ -793,7 +793,10 @@ def _lift_reducer(rcls: ClassInfo, key_t: str, val_t: str, hand: list[HandWork],
     if top is not None:
         findings.extend(top_n_findings(top, top.fold.emits[0].origin, reduces))
         return top
-    group, items = FoldLifter(owner, m, key_t, val_t, index).run()
+    fold = FoldLifter(owner, m, key_t, val_t, index)
+    group, items = fold.run()
+    if group is not None:
+        findings.extend(f for f in dict.fromkeys(fold.scope.findings) if f not in findings)
     if items:  # not a fold: perhaps a join of tagged values
         try:
             return JoinLifter(owner, m, key_t, val_t, index).lift_join()
@@ -824,7 +827,10 @@ def _is_plain_sum(reduce: Step | None) -> bool:
 def _writes_key_and_agg(g: Group) -> bool:
     """The reducer writes (key, one aggregate) once per key, unguarded."""
     e = g.single
-    return e is not None and isinstance(e.value, AggRef) and isinstance(e.key, Col) and e.key.name == "key"
+    # an int aggregate written as a long (LongWritable.set(int)) is the same number
+    value = e.value.arg if e is not None and isinstance(e.value, Cast) and e.value.jtype == "long" \
+        and e.value.arg.jtype == "int" else e.value if e is not None else None
+    return isinstance(value, AggRef) and isinstance(e.key, Col) and e.key.name == "key"
 
 
 def _partial_aggregate(g: Step | None) -> str | None:

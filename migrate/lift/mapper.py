@@ -11,20 +11,22 @@ cleanup() logic is hand work in this version; counters become Count steps (lift.
 """
 from __future__ import annotations
 
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 
 from javalang import tree as T
 
 from migrate.java.index import ClassInfo, node_lines
 from migrate.lift.writables import is_struct, structs_of
 from migrate.lift.exprs import (BYTE_OFFSET, CATCH_ALL, WRITABLE_OF, MaybeNull, Opaque, Scope, Tokenizer, Unsupported, Writable,
-                                lift, lookup_key, refined, widen, writable_creator, writable_set, write_argument)
+                                NARROWING, lift, lookup_key, promote, refined, regex_object, widen, widen_at, writable_creator, writable_set,
+                                write_argument)
 from migrate.lift import dates
+from migrate.lift import regex as rx
 from migrate.lift.combining import combining_update, map_fields
 from migrate.lift.counters import counter_update, is_counter_call
 from migrate.lower.walk import assigned_names
-from migrate.plan import (BoolOp, Call, Col, Compare, Count, Emit, Explode, Expr, Filter, HandWork, Let, Lit, Lookup,
-                          Project, SideTable, Span, Step, StructNew, walk)
+from migrate.plan import (NUMERIC, BoolOp, Call, Col, Compare, Count, Emit, Explode, Expr, Filter, Finding, HandWork,
+                          Let, Lit, Lookup, Project, SideTable, Span, Step, StructNew, walk)
 
 SKIP_NOTE = "catch: skip the record"
 _DECLARED = {"int": "int", "long": "long", "double": "double", "float": "float", "boolean": "boolean",
@@ -209,6 +211,23 @@ class MapBodyLifter:
 
     def _stmt(self, s, guard: Expr | None) -> None:
         self.guard_now = guard
+        pending = self._unattempted()
+        try:
+            self._statement(s, guard)
+        finally:
+            self._attempted_under(pending, guard)
+
+    def _unattempted(self) -> list[rx.MatcherVar]:
+        return [v for v in self.scope.env.values() if isinstance(v, rx.MatcherVar) and v.regex is None]
+
+    def _attempted_under(self, pending: list, guard) -> None:
+        """A match attempt made on some rows only: group() on the other rows throws in Java."""
+        g = self._eff(guard)
+        for v in pending:
+            if v.regex is not None and not v.guarded:
+                v.matched, v.guarded = (_and(g, v.matched) if g is not None else v.matched), True
+
+    def _statement(self, s, guard: Expr | None) -> None:
         if isinstance(s, T.BlockStatement):
             self._scoped(s.statements, guard)
         elif isinstance(s, T.LocalVariableDeclaration):
@@ -259,6 +278,13 @@ class MapBodyLifter:
                 self.loop_locals[-1].add(d.name)
             return
         init = d.initializer
+        if tname in ("Pattern", "Matcher", "java.util.regex.Pattern", "java.util.regex.Matcher"):
+            obj = regex_object(init, self.scope)
+            if not isinstance(obj, (rx.CompiledPattern, rx.MatcherVar)):
+                raise Unsupported(s, f"`{d.name}` holds a {tname} the converter does not follow")
+            self.scope.env[d.name] = replace(obj, name=obj.name or d.name) if isinstance(obj, rx.CompiledPattern) \
+                else obj
+            return
         if tname == "StringTokenizer" and isinstance(init, T.ClassCreator):
             self.scope.env[d.name] = Tokenizer(self._tokens(init))
             return
@@ -285,7 +311,7 @@ class MapBodyLifter:
         if dims:
             declared += "[]"
         if e.jtype != declared:
-            e = widen(e, declared)
+            e = widen_at(e, declared, self.scope, s)
         if self.loop_locals:
             self.loop_locals[-1].add(d.name)
         if isinstance(e, (Col, Lit)) and not _has_null_on_error(e):
@@ -450,7 +476,10 @@ class MapBodyLifter:
         if self.loop_locals and name not in set().union(*self.loop_locals) and self.loop_depth:
             raise Unsupported(s, f"`{name}` is carried from one loop iteration to the next",
                               "an aggregate over the exploded rows (F.aggregate, or groupBy) can replace the loop")
-        new = widen(lift(value_node, self.scope), old.jtype) if old.jtype != "null" else lift(value_node, self.scope)
+        new = lift(value_node, self.scope)
+        if old.jtype != "null":
+            new = self._narrowed(s, name, new, old.jtype) if new.jtype in NUMERIC and old.jtype in NUMERIC \
+                and promote(new.jtype, old.jtype) != old.jtype else widen_at(new, old.jtype, self.scope, s)
         g = self._eff(guard)
         value = new if g is None else Call(new.jtype, "if_else", (g, new, old))
         reuse = old.name if isinstance(old, Col) and old.name not in ("value", "key") and not isinstance(value, Col) else None
@@ -460,6 +489,17 @@ class MapBodyLifter:
             self._let(name, value, None, s, reuse=reuse)
         finally:
             self.dead = saved
+
+    def _narrowed(self, s, name: str, new: Expr, t: str) -> Expr:
+        """`x += v` where v is wider than x is `x = (T) (x + v)` (JLS 15.26.2): the cast is Java's,
+        with its wrap-around or truncation; raised as a finding."""
+        line = node_lines(s)[0]
+        self.scope.findings.append(Finding(
+            "narrowing-assignment", Span(self.file, line, line),
+            f"a compound assignment stores a {new.jtype} into the {t} `{name}`: Java casts the result back to "
+            f"{t} (JLS 15.26.2), {'keeping the low 32 bits' if new.jtype == 'long' else 'truncating toward zero'}"
+            "; the script does the same", f"declare `{name}` a {new.jtype} if the cast was not meant"))
+        return Call(t, NARROWING[(new.jtype, t)], (new,))
 
     def _emit(self, s, call: T.MethodInvocation, guard) -> None:
         if self.after_loop:
@@ -488,10 +528,13 @@ class MapBodyLifter:
     def _if(self, s: T.IfStatement, guard) -> None:
         if self._is_first_line_check(s):
             return
+        pending = self._unattempted()
         c = lift(s.condition, self.scope)
+        self._attempted_under(pending, guard)
         if c.jtype != "boolean":
             raise Unsupported(s, "if condition is not a boolean")
         then_env, else_env = refined(s.condition, self.scope.env)
+        self._proved_matches(c, then_env, else_env)
         self.if_nodes.append(s)
         toks = {n: t for n, t in self.scope.env.items() if isinstance(t, Tokenizer)}
         before = {n: t.taken for n, t in toks.items()}
@@ -513,8 +556,50 @@ class MapBodyLifter:
                 t.taken = None
         if s.else_statement is None and self._leaves(s.then_statement):
             for name, v in else_env.items():  # `if (x == null) return;`: below it x holds a value
-                if isinstance(self.scope.env.get(name), MaybeNull) and not isinstance(v, MaybeNull):
+                if isinstance(self.scope.env.get(name), MaybeNull) and not isinstance(v, MaybeNull) \
+                        or isinstance(v, rx.MatcherVar) and v.proved:  # `if (!m.matches()) return;`
                     self.scope.env[name] = v
+
+    def _proved_matches(self, c: Expr, then_env: dict, else_env: dict) -> None:
+        """`if (m.find())`: in the branch the match is known to have succeeded, and group() needs
+        no check (and `if (!m.find())`: in the else branch, or below it when the branch returns)."""
+        for name, v in self.scope.env.items():
+            if isinstance(v, rx.MatcherVar) and v.matched is not None and not v.proved:
+                if c == v.matched:
+                    then_env[name] = replace(v, proved=True)
+                elif c == BoolOp("boolean", "!", (v.matched,)):
+                    else_env[name] = replace(v, proved=True)
+
+    def _find_loop(self, s: T.WhileStatement, guard, mv: rx.MatcherVar) -> None:
+        """`while (m.find()) { ... m.group(k) ... }`: one row per match (regexp_extract_all walks the
+        matches as repeated find() calls do), for the one group the body reads."""
+        name = s.condition.qualifier
+        if mv.regex is not None:
+            raise Unsupported(s, "a find() loop after an earlier match attempt on the same Matcher")
+        reads = [n for _, n in s.body if isinstance(n, T.MethodInvocation) and n.qualifier == name]
+        if any(n.member != "group" for n in reads):
+            raise Unsupported(s, f"the loop calls {name}.{next(n.member for n in reads if n.member != 'group')}() "
+                                 "on the Matcher it walks")
+        groups = {0 if not n.arguments else int(n.arguments[0].value)
+                  if isinstance(n.arguments[0], T.Literal) and n.arguments[0].value.isdigit() else None for n in reads}
+        if len(groups) > 1 or None in groups:
+            raise Unsupported(s, "a find() loop reading several groups (or a computed group) of each match",
+                              "F.arrays_zip of one F.regexp_extract_all per group, then explode")
+        k = groups.pop() if groups else 0
+        count, certain = rx.group_facts(mv.pattern.regex)
+        if k > count or (k and k not in certain):
+            raise Unsupported(s, f"group({k}) may take no part in a match (it is optional, in an alternative or in a "
+                                 "lookaround): Java gives null there, Spark gives \"\"")
+        array = Call("String[]", "regex_matches", (mv.subject, rx.applied(mv.pattern, "find"), Lit("int", k)))
+        saved_dead = self.dead
+        col, stmts = self._loop(s, guard, array, "match", s.body)
+        current = Col("String", col)
+        self.scope.env[name] = replace(mv, current=current)
+        try:
+            self._loop_body(stmts)
+        finally:
+            self.scope.env[name] = replace(mv, spent=True)  # find() returned false: no match to read
+            self._end_loop(saved_dead)
 
     def _leaves(self, stmt) -> bool:
         """The branch always ends the record (`return`), or this loop iteration where that is the scope."""
@@ -596,6 +681,9 @@ class MapBodyLifter:
 
     def _while(self, s: T.WhileStatement, guard) -> None:
         c = s.condition
+        if isinstance(c, T.MethodInvocation) and c.member == "find" and not c.arguments and not c.selectors \
+                and isinstance(self.scope.env.get(c.qualifier), rx.MatcherVar):
+            return self._find_loop(s, guard, self.scope.env[c.qualifier])
         tok = None
         if isinstance(c, T.MethodInvocation) and c.member in ("hasMoreTokens", "hasMoreElements") and not c.arguments:
             tok = self.scope.env.get(c.qualifier)
@@ -728,6 +816,9 @@ def class_constants(cls: ClassInfo, index=None) -> dict[str, object]:
                 continue
             try:
                 made = date_object(init, f)
+                if tname in ("Pattern", "java.util.regex.Pattern") and init is not None:
+                    made = regex_object(init, Scope(dict(env)))  # a CompiledPattern, or Unsupported
+                    made = replace(made, name=made.name or d.name) if isinstance(made, rx.CompiledPattern) else None
             except Unsupported:
                 made = None
             if made is not None:

@@ -18,10 +18,10 @@ from javalang import tree as T
 
 from migrate.java.index import ClassInfo, node_lines
 from migrate.lift.writables import structs_of
-from migrate.lift.exprs import (WRITABLE_OF, Opaque, Scope, Unsupported, Writable, calls_as_names, lift, promote, widen,
+from migrate.lift.exprs import (WRITABLE_OF, Opaque, Scope, Unsupported, Writable, calls_as_names, lift, promote, widen, widen_at,
                                 writable_creator, writable_set, write_argument)
 from migrate.lift.mapper import class_constants, helper_methods
-from migrate.plan import (NUMERIC, Agg, AggRef, BoolOp, Col, Compare, Cond, EachValue, Emit, Expr, Group,
+from migrate.plan import (NUMERIC, Agg, AggRef, BoolOp, Col, Compare, Cond, EachValue, Emit, Expr, Finding, Group,
                           HandWork, Let, Lit, Span, TopPerKey, walk)
 
 _DECLARED = {"int": "int", "long": "long", "double": "double", "float": "float", "Integer": "int", "Long": "long",
@@ -155,7 +155,7 @@ class FoldLifter:
                 t = _DECLARED.get(tname)
                 if t is None:
                     raise Unsupported(s, f"local of type {tname} in reduce()")
-                e = widen(e, t) if e.jtype != t and e.jtype in NUMERIC else e
+                e = widen_at(e, t, self.scope, s) if e.jtype != t and e.jtype in NUMERIC else e
                 if not self.seen_loop:
                     if not isinstance(e, Lit):
                         raise Unsupported(s, "accumulator initialised from something other than a constant")
@@ -324,7 +324,7 @@ class FoldLifter:
             for d in st.declarators:
                 e = self._expr(d.initializer)
                 t = _DECLARED.get(getattr(st.type, "name", ""), e.jtype)
-                e = widen(e, t) if e.jtype in NUMERIC and t in NUMERIC else e
+                e = widen_at(e, t, self.scope, st) if e.jtype in NUMERIC and t in NUMERIC else e
                 if isinstance(e, (Col, Lit)):
                     self.scope.env[d.name] = e
                     continue
@@ -449,8 +449,9 @@ class FoldLifter:
             raise Unsupported(st, f"aggregate over a {arg.jtype}")
         elif arg is not None and arg.jtype != t:
             if promote(arg.jtype, t) != t:
-                raise Unsupported(st, f"compound assignment narrows a {arg.jtype} into the {t} `{name}`")
-            arg = widen(arg, t)
+                self._narrowing_sum(st, name, fn, arg.jtype, t)  # the long sum is kept; wrap_int narrows it
+            else:
+                arg = widen(arg, t)
         if fn == "sum" and t == "float":
             raise Unsupported(st, f"`{name}` sums floats in float precision; Spark's sum of a float column "
                                   "works in double and would print other digits",
@@ -470,6 +471,21 @@ class FoldLifter:
         a, b = node_lines(st)
         snippet = self.cls.file.lines[a - 1].strip() if a else ""
         self.aggs[name] = Agg(name, fn, arg, "int" if fn == "count_distinct" else t, init.value, Span(self.file, a, b), snippet)
+
+
+    def _narrowing_sum(self, st, name: str, fn: str, arg_t: str, t: str) -> None:
+        """`int sum += longValue` is `sum = (int) (sum + longValue)` (JLS 15.26.2): each step keeps the
+        low 32 bits, and so does the low 32 bits of the whole long sum (arithmetic modulo 2^32), which
+        the script computes. Narrowing from a floating value truncates at every step: declined."""
+        if not (fn == "sum" and (arg_t, t) == ("long", "int")):
+            raise Unsupported(st, f"compound assignment narrows a {arg_t} into the {t} `{name}`")
+        line = node_lines(st)[0]
+        self.scope.findings.append(Finding(
+            "narrowing-assignment", Span(self.file, line, line),
+            f"`{name} += ...` adds a long into the int `{name}`: Java keeps the low 32 bits after every addition "
+            "(JLS 15.26.2), so a sum past 2147483647 wraps around to a negative number; the script does the same",
+            f"if the sum may be large, declare `{name}` a long in Java and drop the wrap in the script; that changes "
+            "the output"))
 
 
 def _block(st) -> list:

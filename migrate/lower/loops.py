@@ -188,3 +188,58 @@ def _element_type(arr: str, method, cls):
     out = copy.copy(t)
     out.dimensions = []
     return out
+
+
+def while_counters(cls, index=None) -> list[tuple[int, str]]:
+    """`int i = 0; while (i < n) { ...; i++; ... }` is `for (int i = 0; i < n; i++) { ... }` when the
+    body steps i once, at its top level, nothing before the step jumps past it (`continue` would
+    skip it in the while, not in the for), nothing after it reads i, nothing else changes i, and
+    nothing after the loop reads i (the for's i ends with the loop). Moving the step to the end
+    changes nothing then: every way out of an iteration after the step (continue, break, return)
+    leaves i as the for does, or never reads it again. The counting-loop rule then reads the for."""
+    done = []
+    for method in cls.node.methods:
+        for stmts, _ in list(statement_lists(method)):
+            k = 0
+            while k + 1 < len(stmts):
+                got = _as_counting_for(stmts[k], stmts[k + 1], stmts[k + 2:])
+                if got is not None:
+                    stmts[k:k + 2] = [got]
+                    done.append((line_of(got), "a while loop stepping a counter is a counting for loop"))
+                k += 1
+    return done
+
+
+def _as_counting_for(decl, loop, after):
+    if not (isinstance(decl, T.LocalVariableDeclaration) and getattr(decl.type, "name", "") == "int"
+            and not decl.type.dimensions and len(decl.declarators) == 1 and not decl.declarators[0].dimensions
+            and isinstance(loop, T.WhileStatement) and isinstance(loop.body, T.BlockStatement) and loop.body.statements):
+        return None
+    i = decl.declarators[0].name
+    cond = loop.condition
+    body = loop.body.statements
+    if not (isinstance(cond, T.BinaryOperation) and cond.operator in ("<", "<=") and _is_name(cond.operandl, i)):
+        return None
+    at = [j for j, x in enumerate(body) if isinstance(x, T.StatementExpression) and _is_increment([x.expression], i)]
+    if len(at) != 1:
+        return None
+    pre, step, post = body[:at[0]], body[at[0]], body[at[0] + 1:]
+    rest = pre + post
+    if _writes(rest, i) or any(_steps(n, i) for x in rest for _, n in x) or _mentions(cond.operandr, i) \
+            or any(isinstance(n, T.ContinueStatement) for x in pre for _, n in x) \
+            or any(mentions(x, i) for x in post) or any(mentions(x, i) for x in after):
+        return None
+    init = T.VariableDeclaration(modifiers=decl.modifiers, annotations=decl.annotations, type=decl.type,
+                                 declarators=decl.declarators)
+    control = positioned(T.ForControl(init=init, condition=cond, update=[step.expression]), loop)
+    new_body = positioned(T.BlockStatement(label=None, statements=rest), loop.body)
+    return positioned(T.ForStatement(label=loop.label, control=control, body=new_body), loop)
+
+
+def _steps(n, name) -> bool:
+    return isinstance(n, T.MemberReference) and n.member == name and not n.qualifier \
+        and bool({"++", "--"} & set((n.prefix_operators or []) + (n.postfix_operators or [])))
+
+
+def _mentions(node, name) -> bool:
+    return any(_mentions_name(n, name) for _, n in node) if hasattr(node, "__iter__") else False

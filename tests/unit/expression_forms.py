@@ -157,4 +157,30 @@ FORMS = [
     ("boxed_value_of", "Integer.valueOf(a) + 1"),
     ("boxed_int_value", "Integer.valueOf(a).intValue() * 2"),
     ("boxed_double", "Double.valueOf(x).doubleValue() + 1"),
+    # String.hashCode (31-polynomial over UTF-16 units, int wrap-around), compareTo (Java SE API, String)
+    ("string_hash", "s.hashCode()"),
+    ("string_hash_bucket", "Math.abs(s.hashCode() % 7)"),
+    ("compare_to", "s.compareTo(t)"),
+    ("compare_to_negative", "t.compareTo(s) < 0"),
+    ("compare_to_ignore_case", "s.compareToIgnoreCase(t)"),
+    # Character.isX(char) (Java SE API, Character) and char arithmetic on code units (JLS 5.6.2)
+    ("char_is_digit", "Character.isDigit(s.charAt(0))"),
+    ("char_is_letter", "Character.isLetter(s.charAt(0))"),
+    ("char_is_whitespace", "Character.isWhitespace(s.charAt(0))"),
+    ("char_is_upper", "Character.isUpperCase(s.charAt(0))"),
+    ("char_is_letter_or_digit", "Character.isLetterOrDigit(t.charAt(t.length() - 1))"),
+    ("char_minus_char", "s.charAt(0) - 'a'"),
+    ("char_plus_int", "s.charAt(0) + 1"),
+    ("char_lt_char", "s.charAt(0) < 'b'"),
+    ("char_ge_int", "s.charAt(0) >= 48"),
+    ("char_cast_int", "(int) s.charAt(0)"),
+    ("char_arith_text", '"#" + (s.charAt(0) + 1)'),
+    # String.join (Java SE API)
+    ("join_values", 'String.join("-", s, t)'),
+    ("join_split", 'String.join("|", s.split(","))'),
+    # java.util.regex (Java SE API: Pattern.matches, Matcher.find/lookingAt, Pattern.split = split(input, 0))
+    ("pattern_matches", 'java.util.regex.Pattern.matches("[a-z ,]+", s)'),
+    ("matcher_find", 'java.util.regex.Pattern.compile("\\\\d+").matcher(s).find()'),
+    ("matcher_looking_at_ci", 'java.util.regex.Pattern.compile("s", java.util.regex.Pattern.CASE_INSENSITIVE).matcher(t).lookingAt()'),
+    ("pattern_split", 'java.util.regex.Pattern.compile(",").split(s)'),
 ]

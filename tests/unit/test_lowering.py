@@ -3,6 +3,8 @@
 the RidesPerRoute sample; these tests pin where each rule must decline.)"""
 from __future__ import annotations
 
+import pytest
+
 from migrate.plan import dump_plan
 from tests.helpers import job_source, scan_text
 
@@ -330,3 +332,78 @@ def test_a_key_object_set_before_each_write_inside_a_loop_converts(tmp_path):
         context.write(pair, new IntWritable(1));
       }""")
     assert not _reasons(job), _reasons(job)
+
+
+def test_a_string_builder_only_appended_and_read_is_a_string(tmp_path):
+    job = _job(tmp_path, """
+      String[] f = value.toString().split(",");
+      StringBuilder sb = new StringBuilder(f[0].trim());
+      sb.append('|').append(f.length);
+      if (f.length > 1) { sb.setLength(0); sb.append(f[1]); }
+      context.write(new Text(sb.toString()), new IntWritable(sb.length()));""")
+    assert not _reasons(job)
+    assert any("StringBuilder `sb`" in n for n in job.plan.notes)
+
+
+@pytest.mark.parametrize("body", [
+    # a number given to the constructor is a capacity, not text
+    """
+      StringBuilder sb = new StringBuilder(16);
+      sb.append(value.toString());
+      context.write(new Text(sb.toString()), new IntWritable(1));""",
+    # insert/reverse are not String operations
+    """
+      StringBuilder sb = new StringBuilder(value.toString());
+      sb.reverse();
+      context.write(new Text(sb.toString()), new IntWritable(1));""",
+    # appended across loop iterations: the text is carried from one iteration to the next
+    """
+      StringBuilder sb = new StringBuilder();
+      for (String w : value.toString().split(" ")) { sb.append(w); }
+      context.write(new Text(sb.toString()), new IntWritable(1));""",
+], ids=["capacity", "reverse", "appended_in_a_loop"])
+def test_a_string_builder_used_otherwise_stays_a_builder(tmp_path, body):
+    job = _job(tmp_path, body)
+    assert not any("StringBuilder" in n and "a String" in n for n in job.plan.notes)
+    assert _reasons(job)
+
+
+def test_a_while_loop_stepping_an_index_is_a_for_each(tmp_path):
+    job = _job(tmp_path, """
+      String[] words = value.toString().split(" ");
+      int i = 0;
+      while (i < words.length) {
+        String w = words[i];
+        i++;
+        if (w.isEmpty()) continue;
+        context.write(new Text(w), new IntWritable(1));
+      }""")
+    assert not _reasons(job)
+    assert any("while loop stepping a counter" in n for n in job.plan.notes)
+
+
+@pytest.mark.parametrize("body", [
+    # a continue before the step skips it in the while (here: forever), not in a for
+    """
+      String[] words = value.toString().split(" ");
+      int i = 0;
+      while (i < words.length) {
+        if (words[i].isEmpty()) continue;
+        context.write(new Text(words[i]), new IntWritable(1));
+        i++;
+      }""",
+    # the counter is read after the loop
+    """
+      String[] words = value.toString().split(" ");
+      int i = 0;
+      while (i < words.length) { context.write(new Text(words[i]), new IntWritable(1)); i++; }
+      context.write(new Text("n"), new IntWritable(i));""",
+    # stepped twice
+    """
+      String[] words = value.toString().split(" ");
+      int i = 0;
+      while (i < words.length) { context.write(new Text(words[i]), new IntWritable(1)); i += 1; i++; }""",
+], ids=["continue_before_the_step", "read_after_the_loop", "stepped_twice"])
+def test_a_while_loop_that_is_not_a_plain_counter_is_left(tmp_path, body):
+    job = _job(tmp_path, body)
+    assert not any("while loop stepping a counter" in n for n in job.plan.notes)

@@ -58,6 +58,17 @@ CASES = {
       this.word.set(line.trim().toUpperCase(java.util.Locale.ROOT));
       if (!java.util.Objects.equals(line, "")) { context.write(this.word, new IntWritable(1)); }""",
                             "private Text word = new Text();"),
+    "builder_and_while_loop": ("""
+      String[] words = value.toString().split(" ");
+      int at = 0;
+      while (at < words.length) {
+        String w = words[at];
+        at++;
+        if (w.isEmpty()) continue;
+        StringBuilder sb = new StringBuilder(w.trim());
+        sb.append('#').append(w.length()).append(w.charAt(0) > 'm');
+        context.write(new Text(sb.toString()), new IntWritable(sb.length()));
+      }""", ""),
 }
 
 
@@ -71,20 +82,20 @@ SUM_REDUCER = """
   }"""
 
 
-def _agrees_with_hadoop(tmp_path, source: str, data: dict[str, bytes]) -> None:
+def _agrees_with_hadoop(tmp_path, source: str, data: dict[str, bytes], driver: str = "Main") -> None:
     """Convert the one-job repository, then `mrlift verify` it: Hadoop and the script on `data`."""
     from migrate.convert import write_outputs
     from migrate.scan import scan_repo
     from migrate.verify.runner import load_runs, verify
 
-    scan_text(tmp_path / "repo", {"Main.java": source})
+    scan_text(tmp_path / "repo", {f"{driver}.java": source})
     written = write_outputs(scan_repo(tmp_path / "repo"), tmp_path / "out", "repo")
     (job,) = written.report["jobs"]
     assert job["status"] == "converted", job["hand_work"]
     (tmp_path / "data").mkdir()
     for name, content in data.items():
         (tmp_path / "data" / name).write_bytes(content)
-    (tmp_path / "runs.json").write_text(json.dumps({"runs": [{"driver": "Main", "args": ["data", "@out"]}]}))
+    (tmp_path / "runs.json").write_text(json.dumps({"runs": [{"driver": driver, "args": ["data", "@out"]}]}))
     (check,), _ = verify(tmp_path / "out", load_runs(tmp_path / "runs.json"), timeout=180)
     assert check.verdict == "agrees", f"{check.detail}\n{check.log[-3000:]}"
 
@@ -174,3 +185,82 @@ def test_constant_collections_agree_with_hadoop(tmp_path):
     _agrees_with_hadoop(tmp_path, job_source(body, fields=fields, reducer_class=None,
                                              extra_driver="job.setNumReduceTasks(0);"),
                         {"lines.txt": INPUT.encode("utf-8")})
+
+
+def test_narrowing_compound_assignments_agree_with_hadoop(tmp_path):
+    """JLS 15.26.2: `x op= v` is `x = (T) (x op v)`. An int sum of longs keeps the low 32 bits at every
+    step (here past 2^31, with the reducer as its own combiner); `int *= double` truncates toward zero."""
+    body = """
+      String[] f = value.toString().split(" ");
+      try {
+        int scaled = 3;
+        scaled *= Double.parseDouble(f[1]);
+        int low = 1;
+        low += Long.parseLong(f[1]) * 1000L;
+        context.write(new Text(f[0] + ":" + scaled + ":" + low), new LongWritable(Long.parseLong(f[1])));
+      } catch (NumberFormatException | ArrayIndexOutOfBoundsException e) { }"""
+    reducer = """
+  public static class R extends Reducer<Text, LongWritable, Text, LongWritable> {
+    private LongWritable result = new LongWritable();
+    protected void reduce(Text k, Iterable<LongWritable> vs, Context c) throws IOException, InterruptedException {
+      int sum = 0;
+      for (LongWritable v : vs) sum += v.get();
+      result.set(sum);
+      c.write(k, result);
+    }
+  }"""
+    source = job_source(body, reducer=reducer, map_out=("Text", "LongWritable"), out=("Text", "LongWritable"),
+                        extra_driver="job.setCombinerClass(R.class);")
+    lines = "a 2147483647\na 2147483647\nb -3000000000\nb 7\nc 2.5\nd x\ne 1e10\n"
+    _agrees_with_hadoop(tmp_path, source, {"lines.txt": lines.encode("utf-8")})
+
+
+def test_java_traps_agree_with_hadoop(tmp_path):
+    """The golden job with three of Java's traps (integer division widened to a double, char
+    arithmetic, an int total of longs past 2^31 with the reducer as combiner), run on both engines."""
+    from pathlib import Path
+
+    (java,) = (Path(__file__).parents[1] / "golden" / "cases" / "latent_bugs" / "java_traps").glob("*.java")
+    lines = ("S12,B,5400000,3\nS12,B,2147483647000,1\nS12,B,2147483647000,1\nS7,A,999,2\nS7,Ä,10,1\n"
+             "S9,C,x,1\nS9,,5,1\nS9,C,7000,0\nshort,line\n")
+    _agrees_with_hadoop(tmp_path, java.read_text(encoding="utf-8").replace("package net.brindleharbour.ferry;", ""),
+                        {"loads.csv": lines.encode("utf-8")}, driver=java.stem)
+
+
+REGEX_INPUT = ("10.0.0.1 [03/Dec] \"GET /a\" 200\n10.0.0.2 [x] \"POST /b\"\nnot a log line\n"
+               "#Tide and #tide, #Ebb!\n\nid=42;x id=7\nID=9 #äb\n")
+
+
+@pytest.mark.parametrize("body, fields", [
+    ("""
+      Matcher m = LOG.matcher(value.toString());
+      if (!m.matches()) {
+        return;
+      }
+      context.write(new Text(m.group(1) + "|" + m.group(3)), new IntWritable(m.group(2).length()));""",
+     """private static final Pattern LOG = Pattern.compile("(\\\\S+) \\\\[([^\\\\]]*)\\\\] \\"(GET|POST) [^\\"]*\\"( \\\\d+)?");"""),
+    ("""
+      Matcher m = tag.matcher(value.toString());
+      while (m.find()) {
+        context.write(new Text(m.group(1).toLowerCase()), new IntWritable(1));
+      }""", """private Pattern tag;
+    protected void setup(Context context) { tag = Pattern.compile("#(\\\\w+)", Pattern.CASE_INSENSITIVE); }"""),
+    ("""
+      String line = value.toString();
+      Matcher m = Pattern.compile("id=(\\\\d+)(;x)?").matcher(line);
+      String id = "none";
+      if (m.find()) {
+        id = m.group(1);
+      }
+      boolean caps = Pattern.matches("[A-Z].*", line);
+      context.write(new Text(id + "/" + caps + "/" + ID.matcher(line).lookingAt() + "/" + ID.split(line).length),
+                    new IntWritable(m.groupCount()));""",
+     """private static final Pattern ID = Pattern.compile("id=", Pattern.CASE_INSENSITIVE);"""),
+], ids=["matches_then_groups", "find_loop_in_setup_pattern", "find_once_with_default"])
+def test_regex_matchers_agree_with_hadoop(body, fields, tmp_path):
+    """java.util.regex on both sides (Spark's rlike and regexp_extract are java.util.regex): matches()
+    with groups after an early return, a find() loop over a pattern made in setup(), find() once with
+    a default, Pattern.matches, lookingAt and Pattern.split."""
+    source = job_source(body, fields=fields, reducer=SUM_REDUCER).replace("import java.util.*;",
+                                                                          "import java.util.*;\nimport java.util.regex.*;")
+    _agrees_with_hadoop(tmp_path, source, {"log.txt": REGEX_INPUT.encode("utf-8")})

@@ -95,15 +95,15 @@ def _hex_units(s: Column, charset: str, width: int) -> Column:
     )
 
 
+def string_hash(s: Column) -> Column:
+    """String.hashCode(): s[0]*31^(n-1) + ... over the UTF-16 code units, starting at 0."""
+    return _fold_hash(_hex_units(s, "UTF-16BE", 4), 0)
+
+
 def text_hash(s: Column) -> Column:
     """Text.hashCode(): WritableComparator.hashBytes over the UTF-8 bytes (signed), starting at 1."""
     signed = F.transform(_hex_units(s, "UTF-8", 2), lambda b: F.when(b > 127, b - 256).otherwise(b))
     return _fold_hash(signed, 1)
-
-
-def string_hash(s: Column) -> Column:
-    """String.hashCode(): s[0]*31^(n-1) + ... over the UTF-16 code units, starting at 0."""
-    return _fold_hash(_hex_units(s, "UTF-16BE", 4), 0)
 
 
 def first_code_unit(s: Column) -> Column:
