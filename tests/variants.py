@@ -314,7 +314,15 @@ def while_loops(text: str) -> str:
             return m.group(0)
         i = f"{x}At"
         return f"{indent}int {i} = 0;\n{indent}while ({i} < {arr}.length) {{ {t} {x} = {arr}[{i}]; {i}++;"
-    return re.sub(r"(?m)^(\s*)for \((?:final )?([\w.<>]+) (\w+) : (\w+)\) \{", loop, text)
+    text = re.sub(r"(?m)^(\s*)for \((?:final )?([\w.<>]+) (\w+) : (\w+)\) \{", loop, text)
+
+    def split_loop(m: re.Match) -> str:  # over split(): the array becomes a local first
+        indent, t, x, expr = m.group(1), m.group(2), m.group(3), m.group(4)
+        arr, i = f"{x}All", f"{x}At"
+        return (f"{indent}{t}[] {arr} = {expr};\n{indent}int {i} = 0;\n"
+                f"{indent}while ({i} < {arr}.length) {{ {t} {x} = {arr}[{i}]; {i}++;")
+    return re.sub(r"(?m)^(\s*)for \((?:final )?(String) (\w+) : ([\w.()]+\.split\(\"[^\"]*\"\))\) \{",
+                  split_loop, text)
 
 
 def string_builder(text: str) -> str:

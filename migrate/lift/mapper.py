@@ -465,6 +465,15 @@ class MapBodyLifter:
         self._assign_value(s, target.member, value, guard)
 
     def _assign_value(self, s, name: str, value_node, guard) -> None:
+        old = self._assignable(s, name)
+        new = lift(value_node, self.scope)
+        if old.jtype != "null":
+            new = self._narrowed(s, name, new, old.jtype) if new.jtype in NUMERIC and old.jtype in NUMERIC \
+                and promote(new.jtype, old.jtype) != old.jtype else widen_at(new, old.jtype, self.scope, s)
+        self._store(s, name, new, guard)
+
+    def _assignable(self, s, name: str) -> Expr:
+        """The value of the local `name`, which `s` may assign (else Unsupported)."""
         if name in self.field_names and name not in self.locals:
             raise Unsupported(s, f"assignment to the field `{name}`: a field keeps state across records",
                               "per-record state is fine; state across records needs a window or an aggregation")
@@ -476,10 +485,11 @@ class MapBodyLifter:
         if self.loop_locals and name not in set().union(*self.loop_locals) and self.loop_depth:
             raise Unsupported(s, f"`{name}` is carried from one loop iteration to the next",
                               "an aggregate over the exploded rows (F.aggregate, or groupBy) can replace the loop")
-        new = lift(value_node, self.scope)
-        if old.jtype != "null":
-            new = self._narrowed(s, name, new, old.jtype) if new.jtype in NUMERIC and old.jtype in NUMERIC \
-                and promote(new.jtype, old.jtype) != old.jtype else widen_at(new, old.jtype, self.scope, s)
+        return old
+
+    def _store(self, s, name: str, new: Expr, guard) -> None:
+        """Give the local `name` a new value (under the guard: where it does not hold, the old one)."""
+        old = self.scope.env[name]
         g = self._eff(guard)
         value = new if g is None else Call(new.jtype, "if_else", (g, new, old))
         reuse = old.name if isinstance(old, Col) and old.name not in ("value", "key") and not isinstance(value, Col) else None
@@ -733,6 +743,8 @@ class MapBodyLifter:
     def _try(self, s: T.TryStatement, guard, rest) -> None:
         if s.finally_block or s.resources:
             raise Unsupported(s, "try with finally or resources is not lifted")
+        if rest and self._try_default(s, guard):
+            return
         kinds: set[str] = set()
         skips = True
         catch_counters: list = []  # counters bumped for every record the try block threw on
@@ -769,6 +781,66 @@ class MapBodyLifter:
         if self.caught_all(kinds):
             self.notes.append(f"{self.file}:{self._line(s)} catch of {', '.join(sorted(kinds))}: records are skipped exactly "
                               "where parsing or indexing would have thrown")
+
+    def _try_default(self, s: T.TryStatement, guard) -> bool:
+        """`try { x = E; } catch (K e) { [x = D;] [counters] [logging] }` with code after it: x is E
+        where E does not throw K, else D (or the value x had); the record goes on either way, and
+        a counter in the catch counts the records where E threw."""
+        block = s.block or []
+        st = block[0] if len(block) == 1 else None
+        e = st.expression if isinstance(st, T.StatementExpression) else None
+        if not (isinstance(e, T.Assignment) and e.type == "=" and isinstance(e.expressionl, T.MemberReference)
+                and not e.expressionl.qualifier and not e.expressionl.selectors and len(s.catches or []) == 1):
+            return False
+        name = e.expressionl.member
+        if name not in self.locals:
+            return False
+        old = self._assignable(st, name)
+        if old.jtype not in _DECLARED.values():
+            return False
+        catch = s.catches[0]
+        default, counters, where = None, [], s
+        for x in catch.block or []:
+            xe = x.expression if isinstance(x, T.StatementExpression) else None
+            if isinstance(xe, T.MethodInvocation) and (xe.qualifier or "") in LOG_RECEIVERS:
+                self.notes.append(f"{self.file}:{self._line(x)} logging in a catch block is not carried over")
+            elif xe is not None and is_counter_call(xe):
+                counters.append((x, counter_update(xe, self.scope, self.cls, self.index)))
+            elif isinstance(xe, T.Assignment) and xe.type == "=" and default is None \
+                    and isinstance(xe.expressionl, T.MemberReference) and xe.expressionl.member == name \
+                    and not xe.expressionl.qualifier and not xe.expressionl.selectors:
+                default, where = xe.value, x
+            else:
+                return False
+        kinds = frozenset(n.split(".")[-1] for n in catch.parameter.types)
+        saved = self.scope.caught
+        self.scope.caught = self.caught | kinds
+        try:
+            value = lift(e.value, self.scope)
+        finally:
+            self.scope.caught = saved
+        d = lift(default, self.scope) if default is not None else old
+        if value.jtype in NUMERIC and old.jtype in NUMERIC and promote(value.jtype, old.jtype) == old.jtype:
+            value = widen_at(value, old.jtype, self.scope, st)
+        if d.jtype in NUMERIC and old.jtype in NUMERIC and promote(d.jtype, old.jtype) == old.jtype:
+            d = widen_at(d, old.jtype, self.scope, st)
+        if value.jtype != old.jtype or d.jtype != old.jtype or (isinstance(d, Lit) and d.value is None):
+            return False
+        g = self._eff(guard)
+        if not _has_null_on_error(value):  # nothing in E throws what the catch catches: it never runs
+            self._store(st, name, value, guard)
+            return True
+        tried = self._fresh(f"{name}_tried")
+        self.steps.append(Let(self._span(st), self._note(st) + "  (NULL where it throws)", tried,
+                              value if g is None else Call(value.jtype, "guarded", (g, value))))
+        threw = Call("boolean", "is_null", (Col(value.jtype, tried),))
+        for x, cu in counters:
+            self.steps.append(Count(self._span(x), self._note(x), cu.group, cu.name, _and(g, threw), cu.amount))
+        self.notes.append(f"{self.file}:{self._line(s)} catch of {', '.join(sorted(kinds))}: `{name}` takes "
+                          f"{'the catch block' + chr(39) + 's value' if default is not None else 'its earlier value'} "
+                          "where the try block threw, and the record goes on")
+        self._store(where, name, Call(old.jtype, "or_default", (Col(value.jtype, tried), d)), guard)
+        return True
 
     def _count_skipped(self, s, counters, first_step: int, first_emit: int) -> None:
         """A counter in the catch block counts the records the try block threw on: the rows that

@@ -407,3 +407,30 @@ def test_a_while_loop_stepping_an_index_is_a_for_each(tmp_path):
 def test_a_while_loop_that_is_not_a_plain_counter_is_left(tmp_path, body):
     job = _job(tmp_path, body)
     assert not any("while loop stepping a counter" in n for n in job.plan.notes)
+
+
+def test_a_catch_that_gives_a_default_lets_the_record_go_on(tmp_path):
+    job = _job(tmp_path, """
+      int n = 0;
+      try { n = Integer.parseInt(value.toString().trim()); } catch (NumberFormatException e) { n = -1; }
+      context.write(new Text("n"), new IntWritable(n));""")
+    assert not _reasons(job)
+    assert any("takes the catch block's value where the try block threw" in n for n in job.plan.notes)
+
+
+@pytest.mark.parametrize("body", [
+    # two assignments: where the second throws, the first has happened
+    """
+      int a = 0, b = 0;
+      try { a = Integer.parseInt(value.toString()); b = a * 2; } catch (NumberFormatException e) { }
+      context.write(new Text("n"), new IntWritable(a + b));""",
+    # the catch does something that is not a default, a counter or logging
+    """
+      int a = 0;
+      try { a = Integer.parseInt(value.toString()); } catch (NumberFormatException e) { context.write(new Text("bad"), new IntWritable(1)); }
+      context.write(new Text("n"), new IntWritable(a));""",
+], ids=["two_assignments", "catch_writes"])
+def test_a_catch_that_does_more_than_a_default_is_not_read_as_one(tmp_path, body):
+    job = _job(tmp_path, body)
+    assert not any("where the try block threw" in n for n in job.plan.notes)
+    assert _reasons(job)

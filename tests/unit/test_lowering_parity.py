@@ -69,6 +69,22 @@ CASES = {
         sb.append('#').append(w.length()).append(w.charAt(0) > 'm');
         context.write(new Text(sb.toString()), new IntWritable(sb.length()));
       }""", ""),
+    "catch_gives_a_default": ("""
+      String[] f = value.toString().split(" ");
+      int n = -1;
+      try {
+        n = Integer.parseInt(f[1].trim());
+      } catch (NumberFormatException | ArrayIndexOutOfBoundsException e) {
+        context.getCounter("quality", "bad number").increment(1);
+      }
+      double w;
+      try {
+        w = Double.parseDouble(f[f.length - 1]);
+      } catch (Exception e) {
+        System.err.println("no weight");
+        w = 0.5;
+      }
+      context.write(new Text(f[0] + ":" + w), new IntWritable(n));""", ""),
 }
 
 
