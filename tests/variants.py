@@ -137,25 +137,27 @@ def setup_fields(tree, lines: list[str]) -> None:
         lines[last + 1:last + 1] = body
 
 
-def counting_loops(text: str) -> str:
-    """`for (T x : arr)` over an array vs `for (int i = 0; i < arr.length; i++) { T x = arr[i]; ...`."""
+def _for_each_loops(text: str, head, suffix: str) -> str:
+    """Rewrite the for-each loops over an array local or over `e.split("...")` (made a local first):
+    head(indent, T, x, arr, i) writes the new loop's head, which must leave x = arr[i] bound."""
     arrays = set(re.findall(r"\b\w+\s*\[\]\s+(\w+)\s*[=;]", text))
 
     def loop(m: re.Match) -> str:
         t, x, arr = m.group(2), m.group(3), m.group(4)
-        if arr not in arrays:
-            return m.group(0)
-        i = f"{x}Index"
-        return f"{m.group(1)}for (int {i} = 0; {i} < {arr}.length; {i}++) {{ {t} {x} = {arr}[{i}];"
+        return head(m.group(1), t, x, arr, f"{x}{suffix}") if arr in arrays else m.group(0)
     text = re.sub(r"(?m)^(\s*)for \((?:final )?([\w.<>]+) (\w+) : (\w+)\) \{", loop, text)
 
-    def split_loop(m: re.Match) -> str:  # over split(): the array becomes a local first
+    def split_loop(m: re.Match) -> str:
         indent, t, x, expr = m.group(1), m.group(2), m.group(3), m.group(4)
-        arr, i = f"{x}All", f"{x}Index"
-        return (f"{indent}{t}[] {arr} = {expr};\n"
-                f"{indent}for (int {i} = 0; {i} < {arr}.length; {i}++) {{ {t} {x} = {arr}[{i}];")
+        return f"{indent}{t}[] {x}All = {expr};\n" + head(indent, t, x, f"{x}All", f"{x}{suffix}")
     return re.sub(r"(?m)^(\s*)for \((?:final )?(String) (\w+) : ([\w.()]+\.split\(\"[^\"]*\"\))\) \{",
                   split_loop, text)
+
+
+def counting_loops(text: str) -> str:
+    """`for (T x : arr)` over an array vs `for (int i = 0; i < arr.length; i++) { T x = arr[i]; ...`."""
+    return _for_each_loops(text, lambda ind, t, x, arr, i: f"{ind}for (int {i} = 0; {i} < {arr}.length; {i}++) "
+                                                          f"{{ {t} {x} = {arr}[{i}];", "Index")
 
 
 def locale_case(text: str) -> str:
@@ -306,23 +308,8 @@ def _closing(text: str, open_at: int) -> int:
 def while_loops(text: str) -> str:
     """`for (T x : arr) {` over an array vs `int i = 0; while (i < arr.length) { T x = arr[i]; i++; ...`
     (the step right after the element is read: the rest of the body never reads i)."""
-    arrays = set(re.findall(r"\b\w+\s*\[\]\s+(\w+)\s*[=;]", text))
-
-    def loop(m: re.Match) -> str:
-        indent, t, x, arr = m.group(1), m.group(2), m.group(3), m.group(4)
-        if arr not in arrays:
-            return m.group(0)
-        i = f"{x}At"
-        return f"{indent}int {i} = 0;\n{indent}while ({i} < {arr}.length) {{ {t} {x} = {arr}[{i}]; {i}++;"
-    text = re.sub(r"(?m)^(\s*)for \((?:final )?([\w.<>]+) (\w+) : (\w+)\) \{", loop, text)
-
-    def split_loop(m: re.Match) -> str:  # over split(): the array becomes a local first
-        indent, t, x, expr = m.group(1), m.group(2), m.group(3), m.group(4)
-        arr, i = f"{x}All", f"{x}At"
-        return (f"{indent}{t}[] {arr} = {expr};\n{indent}int {i} = 0;\n"
-                f"{indent}while ({i} < {arr}.length) {{ {t} {x} = {arr}[{i}]; {i}++;")
-    return re.sub(r"(?m)^(\s*)for \((?:final )?(String) (\w+) : ([\w.()]+\.split\(\"[^\"]*\"\))\) \{",
-                  split_loop, text)
+    return _for_each_loops(text, lambda ind, t, x, arr, i: f"{ind}int {i} = 0;\n{ind}while ({i} < {arr}.length) "
+                                                          f"{{ {t} {x} = {arr}[{i}]; {i}++;", "At")
 
 
 def string_builder(text: str) -> str:

@@ -140,6 +140,12 @@ class Scope:
     lookup: Any = None
     conditions: tuple = ()  # `a && b`, `c ? x : y`: what holds where the sub-expression runs
     defs: dict = field(default_factory=dict)  # map(): column name -> the expression a Let gave it
+    # the class's fields and constants as the class binds them (what its helper methods see; None:
+    # all of env), and those of them a local or parameter of the method being lifted hides
+    fields: dict | None = None
+    shadowed: set = field(default_factory=set)
+    # another class of the repository by the simple name used in the code -> HelperClass, or None
+    classes: Any = None
 
     def on_error(self, op: str) -> str:
         exc = THROWS.get(op)
@@ -455,6 +461,9 @@ def _invocation(node: T.MethodInvocation, scope: Scope) -> Expr:
         return _selectors(_method(Lit("enum", q.rsplit(".", 1)[1]), node, scope), node.selectors or [], scope, node)
     if q in ("", "this") and m in scope.methods:
         return _selectors(inline_call(node, scope), node.selectors or [], scope, node)
+    home = scope.classes(q) if q and "." not in q and q not in scope.env and scope.classes is not None else None
+    if home is not None and m in home.methods:  # a static helper of another class of the repository
+        return _selectors(inline_call(node, scope, home), node.selectors or [], scope, node)
     raise Unsupported(node, f"call `{(q + '.') if q else ''}{m}(...)` is not lifted",
                       "inline the helper by hand, or express it with pyspark.sql.functions")
 
@@ -1041,23 +1050,47 @@ def _java_type(t) -> str | None:
     return name
 
 
-def inline_call(node: T.MethodInvocation, scope: Scope) -> Expr:
-    """A call of a helper method of the same class, inlined: its body must be locals, ifs and returns."""
-    candidates = [d for d in scope.methods[node.member] if len(d.parameters) == len(node.arguments or [])]
+@dataclass(frozen=True)
+class HelperClass:
+    """Another class of the repository whose static methods a task calls: they are inlined with
+    that class's constants in scope, never the caller's locals."""
+
+    name: str
+    file: str
+    methods: dict
+    env: dict
+
+
+def inline_call(node: T.MethodInvocation, scope: Scope, home: HelperClass | None = None) -> Expr:
+    """A call of a helper method, inlined: its body must be locals, ifs and returns. The helper sees
+    its own class's fields and constants and its parameters, never the caller's locals."""
+    methods = home.methods if home is not None else scope.methods
+    candidates = [d for d in methods[node.member] if len(d.parameters) == len(node.arguments or [])]
     if len(candidates) != 1:
         raise Unsupported(node, f"helper {node.member}() has no single overload with {len(node.arguments or [])} arguments")
     decl = candidates[0]
     if scope.depth > 8:
         raise Unsupported(node, f"helper {node.member}() calls itself too deeply to inline")
-    env = dict(scope.env)
+    visible = home.env if home is not None else dict(scope.env) if scope.fields is None else \
+        {k: v if k in scope.shadowed else scope.env.get(k, v) for k, v in scope.fields.items()}
+    env = dict(visible)
     for p, a in zip(decl.parameters, node.arguments or []):
         want = _java_type(p.type)
         v = lift(a, scope)
         if want is None:
             raise Unsupported(node, f"helper {decl.name}() takes a {getattr(p.type, 'name', '?')}")
         env[p.name] = _widen(v, want) if v.jtype != want and {v.jtype, want} <= NUMERIC else v
-    inner = replace(scope, env=env, depth=scope.depth + 1)
-    result = _body_value(list(decl.body or []), inner, decl)
+    inner = replace(scope, env=env, depth=scope.depth + 1, fields=dict(visible),
+                    shadowed={p.name for p in decl.parameters} & set(visible))
+    if home is not None:
+        inner = replace(inner, methods=home.methods, file=home.file, defs={}, conditions=())
+        try:
+            result = _body_value(list(decl.body or []), inner, decl)
+        except Unsupported as u:  # the user's line is the call; the reason names the helper's line
+            raise Unsupported(node, f"in {home.name}.{decl.name}() ({home.file.rsplit('/', 1)[-1]}:{u.line or '?'}): "
+                                    f"{u.reason}", u.suggestion) from None
+    else:
+        result = _body_value(list(decl.body or []), inner, decl)
     want = _java_type(decl.return_type) if decl.return_type is not None else None
     if want is None:
         raise Unsupported(node, f"helper {decl.name}() does not return a value the converter follows")

@@ -17,7 +17,7 @@ from javalang import tree as T
 
 from migrate.java.index import ClassInfo, node_lines
 from migrate.lift.writables import is_struct, structs_of
-from migrate.lift.exprs import (BYTE_OFFSET, CATCH_ALL, WRITABLE_OF, MaybeNull, Opaque, Scope, Tokenizer, Unsupported, Writable,
+from migrate.lift.exprs import (BYTE_OFFSET, CATCH_ALL, WRITABLE_OF, HelperClass, MaybeNull, Opaque, Scope, Tokenizer, Unsupported, Writable,
                                 NARROWING, lift, lookup_key, promote, refined, regex_object, widen, widen_at, writable_creator, writable_set,
                                 write_argument)
 from migrate.lift import dates
@@ -128,10 +128,12 @@ class MapBodyLifter:
         self.map_fields = map_fields(cls)
         self.combining: set[str] = set()  # Map fields used for in-mapper combining
         self.locals: set[str] = set()
+        self.declared: list[set[str]] = []  # per enclosing block: the locals declared in it
         env: dict[str, object] = {}
         env.update(class_constants(cls, index))
         env.update(struct_fields(cls, index))  # custom key/value objects reused through setters
         env.update(settings or {})  # fields set once per task from the job configuration
+        fields = dict(env)  # what a helper method of the class reads
         params = [p.name for p in method.parameters]
         self.key_param = params[0] if params else None
         if len(params) >= 2:  # a line (Text), or a chained mapper's input value
@@ -151,7 +153,8 @@ class MapBodyLifter:
             env[p] = Opaque("the task context")
         self.scope = Scope(env, file=self.file, methods=helper_methods(cls, index),
                            enums=frozenset(fq.rsplit(".", 1)[-1] for fq in (index.enums if index else {})),
-                           structs=structs_of(index), lookup=self._lookup)
+                           structs=structs_of(index), lookup=self._lookup, fields=fields,
+                           shadowed=set(params) & set(fields), classes=repository_classes(cls, index))
         self.guard_now: Expr | None = None  # the guard of the statement being lifted
         self.lookups: dict[tuple[str, Expr], Col] = {}
         self.tables: dict[str, SideTable] = {}
@@ -251,12 +254,18 @@ class MapBodyLifter:
             raise Unsupported(s, f"{type(s).__name__.replace('Statement', '').lower() or 'this'} statement is not lifted yet")
 
     def _scoped(self, stmts, guard) -> None:
-        before = set(self.scope.env)
+        before = dict(self.scope.env)
+        shadowed = set(self.scope.shadowed)
+        self.declared.append(set())
         try:
             self._block(stmts, guard)
         finally:  # names declared in the block go out of scope, also when it ends early
-            for name in set(self.scope.env) - before:
+            for name in set(self.scope.env) - set(before):
                 del self.scope.env[name]
+            for name in self.declared.pop() & set(before):  # a local that hid a field: the field again
+                self.scope.env[name] = before[name]
+            self.scope.shadowed.clear()
+            self.scope.shadowed.update(shadowed)
 
     def _fresh(self, name: str) -> str:
         n, i = name, 2
@@ -267,6 +276,10 @@ class MapBodyLifter:
 
     def _declare(self, s, d, guard) -> None:
         self.locals.add(d.name)
+        if self.declared:
+            self.declared[-1].add(d.name)
+        if d.name in (self.scope.fields or {}):  # a local hiding a field (javac allows it)
+            self.scope.shadowed.add(d.name)
         tname = getattr(s.type, "name", "")
         dims = len(getattr(s.type, "dimensions", None) or []) + len(d.dimensions or [])
         if d.initializer is None:
@@ -993,6 +1006,24 @@ def fold_constant(e: Expr) -> Expr:
 
 
 LIFECYCLE_METHODS = {"map", "reduce", "setup", "cleanup", "configure", "close", "run"}
+
+
+def repository_classes(cls: ClassInfo, index=None):
+    """Simple class name, as `cls` would resolve it -> HelperClass (its static methods and its
+    constants), for static helpers written in another class of the repository."""
+    cache: dict[str, HelperClass | None] = {}
+
+    def find(name: str) -> HelperClass | None:
+        if name not in cache:
+            other = index.get(index.resolve(name, cls)) if index is not None else None
+            if other is None or other is cls:
+                cache[name] = None
+            else:
+                statics = {n: [m for m in ms if "static" in m.modifiers] for n, ms in helper_methods(other, index).items()}
+                cache[name] = HelperClass(other.name, other.file.path, {n: ms for n, ms in statics.items() if ms},
+                                          class_constants(other, index))
+        return cache[name]
+    return find
 
 
 def helper_methods(cls: ClassInfo, index=None) -> dict[str, list]:

@@ -20,7 +20,7 @@ from migrate.java.index import ClassInfo, node_lines
 from migrate.lift.writables import structs_of
 from migrate.lift.exprs import (WRITABLE_OF, Opaque, Scope, Unsupported, Writable, calls_as_names, lift, promote, widen, widen_at,
                                 writable_creator, writable_set, write_argument)
-from migrate.lift.mapper import class_constants, helper_methods
+from migrate.lift.mapper import class_constants, helper_methods, repository_classes
 from migrate.plan import (NUMERIC, Agg, AggRef, BoolOp, Col, Compare, Cond, EachValue, Emit, Expr, Finding, Group,
                           HandWork, Let, Lit, Span, TopPerKey, walk)
 
@@ -42,6 +42,7 @@ class FoldLifter:
         self.key_type, self.value_type = key_type, value_type
         params = [p.name for p in method.parameters]
         env: dict[str, object] = dict(class_constants(cls, index))
+        fields = dict(env)  # what a helper method of the class reads
         # fields that change are state carried from one key to the next (and per reduce task)
         self.state_fields = {d.name: d for f in cls.fields() for d in f.declarators
                              if d.name not in env and "static" not in (f.modifiers or set())}
@@ -56,7 +57,7 @@ class FoldLifter:
             env[p] = Opaque("the task context")
         self.scope = Scope(env, file=self.file, methods=helper_methods(cls, index),
                            enums=frozenset(fq.rsplit(".", 1)[-1] for fq in (index.enums if index else {})),
-                           structs=structs_of(index))
+                           structs=structs_of(index), fields=fields, classes=repository_classes(cls, index))
         self.accs: dict[str, tuple[str, Lit]] = {}
         self.sets: dict[str, str] = {}  # name -> element type
         self.aggs: dict[str, Agg] = {}
@@ -149,6 +150,7 @@ class FoldLifter:
                     raise Unsupported(s, f"`{d.name}` is a PriorityQueue: which of equal elements it gives up first "
                                          "depends on the heap's history", "Window.orderBy(...) with row_number() <= N, "
                                                                          "with an explicit tie-breaker", category="top-n")
+                self._hides(d.name)
                 if d.initializer is None:
                     raise Unsupported(s, f"`{d.name}` declared without a value")
                 e = self._expr(d.initializer)
@@ -322,6 +324,7 @@ class FoldLifter:
             if guard is not None:
                 raise Unsupported(st, "a local declared under a condition inside the loop over values")
             for d in st.declarators:
+                self._hides(d.name)
                 e = self._expr(d.initializer)
                 t = _DECLARED.get(getattr(st.type, "name", ""), e.jtype)
                 e = widen_at(e, t, self.scope, st) if e.jtype in NUMERIC and t in NUMERIC else e
@@ -472,6 +475,11 @@ class FoldLifter:
         snippet = self.cls.file.lines[a - 1].strip() if a else ""
         self.aggs[name] = Agg(name, fn, arg, "int" if fn == "count_distinct" else t, init.value, Span(self.file, a, b), snippet)
 
+
+    def _hides(self, name: str) -> None:
+        """A local named like a field hides it from here on; the class's helpers still see the field."""
+        if name in (self.scope.fields or {}):
+            self.scope.shadowed.add(name)
 
     def _narrowing_sum(self, st, name: str, fn: str, arg_t: str, t: str) -> None:
         """`int sum += longValue` is `sum = (int) (sum + longValue)` (JLS 15.26.2): each step keeps the

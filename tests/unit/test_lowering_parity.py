@@ -98,13 +98,14 @@ SUM_REDUCER = """
   }"""
 
 
-def _agrees_with_hadoop(tmp_path, source: str, data: dict[str, bytes], driver: str = "Main") -> None:
+def _agrees_with_hadoop(tmp_path, source: str, data: dict[str, bytes], driver: str = "Main",
+                        more: dict[str, str] | None = None) -> None:
     """Convert the one-job repository, then `mrlift verify` it: Hadoop and the script on `data`."""
     from migrate.convert import write_outputs
     from migrate.scan import scan_repo
     from migrate.verify.runner import load_runs, verify
 
-    scan_text(tmp_path / "repo", {f"{driver}.java": source})
+    scan_text(tmp_path / "repo", {f"{driver}.java": source, **(more or {})})
     written = write_outputs(scan_repo(tmp_path / "repo"), tmp_path / "out", "repo")
     (job,) = written.report["jobs"]
     assert job["status"] == "converted", job["hand_work"]
@@ -280,3 +281,33 @@ def test_regex_matchers_agree_with_hadoop(body, fields, tmp_path):
     source = job_source(body, fields=fields, reducer=SUM_REDUCER).replace("import java.util.*;",
                                                                           "import java.util.*;\nimport java.util.regex.*;")
     _agrees_with_hadoop(tmp_path, source, {"log.txt": REGEX_INPUT.encode("utf-8")})
+
+
+LINE_UTIL = """
+public final class LineUtil {
+  static final String SEP = ",";
+  private LineUtil() { }
+  static String field(String line, int i) {
+    String[] f = line.split(SEP);
+    return i < f.length ? f[i].trim() : "";
+  }
+  static int number(String s) {
+    try {
+      return Integer.parseInt(s);
+    } catch (NumberFormatException e) {
+      return 0;
+    }
+  }
+}
+"""
+
+
+def test_static_helpers_of_another_class_agree_with_hadoop(tmp_path):
+    """Helpers in a utility class of the repository are inlined with that class's constants; a
+    local of map() named like the utility's constant does not leak into the helper."""
+    body = """
+      String SEP = "|";
+      String line = value.toString();
+      context.write(new Text(LineUtil.field(line, 0) + SEP), new IntWritable(LineUtil.number(LineUtil.field(line, 1))));"""
+    _agrees_with_hadoop(tmp_path, job_source(body, reducer=SUM_REDUCER),
+                        {"lines.csv": "a,1\nb, 2\na,x\n,\nc\n".encode("utf-8")}, more={"LineUtil.java": LINE_UTIL})
