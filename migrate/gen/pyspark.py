@@ -257,6 +257,13 @@ class ExprWriter:
             self.helpers.add("java_strip")
             opts = {"strip": "", "strip_leading": ", trailing=False", "strip_trailing": ", leading=False"}[op]
             return f"java_strip({self(args[0])}{opts})"
+        if op == "const_lookup":  # a constant map's value for the key (NULL or the default where missing)
+            key, default, *flat = args
+            k = self(key)
+            found = "F" + "".join(f".when({k} == {self.py(a)}, {self(b)})" for a, b in zip(flat[0::2], flat[1::2]))
+            if isinstance(default, Lit) and default.value is None:
+                return found if flat else f'F.lit(None).cast("{SPARK_TYPES[e.jtype]}")'
+            return f"{found}.otherwise({self(default)})" if flat else self(default)
         if op == "isin":  # a constant collection's contains()
             return f"{self(args[0])}.isin({', '.join(repr(a.value) for a in args[1:])})"
         if op in ("substring", "char_at"):

@@ -23,6 +23,8 @@ COLLECTION_TYPES = {"Set", "HashSet", "TreeSet", "LinkedHashSet", "List", "Array
 _FACTORIES = {("Arrays", "asList"), ("List", "of"), ("Set", "of"), ("Collections", "unmodifiableSet"),
               ("Collections", "unmodifiableList")}
 READS = {"contains", "size", "isEmpty"}
+MAP_TYPES = {"Map", "HashMap", "TreeMap", "LinkedHashMap"}
+MAP_READS = {"get", "getOrDefault", "containsKey", "size", "isEmpty"}
 
 
 @dataclass(frozen=True)
@@ -73,13 +75,69 @@ def constant_collections(cls) -> dict[str, ConstCollection]:
     return out
 
 
+@dataclass(frozen=True)
+class ConstMap:
+    """A map from literal keys to literal values fixed before the first record."""
+
+    name: str
+    key_type: str  # "String" | "int" | "long"
+    value_type: str
+    entries: tuple  # ((key, value), ...): a later put() replaces an earlier one
+
+
+def constant_maps(cls) -> dict[str, ConstMap]:
+    """Map fields made by `Map.of(k, v, ...)`, or made empty and filled with `X.put(k, v)` in an
+    initializer block or at the top of setup()/configure(), then only read (get, getOrDefault,
+    containsKey, size, isEmpty)."""
+    out = {}
+    blocks = [b for b in cls.node.body if isinstance(b, list)]
+    blocks += [m.body or [] for m in cls.node.methods if m.name in ("setup", "configure")]
+    for f in cls.fields():
+        if getattr(f.type, "name", "").rsplit(".", 1)[-1] not in MAP_TYPES or len(f.declarators) != 1 \
+                or "final" not in f.modifiers and "private" not in f.modifiers:
+            continue
+        d = f.declarators[0]
+        pairs = _map_made(d.initializer)
+        fills = [s for block in blocks for s in block if _mentions(s, d.name)]
+        for s in fills:
+            e = s.expression if isinstance(s, T.StatementExpression) else None
+            kv = _literals(e.arguments) if isinstance(e, T.MethodInvocation) and e.qualifier == d.name \
+                and e.member == "put" and len(e.arguments or []) == 2 and not e.selectors else None
+            if kv is None or pairs is None:
+                pairs = None
+                break
+            pairs = pairs + [tuple(kv)]
+        if not pairs or not _only_reads(cls, d.name, fills, MAP_READS):
+            continue
+        key_types, value_types = {k[0] for k, _ in pairs}, {v[0] for _, v in pairs}
+        if len(key_types) != 1 or len(value_types) != 1:
+            continue
+        entries = dict((k[1], v[1]) for k, v in pairs)
+        out[d.name] = ConstMap(d.name, key_types.pop(), value_types.pop(), tuple(entries.items()))
+    return out
+
+
+def _map_made(init) -> list | None:
+    """`Map.of(k1, v1, ...)` (distinct keys: a duplicate throws when the class loads) or an empty map."""
+    if isinstance(init, T.MethodInvocation) and (init.qualifier, init.member) == ("Map", "of") and not init.selectors:
+        lits = _literals(init.arguments)
+        if lits is None or len(lits) % 2:
+            return None
+        pairs = list(zip(lits[0::2], lits[1::2]))
+        return pairs if len({k for k, _ in pairs}) == len(pairs) else None
+    if isinstance(init, T.ClassCreator) and init.type.name.rsplit(".", 1)[-1] in MAP_TYPES and not init.body \
+            and not init.arguments:
+        return []
+    return None
+
+
 def _literal(n):
     if isinstance(n, T.Literal) and not n.prefix_operators:
         if n.value.startswith('"'):
             return ("String", string_value(n.value))
-        v = n.value.rstrip("lL")
-        if v.isdigit():
-            return ("long" if n.value[-1] in "lL" else "int", number_value(n.value))
+        if n.value.rstrip("lL").isdigit():
+            value, jtype = number_value(n.value)
+            return (jtype, value)
     return None
 
 
@@ -123,8 +181,8 @@ def _mentions(node, name: str) -> bool:
     return mentions(node, name) or any(isinstance(n, T.MemberReference) and n.member == name for _, n in node)
 
 
-def _only_reads(cls, name: str, fills: list) -> bool:
-    """Every use of the field outside the statements that fill it is contains/size/isEmpty."""
+def _only_reads(cls, name: str, fills: list, reads: set = READS) -> bool:
+    """Every use of the field outside the statements that fill it is one of `reads`."""
     skip = {id(n) for s in fills for _, n in s}
     for member in cls.node.body:
         if isinstance(member, T.FieldDeclaration):
@@ -133,7 +191,7 @@ def _only_reads(cls, name: str, fills: list) -> bool:
             for _, n in top:
                 if id(n) in skip:
                     continue
-                if isinstance(n, T.MethodInvocation) and n.qualifier == name and n.member not in READS:
+                if isinstance(n, T.MethodInvocation) and n.qualifier == name and n.member not in reads:
                     return False
                 if isinstance(n, T.MemberReference) and n.member == name and n.qualifier in ("", None, "this"):
                     return False  # passed on, assigned, looped over

@@ -16,6 +16,7 @@ import re
 from javalang import tree as T
 
 from migrate.java.index import ClassInfo, node_lines
+from migrate.lift.collections import ConstMap
 from migrate.lift.exprs import Opaque, Scope, Unsupported, lift
 from migrate.plan import ConfValue, Expr, Lit
 
@@ -122,6 +123,9 @@ def _statement(st, env, reader: ConfReader, out: dict[str, Expr], params: list[s
             raise Unsupported(st, "assignment in setup() to something other than a field")
         out[name] = _value(st.expression.value, {**env, **out}, reader, name, params)
         return
+    e = st.expression if isinstance(st, T.StatementExpression) else None
+    if isinstance(e, T.MethodInvocation) and e.member == "put" and isinstance(env.get(e.qualifier), ConstMap):
+        return  # a constant map filled before the first record (lift.collections read it)
     raise Unsupported(st, "statement in setup()/configure() is not a setting read")
 
 

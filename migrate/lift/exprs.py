@@ -447,8 +447,10 @@ def _invocation(node: T.MethodInvocation, scope: Scope) -> Expr:
             raise Unsupported(node, f"Calendar.{m}() is not lifted")
         if isinstance(recv, SideTable):
             return _selectors(_table_call(recv, node, scope), node.selectors or [], scope, node)
-        from migrate.lift.collections import ConstCollection
+        from migrate.lift.collections import ConstCollection, ConstMap
 
+        if isinstance(recv, ConstMap):
+            return _selectors(_map_call(recv, node, scope), node.selectors or [], scope, node)
         if isinstance(recv, ConstCollection):
             return _selectors(_collection_call(recv, node, scope), node.selectors or [], scope, node)
         if isinstance(recv, Tokenizer):
@@ -513,6 +515,41 @@ class _tokenizers:
         for t, k in zip(self.toks, other):
             if t.taken != k:
                 t.taken = None
+
+
+def map_lookup(c, key_node, scope: Scope, node, default: Expr) -> Expr:
+    """The value a constant map holds for a key, or `default` (a null Lit: no value)."""
+    key = lift(key_node, scope)
+    if key.jtype != c.key_type:
+        raise Unsupported(node, f"{c.name} looked up with a {key.jtype} key in a map of {c.key_type} keys: "
+                                "equals() across boxed types is false in Java", "look up a key of the map's type")
+    flat = [lit for k, v in c.entries for lit in (Lit(c.key_type, k), Lit(c.value_type, v))]
+    return Call(c.value_type, "const_lookup", (key, default, *flat))
+
+
+def _map_call(c, node: T.MethodInvocation, scope: Scope) -> Expr:
+    """A read of a constant map (lift.collections): getOrDefault, containsKey, size, emptiness."""
+    m, args = node.member, node.arguments or []
+    if m == "getOrDefault" and len(args) == 2:
+        d = lift(args[1], scope)
+        d = _widen(d, c.value_type) if {d.jtype, c.value_type} <= NUMERIC and promote(d.jtype, c.value_type) == \
+            c.value_type else d
+        if d.jtype != c.value_type:
+            raise Unsupported(node, f"{c.name}.getOrDefault with a {d.jtype} default in a map of {c.value_type}")
+        return map_lookup(c, args[0], scope, node, d)
+    if m == "containsKey" and len(args) == 1:
+        key = lift(args[0], scope)
+        if key.jtype != c.key_type:
+            raise Unsupported(node, f"{c.name}.containsKey of a {key.jtype} in a map of {c.key_type} keys: "
+                                    "equals() across boxed types is false in Java")
+        return Call("boolean", "isin", (key, *(Lit(c.key_type, k) for k, _ in c.entries)))
+    if m == "size" and not args:
+        return Lit("int", len(c.entries))
+    if m == "isEmpty" and not args:
+        return Lit("boolean", not c.entries)
+    raise Unsupported(node, f"{c.name}.{m}() of a constant map: the value may be null where the key is missing"
+                            if m == "get" else f"{c.name}.{m}() of a constant map is not lifted",
+                      "declare it as a local (`String v = map.get(k);`) and test it for null, or use getOrDefault")
 
 
 def _collection_call(c, node: T.MethodInvocation, scope: Scope) -> Expr:

@@ -708,7 +708,11 @@ def _lift_mapper(mcls: ClassInfo, fmt: str, hand: list[HandWork], notes: list[st
 
 def _named(owner: ClassInfo, h: HandWork, sloc: int, tables: set[str] = frozenset()) -> HandWork:
     """Give a lifting failure the name of the API behind it, when there is one (lift.limits)."""
-    lim = explain(owner, h.origin.line_start, tables) if h.category in ("map-logic", "reduce-logic") else None
+    from migrate.lift.collections import constant_collections, constant_maps
+
+    constants = set(constant_collections(owner)) | set(constant_maps(owner))  # read, never state
+    lim = explain(owner, h.origin.line_start, set(tables) | constants) \
+        if h.category in ("map-logic", "reduce-logic") else None
     if lim is None:
         return HandWork(h.category, h.origin, h.reason, h.suggestion, h.snippet, h.profile, sloc)
     # lifting stopped here, so the rest of the method is missing from the script: the item stays

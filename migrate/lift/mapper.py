@@ -18,10 +18,11 @@ from javalang import tree as T
 from migrate.java.index import ClassInfo, node_lines
 from migrate.lift.writables import is_struct, structs_of
 from migrate.lift.exprs import (BYTE_OFFSET, CATCH_ALL, WRITABLE_OF, HelperClass, MaybeNull, Opaque, Scope, Tokenizer, Unsupported, Writable,
-                                NARROWING, lift, lookup_key, promote, refined, regex_object, widen, widen_at, writable_creator, writable_set,
+                                NARROWING, lift, lookup_key, promote, map_lookup, refined, regex_object, widen, widen_at, writable_creator, writable_set,
                                 write_argument)
 from migrate.lift import dates
 from migrate.lift import regex as rx
+from migrate.lift.collections import ConstMap
 from migrate.lift.combining import combining_update, map_fields
 from migrate.lift.counters import counter_update, is_counter_call
 from migrate.lower.walk import assigned_names
@@ -311,6 +312,17 @@ class MapBodyLifter:
         if isinstance(table, SideTable) and init.member == "get" and not init.selectors:
             self._declare_lookup(s, d, table, tname)
             return
+        if isinstance(table, ConstMap) and init.member == "get" and not init.selectors and len(init.arguments) == 1:
+            if tname not in ("String", "Integer", "Long") or _DECLARED.get(tname) != table.value_type:
+                raise Unsupported(s, f"`{d.name}` is a {tname}: a missing key would be unboxed (NullPointerException)"
+                                     if tname in ("int", "long") else f"`{d.name}` of type {tname} from {table.name}",
+                                  "use getOrDefault with a default, or declare the local as the map's value type")
+            value = map_lookup(table, init.arguments[0], self.scope, s, Lit(table.value_type, None))
+            self.scope.env[d.name] = MaybeNull(value, f"a value of the constant map {table.name}, null where the "
+                                                      "key is missing")
+            if self.loop_locals:
+                self.loop_locals[-1].add(d.name)
+            return
         made = date_object(init, s)
         if made is not None:
             self.scope.env[d.name] = made
@@ -491,6 +503,8 @@ class MapBodyLifter:
             raise Unsupported(s, f"assignment to the field `{name}`: a field keeps state across records",
                               "per-record state is fine; state across records needs a window or an aggregation")
         old = self.scope.env.get(name)
+        if isinstance(old, MaybeNull):  # `if (v == null) v = "other";`: a value where the lookup had none
+            old = old.value
         if not isinstance(old, (Col, Lit, Call)):
             raise Unsupported(s, f"assignment to `{name}`, which is not a local the converter follows "
                                  "(a field keeps state across records)",
@@ -502,9 +516,12 @@ class MapBodyLifter:
 
     def _store(self, s, name: str, new: Expr, guard) -> None:
         """Give the local `name` a new value (under the guard: where it does not hold, the old one)."""
-        old = self.scope.env[name]
+        held = self.scope.env[name]
+        old = held.value if isinstance(held, MaybeNull) else held
         g = self._eff(guard)
         value = new if g is None else Call(new.jtype, "if_else", (g, new, old))
+        if g is not None and g == Call("boolean", "is_null", (old,)):  # `if (v == null) v = d;`
+            value = Call(new.jtype, "or_default", (old, new))
         reuse = old.name if isinstance(old, Col) and old.name not in ("value", "key") and not isinstance(value, Col) else None
         saved = self.dead
         self.dead = None  # the guard is already inside `value`
@@ -512,6 +529,8 @@ class MapBodyLifter:
             self._let(name, value, None, s, reuse=reuse)
         finally:
             self.dead = saved
+        if isinstance(held, MaybeNull) and g is not None and g != Call("boolean", "is_null", (old,)):
+            self.scope.env[name] = MaybeNull(self.scope.env[name], held.what)  # still null on some rows
 
     def _narrowed(self, s, name: str, new: Expr, t: str) -> Expr:
         """`x += v` where v is wider than x is `x = (T) (x + v)` (JLS 15.26.2): the cast is Java's,
@@ -878,13 +897,15 @@ def class_constants(cls: ClassInfo, index=None) -> dict[str, object]:
     env: dict[str, object] = {}
     outer = index.get(cls.outer) if index is not None and cls.outer else None
     if outer is not None:
-        from migrate.lift.collections import ConstCollection
+        from migrate.lift.collections import ConstCollection, ConstMap
 
-        env.update({k: v for k, v in class_constants(outer, index).items() if isinstance(v, (Lit, ConstCollection))})
+        env.update({k: v for k, v in class_constants(outer, index).items()
+                    if isinstance(v, (Lit, ConstCollection, ConstMap))})
     assigned = assigned_names(cls.node)
-    from migrate.lift.collections import constant_collections
+    from migrate.lift.collections import constant_collections, constant_maps
 
     env.update({k: v for k, v in constant_collections(cls).items() if k not in assigned})
+    env.update({k: v for k, v in constant_maps(cls).items() if k not in assigned})
     for f in cls.fields():
         tname = getattr(f.type, "name", "")
         for d in f.declarators:

@@ -434,3 +434,28 @@ def test_a_catch_that_does_more_than_a_default_is_not_read_as_one(tmp_path, body
     job = _job(tmp_path, body)
     assert not any("where the try block threw" in n for n in job.plan.notes)
     assert _reasons(job)
+
+
+MAPS = """private static final Map<String, Integer> W = new HashMap<>();
+    static { W.put("a", 1); W.put("b", 2); }"""
+
+
+@pytest.mark.parametrize("body, fields, why", [
+    ("context.write(new Text(\"x\" + W.get(value.toString())), new IntWritable(1));", MAPS, "may be null"),
+    ("int w = W.get(value.toString());\n      context.write(new Text(\"x\"), new IntWritable(w));", MAPS, "unboxed"),
+    ("context.write(new Text(\"x\"), new IntWritable(W.getOrDefault(value.toString(), 0)));",
+     MAPS + "\n    static { W.remove(\"a\"); }", "collection kept across records"),
+    ("context.write(new Text(\"x\"), new IntWritable(W.getOrDefault(7L, 0)));", MAPS, "equals() across boxed types"),
+], ids=["get_read_as_a_value", "get_unboxed", "changed_after_filling", "key_of_another_type"])
+def test_constant_map_reads_that_differ_are_declined(tmp_path, body, fields, why):
+    job = _job(tmp_path, "      " + body, fields=fields)
+    assert any(why in r for r in _reasons(job)), _reasons(job)
+
+
+def test_a_missing_key_given_a_default_by_a_null_test_converts(tmp_path):
+    job = _job(tmp_path, """
+      String k = KINDS.get(value.toString());
+      if (k == null) { k = "other"; }
+      context.write(new Text(k), new IntWritable(W.getOrDefault(k, 0) + W.size()));""",
+               fields=MAPS + '\n    private static final Map<String, String> KINDS = Map.of("a", "x", "b", "y");')
+    assert not _reasons(job)

@@ -311,3 +311,26 @@ def test_static_helpers_of_another_class_agree_with_hadoop(tmp_path):
       context.write(new Text(LineUtil.field(line, 0) + SEP), new IntWritable(LineUtil.number(LineUtil.field(line, 1))));"""
     _agrees_with_hadoop(tmp_path, job_source(body, reducer=SUM_REDUCER),
                         {"lines.csv": "a,1\nb, 2\na,x\n,\nc\n".encode("utf-8")}, more={"LineUtil.java": LINE_UTIL})
+
+
+def test_constant_maps_and_int_sets_agree_with_hadoop(tmp_path):
+    """Maps of literals (Map.of, put() in a static block and in setup(): the last put wins) read by
+    get with a null test, getOrDefault, containsKey and size; a set of ints read by contains."""
+    body = """
+      String[] f = value.toString().split(" ");
+      String kind = KINDS.get(f[0]);
+      if (kind == null) {
+        kind = "other";
+      }
+      int n = -1;
+      try { n = Integer.parseInt(f[f.length - 1]); } catch (NumberFormatException e) { }
+      context.write(new Text(kind + "/" + CODES.getOrDefault(f[0], "?") + "/" + SMALL.contains(n) + CODES.containsKey(f[0])),
+                    new IntWritable(WEIGHTS.getOrDefault(f[0], 0) + KINDS.size()));"""
+    fields = """private static final Map<String, String> KINDS = Map.of("ab", "letters", "7", "digit", "q", "letter");
+    private static final Map<String, Integer> WEIGHTS = new HashMap<>();
+    static { WEIGHTS.put("ab", 4); WEIGHTS.put("q", 2); WEIGHTS.put("ab", 5); }
+    private final Map<String, String> CODES = new TreeMap<>();
+    private static final Set<Integer> SMALL = new HashSet<>(Arrays.asList(7, 8, 9, 1));
+    protected void setup(Context context) { CODES.put("zz,1", "z"); CODES.put("7", "seven"); }"""
+    _agrees_with_hadoop(tmp_path, job_source(body, fields=fields, reducer=SUM_REDUCER),
+                        {"lines.txt": INPUT.encode("utf-8")})
