@@ -341,6 +341,75 @@ def string_builder(text: str) -> str:
     return "\n".join(out)
 
 
+def _enum_binary_names(tree) -> dict[str, str]:
+    """Simple name -> binary name (pkg.Outer$Inner) of every enum declared in a file: Hadoop names
+    an enum counter's group by the enum class's getName()."""
+    pkg = tree.package.name + "." if tree.package else ""
+    out: dict[str, str] = {}
+
+    def visit(decl, prefix: str) -> None:
+        name = prefix + decl.name
+        if isinstance(decl, T.EnumDeclaration):
+            out[decl.name] = name
+        for member in decl.body.declarations if isinstance(decl, T.EnumDeclaration) and decl.body else decl.body or []:
+            if isinstance(member, (T.ClassDeclaration, T.EnumDeclaration, T.InterfaceDeclaration)):
+                visit(member, name + "$")
+    for t in tree.types:
+        visit(t, pkg)
+    return out
+
+
+def string_counters(text: str) -> str:
+    """A counter named by an enum constant vs by its group and name as Strings (Hadoop uses the
+    enum class's binary name as the group and the constant's name as the counter's)."""
+    tree = _parse(text)
+    enums = _enum_binary_names(tree) if tree is not None else {}
+    if not enums:
+        return text
+
+    def swap(m: re.Match) -> str:
+        enum, const = m.group(2), m.group(3)
+        return f'{m.group(1)}("{enums[enum]}", "{const}"' if enum in enums else m.group(0)
+    return re.sub(r"\b(getCounter|incrCounter)\((\w+)\.(\w+)(?=[,)])", swap, text)
+
+
+@_on_tree
+def tool_drivers(tree, lines: list[str]) -> None:
+    """A driver's work in `main` vs in `run` of a Tool started by ToolRunner (main's Configuration
+    comes from getConf(); `System.exit(code)` in the body is `return code`)."""
+    for cls in tree.types:
+        mains = [m for m in getattr(cls, "methods", []) if m.name == "main" and "static" in m.modifiers]
+        if not (isinstance(cls, T.ClassDeclaration) and len(mains) == 1 and cls.extends is None
+                and not cls.implements and not cls.constructors and "public" in cls.modifiers
+                and not any(m.name == "run" for m in cls.methods)):
+            continue
+        start = mains[0].position.line  # 1-based line of `public static void main(...)`
+        end = _method_end(lines, start)  # 1-based line of its closing brace
+        head, body = lines[start - 1], lines[start:end - 1]
+        if "{" not in head or not body or any("return" in b for b in body):
+            continue
+        body = [re.sub(r"\bnew Configuration\(\)", "getConf()", b) for b in body]
+        body = [re.sub(r"\bSystem\.exit\((.*)\);", r"return \1;", b) for b in body]
+        indent = re.match(r"\s*", head).group(0)
+        if not body[-1].strip().startswith("return"):
+            body.append(f"{indent}    return 0;")
+        lines[start - 1:end] = [
+            re.sub(r"\)\s*(throws [\w., ]+)?\s*\{", ") throws Exception {", head, count=1),
+            f"{indent}    System.exit(org.apache.hadoop.util.ToolRunner.run(new org.apache.hadoop.conf.Configuration(), "
+            f"new {cls.name}(), args));",
+            f"{indent}}}",
+            "",
+            f"{indent}@Override",
+            f"{indent}public int run(String[] args) throws Exception {{",
+            *body,
+            f"{indent}}}",
+        ]
+        i = _body_line(lines, cls)
+        lines[i] = re.sub(r"\bclass " + cls.name + r"\b", f"class {cls.name} extends org.apache.hadoop.conf.Configured "
+                          "implements org.apache.hadoop.util.Tool", lines[i], count=1)
+        return
+
+
 AXES = (
     Axis("catch-logs", "empty catch vs logging then skipping", catch_logs),
     Axis("field-scratch", "array local vs scratch field", field_scratch),
@@ -357,6 +426,8 @@ AXES = (
     Axis("new-per-write", "reused Text vs new Text per write", new_per_write),
     Axis("string-builder", "a + b written vs a StringBuilder appended first", string_builder),
     Axis("while-loops", "for-each over an array vs a while loop stepping an index", while_loops),
+    Axis("string-counters", "enum counters vs counters named by group and name Strings", string_counters),
+    Axis("tool-drivers", "work in main vs in a Tool's run() started by ToolRunner", tool_drivers),
 )
 
 
