@@ -260,32 +260,9 @@ def new_per_write(text: str) -> str:
                   inline, text)
 
 
-def _top_level_pluses(expr: str) -> list[str]:
-    """`a + "," + b` -> ["a", "\",\"", "b"]: split at `+` outside brackets, strings and chars."""
-    parts, depth, quote, start, i = [], 0, "", 0, 0
-    while i < len(expr):
-        c = expr[i]
-        if quote:
-            if c == "\\":
-                i += 1
-            elif c == quote:
-                quote = ""
-        elif c in "\"'":
-            quote = c
-        elif c in "([{":
-            depth += 1
-        elif c in ")]}":
-            depth -= 1
-        elif c == "+" and depth == 0 and expr[i + 1:i + 2] not in ("+", "=") and expr[i - 1:i] not in ("+",):
-            parts.append(expr[start:i].strip())
-            start = i + 1
-        i += 1
-    return parts + [expr[start:].strip()]
-
-
-def _closing(text: str, open_at: int) -> int:
-    """The index of the `)` matching the `(` at open_at (strings and chars skipped)."""
-    depth, quote, i = 0, "", open_at
+def _code_chars(text: str, start: int = 0):
+    """(index, char) of the characters of Java code outside string and char literals."""
+    quote, i = "", start
     while i < len(text):
         c = text[i]
         if quote:
@@ -295,13 +272,29 @@ def _closing(text: str, open_at: int) -> int:
                 quote = ""
         elif c in "\"'":
             quote = c
-        elif c == "(":
-            depth += 1
-        elif c == ")":
-            depth -= 1
-            if depth == 0:
-                return i
+        else:
+            yield i, c
         i += 1
+
+
+def _top_level_pluses(expr: str) -> list[str]:
+    """`a + "," + b` -> ["a", "\",\"", "b"]: split at `+` outside brackets, strings and chars."""
+    parts, depth, start = [], 0, 0
+    for i, c in _code_chars(expr):
+        depth += (c in "([{") - (c in ")]}")
+        if c == "+" and depth == 0 and expr[i + 1:i + 2] not in ("+", "=") and expr[i - 1:i] != "+":
+            parts.append(expr[start:i].strip())
+            start = i + 1
+    return parts + [expr[start:].strip()]
+
+
+def _closing(text: str, open_at: int) -> int:
+    """The index of the `)` matching the `(` at open_at (strings and chars skipped)."""
+    depth = 0
+    for i, c in _code_chars(text, open_at):
+        depth += (c == "(") - (c == ")")
+        if c == ")" and depth == 0:
+            return i
     return -1
 
 
