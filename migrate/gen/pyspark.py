@@ -909,7 +909,8 @@ def render_script(plan: Plan, header: dict, hand_work: list[HandWork]) -> str:
     build_args, build_call = _signature(plan, x)
     doc_end = f"<mrlift-docstring-end-{uuid.uuid4().hex}>"  # unguessable: Java text cannot fake the end
     text = _ENV.get_template("job.py.j2").render(
-        doc_end=doc_end, plan=plan, header=header, body=parts.body, helpers=helpers, regexes=[(k, raw_string(v)) for k, v in regexes.items()],
+        doc_end=doc_end, plan=plan, header=header, body=parts.body, helpers=helpers,
+        regexes=[(k, raw_string(v)) for k, v in regexes.items()],
         uses_window=parts.uses_window or any(st["uses_window"] for st in stages),
         slots=slots, options=[p for p in plan.params if p.position is None], sink=plan.sink,
         build_args=build_args, build_call=build_call, hand_work=hand_work, stages=stages,

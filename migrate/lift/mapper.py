@@ -17,9 +17,9 @@ from javalang import tree as T
 
 from migrate.java.index import ClassInfo, node_lines
 from migrate.lift.writables import is_struct, structs_of
-from migrate.lift.exprs import (BYTE_OFFSET, CATCH_ALL, WRITABLE_OF, HelperClass, MaybeNull, Opaque, Scope, Tokenizer, Unsupported, Writable,
-                                NARROWING, lift, lookup_key, promote, map_lookup, refined, regex_object, widen, widen_at, writable_creator, writable_set,
-                                write_argument)
+from migrate.lift.exprs import (BYTE_OFFSET, CATCH_ALL, NARROWING, WRITABLE_OF, HelperClass, MaybeNull, Opaque, Scope,
+                                Tokenizer, Unsupported, Writable, lift, lookup_key, map_lookup, promote, refined,
+                                regex_object, widen_at, writable_creator, writable_set, write_argument)
 from migrate.lift import dates
 from migrate.lift import regex as rx
 from migrate.lift.collections import ConstMap
@@ -1040,7 +1040,8 @@ def repository_classes(cls: ClassInfo, index=None):
             if other is None or other is cls:
                 cache[name] = None
             else:
-                statics = {n: [m for m in ms if "static" in m.modifiers] for n, ms in helper_methods(other, index).items()}
+                statics = {n: [m for m in ms if "static" in m.modifiers]
+                           for n, ms in helper_methods(other, index).items()}
                 cache[name] = HelperClass(other.name, other.file.path, {n: ms for n, ms in statics.items() if ms},
                                           class_constants(other, index))
         return cache[name]

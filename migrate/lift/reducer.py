@@ -18,8 +18,8 @@ from javalang import tree as T
 
 from migrate.java.index import ClassInfo, node_lines
 from migrate.lift.writables import structs_of
-from migrate.lift.exprs import (WRITABLE_OF, Opaque, Scope, Unsupported, Writable, calls_as_names, lift, promote, widen, widen_at,
-                                writable_creator, writable_set, write_argument)
+from migrate.lift.exprs import (WRITABLE_OF, Opaque, Scope, Unsupported, Writable, calls_as_names, lift, promote, widen,
+                                widen_at, writable_creator, writable_set, write_argument)
 from migrate.lift.mapper import class_constants, helper_methods, repository_classes
 from migrate.plan import (NUMERIC, Agg, AggRef, BoolOp, Col, Compare, Cond, EachValue, Emit, Expr, Finding, Group,
                           HandWork, Let, Lit, Span, TopPerKey, walk)

@@ -213,7 +213,8 @@ def while_counters(cls, index=None) -> list[tuple[int, str]]:
 def _as_counting_for(decl, loop, after):
     if not (isinstance(decl, T.LocalVariableDeclaration) and getattr(decl.type, "name", "") == "int"
             and not decl.type.dimensions and len(decl.declarators) == 1 and not decl.declarators[0].dimensions
-            and isinstance(loop, T.WhileStatement) and isinstance(loop.body, T.BlockStatement) and loop.body.statements):
+            and isinstance(loop, T.WhileStatement) and isinstance(loop.body, T.BlockStatement)
+            and loop.body.statements):
         return None
     i = decl.declarators[0].name
     cond = loop.condition

@@ -11,7 +11,6 @@ must write what the variant's script writes.
 from __future__ import annotations
 
 import io
-import re
 import tokenize
 
 import pytest

@@ -4,7 +4,6 @@ verdicts of `mrlift verify` stay with jobs whose script and sources did not chan
 from __future__ import annotations
 
 import json
-import os
 import signal
 import subprocess
 import sys
