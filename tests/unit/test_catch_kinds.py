@@ -5,7 +5,6 @@ checked Exception). A record that throws something not caught fails the Hadoop j
 must fail too, never skip it."""
 from __future__ import annotations
 
-
 from migrate.lift.exprs import Scope
 
 
