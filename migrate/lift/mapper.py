@@ -730,7 +730,10 @@ class MapBodyLifter:
         if isinstance(c, T.MethodInvocation) and c.member in ("hasMoreTokens", "hasMoreElements") and not c.arguments:
             tok = self.scope.env.get(c.qualifier)
         if not isinstance(tok, Tokenizer):
-            raise Unsupported(s, "while loop that is not a loop over StringTokenizer tokens")
+            raise Unsupported(s, "a while loop the converter does not read: it reads loops over StringTokenizer "
+                                 "tokens, `while (m.find())` over a Matcher, and `int i = 0; while (i < n) { ...; i++; }` "
+                                 "where nothing before the step skips it and nothing after the loop reads i",
+                              "explode an array of what each iteration handles (F.explode, F.posexplode)")
         if tok.taken != 0:
             raise Unsupported(s, "a token loop after tokens were taken one by one",
                               "split the line once; loop over F.slice of the rest")
