@@ -606,10 +606,10 @@ class MapBodyLifter:
         """`if (m.find())`: in the branch the match is known to have succeeded, and group() needs
         no check (and `if (!m.find())`: in the else branch, or below it when the branch returns)."""
         for name, v in self.scope.env.items():
-            if isinstance(v, rx.MatcherVar) and v.matched is not None and not v.proved:
-                if c == v.matched:
+            if isinstance(v, rx.MatcherVar) and v.attempt is not None and not v.proved:
+                if c == v.attempt:
                     then_env[name] = replace(v, proved=True)
-                elif c == BoolOp("boolean", "!", (v.matched,)):
+                elif c == BoolOp("boolean", "!", (v.attempt,)):
                     else_env[name] = replace(v, proved=True)
 
     def _find_loop(self, s: T.WhileStatement, guard, mv: rx.MatcherVar) -> None:

@@ -42,6 +42,7 @@ class MatcherVar:
     regex: str | None = None
     matched: Expr | None = None
     guarded: bool = False  # `matched` includes the condition under which the attempt ran
+    attempt: Expr | None = None  # the match call's own value (what an `if` tests)
     current: Expr | None = None  # inside `while (m.find())`: the group the loop reads, per match
     spent: bool = False  # after `while (m.find())`: the last find() failed
     proved: bool = False  # here the match attempt is known to have succeeded (`if (m.find()) {...}`)
@@ -190,8 +191,8 @@ def matcher_call(mv: MatcherVar, node: T.MethodInvocation, scope, unsupported) -
             raise unsupported(node, f"{m}() after an earlier match attempt on the same Matcher (find() moves on to "
                                     "the next match) is not lifted", "use a second Matcher")
         mv.regex = regex
-        mv.matched = Call("boolean", "regex_finds", (mv.subject, applied(mv.pattern, m)))
-        return mv.matched
+        mv.attempt = mv.matched = Call("boolean", "regex_finds", (mv.subject, applied(mv.pattern, m)))
+        return mv.attempt
     if m == "groupCount" and not args:
         return Lit("int", group_facts(mv.pattern.regex)[0])
     if m == "group" and len(args) <= 1:
