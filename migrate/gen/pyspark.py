@@ -1,6 +1,7 @@
 """Plan → PySpark DataFrame script text (expressions built here, file laid out by templates/job.py.j2)."""
 from __future__ import annotations
 
+import functools
 import math
 import re
 import uuid
@@ -87,12 +88,13 @@ def raw_string(text: str) -> str:
     return repr(text)
 
 
-def _reserved_names() -> set[str]:
+@functools.cache
+def _reserved_names() -> frozenset[str]:
     """Upper-case names a script already defines (F, the helpers' constants): a regex constant
     named after a Java field must not shadow them."""
     from migrate.gen.helpers import HELPERS
 
-    return {"F"} | {m for _, src in HELPERS.values() for m in re.findall(r"^([A-Z][A-Z0-9_]*) =", src, re.M)}
+    return frozenset({"F"} | {m for _, src in HELPERS.values() for m in re.findall(r"^([A-Z][A-Z0-9_]*) =", src, re.M)})
 
 
 class ExprWriter:

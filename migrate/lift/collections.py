@@ -131,6 +131,11 @@ def _map_made(init) -> list | None:
     return None
 
 
+def constant_fields(cls) -> set[str]:
+    """The fields of `cls` that hold constant collections or maps."""
+    return set(constant_collections(cls)) | set(constant_maps(cls))
+
+
 def _literal(n):
     if isinstance(n, T.Literal) and not n.prefix_operators:
         if n.value.startswith('"'):

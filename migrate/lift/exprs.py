@@ -519,12 +519,18 @@ class _tokenizers:
 
 def map_lookup(c, key_node, scope: Scope, node, default: Expr) -> Expr:
     """The value a constant map holds for a key, or `default` (a null Lit: no value)."""
+    key = _map_key(c, key_node, scope, node)
+    flat = [lit for k, v in c.entries for lit in (Lit(c.key_type, k), Lit(c.value_type, v))]
+    return Call(c.value_type, "const_lookup", (key, default, *flat))
+
+
+def _map_key(c, key_node, scope: Scope, node) -> Expr:
+    """A key looked up in a constant map, of the map's key type."""
     key = lift(key_node, scope)
     if key.jtype != c.key_type:
         raise Unsupported(node, f"{c.name} looked up with a {key.jtype} key in a map of {c.key_type} keys: "
                                 "equals() across boxed types is false in Java", "look up a key of the map's type")
-    flat = [lit for k, v in c.entries for lit in (Lit(c.key_type, k), Lit(c.value_type, v))]
-    return Call(c.value_type, "const_lookup", (key, default, *flat))
+    return key
 
 
 def _map_call(c, node: T.MethodInvocation, scope: Scope) -> Expr:
@@ -538,10 +544,7 @@ def _map_call(c, node: T.MethodInvocation, scope: Scope) -> Expr:
             raise Unsupported(node, f"{c.name}.getOrDefault with a {d.jtype} default in a map of {c.value_type}")
         return map_lookup(c, args[0], scope, node, d)
     if m == "containsKey" and len(args) == 1:
-        key = lift(args[0], scope)
-        if key.jtype != c.key_type:
-            raise Unsupported(node, f"{c.name}.containsKey of a {key.jtype} in a map of {c.key_type} keys: "
-                                    "equals() across boxed types is false in Java")
+        key = _map_key(c, args[0], scope, node)
         return Call("boolean", "isin", (key, *(Lit(c.key_type, k) for k, _ in c.entries)))
     if m == "size" and not args:
         return Lit("int", len(c.entries))

@@ -10,6 +10,7 @@ from migrate.java.hadoop_api import KNOWN_CLASSES, WRITABLE_TYPES
 from migrate.java.index import ClassIndex, ClassInfo, node_lines
 from migrate.java.source import logical_sloc
 from migrate.lift.builtin import IDENTITY_MAPPERS, IDENTITY_REDUCERS, SUM_REDUCERS, library_mapper, library_reducer
+from migrate.lift.collections import constant_fields
 from migrate.lift.combining import flushes_all_entries
 from migrate.lift.config import task_constants
 from migrate.lift.limits import explain
@@ -697,22 +698,20 @@ def _lift_mapper(mcls: ClassInfo, fmt: str, hand: list[HandWork], notes: list[st
     hand.extend(_lifecycle(owner, "of the mapper runs once per task; its logic is not converted in this version",
                            "settings become script parameters; per-task state needs a rewrite", "P1",
                            skip=("setup", "configure") + (("cleanup", "close") if flushed else ())))
+    read_only = set(side.filled) | constant_fields(owner)
     for h in res.hand_work:
         sloc = logical_sloc(owner.file.lines[h.origin.line_start - 1 : node_lines(m)[1]])
-        hand.append(_named(owner, h, max(sloc, 1), side.filled))
+        hand.append(_named(owner, h, max(sloc, 1), read_only))
     notes.extend(res.notes)
     if findings is not None:
         findings.extend(f for f in res.findings if f not in findings)
     return res.steps, res.skip_first_line
 
 
-def _named(owner: ClassInfo, h: HandWork, sloc: int, tables: set[str] = frozenset()) -> HandWork:
-    """Give a lifting failure the name of the API behind it, when there is one (lift.limits)."""
-    from migrate.lift.collections import constant_collections, constant_maps
-
-    constants = set(constant_collections(owner)) | set(constant_maps(owner))  # read, never state
-    lim = explain(owner, h.origin.line_start, set(tables) | constants) \
-        if h.category in ("map-logic", "reduce-logic") else None
+def _named(owner: ClassInfo, h: HandWork, sloc: int, tables: set[str]) -> HandWork:
+    """Give a lifting failure the name of the API behind it, when there is one (lift.limits).
+    `tables`: fields that never explain it (side tables, constant collections: read, never state)."""
+    lim = explain(owner, h.origin.line_start, tables) if h.category in ("map-logic", "reduce-logic") else None
     if lim is None:
         return HandWork(h.category, h.origin, h.reason, h.suggestion, h.snippet, h.profile, sloc)
     # lifting stopped here, so the rest of the method is missing from the script: the item stays
@@ -810,7 +809,8 @@ def _lift_reducer(rcls: ClassInfo, key_t: str, val_t: str, hand: list[HandWork],
                 items = [HandWork(u.category, Span(owner.file.path, line, line), u.reason, u.suggestion,
                                   owner.file.lines[line - 1].strip(), "P2")]
     if items:
-        hand.extend(_named(owner, h, sloc) for h in items)
+        read_only = constant_fields(owner)
+        hand.extend(_named(owner, h, sloc, read_only) for h in items)
     if isinstance(group, Group) and group.first_keys is not None:
         findings.append(Finding("per-task-state", group.origin, f"an instance counter lets only the first "
                                 f"{group.first_keys} keys write: that is per reduce task ({reduces} here), in key "

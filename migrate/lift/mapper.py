@@ -222,13 +222,13 @@ class MapBodyLifter:
             self._attempted_under(pending, guard)
 
     def _unattempted(self) -> list[rx.MatcherVar]:
-        return [v for v in self.scope.env.values() if isinstance(v, rx.MatcherVar) and v.regex is None]
+        return [v for v in self.scope.env.values() if isinstance(v, rx.MatcherVar) and v.how is None]
 
     def _attempted_under(self, pending: list, guard) -> None:
         """A match attempt made on some rows only: group() on the other rows throws in Java."""
         g = self._eff(guard)
         for v in pending:
-            if v.regex is not None and not v.guarded:
+            if v.how is not None and not v.guarded:
                 v.matched, v.guarded = (_and(g, v.matched) if g is not None else v.matched), True
 
     def _statement(self, s, guard: Expr | None) -> None:
@@ -616,7 +616,7 @@ class MapBodyLifter:
         """`while (m.find()) { ... m.group(k) ... }`: one row per match (regexp_extract_all walks the
         matches as repeated find() calls do), for the one group the body reads."""
         name = s.condition.qualifier
-        if mv.regex is not None:
+        if mv.how is not None:
             raise Unsupported(s, "a find() loop after an earlier match attempt on the same Matcher")
         reads = [n for _, n in s.body if isinstance(n, T.MethodInvocation) and n.qualifier == name]
         if any(n.member != "group" for n in reads):
@@ -628,10 +628,7 @@ class MapBodyLifter:
             raise Unsupported(s, "a find() loop reading several groups (or a computed group) of each match",
                               "F.arrays_zip of one F.regexp_extract_all per group, then explode")
         k = groups.pop() if groups else 0
-        count, certain = rx.group_facts(mv.pattern.regex)
-        if k > count or (k and k not in certain):
-            raise Unsupported(s, f"group({k}) may take no part in a match (it is optional, in an alternative or in a "
-                                 "lookaround): Java gives null there, Spark gives \"\"")
+        rx.check_group(mv.pattern, k, s, Unsupported)
         array = Call("String[]", "regex_matches", (mv.subject, rx.applied(mv.pattern, "find"), Lit("int", k)))
         saved_dead = self.dead
         col, stmts = self._loop(s, guard, array, "match", s.body)

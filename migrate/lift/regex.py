@@ -34,12 +34,12 @@ class CompiledPattern:
 
 @dataclass
 class MatcherVar:
-    """`Matcher m = pattern.matcher(subject)`: after m.matches()/find()/lookingAt(), `regex` is the
-    pattern as that call applied it and `matched` the call's result."""
+    """`Matcher m = pattern.matcher(subject)`: after m.matches()/find()/lookingAt(), `how` names that
+    call and `matched` is its result."""
 
     pattern: CompiledPattern
     subject: Expr
-    regex: str | None = None
+    how: str | None = None
     matched: Expr | None = None
     guarded: bool = False  # `matched` includes the condition under which the attempt ran
     attempt: Expr | None = None  # the match call's own value (what an `if` tests)
@@ -186,11 +186,10 @@ def matcher_call(mv: MatcherVar, node: T.MethodInvocation, scope, unsupported) -
         raise unsupported(node, f"Matcher.{m}() after its find() loop is not lifted (the last find() failed: "
                                 "group() would throw)")
     if m in APPLIED and not args:
-        regex = APPLIED[m].format(mv.pattern.regex)
-        if mv.regex is not None and (m == "find" or mv.regex != regex):
+        if mv.how is not None and (m == "find" or mv.how != m):
             raise unsupported(node, f"{m}() after an earlier match attempt on the same Matcher (find() moves on to "
                                     "the next match) is not lifted", "use a second Matcher")
-        mv.regex = regex
+        mv.how = m
         mv.attempt = mv.matched = Call("boolean", "regex_finds", (mv.subject, applied(mv.pattern, m)))
         return mv.attempt
     if m == "groupCount" and not args:
@@ -202,21 +201,27 @@ def matcher_call(mv: MatcherVar, node: T.MethodInvocation, scope, unsupported) -
             if not (isinstance(arg, T.Literal) and arg.value.isdigit()):
                 raise unsupported(node, "group() of a computed or named group is not lifted")
             k = int(arg.value)
-        if mv.regex is None:
+        if mv.how is None:
             raise unsupported(node, "group() before matches()/find(): Java throws IllegalStateException")
-        count, certain = group_facts(mv.pattern.regex)
-        if k > count:
-            raise unsupported(node, f"group({k}) of a regex with {count} groups: Java throws IndexOutOfBoundsException")
-        if k and k not in certain:
-            raise unsupported(node, f"group({k}) may take no part in a match (it is optional, in an alternative or in "
-                                    "a lookaround): Java gives null there, Spark's regexp_extract gives \"\"",
-                              "test it for null in Java, then F.when(...) in the script")
-        regex = applied(mv.pattern, next(k for k, f in APPLIED.items() if f.format(mv.pattern.regex) == mv.regex))
+        check_group(mv.pattern, k, node, unsupported)
+        regex = applied(mv.pattern, mv.how)
         if mv.proved:
             return Call("String", "regex_group", (mv.subject, regex, Lit("int", k)))
         return Call("String", "regex_group", (mv.subject, regex, Lit("int", k), mv.matched),
                     scope.on_error("regex_group"))
     raise unsupported(node, f"Matcher.{m}() is not lifted")
+
+
+def check_group(p: CompiledPattern, k: int, node, unsupported) -> None:
+    """Refuse group(k) where Java and Spark would differ: past the group count, or a group that
+    may take no part in a match."""
+    count, certain = group_facts(p.regex)
+    if k > count:
+        raise unsupported(node, f"group({k}) of a regex with {count} groups: Java throws IndexOutOfBoundsException")
+    if k and k not in certain:
+        raise unsupported(node, f"group({k}) may take no part in a match (it is optional, in an alternative or in "
+                                "a lookaround): Java gives null there, Spark's regexp_extract gives \"\"",
+                          "test it for null in Java, then F.when(...) in the script")
 
 
 SUFFIX = {"matches": "_WHOLE", "lookingAt": "_AT_START", "find": ""}
