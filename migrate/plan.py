@@ -198,10 +198,11 @@ class Explode(Step):
 
 @dataclass(frozen=True)
 class Count(Step):
-    """A Hadoop counter update: adds `amount` for every row where `cond` holds (None: every row)."""
+    """A Hadoop counter update: adds `amount` for every row where `cond` holds (None: every row).
+    A group or name that is an Expr is computed from the row (a counter per value)."""
 
-    group: str
-    name: str
+    group: str | Expr
+    name: str | Expr
     cond: Expr | None
     amount: Expr
 
@@ -617,7 +618,8 @@ def _dump_step(s: Step) -> str:
     if isinstance(s, Lookup):
         return f"Lookup {s.name} = {s.table}[{dump_expr(s.key)}]"
     if isinstance(s, Count):
-        return f"Count {s.group}:{s.name} += {dump_expr(s.amount)} where {dump_expr(s.cond)}"
+        group, name = (x if isinstance(x, str) else f"[{dump_expr(x)}]" for x in (s.group, s.name))
+        return f"Count {group}:{name} += {dump_expr(s.amount)} where {dump_expr(s.cond)}"
     if isinstance(s, Project):
         lines = ["Project"]
         for e in s.emits:

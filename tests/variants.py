@@ -305,6 +305,20 @@ def while_loops(text: str) -> str:
                                                           f"{{ {t} {x} = {arr}[{i}]; {i}++;", "At")
 
 
+def iterator_loops(text: str) -> str:
+    """`for (T v : values) {` over a reduce() Iterable vs `Iterator<T> it = values.iterator();
+    while (it.hasNext()) { T v = it.next(); ...` (what the enhanced for means: JLS 14.14.2)."""
+    iterables = set(re.findall(r"\bIterable<[\w.<>, ]+>\s+(\w+)", text))
+
+    def loop(m: re.Match) -> str:
+        indent, t, v, xs = m.group(1), m.group(2), m.group(3), m.group(4)
+        if xs not in iterables:
+            return m.group(0)
+        return (f"{indent}java.util.Iterator<{t}> {v}Iterator = {xs}.iterator();\n"
+                f"{indent}while ({v}Iterator.hasNext()) {{ {t} {v} = {v}Iterator.next();")
+    return re.sub(r"(?m)^(\s*)for \((?:final )?([\w.<>]+) (\w+) : (\w+)\) \{", loop, text)
+
+
 def string_builder(text: str) -> str:
     """A written Text made from `a + "," + b` vs a StringBuilder appended piece by piece first.
     The pieces are appended one by one only where the first `+` is already a String concatenation
@@ -421,6 +435,7 @@ AXES = (
     Axis("while-loops", "for-each over an array vs a while loop stepping an index", while_loops),
     Axis("string-counters", "enum counters vs counters named by group and name Strings", string_counters),
     Axis("tool-drivers", "work in main vs in a Tool's run() started by ToolRunner", tool_drivers),
+    Axis("iterator-loops", "for-each over the values vs a hasNext()/next() loop", iterator_loops),
 )
 
 

@@ -20,6 +20,16 @@ def java_split(s: Column, regex: str) -> Column:
     return F.when(F.size(parts) == 1, parts).otherwise(F.slice(parts, 1, F.coalesce(last, F.lit(0))))
 ''')
 
+_h("hadoop_split", r'''
+def hadoop_split(s: Column, escape: str = "\\", separator: str = ",") -> Column:
+    """Hadoop's StringUtils.split: a separator after an odd number of escape chars belongs to the
+    field (escapes kept); trailing empty fields are dropped, so "" gives no field at all."""
+    e, sep = (c if c.isalnum() else "\\" + c for c in (escape, separator))  # a backslash quotes a non-letter
+    fields = F.regexp_extract_all(s, F.lit(f"((?:[^{e}{sep}]|{e}[\\s\\S]?)*)(?:{sep}|\\z)"), 1)
+    last = F.array_max(F.transform(fields, lambda x, i: F.when(x != "", i + 1).otherwise(0)))
+    return F.slice(fields, 1, F.coalesce(last, F.lit(0)))
+''')
+
 _h("java_tokens", '''
 TOKENIZER_DELIMITERS = "[ \\\\t\\\\n\\\\r\\\\f]+"  # java.util.StringTokenizer's default delimiters
 
@@ -400,6 +410,62 @@ class HadoopCounters:
                 if g == group:
                     print(f"\\t\\t{name}={value}", file=stream)
 """)
+
+
+_h("hadoop_counters_by_name", """
+def _cut(name: str, limit: int) -> str:
+    \"\"\"Hadoop's Limits.filterName: a name longer than `limit` UTF-16 units keeps its first limit - 1.\"\"\"
+    units = name.encode("utf-16-be", "surrogatepass")
+    if len(units) <= 2 * limit:
+        return name
+    return units[: 2 * (limit - 1)].decode("utf-16-be", "replace")
+
+
+class CountersByName(HadoopCounters):
+    \"\"\"Hadoop counters, some named by the data: one counter per (group, name) value. observe()
+    cannot group by a value, so those are counted in a second pass, before the output is written.\"\"\"
+
+    def __init__(self) -> None:
+        super().__init__()
+        self._named: list[DataFrame] = []  # (group, name, value) rows
+        self._named_totals: dict[tuple[str, str], int] | None = None
+
+    def add_named(self, group: str | Column, name: str | Column, rows: Column | None = None, amount=1):
+        \"\"\"A DataFrame.transform step adding `amount` to the counter each row names, where `rows` holds.\"\"\"
+        group, name, value = (x if isinstance(x, Column) else F.lit(x) for x in (group, name, amount))
+
+        def step(df: DataFrame) -> DataFrame:
+            kept = df if rows is None else df.where(rows)
+            self._named.append(kept.select(group.alias("group"), name.alias("name"), value.alias("value")))
+            return df
+
+        return step
+
+    def count_named(self) -> dict[tuple[str, str], int]:
+        \"\"\"The counters named by the data, cut to Hadoop's name limits (the second pass; run once).\"\"\"
+        if self._named_totals is None:
+            totals: dict[tuple[str, str], int] = {}
+            for counted in self._named:
+                for row in counted.groupBy("group", "name").agg(F.sum("value").alias("value")).collect():
+                    if row["group"] is None or row["name"] is None:
+                        raise RuntimeError("NullPointerException: a counter's group or name is null")
+                    key = (_cut(row["group"], 128), _cut(row["name"], 64))
+                    totals[key] = totals.get(key, 0) + int(row["value"])
+            self._named_totals = totals
+        return self._named_totals
+
+    def totals(self) -> dict[tuple[str, str], int]:
+        out = super().totals()
+        for key, value in self.count_named().items():
+            out[key] = out.get(key, 0) + value
+        return out
+
+    def report(self, stream=None) -> None:
+        stream = stream or sys.stderr
+        if len(self.totals()) > 120:  # mapreduce.job.counters.max (Hadoop's own counters count too)
+            print(f"WARNING: {len(self.totals())} counters; Hadoop fails a job with more than 120", file=stream)
+        super().report(stream)
+""", ("hadoop_counters",))
 
 
 _h("date_fields", r'''

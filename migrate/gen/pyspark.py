@@ -104,6 +104,7 @@ class ExprWriter:
         self.helpers: set[str] = set()
         self.settings: dict[str, ConfValue] = {}  # script variable -> the job setting it holds
         self.counters = False  # the plan updates Hadoop counters
+        self.named_counters = False  # ... some named by the data (counted before the output is written)
         self.dates = False  # the plan reads or writes dates in the JVM's time zone
         self.regexes: dict[str, str] = {}  # script constant -> regex (java.util.regex syntax)
 
@@ -227,6 +228,11 @@ class ExprWriter:
                 self.helpers.add("java_split")
                 return f"java_split({self(args[0])}, {regex!r})"
             return f"F.split({self(args[0])}, {regex!r}, {args[2].value})"
+        if op == "hadoop_split":  # org.apache.hadoop.util.StringUtils.split with an escape char
+            self.helpers.add("hadoop_split")
+            escape, sep = args[1].value, args[2].value
+            tail = "" if (escape, sep) == ("\\", ",") else f", escape={escape!r}, separator={sep!r}"
+            return f"hadoop_split({self(args[0])}{tail})"
         if op == "tokens":
             self.helpers.add("java_tokens")
             if len(args) == 1:
@@ -487,7 +493,8 @@ def build_body(plan: Plan, x: ExprWriter) -> ScriptParts:
     else:
         out.append("return map_output")
     if x.counters:
-        out.insert(0, "counters = counters if counters is not None else HadoopCounters()")
+        kind = "CountersByName" if x.named_counters else "HadoopCounters"
+        out.insert(0, f"counters = counters if counters is not None else {kind}()")
     if x.settings:
         x.helpers.add("hadoop_setting")
         lines = ["# Job settings (Hadoop Configuration): `-D name=value` on the command line overrides the default"]
@@ -830,7 +837,14 @@ def _step_code(s: Step, x: ExprWriter) -> list[str]:
         x.counters = True
         rows = f", {bare(x(s.cond))}" if s.cond is not None else ", None"
         amount = "" if isinstance(s.amount, Lit) and s.amount.value == 1 else f", {x.operand(s.amount, s.amount)}"
-        return [where + "  (counted in the same pass)", f".transform(counters.add({s.group!r}, {s.name!r}{rows}{amount}))"]
+        if isinstance(s.group, str) and isinstance(s.name, str):
+            return [where + "  (counted in the same pass)",
+                    f".transform(counters.add({s.group!r}, {s.name!r}{rows}{amount}))"]
+        group, name = (repr(v) if isinstance(v, str) else bare(x(v)) for v in (s.group, s.name))
+        x.named_counters = True
+        x.helpers.add("hadoop_counters_by_name")
+        return [where + "  (a counter per name the data gives: counted in a second pass over the input)",
+                f".transform(counters.add_named({group}, {name}{rows}{amount}))"]
     raise TypeError(f"the generator has no handler for {type(s).__name__}")
 
 
@@ -917,6 +931,7 @@ def render_script(plan: Plan, header: dict, hand_work: list[HandWork]) -> str:
         slots=slots, options=[p for p in plan.params if p.position is None], sink=plan.sink,
         build_args=build_args, build_call=build_call, hand_work=hand_work, stages=stages,
         counters=any(w.counters for w in writers), dates=any(w.dates for w in writers),
+        named_counters=any(w.named_counters for w in writers),
         sort_columns=sort_columns(plan),
         tasks=_tasks(plan),
         sort_note=("cleanup() wrote the kept entries in map order, one reduce task after another: the same here"

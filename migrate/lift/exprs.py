@@ -146,6 +146,8 @@ class Scope:
     shadowed: set = field(default_factory=set)
     # another class of the repository by the simple name used in the code -> HelperClass, or None
     classes: Any = None
+    # a type name as the class's imports resolve it (javac's rules) -> fully qualified, or None
+    resolve: Any = None
 
     def on_error(self, op: str) -> str:
         exc = THROWS.get(op)
@@ -339,6 +341,43 @@ def _selectors(base: Expr, selectors, scope: Scope, node) -> Expr:
     return e
 
 
+HADOOP_STRING_UTILS = "org.apache.hadoop.util.StringUtils"
+HADOOP_SPLIT_CHARS = {"COMMA": ",", "ESCAPE_CHAR": "\\"}  # StringUtils' own constants
+
+
+def _is_type(name: str, fqcn: str, scope: Scope) -> bool:
+    """`name` in the code is the class `fqcn` (commons-lang has a StringUtils too, with other rules)."""
+    return name == fqcn or bool(name) and scope.resolve is not None and scope.resolve(name) == fqcn
+
+
+def _hadoop_split(node: T.MethodInvocation, scope: Scope) -> Expr:
+    """Hadoop's StringUtils.split (checked on the JVM, tests/unit/expression_forms.py):
+    split(s) is split(s, '\\', ','); split(s, esc, sep) splits where sep follows an even number of
+    esc chars, keeps the escapes in the fields, drops trailing empty fields ("" gives no field);
+    split(s, sep) escapes nothing and is exactly String.split of that one char."""
+    s, chars = lift(node.arguments[0], scope), []
+    for a in node.arguments[1:]:
+        name = a.member if isinstance(a, T.MemberReference) and _is_type(a.qualifier or "", HADOOP_STRING_UTILS, scope) \
+            else None
+        c = Lit("char", HADOOP_SPLIT_CHARS[name]) if name in HADOOP_SPLIT_CHARS else lift(a, scope)
+        if not (isinstance(c, Lit) and c.jtype == "char"):
+            raise Unsupported(node, "StringUtils.split with a separator or escape char computed at run time")
+        chars.append(c.value)
+    if s.jtype != "String":
+        raise Unsupported(node, f"StringUtils.split of a {s.jtype}")
+    if len(chars) == 1:
+        return Call("String[]", "split", (s, Lit("String", regex_quote(chars[0])), Lit("int", 0)))
+    escape, sep = chars or ["\\", ","]
+    if escape == sep:
+        raise Unsupported(node, "StringUtils.split whose escape char is its separator")
+    return Call("String[]", "hadoop_split", (s, Lit("char", escape), Lit("char", sep)))
+
+
+def regex_quote(c: str) -> str:
+    """A java.util.regex pattern matching the one char `c` (a backslash makes any non-letter literal)."""
+    return c if c.isalnum() else "\\" + c
+
+
 def _invocation(node: T.MethodInvocation, scope: Scope) -> Expr:
     q, m = node.qualifier or "", node.member
     args = node.arguments or []
@@ -351,6 +390,8 @@ def _invocation(node: T.MethodInvocation, scope: Scope) -> Expr:
             raise Unsupported(node, f"{q}.{m} of a {s.jtype}")
         op = PARSERS[(q, m)]
         return _selectors(Call(PARSED_TYPE[op], op, (s,), scope.on_error(op)), node.selectors or [], scope, node)
+    if m == "split" and _is_type(q, HADOOP_STRING_UTILS, scope) and 1 <= len(args) <= 3:
+        return _selectors(_hadoop_split(node, scope), node.selectors or [], scope, node)
     if q in ("Objects", "java.util.Objects") and m == "equals" and len(args) == 2:
         a, b = (lift(x, scope) for x in args)  # lifted values are never null (MaybeNull cannot be read)
         if a.jtype == b.jtype == "String":
@@ -1099,6 +1140,7 @@ class HelperClass:
     file: str
     methods: dict
     env: dict
+    resolve: Any = None  # type names as that class's imports resolve them
 
 
 def inline_call(node: T.MethodInvocation, scope: Scope, home: HelperClass | None = None) -> Expr:
@@ -1123,7 +1165,7 @@ def inline_call(node: T.MethodInvocation, scope: Scope, home: HelperClass | None
     inner = replace(scope, env=env, depth=scope.depth + 1, fields=dict(visible),
                     shadowed={p.name for p in decl.parameters} & set(visible))
     if home is not None:
-        inner = replace(inner, methods=home.methods, file=home.file, defs={}, conditions=())
+        inner = replace(inner, methods=home.methods, file=home.file, defs={}, conditions=(), resolve=home.resolve)
         try:
             result = _body_value(list(decl.body or []), inner, decl)
         except Unsupported as u:  # the user's line is the call; the reason names the helper's line

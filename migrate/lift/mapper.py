@@ -155,7 +155,8 @@ class MapBodyLifter:
         self.scope = Scope(env, file=self.file, methods=helper_methods(cls, index),
                            enums=frozenset(fq.rsplit(".", 1)[-1] for fq in (index.enums if index else {})),
                            structs=structs_of(index), lookup=self._lookup, fields=fields,
-                           shadowed=set(params) & set(fields), classes=repository_classes(cls, index))
+                           shadowed=set(params) & set(fields), classes=repository_classes(cls, index),
+                           resolve=type_resolver(cls, index))
         self.guard_now: Expr | None = None  # the guard of the statement being lifted
         self.lookups: dict[tuple[str, Expr], Col] = {}
         self.tables: dict[str, SideTable] = {}
@@ -1043,9 +1044,14 @@ def repository_classes(cls: ClassInfo, index=None):
                 statics = {n: [m for m in ms if "static" in m.modifiers]
                            for n, ms in helper_methods(other, index).items()}
                 cache[name] = HelperClass(other.name, other.file.path, {n: ms for n, ms in statics.items() if ms},
-                                          class_constants(other, index))
+                                          class_constants(other, index), type_resolver(other, index))
         return cache[name]
     return find
+
+
+def type_resolver(cls: ClassInfo, index=None):
+    """A type name in `cls`'s code -> the class javac would pick (its imports, package, nesting)."""
+    return (lambda name: index.resolve(name, cls)) if index is not None else None
 
 
 def helper_methods(cls: ClassInfo, index=None) -> dict[str, list]:

@@ -21,7 +21,8 @@ TASK_ROLES = {"mapper", "reducer", "combiner"}
 # Order matters: names first (`this.x` is x for the rules after), logging (it hides reads of
 # fields), then fields, then loops, then builders (a builder appended in a loop stays a builder).
 RULES = (names.this_fields, names.var_types, logging.drop_logging, fields.fields_used_as_locals,
-         fields.setup_constants, loops.while_counters, loops.counting_loops, builders.builders_as_strings)
+         fields.setup_constants, loops.iterator_loops, loops.while_counters, loops.counting_loops,
+         builders.builders_as_strings)
 
 
 def lower_task_classes(index: ClassIndex) -> None:

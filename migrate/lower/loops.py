@@ -2,6 +2,8 @@
 body reads the index only as `a[i]` (and never assigns `i` or `a`) is the for-each `for (T x : a)`;
 `for (int i = 0; i < s.length(); i++)` reading only `s.charAt(i)` is `for (char c : s.toCharArray())`.
 When the body starts with `T x = a[i];` (or `char c = s.charAt(i);`), that local is the loop variable.
+A `while` stepping a counter is a counting for loop; a loop over an Iterator (hasNext/next) is the
+for-each over its Iterable.
 """
 from __future__ import annotations
 
@@ -9,7 +11,7 @@ import copy
 
 from javalang import tree as T
 
-from migrate.lower.walk import line_of, mentions, name_ref, positioned, statement_lists
+from migrate.lower.walk import assigned_names, line_of, mentions, name_ref, positioned, replace_nodes, statement_lists
 
 
 def counting_loops(cls, index=None) -> list[tuple[int, str]]:
@@ -244,3 +246,182 @@ def _steps(n, name) -> bool:
 
 def _mentions(node, name) -> bool:
     return any(_mentions_name(n, name) for _, n in node) if hasattr(node, "__iter__") else False
+
+
+def iterator_loops(cls, index=None) -> list[tuple[int, str]]:
+    """`Iterator<T> it = xs.iterator(); while (it.hasNext()) { ... it.next() ... }` (or `for (;
+    it.hasNext(); )`) is `for (T v : xs) { ... v ... }`: JLS 14.14.2 defines the enhanced for over an
+    Iterable as that very loop with `T v = it.next();` first in the body. next() read later in the
+    body is the same loop when it runs once per iteration, unconditionally, nothing before it goes
+    on to the next iteration (`continue`), and nothing before it reads an object the loop assigns
+    (Hadoop reuses one value object: such a variable still holds the element next() has not
+    fetched yet). `it` serves nothing else, in the loop or after it."""
+    done = []
+    for method in cls.node.methods:
+        changed = True
+        while changed:  # a rewritten loop's body is a new list: look again
+            changed = False
+            for stmts, _ in statement_lists(method):
+                for k in range(len(stmts)):
+                    got = _iterator_loop(stmts, k, method, cls)
+                    if got is not None:
+                        j, loop = got
+                        stmts[j] = loop
+                        del stmts[k]
+                        done.append((line_of(loop), "an iterator loop (hasNext/next) is a for-each over the same values"))
+                        changed = True
+                        break
+                if changed:
+                    break
+    return done
+
+
+def _iterator_loop(stmts: list, k: int, method, cls):
+    """(index of the loop, the for-each replacing it) when stmts[k] declares an iterator read only
+    by the loop after it, else None."""
+    decl = stmts[k]
+    if not isinstance(decl, T.LocalVariableDeclaration) or len(decl.declarators) != 1:
+        return None
+    name, args = _qualified(decl.type)
+    if name not in ("Iterator", "java.util.Iterator") or len(args) != 1 or args[0].pattern_type is not None \
+            or args[0].type is None:
+        return None
+    it, element = decl.declarators[0].name, args[0].type
+    iterable = _iterated(decl.declarators[0].initializer)
+    later = [j for j in range(k + 1, len(stmts)) if mentions(stmts[j], it)]
+    if iterable is None or not later:
+        return None
+    j = later[0]
+    loop = stmts[j]
+    if len(later) > 1 or not _has_next_loop(loop, it):
+        return None
+    roots = {n.member if isinstance(n, T.MemberReference) else n.qualifier for _, n in iterable
+             if isinstance(n, (T.MemberReference, T.MethodInvocation))} - {None, ""}
+    if any(r in assigned_names(s) for s in stmts[k + 1:j] for r in roots):
+        return None  # the source changes between the iterator and the loop
+    body = list(loop.body.statements) if isinstance(loop.body, T.BlockStatement) else [loop.body]
+    uses = [n for s in body for _, n in s if (getattr(n, "qualifier", None) or "").split(".")[0] == it
+            or isinstance(n, T.MemberReference) and n.member == it and not n.qualifier]
+    if len(uses) != 1 or not _is_call(uses[0], it, "next"):
+        return None
+    call = uses[0]
+    p = next(i for i, s in enumerate(body) if any(n is call for _, n in s))
+    pre = body[:p]
+    if not _always(body[p], call) or any(isinstance(n, T.ContinueStatement) for s in pre for _, n in s):
+        return None
+    assigned = set().union(*(assigned_names(s) for s in body))
+    if any(mentions(s, name) and not _value_typed(name, method, cls) for s in pre + [body[p]] for name in assigned):
+        return None  # might read the reused object before next() refills it
+    first = body[0]
+    if p == 0 and isinstance(first, T.LocalVariableDeclaration) and len(first.declarators) == 1 \
+            and first.declarators[0].initializer is call and not call.selectors and not first.declarators[0].dimensions:
+        var, var_type, rest = first.declarators[0].name, first.type, body[1:]
+    else:
+        var, var_type = f"{it}_next", element
+        if any(mentions(m, var) for m in cls.node.methods):
+            return None
+        at = body[p]
+        if isinstance(at, T.StatementExpression) and at.expression is call and not call.selectors:
+            rest = pre + body[p + 1:]  # `it.next();` only moves on: the for-each does that
+        else:
+            replace_nodes(at, lambda n: _as_reference(n, var) if n is call else None)
+            rest = body
+    loop_var = T.VariableDeclaration(modifiers=set(), annotations=[], type=var_type,
+                                     declarators=[T.VariableDeclarator(name=var, dimensions=[], initializer=None)])
+    control = positioned(T.EnhancedForControl(var=loop_var, iterable=iterable), loop)
+    new_body = positioned(T.BlockStatement(label=None, statements=rest), loop.body)
+    return j, positioned(T.ForStatement(label=loop.label, control=control, body=new_body), loop)
+
+
+def _qualified(t) -> tuple[str, list]:
+    """A reference type's dotted name and the type arguments of its last part (`java.util.Iterator<T>`
+    is a chain of sub_types in javalang)."""
+    parts = []
+    while t is not None and isinstance(t, T.ReferenceType):
+        parts.append(t.name)
+        last, t = t, t.sub_type
+    return (".".join(parts), list(last.arguments or [])) if parts else ("", [])
+
+
+def _iterated(init):
+    """`xs.iterator()` -> xs; `a.b().iterator()` -> a.b(); else None."""
+    if not isinstance(init, T.MethodInvocation) or init.prefix_operators or init.postfix_operators:
+        return None
+    if init.member == "iterator" and not init.arguments and not init.selectors and init.qualifier \
+            and "." not in init.qualifier:
+        return name_ref(init.qualifier, init)
+    sels = init.selectors or []
+    if sels and isinstance(sels[-1], T.MethodInvocation) and sels[-1].member == "iterator" and not sels[-1].arguments \
+            and not sels[-1].selectors:
+        out = copy.deepcopy(init)
+        out.selectors = out.selectors[:-1]
+        return out
+    return None
+
+
+def _is_call(n, qualifier: str, member: str) -> bool:
+    return isinstance(n, T.MethodInvocation) and n.qualifier == qualifier and n.member == member \
+        and not n.arguments and not n.prefix_operators and not n.postfix_operators
+
+
+def _has_next_loop(loop, it: str) -> bool:
+    if isinstance(loop, T.WhileStatement):
+        cond = loop.condition
+    elif isinstance(loop, T.ForStatement) and isinstance(loop.control, T.ForControl) \
+            and loop.control.init is None and not loop.control.update:
+        cond = loop.control.condition
+    else:
+        return False
+    return _is_call(cond, it, "hasNext") and not cond.selectors
+
+
+def _always(node, target) -> bool:
+    """Does running `node` (a statement or an expression) always evaluate `target`, once?"""
+    if node is target:
+        return True
+    if isinstance(node, T.StatementExpression):
+        return _always(node.expression, target)
+    if isinstance(node, T.LocalVariableDeclaration):
+        return any(_always(d.initializer, target) for d in node.declarators if d.initializer is not None)
+    if isinstance(node, T.IfStatement):
+        return _always(node.condition, target)
+    if isinstance(node, (T.Statement, T.LambdaExpression, T.MethodReference)):
+        return False
+    if isinstance(node, T.TernaryExpression):
+        return _always(node.condition, target)
+    if isinstance(node, T.BinaryOperation) and node.operator in ("&&", "||"):
+        return _always(node.operandl, target)
+    for attr in getattr(node, "attrs", ()):
+        v = getattr(node, attr)
+        for x in v if isinstance(v, list) else [v]:
+            if hasattr(x, "attrs") and _always(x, target):
+                return True
+    return False
+
+
+def _as_reference(call, var: str):
+    """`it.next()` with its selectors (`.get()`, `.field`) read from the loop variable instead."""
+    sels = list(call.selectors or [])
+    if sels and isinstance(sels[0], T.MethodInvocation):
+        first = sels[0]
+        return positioned(T.MethodInvocation(qualifier=var, member=first.member, arguments=first.arguments,
+                                             selectors=sels[1:], prefix_operators=[], postfix_operators=[],
+                                             type_arguments=first.type_arguments), call)
+    if sels and isinstance(sels[0], T.MemberReference):
+        return positioned(T.MemberReference(qualifier=var, member=sels[0].member, selectors=sels[1:],
+                                            prefix_operators=[], postfix_operators=[]), call)
+    ref = name_ref(var, call)
+    ref.selectors = sels
+    return ref
+
+
+def _value_typed(name: str, method, cls) -> bool:
+    """Is every declaration of `name` (method locals and parameters, else fields) a primitive or a
+    String: a value no other variable can share?"""
+    types = [n.type for _, n in method if isinstance(n, (T.LocalVariableDeclaration, T.VariableDeclaration))
+             for d in n.declarators if d.name == name]
+    types += [n.type for _, n in method if isinstance(n, T.FormalParameter) and n.name == name]
+    if not types:
+        types = [f.type for f in cls.fields() for d in f.declarators if d.name == name]
+    return bool(types) and all((isinstance(t, T.BasicType) or getattr(t, "name", "") == "String")
+                               and not t.dimensions for t in types)

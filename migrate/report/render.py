@@ -169,8 +169,10 @@ def counters_of(job: JobResult) -> list[dict]:
         if isinstance(s, Count):
             rows = f"records where {dump_expr(s.cond)}" if s.cond is not None else "every record that reaches this line"
             amount = "" if dump_expr(s.amount) == "1" else f", adding {dump_expr(s.amount)} each"
-            out.append({"group": s.group, "name": s.name, "file": s.origin.file, "line": s.origin.line_start,
-                        "counts": rows + amount})
+            group, name = (None if isinstance(v, str) else dump_expr(v) for v in (s.group, s.name))
+            out.append({"group": s.group if group is None else None, "name": s.name if name is None else None,
+                        **({"group_from": group} if group else {}), **({"name_from": name} if name else {}),
+                        "file": s.origin.file, "line": s.origin.line_start, "counts": rows + amount})
     return out
 
 
@@ -283,7 +285,9 @@ def to_markdown(report: dict) -> str:
         for n in j["notes"]:
             out.append(f"- note: {n}")
         for c in j["counters"]:
-            out.append(f"- counter `{c['group']}:{c['name']}` (`{c['file']}:{c['line']}`) counts {c['counts']}")
+            group = c["group"] if c["group"] is not None else f"[{c['group_from']}]"
+            name = c["name"] if c["name"] is not None else f"[{c['name_from']}]"
+            out.append(f"- counter `{group}:{name}` (`{c['file']}:{c['line']}`) counts {c['counts']}")
         out.append("")
     if report["errors"]:
         out += ["## Files not read", ""]

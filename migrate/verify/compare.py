@@ -174,3 +174,31 @@ def compare_folders(original: Path, converted: Path, mode: str = "bytes", tolera
             compare(ga, gb, line, same)
             line += len(ga)
     return Verdict(not diffs, mode, len(a), len(b), missing, extra, tuple(diffs[:show]), used and not diffs)
+
+
+def parse_counters(log: str) -> dict[tuple[str, str], int]:
+    """Counters from a Hadoop job log or a script's report: a TAB-indented group line, then
+    TAB TAB name=value lines (the layout Hadoop's job client prints). Chained jobs print a block
+    each; a counter in several blocks is their sum, as the script's one report adds them."""
+    out, group = {}, None
+    for line in log.splitlines():
+        if line.startswith("\t\t") and group is not None and "=" in line:
+            name, _, value = line.strip("\t").rpartition("=")
+            if value.strip().lstrip("-").isdigit():
+                out[(group, name)] = out.get((group, name), 0) + int(value)
+        elif line.startswith("\t") and not line.startswith("\t\t"):
+            group = line.strip()
+    return out
+
+
+def counter_differences(declared: list[dict], original: dict[tuple[str, str], int],
+                        converted: dict[tuple[str, str], int]) -> list[str]:
+    """The job's own counters that differ between the two runs, as `group:name original -> converted`.
+
+    The job's own counters are the groups the job names (its report's `counters`) and every group
+    the script printed; Hadoop's framework groups are neither. A counter no record reached is
+    absent from Hadoop's log and 0 in the script's report: both count as 0."""
+    groups = {c["group"] for c in declared if c.get("group") is not None} | {g for g, _ in converted}
+    keys = {k for k in original if k[0] in groups} | set(converted)
+    return [f"{g}:{n} {original.get((g, n), 0)} -> {converted.get((g, n), 0)}" for g, n in sorted(keys)
+            if original.get((g, n), 0) != converted.get((g, n), 0)]

@@ -26,7 +26,7 @@ from pathlib import Path
 
 from migrate.plan import ADVISORY_CATEGORIES
 from migrate.verify.classpath import HadoopClasspath, find_classpath, repository_jars
-from migrate.verify.compare import MODES, Verdict, compare_folders
+from migrate.verify.compare import MODES, Verdict, compare_folders, counter_differences, parse_counters
 from migrate.verify.hadoop import TIMED_OUT, compile_sources, run_job
 
 AGREES, DIFFERS, SKIPPED, ERROR = "agrees", "differs", "skipped", "error"
@@ -69,6 +69,7 @@ class Check:
     arguments: list[str] = field(default_factory=list)  # the driver's arguments, as in the runs file
     tolerance: float | None = None  # the relative tolerance the comparison allowed, if any
     writes_outside: list[str] = field(default_factory=list)  # files the original changed outside its output
+    counters: list[str] = field(default_factory=list)  # the job's counters that differ: group:name a -> b
 
     def for_report(self) -> dict:
         return asdict(self)  # with the tail of the tool's output where something failed
@@ -345,9 +346,12 @@ class Verifier:
             iv = compare_folders(here / "original" / folder[1:], here / "converted" / folder[1:], "bytes",
                                  self.tolerance)
             c.intermediates.append({"folder": folder, **_verdict_dict(iv)})
-        ok = v.agrees and all(i["agrees"] for i in c.intermediates)
+        c.counters = counter_differences(job.get("counters") or [], parse_counters(ran.log), parse_counters(p.stderr))
+        ok = v.agrees and all(i["agrees"] for i in c.intermediates) and not c.counters
         c.verdict = AGREES if ok else DIFFERS
         c.detail = _summary(v, c.intermediates, self.tolerance)
+        if c.counters:  # the script's counter report must say what the job log said
+            c.detail += f"; counters differ: {', '.join(c.counters[:5])}" + (" ..." if len(c.counters) > 5 else "")
 
 
 def _shown(arg: str, root: str) -> str:

@@ -24,6 +24,7 @@ ROWS = [
     dict(s="  NaN ", t="Infinity", a=-9, b=4, l=-9, m=4, x=-1.0, y=3.0),
     dict(s="key\tv1\tv2", t="k", a=1, b=1, l=1, m=1, x=9999999.0, y=1.0e7),
     dict(s="a b  c", t="a", a=2, b=-3, l=2, m=-3, x=0.1, y=0.2),
+    dict(s="a\\,b,,c\\\\,d\\", t=",x\\\\\\,y|z,,", a=6, b=2, l=6, m=2, x=0.3, y=3.0),
 ]
 
 # (name, Java expression). Every form runs on every row.
@@ -183,4 +184,12 @@ FORMS = [
     ("matcher_find", 'java.util.regex.Pattern.compile("\\\\d+").matcher(s).find()'),
     ("matcher_looking_at_ci", 'java.util.regex.Pattern.compile("s", java.util.regex.Pattern.CASE_INSENSITIVE).matcher(t).lookingAt()'),
     ("pattern_split", 'java.util.regex.Pattern.compile(",").split(s)'),
+    # Hadoop's org.apache.hadoop.util.StringUtils.split (hadoop-client 3.5 jar of the pyspark wheel)
+    ("hadoop_split", "org.apache.hadoop.util.StringUtils.split(s)"),
+    ("hadoop_split_t", "org.apache.hadoop.util.StringUtils.split(t)"),
+    ("hadoop_split_char", "org.apache.hadoop.util.StringUtils.split(t, '|')"),
+    ("hadoop_split_escape_pipe", "org.apache.hadoop.util.StringUtils.split(t, '\\\\', '|')"),
+    ("hadoop_split_constants", "org.apache.hadoop.util.StringUtils.split(s, org.apache.hadoop.util.StringUtils.ESCAPE_CHAR, "
+                               "org.apache.hadoop.util.StringUtils.COMMA).length"),
+    ("hadoop_split_letter_escape", "org.apache.hadoop.util.StringUtils.split(s, 'b', ',')"),
 ]

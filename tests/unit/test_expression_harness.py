@@ -10,6 +10,7 @@ which mrlift leaves failing the job (a loud difference, never a silent one).
 """
 from __future__ import annotations
 
+import os
 import shutil
 import subprocess
 
@@ -20,6 +21,7 @@ from migrate.gen.helpers import helper_source
 from migrate.gen.pyspark import ExprWriter
 from migrate.lift.exprs import Scope, Unsupported, lift, to_string
 from migrate.plan import Col
+from migrate.verify.classpath import find_classpath
 from tests.unit.expression_forms import FORMS, ROWS
 
 pytestmark = pytest.mark.skipif(shutil.which("javac") is None, reason="needs a JDK on PATH")
@@ -108,7 +110,8 @@ def jvm_results(tmp_path_factory):
 
     d = tmp_path_factory.mktemp("harness")
     (d / "ExprHarness.java").write_text(_java_source(), encoding="utf-8")
-    subprocess.run(["javac", "-encoding", "UTF-8", "-d", str(d), str(d / "ExprHarness.java")], check=True)
+    hadoop = str(find_classpath())  # for org.apache.hadoop.util.StringUtils
+    subprocess.run(["javac", "-encoding", "UTF-8", "-cp", hadoop, "-d", str(d), str(d / "ExprHarness.java")], check=True)
 
     def bits(v: float) -> str:
         return str(struct.unpack(">q", struct.pack(">d", v))[0])
@@ -116,7 +119,7 @@ def jvm_results(tmp_path_factory):
     rows = "\n".join("\t".join([r["s"].encode().hex(), r["t"].encode().hex(), str(r["a"]), str(r["b"]), str(r["l"]),
                                 str(r["m"]), bits(r["x"]), bits(r["y"])]) for r in ROWS)
     (d / "rows.tsv").write_text(rows + "\n", encoding="ascii")
-    out = subprocess.run(["java", "-Duser.language=en", "-Duser.country=US", "-Duser.timezone=UTC", "-cp", str(d),
+    out = subprocess.run(["java", "-Duser.language=en", "-Duser.country=US", "-Duser.timezone=UTC", "-cp", f"{d}{os.pathsep}{hadoop}",
                           "ExprHarness", str(d / "rows.tsv")], check=True, capture_output=True, text=True).stdout
     res = {}
     for line in out.splitlines():

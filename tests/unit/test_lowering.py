@@ -459,3 +459,89 @@ def test_a_missing_key_given_a_default_by_a_null_test_converts(tmp_path):
       context.write(new Text(k), new IntWritable(W.getOrDefault(k, 0) + W.size()));""",
                fields=MAPS + '\n    private static final Map<String, String> KINDS = Map.of("a", "x", "b", "y");')
     assert not _reasons(job)
+
+
+def _reducer_job(tmp_path, reduce_body: str, fields: str = ""):
+    reducer = f"""
+  public static class R extends Reducer<Text, IntWritable, Text, IntWritable> {{
+    {fields}
+    protected void reduce(Text key, Iterable<IntWritable> values, Context context) throws IOException, InterruptedException {{
+{reduce_body}
+    }}
+  }}"""
+    scan = scan_text(tmp_path, {"Main.java": job_source(
+        'context.write(new Text(value.toString()), new IntWritable(1));', reducer=reducer)})
+    (job,) = scan.jobs
+    return job
+
+
+@pytest.mark.parametrize("body, agg", [
+    ("""
+      int total = 0;
+      Iterator<IntWritable> it = values.iterator();
+      while (it.hasNext()) {
+        total += it.next().get();
+      }
+      context.write(key, new IntWritable(total));""", "sum"),
+    ("""
+      int n = 0;
+      Iterator<IntWritable> it = values.iterator();
+      for (; it.hasNext(); ) {
+        n++;
+        it.next();
+      }
+      context.write(key, new IntWritable(n));""", "count"),
+    ("""
+      Iterator<IntWritable> it = values.iterator();
+      int best = Integer.MIN_VALUE;
+      while (it.hasNext()) {
+        IntWritable v = it.next();
+        if (v.get() > best) best = v.get();
+      }
+      context.write(key, new IntWritable(best));""", "max"),
+], ids=["next_in_an_expression", "next_only_moves_on", "next_into_a_local"])
+def test_an_iterator_loop_over_the_values_is_a_for_each(tmp_path, body, agg):
+    """JLS 14.14.2: the enhanced for over an Iterable is the hasNext()/next() loop."""
+    job = _reducer_job(tmp_path, body)
+    assert not _reasons(job), _reasons(job)
+    assert any("iterator loop" in n for n in job.plan.notes)
+    assert f"= {agg}" in dump_plan(job.plan), dump_plan(job.plan)
+
+
+@pytest.mark.parametrize("body", [
+    # the first value is taken before the loop: the iterator serves two readers
+    """
+      Iterator<IntWritable> it = values.iterator();
+      int first = it.next().get();
+      while (it.hasNext()) { first += it.next().get(); }
+      context.write(key, new IntWritable(first));""",
+    # a continue before next() would read the same value again in Java
+    """
+      int total = 0, i = 0;
+      Iterator<IntWritable> it = values.iterator();
+      while (it.hasNext()) { i++; if (i > 100) continue; total += it.next().get(); }
+      context.write(key, new IntWritable(total));""",
+    # next() only on some iterations
+    """
+      int total = 0;
+      Iterator<IntWritable> it = values.iterator();
+      while (it.hasNext()) { total += total > 10 ? 0 : it.next().get(); }
+      context.write(key, new IntWritable(total));""",
+    # the previous value object is read before next() refills it (Hadoop reuses it)
+    """
+      int total = 0;
+      IntWritable prev = null;
+      Iterator<IntWritable> it = values.iterator();
+      while (it.hasNext()) { if (prev != null) total += prev.get(); prev = it.next(); }
+      context.write(key, new IntWritable(total));""",
+    # the iterator is used after the loop
+    """
+      int total = 0;
+      Iterator<IntWritable> it = values.iterator();
+      while (it.hasNext()) { total += it.next().get(); }
+      context.write(key, new IntWritable(total + (it.hasNext() ? 1 : 0)));""",
+], ids=["first_taken_before", "continue_before_next", "conditional_next", "reused_object_read_first",
+        "iterator_read_after"])
+def test_an_iterator_loop_that_is_not_a_for_each_is_left(tmp_path, body):
+    job = _reducer_job(tmp_path, body)
+    assert not any("iterator loop" in n for n in job.plan.notes)

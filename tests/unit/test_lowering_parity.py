@@ -334,3 +334,66 @@ def test_constant_maps_and_int_sets_agree_with_hadoop(tmp_path):
     protected void setup(Context context) { CODES.put("zz,1", "z"); CODES.put("7", "seven"); }"""
     _agrees_with_hadoop(tmp_path, job_source(body, fields=fields, reducer=SUM_REDUCER),
                         {"lines.txt": INPUT.encode("utf-8")})
+
+
+def test_counters_named_by_the_data_agree_with_hadoop(tmp_path):
+    """A counter per value (`getCounter("Status", f[1])`, a computed group too): the script's
+    counter report must equal the job log's, names over 64 chars cut to 63 as Hadoop's Limits
+    does (two long names equal in their first 63 chars become one counter), the counter in a
+    catch block counting the records that threw. `verify` compares the job's counters."""
+    body = """
+      String[] f = value.toString().split(",");
+      if (f.length < 2) { context.getCounter("Quality", "short").increment(1); return; }
+      context.getCounter("Status", f[1].trim()).increment(1);
+      context.getCounter("By " + f[0], "rows").increment(f[0].length());
+      int n = -1;
+      try {
+        n = Integer.parseInt(f[2]);
+      } catch (NumberFormatException | ArrayIndexOutOfBoundsException e) {
+        context.getCounter("Bad", f[1] + "#" + (f.length > 2 ? f[2] : "none")).increment(1);
+      }
+      context.write(new Text(f[1]), new IntWritable(n));"""
+    long = "waiting-for-the-ferry-" * 3  # 66 chars: two statuses that differ only after char 63
+    data = (f"a,ok,1\nb,ok,2\na, late ,x\nc,Ärger,3\nd,{long}X,4\nd,{long}Y,5\nshort\n,ok,6\na,ok\n")
+    _agrees_with_hadoop(tmp_path, job_source(body, reducer=SUM_REDUCER), {"lines.txt": data.encode("utf-8")})
+
+
+def test_hadoop_string_utils_split_agrees_with_hadoop(tmp_path):
+    """org.apache.hadoop.util.StringUtils.split: escaped separators stay in the field, trailing
+    empty fields go, "" has no field; split(s, char) is String.split of that char."""
+    body = """
+      String line = value.toString();
+      String[] f = StringUtils.split(line);
+      String[] g = StringUtils.split(line, '|');
+      String[] h = StringUtils.split(line, StringUtils.ESCAPE_CHAR, '|');
+      context.write(new Text(f.length + ":" + String.join("/", f)), new IntWritable(g.length * 10 + h.length));"""
+    source = job_source(body, reducer=SUM_REDUCER).replace(
+        "import java.util.*;", "import java.util.*;\nimport org.apache.hadoop.util.StringUtils;")
+    data = "a,b\n\n,,\na\\,b,c|d\\|e\nx\\\\,y,,\nend\\\n|a||\n"
+    _agrees_with_hadoop(tmp_path, source, {"lines.txt": data.encode("utf-8")})
+
+
+def test_iterator_loops_over_the_values_agree_with_hadoop(tmp_path):
+    """`while (it.hasNext())` and `for (; it.hasNext(); )` over values.iterator(), next() read in an
+    expression, into a local, or only to move on, against the real reduce-side iterator."""
+    reducer = """
+  public static class R extends Reducer<Text, IntWritable, Text, Text> {
+    protected void reduce(Text k, Iterable<IntWritable> vs, Context c) throws IOException, InterruptedException {
+      long total = 0;
+      int n = 0;
+      Iterator<IntWritable> it = vs.iterator();
+      while (it.hasNext()) {
+        n++;
+        total += it.next().get();
+      }
+      c.write(k, new Text(total + "/" + n));
+    }
+  }"""
+    body = """
+      String[] f = value.toString().split(" ");
+      if (f.length > 1 && !f[1].isEmpty() && Character.isDigit(f[1].charAt(0))) {
+        context.write(new Text(f[0]), new IntWritable(Integer.parseInt(f[1])));
+      }"""
+    data = "a 1\nb 2\na 3\nc 9\nb 5\na 11\nx y\n"
+    source = job_source(body, reducer=reducer, out=("Text", "Text"))
+    _agrees_with_hadoop(tmp_path, source, {"lines.txt": data.encode("utf-8")})
