@@ -106,6 +106,7 @@ class ExprWriter:
         self.counters = False  # the plan updates Hadoop counters
         self.named_counters = False  # ... some named by the data (counted before the output is written)
         self.dates = False  # the plan reads or writes dates in the JVM's time zone
+        self.zones: set[str | None] = set()  # ... or in zones set on its formats (the lift allows one)
         self.regexes: dict[str, str] = {}  # script constant -> regex (java.util.regex syntax)
 
     def __call__(self, e: Expr | None) -> str:
@@ -317,6 +318,7 @@ class ExprWriter:
         if op == "date_parse":
             self.helpers.add("sdf_parse")
             self.dates = True
+            self.zones.add(args[3].value if len(args) > 3 else None)
             lenient = "" if args[2].value else ", lenient=False"
             return f"sdf_parse({self(args[0])}, {args[1].value!r}{lenient}{skip})"
         if op == "jt_parse":
@@ -329,11 +331,13 @@ class ExprWriter:
             return fn[args[1].value].format(self(args[0]))
         if op == "date_field":
             self.dates = True
+            self.zones.add(None)
             fn = {"year": "F.year({})", "month": "(F.month({}) - 1)", "day": "F.dayofmonth({})", "hour": "F.hour({})",
                   "minute": "F.minute({})", "second": "F.second({})", "day_of_week": "F.dayofweek({})"}[args[1].value]
             return fn.format(self(args[0]))
         if op == "date_format":
             self.dates = True
+            self.zones.add(args[2].value if len(args) > 2 else None)
             return f"F.date_format({self(args[0])}, {args[1].value!r})"
         if op == "guarded":
             return f"F.when({bare(self(args[0]))}, {self(args[1])})"
@@ -848,6 +852,15 @@ def _step_code(s: Step, x: ExprWriter) -> list[str]:
     raise TypeError(f"the generator has no handler for {type(s).__name__}")
 
 
+def _time_zone(writers) -> str | None:
+    """The zone every date operation of the job ran in when the formats set it (setTimeZone), else
+    None: the JVM's default zone, which the script takes as an option."""
+    zones = set().union(*(w.zones for w in writers))
+    if len(zones) > 1:  # the lift declines this (migrate.lift.exprs._in_zone)
+        raise ValueError(f"dates in several time zones reached the generator: {zones}")
+    return next(iter(zones)) if zones else None
+
+
 def _project_code(p: Project, x: ExprWriter) -> list[str]:
     ems = p.emits
     if len(ems) == 1:
@@ -931,7 +944,7 @@ def render_script(plan: Plan, header: dict, hand_work: list[HandWork]) -> str:
         slots=slots, options=[p for p in plan.params if p.position is None], sink=plan.sink,
         build_args=build_args, build_call=build_call, hand_work=hand_work, stages=stages,
         counters=any(w.counters for w in writers), dates=any(w.dates for w in writers),
-        named_counters=any(w.named_counters for w in writers),
+        named_counters=any(w.named_counters for w in writers), time_zone=_time_zone(writers),
         sort_columns=sort_columns(plan),
         tasks=_tasks(plan),
         sort_note=("cleanup() wrote the kept entries in map order, one reduce task after another: the same here"

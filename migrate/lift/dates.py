@@ -17,6 +17,8 @@ from __future__ import annotations
 import re
 from dataclasses import dataclass
 
+from javalang import tree as T
+
 from migrate.lift.exprs import Unsupported
 from migrate.plan import Call, Expr, Lit
 
@@ -28,10 +30,42 @@ CALENDAR_FIELDS = {"YEAR": "year", "MONTH": "month", "DAY_OF_MONTH": "day", "DAT
 
 @dataclass
 class DateFormat:
-    """A java.text.SimpleDateFormat object: its pattern and whether parsing is lenient."""
+    """A java.text.SimpleDateFormat object: its pattern, whether parsing is lenient, and the time
+    zone set on it (None: the JVM's default zone, the script's session zone)."""
 
     pattern: str
     lenient: bool = True
+    zone: str | None = None
+
+
+# Zone IDs TimeZone.getTimeZone and Spark read alike: region IDs, UTC/GMT and GMT offsets. An ID
+# Java does not know silently means GMT there (Java SE API, TimeZone.getTimeZone); Spark fails on
+# it. Three-letter IDs (EST, CST, IST) are declined: they name different zones in different APIs.
+ZONE_ID = re.compile(r"UTC|GMT|GMT[+-]\d{1,2}(:?\d{2})?|[A-Z][A-Za-z]+(/[A-Za-z0-9_+-]+)+")
+
+
+def configured(fmt: DateFormat, setters: list, node) -> DateFormat:
+    """The format after the setter calls made where it was made (migrate.lower.configured)."""
+    from migrate.java.literals import string_value
+
+    for call in setters:
+        args = call.arguments or []
+        if call.member == "setLenient" and len(args) == 1 and isinstance(args[0], T.Literal) \
+                and args[0].value in ("true", "false"):
+            fmt.lenient = args[0].value == "true"
+        elif call.member == "setTimeZone" and len(args) == 1 and isinstance(args[0], T.MethodInvocation) \
+                and args[0].qualifier in ("TimeZone", "java.util.TimeZone") and args[0].member == "getTimeZone" \
+                and len(args[0].arguments or []) == 1 and isinstance(args[0].arguments[0], T.Literal) \
+                and args[0].arguments[0].value.startswith('"') and not args[0].selectors:
+            zone = string_value(args[0].arguments[0].value)
+            if not ZONE_ID.fullmatch(zone):
+                raise Unsupported(node, f"time zone ID {zone!r}: Java reads an ID it does not know as GMT, and "
+                                        "three-letter IDs name different zones in different APIs",
+                                  "use a region ID such as Europe/Paris, or UTC")
+            fmt.zone = zone
+        else:
+            raise Unsupported(node, f"SimpleDateFormat.{call.member}() with these arguments is not lifted")
+    return fmt
 
 
 @dataclass
@@ -102,7 +136,8 @@ def spark_format_pattern(pattern: str) -> str:
 
 
 def parse(fmt: DateFormat, s: Expr, on_error: str) -> Expr:
-    return Call("Date", "date_parse", (s, Lit("String", fmt.pattern), Lit("boolean", fmt.lenient)), on_error)
+    zone = (Lit("String", fmt.zone),) if fmt.zone else ()
+    return Call("Date", "date_parse", (s, Lit("String", fmt.pattern), Lit("boolean", fmt.lenient), *zone), on_error)
 
 
 def millis(d: Expr) -> Expr:
@@ -117,7 +152,8 @@ def field(d: Expr, name: str, node) -> Expr:
 
 def format_(fmt: DateFormat, d: Expr, node) -> Expr:
     check_format_pattern(fmt.pattern, node)
-    return Call("String", "date_format", (d, Lit("String", spark_format_pattern(fmt.pattern))))
+    zone = (Lit("String", fmt.zone),) if fmt.zone else ()
+    return Call("String", "date_format", (d, Lit("String", spark_format_pattern(fmt.pattern)), *zone))
 
 
 # ----------------------------------------------------------------------------- java.time

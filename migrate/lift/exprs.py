@@ -124,6 +124,13 @@ class Opaque:
 
 
 @dataclass
+class Refused:
+    """A field whose value the converter declined where it was made: any use says why."""
+
+    reason: str
+
+
+@dataclass
 class Scope:
     """Names visible to an expression and the exception kinds a surrounding catch swallows."""
 
@@ -148,6 +155,8 @@ class Scope:
     classes: Any = None
     # a type name as the class's imports resolve it (javac's rules) -> fully qualified, or None
     resolve: Any = None
+    # the time zones date operations ran in (None: the JVM's default); one script runs in one zone
+    zones: set = field(default_factory=set)
 
     def on_error(self, op: str) -> str:
         exc = THROWS.get(op)
@@ -316,6 +325,8 @@ def _binding_value(b, node, name: str) -> Expr:
         if unset:  # Java would print "null" or fail where Spark would carry NULL on
             raise Unsupported(node, f"`{name}.{unset[0]}` is read before it is set (null in Java)")
         return b.content
+    if isinstance(b, Refused):
+        raise Unsupported(node, f"`{name}`: {b.reason}")
     if isinstance(b, MaybeNull):
         raise Unsupported(node, f"`{name}` may be null (a key missing from the side table) where it is read: Java "
                                 "would throw or print \"null\"", f"test `{name}` for null first, or use getOrDefault")
@@ -339,6 +350,16 @@ def _selectors(base: Expr, selectors, scope: Scope, node) -> Expr:
         else:
             raise Unsupported(node, f"selector {type(sel).__name__} is not lifted")
     return e
+
+
+def _in_zone(scope: Scope, zone: str | None, node) -> None:
+    """Record the time zone a date operation runs in: the script runs in one session zone, so dates
+    in the JVM's default zone and in a zone set on a format (or in two set zones) are declined."""
+    scope.zones.add(zone)
+    if len(scope.zones) > 1:
+        shown = ", ".join(sorted(z or "the JVM's default zone" for z in scope.zones))
+        raise Unsupported(node, f"dates in more than one time zone ({shown}) are not lifted",
+                          "parse and format in one zone, or convert with F.from_utc_timestamp by hand")
 
 
 HADOOP_STRING_UTILS = "org.apache.hadoop.util.StringUtils"
@@ -468,7 +489,10 @@ def _invocation(node: T.MethodInvocation, scope: Scope) -> Expr:
         recv = scope.env[q]
         from migrate.lift import dates
 
+        if isinstance(recv, Refused):
+            raise Unsupported(node, f"`{q}`: {recv.reason}")
         if isinstance(recv, dates.DateFormat):
+            _in_zone(scope, recv.zone, node)
             if m == "parse" and len(args) == 1:
                 arg = lift(args[0], scope)
                 if arg.jtype != "String":
@@ -484,6 +508,7 @@ def _invocation(node: T.MethodInvocation, scope: Scope) -> Expr:
             if m == "get" and len(args) == 1 and isinstance(args[0], T.MemberReference) and args[0].qualifier == "Calendar":
                 if recv.date is None:
                     raise Unsupported(node, "Calendar read before setTime() in this record")
+                _in_zone(scope, None, node)
                 return dates.field(recv.date, args[0].member, node)
             raise Unsupported(node, f"Calendar.{m}() is not lifted")
         if isinstance(recv, SideTable):

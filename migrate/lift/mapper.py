@@ -17,7 +17,7 @@ from javalang import tree as T
 
 from migrate.java.index import ClassInfo, node_lines
 from migrate.lift.writables import is_struct, structs_of
-from migrate.lift.exprs import (BYTE_OFFSET, CATCH_ALL, NARROWING, WRITABLE_OF, HelperClass, MaybeNull, Opaque, Scope,
+from migrate.lift.exprs import (BYTE_OFFSET, CATCH_ALL, NARROWING, WRITABLE_OF, HelperClass, MaybeNull, Opaque, Refused, Scope,
                                 Tokenizer, Unsupported, Writable, lift, lookup_key, map_lookup, promote, refined,
                                 regex_object, widen_at, writable_creator, writable_set, write_argument)
 from migrate.lift import dates
@@ -926,8 +926,9 @@ def class_constants(cls: ClassInfo, index=None) -> dict[str, object]:
                 if tname in ("Pattern", "java.util.regex.Pattern") and init is not None:
                     made = regex_object(init, Scope(dict(env)))  # a CompiledPattern, or Unsupported
                     made = replace(made, name=made.name or d.name) if isinstance(made, rx.CompiledPattern) else None
-            except Unsupported:
-                made = None
+            except Unsupported as u:  # a date format the lift declines says why wherever it is used
+                made = Refused(u.reason) if isinstance(init, T.ClassCreator) and init.type.name == "SimpleDateFormat" \
+                    else None
             if made is not None:
                 env[d.name] = made
                 continue
@@ -1000,7 +1001,7 @@ def date_object(init, node):
 
         pattern = string_value(args[0].value)
         dates.check_parse_pattern(pattern, node)
-        return dates.DateFormat(pattern)
+        return dates.configured(dates.DateFormat(pattern), init.selectors or [], node)
     if isinstance(init, T.MethodInvocation) and init.qualifier == "Calendar" and init.member == "getInstance" \
             and not init.arguments:
         return dates.CalendarVar()

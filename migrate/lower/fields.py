@@ -10,6 +10,7 @@ from __future__ import annotations
 
 from javalang import tree as T
 
+from migrate.lower.configured import SETTERS
 from migrate.lower.walk import assigned_names, line_of, mentions, positioned, statement_lists
 
 PER_RECORD = {"map", "reduce"}
@@ -176,7 +177,11 @@ def _writables(index) -> set[str]:
 
 
 def _constant(value, statics: set[str], writables: set[str] = frozenset()) -> bool:
+    setters = {id(x) for _, n in value if isinstance(n, T.ClassCreator) for x in n.selectors or []
+               if isinstance(x, T.MethodInvocation) and x.member in SETTERS.get(n.type.name, ())}
     for _, n in value:
+        if id(n) in setters:  # `new SimpleDateFormat(p)` configured where made (migrate.lower.configured)
+            continue
         if isinstance(n, T.ClassCreator) and n.type.name.rsplit(".", 1)[-1] not in CONSTANT_CLASSES | writables:
             return False
         if isinstance(n, T.MethodInvocation) and n.qualifier and n.qualifier.split(".")[0] not in CONSTANT_CLASSES:

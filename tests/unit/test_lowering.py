@@ -545,3 +545,39 @@ def test_an_iterator_loop_over_the_values_is_a_for_each(tmp_path, body, agg):
 def test_an_iterator_loop_that_is_not_a_for_each_is_left(tmp_path, body):
     job = _reducer_job(tmp_path, body)
     assert not any("iterator loop" in n for n in job.plan.notes)
+
+
+def test_a_date_format_configured_in_setup_is_a_task_constant(tmp_path):
+    job = _job(tmp_path, """
+      try {
+        Date when = fmt.parse(value.toString());
+        SimpleDateFormat day = new SimpleDateFormat("yyyy-MM-dd");
+        day.setTimeZone(TimeZone.getTimeZone("Europe/Berlin"));
+        context.write(new Text(day.format(when)), new IntWritable(1));
+      } catch (java.text.ParseException e) {
+        return;
+      }""", fields="""private SimpleDateFormat fmt;
+    protected void setup(Context context) {
+      fmt = new SimpleDateFormat("yyyy-MM-dd HH:mm");
+      fmt.setTimeZone(TimeZone.getTimeZone("Europe/Berlin"));
+      fmt.setLenient(false);
+    }""")
+    assert not _reasons(job), _reasons(job)
+    assert any("configured" in n for n in job.plan.notes), job.plan.notes
+    assert "date_parse?(value, 'yyyy-MM-dd HH:mm', False, 'Europe/Berlin')" in dump_plan(job.plan), dump_plan(job.plan)
+
+
+@pytest.mark.parametrize("fields, body, why", [
+    ("""private SimpleDateFormat fmt = new SimpleDateFormat("yyyy-MM-dd");
+    protected void setup(Context context) { fmt.setTimeZone(TimeZone.getTimeZone("EST")); }""",
+     "try { context.write(new Text(fmt.format(fmt.parse(value.toString()))), new IntWritable(1)); } "
+     "catch (java.text.ParseException e) { return; }", "three-letter"),
+    ("""private SimpleDateFormat fmt = new SimpleDateFormat("yyyy-MM-dd");
+    private Calendar cal = Calendar.getInstance();
+    protected void setup(Context context) { fmt.setTimeZone(TimeZone.getTimeZone("UTC")); }""",
+     "try { cal.setTime(fmt.parse(value.toString())); context.write(new Text(\"y\"), new IntWritable(cal.get(Calendar.YEAR))); } "
+     "catch (java.text.ParseException e) { return; }", "more than one time zone"),
+], ids=["three_letter_zone", "calendar_in_the_default_zone"])
+def test_date_formats_in_zones_the_script_cannot_run_in_are_declined(tmp_path, fields, body, why):
+    job = _job(tmp_path, body, fields=fields)
+    assert any(why in r for r in _reasons(job)), _reasons(job)

@@ -397,3 +397,30 @@ def test_iterator_loops_over_the_values_agree_with_hadoop(tmp_path):
     data = "a 1\nb 2\na 3\nc 9\nb 5\na 11\nx y\n"
     source = job_source(body, reducer=reducer, out=("Text", "Text"))
     _agrees_with_hadoop(tmp_path, source, {"lines.txt": data.encode("utf-8")})
+
+
+def test_a_date_format_configured_in_setup_agrees_with_hadoop(tmp_path):
+    """A SimpleDateFormat made in setup() with setTimeZone and setLenient(false), and a local one
+    configured right after it is made: parsed and formatted in the zone set on them while the
+    JVM runs in UTC (the DST gap of 2024-03-10 in New York included)."""
+    body = """
+      String[] f = value.toString().split(",");
+      try {
+        Date when = stamp.parse(f[0]);
+        SimpleDateFormat day = new SimpleDateFormat("yyyy-MM-dd HH");
+        day.setTimeZone(TimeZone.getTimeZone("America/New_York"));
+        context.write(new Text(day.format(when) + "|" + when.getTime()), new IntWritable(f.length));
+      } catch (java.text.ParseException e) {
+        context.getCounter("dates", "unparseable").increment(1);
+      }"""
+    fields = """private SimpleDateFormat stamp;
+    protected void setup(Context context) {
+      stamp = new SimpleDateFormat("yyyy-MM-dd HH:mm:ss");
+      stamp.setTimeZone(TimeZone.getTimeZone("America/New_York"));
+      stamp.setLenient(false);
+    }"""
+    data = ("2024-03-10 02:30:00,a\n2024-03-10 03:30:00,b\n2024-11-03 01:30:00,c\n2024-02-30 10:00:00,d\n"
+            "2024-07-01 23:59:59,e\nnot a date,f\n2024-12-31 19:00:00,g\n")
+    source = job_source(body, fields=fields, reducer=SUM_REDUCER).replace("import java.util.*;",
+                                                                          "import java.util.*;\nimport java.text.*;")
+    _agrees_with_hadoop(tmp_path, source, {"lines.txt": data.encode("utf-8")})

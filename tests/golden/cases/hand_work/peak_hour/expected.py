@@ -128,9 +128,10 @@ def sdf_parse(
     """SimpleDateFormat(pattern).parse(s) in the session time zone (the JVM's zone in Java).
 
     Lenient, as Java's default: out-of-range fields roll over (Feb 30 is Mar 1, 25:70 is 02:10 the
-    next day) and text after the pattern is ignored. The wall-clock time is computed without a time
-    zone, then placed in the session zone; a wall-clock time that occurs twice (the autumn DST
-    change) is the later instant, as GregorianCalendar resolves it.
+    next day) and text after the pattern is ignored; not lenient, such fields and a time the zone
+    skips are errors. The wall-clock time is computed without a time zone, then placed in the
+    session zone; a wall-clock time that occurs twice (the autumn DST change) is the later
+    instant, as GregorianCalendar resolves it.
     """
     regex, letters = _date_regex(pattern, exact_widths=False)
     year, month, day, hour, minute, second = _date_fields(s, regex, letters)
@@ -148,6 +149,8 @@ def sdf_parse(
     value = F.when(
         s.rlike(regex) & wall.isNotNull(), F.when(same_wall_clock, later).otherwise(instant)
     )
+    if not lenient:  # a time the zone skips (spring DST gap) is an error
+        value = F.when(F.from_utc_timestamp(value, F.current_timezone()) == wall, value)
     if skip_bad_record:
         return value
     return F.when(value.isNotNull(), value).otherwise(
