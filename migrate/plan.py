@@ -525,6 +525,27 @@ class Plan:
 # ----------------------------------------------------------------------------- text dump
 
 
+def rewrite(e: Expr, swap) -> Expr:
+    """`e` with every sub-expression x for which swap(x) gives an expression replaced by it (the
+    replacement is not searched again)."""
+    import dataclasses
+
+    new = swap(e)
+    if new is not None:
+        return new
+    changes = {}
+    for f in dataclasses.fields(e):
+        v = getattr(e, f.name)
+        if isinstance(v, Expr):
+            changes[f.name] = rewrite(v, swap)
+        elif isinstance(v, tuple) and v and all(isinstance(x, Expr) for x in v):
+            changes[f.name] = tuple(rewrite(x, swap) for x in v)
+        elif isinstance(v, tuple) and v and all(isinstance(x, tuple) and len(x) == 2 and isinstance(x[1], Expr)
+                                                 for x in v):
+            changes[f.name] = tuple((k, rewrite(x, swap)) for k, x in v)
+    return dataclasses.replace(e, **changes) if changes else e
+
+
 def walk(e: Expr | None, inner=None):
     """The expression and every sub-expression in it, depth first; `inner(x)`, when given, names the
     sub-expressions of x to visit (instead of all)."""

@@ -30,6 +30,15 @@ def hadoop_split(s: Column, escape: str = "\\", separator: str = ",") -> Column:
     return F.slice(fields, 1, F.coalesce(last, F.lit(0)))
 ''')
 
+_h("until_break", '''
+def until_break(items: Column, breaks) -> Column:
+    """The elements a Java loop visits when it may `break`: up to and including the first element
+    for which `breaks` holds. `breaks` is not tested on the elements after that one (F.when tests
+    only the branch it takes), as Java never reaches them."""
+    seen = F.aggregate(items, F.lit(0), lambda n, x: F.when(n < 0, n).when(breaks(x), -(n + 1)).otherwise(n + 1))
+    return F.slice(items, 1, F.when(seen < 0, -seen).otherwise(F.size(items)))
+''')
+
 _h("java_tokens", '''
 TOKENIZER_DELIMITERS = "[ \\\\t\\\\n\\\\r\\\\f]+"  # java.util.StringTokenizer's default delimiters
 

@@ -2,6 +2,7 @@
 from __future__ import annotations
 
 import functools
+import keyword
 import math
 import re
 import uuid
@@ -97,6 +98,15 @@ def _reserved_names() -> frozenset[str]:
     return frozenset({"F"} | {m for _, src in HELPERS.values() for m in re.findall(r"^([A-Z][A-Z0-9_]*) =", src, re.M)})
 
 
+@functools.cache
+def _script_names() -> frozenset[str]:
+    """Names a script defines at top level or imports (a lambda parameter must not hide them)."""
+    from migrate.gen.helpers import HELPERS
+
+    defined = {m for _, src in HELPERS.values() for m in re.findall(r"^(?:def |class )?(\w+)", src, re.M)}
+    return frozenset(defined | {"F", "Column", "DataFrame", "SparkSession", "Window", "Observation", "re", "sys"})
+
+
 class ExprWriter:
     """Spells plan expressions as Column code and remembers which helpers they need."""
 
@@ -108,6 +118,7 @@ class ExprWriter:
         self.dates = False  # the plan reads or writes dates in the JVM's time zone
         self.zones: set[str | None] = set()  # ... or in zones set on its formats (the lift allows one)
         self.regexes: dict[str, str] = {}  # script constant -> regex (java.util.regex syntax)
+        self.bound: dict[str, str] = {}  # column -> the lambda parameter standing for it (until_break)
 
     def __call__(self, e: Expr | None) -> str:
         if e is None:
@@ -132,6 +143,8 @@ class ExprWriter:
         return name
 
     def visit_Col(self, e: Col) -> str:
+        if e.name in self.bound:
+            return self.bound[e.name]
         return f'F.col("{e.name}")'
 
     def visit_ConfValue(self, e: ConfValue) -> str:
@@ -234,6 +247,17 @@ class ExprWriter:
             escape, sep = args[1].value, args[2].value
             tail = "" if (escape, sep) == ("\\", ",") else f", escape={escape!r}, separator={sep!r}"
             return f"hadoop_split({self(args[0])}{tail})"
+        if op == "until_break":  # the elements a loop visits: up to the first where its break fires
+            self.helpers.add("until_break")
+            element = args[1].name
+            param = element if element.isidentifier() and not keyword.iskeyword(element) \
+                and element not in _script_names() else "element"
+            self.bound[element] = param
+            try:
+                fires = bare(self(args[2]))
+            finally:
+                del self.bound[element]
+            return f"until_break({self(args[0])}, lambda {param}: {fires})"
         if op == "tokens":
             self.helpers.add("java_tokens")
             if len(args) == 1:

@@ -27,7 +27,7 @@ from migrate.lift.combining import combining_update, map_fields
 from migrate.lift.counters import counter_update, is_counter_call
 from migrate.lower.walk import assigned_names
 from migrate.plan import (NUMERIC, BoolOp, Call, Col, Compare, Count, Emit, Explode, Expr, Filter, Finding, HandWork,
-                          Let, Lit, Lookup, Project, SideTable, Span, Step, StructNew, walk)
+                          Let, Lit, Lookup, Project, SideTable, Span, Step, StructNew, rewrite, walk)
 
 SKIP_NOTE = "catch: skip the record"
 _DECLARED = {"int": "int", "long": "long", "double": "double", "float": "float", "boolean": "boolean",
@@ -124,6 +124,8 @@ class MapBodyLifter:
         self.columns = {"value"}
         self.loop_locals: list[set[str]] = []
         self.loop_writes: list[int] = []  # per enclosing loop: how many writes came before its body
+        self.loop_starts: list[int] = []  # per enclosing loop: the index of its Explode step
+        self.loop_breaks: list[list[Expr]] = []  # per enclosing loop: where each `break` fires (per element)
         self.if_nodes: list = []  # enclosing if statements (for comments on the filters they become)
         self.field_names = {d.name for f in cls.fields() for d in f.declarators}
         self.map_fields = map_fields(cls)
@@ -242,7 +244,7 @@ class MapBodyLifter:
             self._expression_statement(s, guard)
         elif isinstance(s, T.IfStatement):
             self._if(s, guard)
-        elif isinstance(s, (T.ReturnStatement, T.ContinueStatement)):
+        elif isinstance(s, (T.ReturnStatement, T.ContinueStatement, T.BreakStatement)):
             self._exit(s, guard)
         elif isinstance(s, T.WhileStatement):
             self._while(s, guard)
@@ -675,7 +677,9 @@ class MapBodyLifter:
 
     def _exit(self, s, guard) -> None:
         g = self._eff(guard)
-        is_continue = isinstance(s, T.ContinueStatement)
+        is_continue = isinstance(s, (T.ContinueStatement, T.BreakStatement))  # a break ends this iteration too
+        if isinstance(s, T.BreakStatement):
+            self._break(s, g)
         if isinstance(s, T.ReturnStatement) and self.loop_depth:
             raise Unsupported(s, "return inside a loop ends the whole record; rows per token cannot express that")
         if is_continue and not self.loop_depth:
@@ -687,6 +691,37 @@ class MapBodyLifter:
             self.steps.append(Filter(self._span(where), self._note(where), _not(g)))
         else:
             self.dead = _or(self.dead, g)
+
+    def _break(self, s: T.BreakStatement, g: Expr | None) -> None:
+        """`break` under the guard g: the loop visits the elements up to the first one where g holds
+        (and that element's row survived the filters before the break). The test runs per element
+        before the rows are exploded, so it is g with this iteration's locals spelled out."""
+        if not self.loop_depth:
+            raise Unsupported(s, "break outside a loop (a switch is not lifted)")
+        if s.goto:
+            raise Unsupported(s, f"a break to the label `{s.goto}` is not lifted")
+        start = self.loop_starts[-1]
+        fires = g if g is not None else Lit("boolean", True)
+        inner: set[str] = set()
+        element = self.steps[start].name
+        for st in self.steps[start + 1:]:
+            if isinstance(st, Let):
+                if st.name in inner | {element}:  # a column given a new value: its earlier readers saw the old one
+                    raise Unsupported(s, f"a break after `{st.name}` changed in the same iteration is not lifted")
+                inner.add(st.name)
+            elif isinstance(st, Filter):
+                fires = _and(st.cond, fires)
+            elif not isinstance(st, Count):
+                raise Unsupported(s, "a break after a side-table lookup or an inner loop in the same iteration")
+
+        def spelled_out(x: Expr, within: frozenset = frozenset()) -> Expr | None:
+            if isinstance(x, Col) and x.name in inner:
+                if x.name not in self.scope.defs or x.name in within:  # unknown, or defined by its old value
+                    raise Unsupported(s, f"the break depends on `{x.name}`, which the converter cannot spell out "
+                                         "per element (a local changed in the same iteration)")
+                return rewrite(self.scope.defs[x.name], lambda y: spelled_out(y, within | {x.name}))
+            return None
+        self.loop_breaks[-1].append(rewrite(fires, spelled_out))
 
     def _loop(self, s, guard, array: Expr, var: str, body) -> tuple[str, list]:
         """Start a loop over `array`: filter by the guard, explode, return the column and the body."""
@@ -704,6 +739,8 @@ class MapBodyLifter:
         self.loop_depth += 1
         self.loop_locals.append(set())
         self.loop_writes.append(len(self.emit_list))
+        self.loop_starts.append(len(self.steps) - 1)
+        self.loop_breaks.append([])
         return col, (body.statements if isinstance(body, T.BlockStatement) else [body])
 
     def _loop_body(self, stmts) -> None:
@@ -716,6 +753,15 @@ class MapBodyLifter:
         self.loop_depth -= 1
         self.loop_locals.pop()
         self.loop_writes.pop()
+        start, breaks = self.loop_starts.pop(), self.loop_breaks.pop()
+        if breaks:  # explode only the elements the loop reaches: up to the first that breaks
+            ex = self.steps[start]
+            fires = breaks[0]
+            for b in breaks[1:]:
+                fires = _or(fires, b)
+            self.steps[start] = replace(ex, note=ex.note + "  (up to the first element that breaks the loop)",
+                                        array=Call(ex.array.jtype, "until_break",
+                                                   (ex.array, Col(ex.array.jtype[:-2], ex.name), fires)))
         self.dead = saved_dead
         self.after_loop = True
 

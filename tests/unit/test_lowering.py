@@ -581,3 +581,25 @@ def test_a_date_format_configured_in_setup_is_a_task_constant(tmp_path):
 def test_date_formats_in_zones_the_script_cannot_run_in_are_declined(tmp_path, fields, body, why):
     job = _job(tmp_path, body, fields=fields)
     assert any(why in r for r in _reasons(job)), _reasons(job)
+
+
+@pytest.mark.parametrize("body, why", [
+    ("""
+      String[] words = value.toString().split(" ");
+      outer:
+      for (String w : words) {
+        for (String v : words) { if (v.equals(w)) break outer; }
+        context.write(new Text(w), new IntWritable(1));
+      }""", "label"),
+    ("""
+      String[] words = value.toString().split(" ");
+      for (String w : words) {
+        String t = w;
+        t = t.trim();
+        if (t.isEmpty()) break;
+        context.write(new Text(t), new IntWritable(1));
+      }""", "changed in the same iteration"),
+], ids=["labelled_break", "break_after_a_local_changed"])
+def test_a_break_the_converter_cannot_test_per_element_is_declined(tmp_path, body, why):
+    job = _job(tmp_path, body)
+    assert any(why in r for r in _reasons(job)), _reasons(job)

@@ -424,3 +424,36 @@ def test_a_date_format_configured_in_setup_agrees_with_hadoop(tmp_path):
     source = job_source(body, fields=fields, reducer=SUM_REDUCER).replace("import java.util.*;",
                                                                           "import java.util.*;\nimport java.text.*;")
     _agrees_with_hadoop(tmp_path, source, {"lines.txt": data.encode("utf-8")})
+
+
+def test_break_in_a_loop_agrees_with_hadoop(tmp_path):
+    """`break` ends the loop: the elements after the first one that breaks are not visited, and the
+    statements after the break in that iteration do not run (a write before it does)."""
+    body = """
+      String[] words = value.toString().split(" ");
+      for (String w : words) {
+        String t = w.trim();
+        if (t.equals("--")) {
+          break;
+        }
+        context.write(new Text("w:" + t), new IntWritable(1));
+        if (t.endsWith(".")) break;
+        context.getCounter("words", "after the stop check").increment(1);
+      }"""
+    data = "a b -- c d\nend. of line\n-- x\nno stop here\n\nq r. s -- t\n"
+    _agrees_with_hadoop(tmp_path, job_source(body, reducer=SUM_REDUCER), {"lines.txt": data.encode("utf-8")})
+
+
+def test_break_in_a_token_loop_after_a_continue_agrees_with_hadoop(tmp_path):
+    """A StringTokenizer loop whose `continue` skips some tokens before the `break` test: a skipped
+    token never breaks the loop; a token that would throw after the break point is never parsed."""
+    body = """
+      StringTokenizer itr = new StringTokenizer(value.toString());
+      while (itr.hasMoreTokens()) {
+        String tok = itr.nextToken();
+        if (tok.startsWith("#")) continue;
+        if (tok.equals("stop")) break;
+        context.write(new Text(tok), new IntWritable(Integer.parseInt(tok.substring(0, 1)) ));
+      }"""
+    data = "1a 2b stop x9\n#stop 3c stop\nstop 4d\n5e 6f\n"
+    _agrees_with_hadoop(tmp_path, job_source(body, reducer=SUM_REDUCER), {"lines.txt": data.encode("utf-8")})
