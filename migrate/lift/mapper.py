@@ -126,6 +126,8 @@ class MapBodyLifter:
         self.loop_writes: list[int] = []  # per enclosing loop: how many writes came before its body
         self.loop_starts: list[int] = []  # per enclosing loop: the index of its Explode step
         self.loop_breaks: list[list[Expr]] = []  # per enclosing loop: where each `break` fires (per element)
+        self.loop_returns = False  # a `return` inside the loop being lifted (it ends the loop and the record)
+        self.returned_in_loop = False  # ... in a loop already lifted: nothing after that loop may run
         self.if_nodes: list = []  # enclosing if statements (for comments on the filters they become)
         self.field_names = {d.name for f in cls.fields() for d in f.declarators}
         self.map_fields = map_fields(cls)
@@ -217,6 +219,9 @@ class MapBodyLifter:
                 self._stmt(s, guard)
 
     def _stmt(self, s, guard: Expr | None) -> None:
+        if self.returned_in_loop:
+            raise Unsupported(s, "a statement after a loop that may return from map() in it is not lifted",
+                              "move it before the loop, or guard it by hand")
         self.guard_now = guard
         pending = self._unattempted()
         try:
@@ -681,7 +686,12 @@ class MapBodyLifter:
         if isinstance(s, T.BreakStatement):
             self._break(s, g)
         if isinstance(s, T.ReturnStatement) and self.loop_depth:
-            raise Unsupported(s, "return inside a loop ends the whole record; rows per token cannot express that")
+            if self.loop_depth > 1:
+                raise Unsupported(s, "return inside nested loops ends them all; rows per token cannot express that")
+            # the loop's last pass, and nothing after the loop may run (_statement refuses it)
+            self._break(s, g)
+            self.loop_returns = True
+            is_continue = True
         if is_continue and not self.loop_depth:
             raise Unsupported(s, "continue outside a loop")
         if g is None:
@@ -698,7 +708,7 @@ class MapBodyLifter:
         before the rows are exploded, so it is g with this iteration's locals spelled out."""
         if not self.loop_depth:
             raise Unsupported(s, "break outside a loop (a switch is not lifted)")
-        if s.goto:
+        if getattr(s, "goto", None):
             raise Unsupported(s, f"a break to the label `{s.goto}` is not lifted")
         start = self.loop_starts[-1]
         fires = g if g is not None else Lit("boolean", True)
@@ -754,6 +764,8 @@ class MapBodyLifter:
         self.loop_locals.pop()
         self.loop_writes.pop()
         start, breaks = self.loop_starts.pop(), self.loop_breaks.pop()
+        if self.loop_returns and not self.loop_depth:
+            self.loop_returns, self.returned_in_loop = False, True
         if breaks:  # explode only the elements the loop reaches: up to the first that breaks
             ex = self.steps[start]
             fires = breaks[0]

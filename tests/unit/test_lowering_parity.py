@@ -457,3 +457,18 @@ def test_break_in_a_token_loop_after_a_continue_agrees_with_hadoop(tmp_path):
       }"""
     data = "1a 2b stop x9\n#stop 3c stop\nstop 4d\n5e 6f\n"
     _agrees_with_hadoop(tmp_path, job_source(body, reducer=SUM_REDUCER), {"lines.txt": data.encode("utf-8")})
+
+
+def test_return_in_a_loop_agrees_with_hadoop(tmp_path):
+    """`return` in the only loop of map(), with nothing after the loop: the loop's last pass."""
+    body = """
+      String[] cells = value.toString().split(",");
+      for (String c : cells) {
+        if (c.trim().isEmpty()) {
+          context.getCounter("cells", "blank").increment(1);
+          return;
+        }
+        context.write(new Text(c.trim()), new IntWritable(c.length()));
+      }"""
+    data = "a,b,,c\n,x\nd, e ,f\n\n g,h,  ,i\n"
+    _agrees_with_hadoop(tmp_path, job_source(body, reducer=SUM_REDUCER), {"lines.txt": data.encode("utf-8")})
