@@ -108,7 +108,8 @@ def _body_line(lines: list[str], cls) -> int:
 
 @_on_tree
 def setup_fields(tree, lines: list[str]) -> None:
-    """A Writable field made at its declaration vs declared bare and made in setup()."""
+    """A Writable or date-format field made at its declaration vs declared bare and made in setup()
+    (a SimpleDateFormat then also configured there: `setLenient(true)`, Java's default)."""
     edits = []
     for _, cls in tree.filter(T.ClassDeclaration):
         ext = cls.extends
@@ -129,7 +130,10 @@ def setup_fields(tree, lines: list[str]) -> None:
     for cls, moved in reversed(edits):
         indent = moved[0][1].group(1)
         body = [f"{indent}@Override", f"{indent}protected void setup(Context context) {{"]
-        body += [f"{indent}    {g.group(4)} = {g.group(5)};" for _, g in moved]
+        for _, g in moved:  # a date format also gets Java's default leniency set once more (a no-op)
+            body.append(f"{indent}    {g.group(4)} = {g.group(5)};")
+            if g.group(3) == "SimpleDateFormat":
+                body.append(f"{indent}    {g.group(4)}.setLenient(true);")
         body += [f"{indent}}}"]
         last = max(i for i, _ in moved)
         for i, g in moved:
