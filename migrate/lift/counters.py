@@ -8,7 +8,7 @@ A group or name computed from the record (`getCounter("Status", fields[2])`) is 
 expression: the script counts by the computed name, cut as Hadoop cuts long names (Limits:
 a name over mapreduce.job.counters.counter.name.max=64 chars keeps its first 63, a group over
 ...group.name.max=128 its first 127; MRJobConfig defaults of Hadoop 3.5, checked on the local
-runner in tests/parity/test_lowering_parity.py). Hadoop fails a job with more than
+runner in tests/unit/test_lowering_parity.py). Hadoop fails a job with more than
 mapreduce.job.counters.max=120 counters, its own included; that is raised as a finding.
 """
 from __future__ import annotations

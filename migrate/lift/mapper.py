@@ -645,7 +645,10 @@ class MapBodyLifter:
         try:
             self._loop_body(stmts)
         finally:
-            self.scope.env[name] = replace(mv, spent=True)  # find() returned false: no match to read
+            broke = bool(self.loop_breaks and self.loop_breaks[-1])
+            # find() returned false: no match to read; after a break it holds the match it broke on
+            self.scope.env[name] = Opaque(f"the Matcher `{name}` after a loop that may break") if broke \
+                else replace(mv, spent=True)
             self._end_loop(saved_dead)
 
     def _leaves(self, stmt) -> bool:
@@ -688,7 +691,7 @@ class MapBodyLifter:
         if isinstance(s, T.ReturnStatement) and self.loop_depth:
             if self.loop_depth > 1:
                 raise Unsupported(s, "return inside nested loops ends them all; rows per token cannot express that")
-            # the loop's last pass, and nothing after the loop may run (_statement refuses it)
+            # the loop's last pass, and nothing after the loop may run (_stmt refuses it)
             self._break(s, g)
             self.loop_returns = True
             is_continue = True
