@@ -6,6 +6,7 @@ expression says *which* operation it is, and the generator only spells it.
 """
 from __future__ import annotations
 
+import dataclasses
 from dataclasses import dataclass, field
 from typing import Any
 
@@ -528,8 +529,6 @@ class Plan:
 def rewrite(e: Expr, swap) -> Expr:
     """`e` with every sub-expression x for which swap(x) gives an expression replaced by it (the
     replacement is not searched again)."""
-    import dataclasses
-
     new = swap(e)
     if new is not None:
         return new

@@ -12,13 +12,20 @@ def _h(name: str, source: str, needs: tuple[str, ...] = ()) -> None:
     HELPERS[name] = (needs, source.strip("\n") + "\n")
 
 
+_h("drop_trailing_empty", '''
+def drop_trailing_empty(parts: Column) -> Column:
+    """The array without its trailing empty strings (all of them where every one is empty)."""
+    last = F.array_max(F.transform(parts, lambda x, i: F.when(x != "", i + 1).otherwise(0)))
+    return F.slice(parts, 1, F.coalesce(last, F.lit(0)))
+''')
+
 _h("java_split", '''
 def java_split(s: Column, regex: str) -> Column:
-    """String.split(regex): Java drops trailing empty strings; F.split alone keeps them."""
+    """String.split(regex): Java drops trailing empty strings (F.split alone keeps them), except
+    where the regex matched nothing: then the one piece is the whole string, "" included."""
     parts = F.split(s, regex, -1)
-    last = F.array_max(F.transform(parts, lambda x, i: F.when(x != "", i + 1).otherwise(0)))
-    return F.when(F.size(parts) == 1, parts).otherwise(F.slice(parts, 1, F.coalesce(last, F.lit(0))))
-''')
+    return F.when(F.size(parts) == 1, parts).otherwise(drop_trailing_empty(parts))
+''', ("drop_trailing_empty",))
 
 _h("hadoop_split", r'''
 def hadoop_split(s: Column, escape: str = "\\", separator: str = ",") -> Column:
@@ -26,9 +33,8 @@ def hadoop_split(s: Column, escape: str = "\\", separator: str = ",") -> Column:
     field (escapes kept); trailing empty fields are dropped, so "" gives no field at all."""
     e, sep = (c if c.isalnum() else "\\" + c for c in (escape, separator))  # a backslash quotes a non-letter
     fields = F.regexp_extract_all(s, F.lit(f"((?:[^{e}{sep}]|{e}[\\s\\S]?)*)(?:{sep}|\\z)"), 1)
-    last = F.array_max(F.transform(fields, lambda x, i: F.when(x != "", i + 1).otherwise(0)))
-    return F.slice(fields, 1, F.coalesce(last, F.lit(0)))
-''')
+    return drop_trailing_empty(fields)
+''', ("drop_trailing_empty",))
 
 _h("until_break", '''
 def until_break(items: Column, breaks) -> Column:

@@ -15,22 +15,28 @@ from migrate.lower.walk import assigned_names, line_of, mentions, name_ref, posi
 
 
 def counting_loops(cls, index=None) -> list[tuple[int, str]]:
+    def at(stmts: list, k: int, method):
+        got = _as_for_each(stmts[k], method, cls)
+        if got is None:
+            return None
+        what = "an array" if isinstance(got.control.iterable, T.MemberReference) else "a String's chars"
+        line, stmts[k] = line_of(stmts[k]), got
+        return line, f"a counting loop over {what} is a for-each over its elements"
+    return _until_none_applies(cls, at)
+
+
+def _until_none_applies(cls, at) -> list[tuple[int, str]]:
+    """Apply `at(stmts, k, method)` (which rewrites the list in place and says what it did, or
+    returns None) at every statement of every method, until it applies nowhere: a rewritten loop's
+    body is a new list, so the search starts again after each rewrite."""
     done = []
     for method in cls.node.methods:
-        changed = True
-        while changed:  # a rewritten loop's body is a new tree: look again for the loops inside it
-            changed = False
-            for stmts, _ in statement_lists(method):
-                for i, s in enumerate(stmts):
-                    got = _as_for_each(s, method, cls)
-                    if got is not None:
-                        stmts[i] = got
-                        what = "an array" if isinstance(got.control.iterable, T.MemberReference) else "a String's chars"
-                        done.append((line_of(s), f"a counting loop over {what} is a for-each over its elements"))
-                        changed = True
-                        break
-                if changed:
-                    break
+        while True:
+            note = next((n for stmts, _ in statement_lists(method) for k in range(len(stmts))
+                         if (n := at(stmts, k, method)) is not None), None)
+            if note is None:
+                break
+            done.append(note)
     return done
 
 
@@ -163,31 +169,32 @@ def _same_type(a, b) -> bool:
         and not getattr(b, "dimensions", None)
 
 
+def _declarations(name: str, method) -> list[tuple[object, int]]:
+    """(type, array dimensions) of each local or parameter of the method called `name`."""
+    out = []
+    for _, n in method:
+        if isinstance(n, (T.LocalVariableDeclaration, T.VariableDeclaration)):
+            out += [(n.type, len(n.type.dimensions or []) + len(d.dimensions or [])) for d in n.declarators
+                    if d.name == name]
+        elif isinstance(n, T.FormalParameter) and n.name == name:
+            out.append((n.type, len(n.type.dimensions or [])))
+    return out
+
+
 def _char_of(name: str, method):
     """`char` when `name` is a String local or parameter of the method, else None."""
-    types = [n.type for _, n in method if isinstance(n, (T.LocalVariableDeclaration, T.VariableDeclaration))
-             for d in n.declarators if d.name == name and not d.dimensions]
-    types += [n.type for _, n in method if isinstance(n, T.FormalParameter) and n.name == name]
-    if len(types) != 1 or getattr(types[0], "name", "") != "String" or types[0].dimensions:
+    decls = _declarations(name, method)
+    if len(decls) != 1 or getattr(decls[0][0], "name", "") != "String" or decls[0][1]:
         return None
     return T.BasicType(name="char", dimensions=[])
 
 
 def _element_type(arr: str, method, cls):
     """The element type of the array `arr` declared in the method (local or parameter)."""
-    decls = []
-    for _, n in method:
-        if isinstance(n, (T.LocalVariableDeclaration, T.VariableDeclaration)):
-            decls += [(n.type, d.dimensions) for d in n.declarators if d.name == arr]
-        elif isinstance(n, T.FormalParameter) and n.name == arr:
-            decls.append((n.type, []))
-    if len(decls) != 1:  # only a local or parameter: a field could be replaced by a call in the loop
+    decls = _declarations(arr, method)
+    if len(decls) != 1 or decls[0][1] != 1:  # not a field: a call in the loop could replace it
         return None
-    t, extra = decls[0]
-    dims = len(t.dimensions or []) + len(extra or [])
-    if dims != 1:
-        return None
-    out = copy.copy(t)
+    out = copy.copy(decls[0][0])
     out.dimensions = []
     return out
 
@@ -256,24 +263,15 @@ def iterator_loops(cls, index=None) -> list[tuple[int, str]]:
     on to the next iteration (`continue`), and nothing before it reads an object the loop assigns
     (Hadoop reuses one value object: such a variable still holds the element next() has not
     fetched yet). `it` serves nothing else, in the loop or after it."""
-    done = []
-    for method in cls.node.methods:
-        changed = True
-        while changed:  # a rewritten loop's body is a new list: look again
-            changed = False
-            for stmts, _ in statement_lists(method):
-                for k in range(len(stmts)):
-                    got = _iterator_loop(stmts, k, method, cls)
-                    if got is not None:
-                        j, loop = got
-                        stmts[j] = loop
-                        del stmts[k]
-                        done.append((line_of(loop), "an iterator loop (hasNext/next) is a for-each over the same values"))
-                        changed = True
-                        break
-                if changed:
-                    break
-    return done
+    def at(stmts: list, k: int, method):
+        got = _iterator_loop(stmts, k, method, cls)
+        if got is None:
+            return None
+        j, loop = got
+        stmts[j] = loop
+        del stmts[k]
+        return line_of(loop), "an iterator loop (hasNext/next) is a for-each over the same values"
+    return _until_none_applies(cls, at)
 
 
 def _iterator_loop(stmts: list, k: int, method, cls):
@@ -418,10 +416,7 @@ def _as_reference(call, var: str):
 def _value_typed(name: str, method, cls) -> bool:
     """Is every declaration of `name` (method locals and parameters, else fields) a primitive or a
     String: a value no other variable can share?"""
-    types = [n.type for _, n in method if isinstance(n, (T.LocalVariableDeclaration, T.VariableDeclaration))
-             for d in n.declarators if d.name == name]
-    types += [n.type for _, n in method if isinstance(n, T.FormalParameter) and n.name == name]
-    if not types:
-        types = [f.type for f in cls.fields() for d in f.declarators if d.name == name]
-    return bool(types) and all((isinstance(t, T.BasicType) or getattr(t, "name", "") == "String")
-                               and not t.dimensions for t in types)
+    decls = _declarations(name, method) or [(f.type, len(f.type.dimensions or []) + len(d.dimensions or []))
+                                           for f in cls.fields() for d in f.declarators if d.name == name]
+    return bool(decls) and all((isinstance(t, T.BasicType) or getattr(t, "name", "") == "String") and not dims
+                               for t, dims in decls)

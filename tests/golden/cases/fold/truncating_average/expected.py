@@ -30,13 +30,17 @@ from pyspark.sql import Column, DataFrame, SparkSession
 from pyspark.sql import functions as F
 
 
-def java_split(s: Column, regex: str) -> Column:
-    """String.split(regex): Java drops trailing empty strings; F.split alone keeps them."""
-    parts = F.split(s, regex, -1)
+def drop_trailing_empty(parts: Column) -> Column:
+    """The array without its trailing empty strings (all of them where every one is empty)."""
     last = F.array_max(F.transform(parts, lambda x, i: F.when(x != "", i + 1).otherwise(0)))
-    return F.when(F.size(parts) == 1, parts).otherwise(
-        F.slice(parts, 1, F.coalesce(last, F.lit(0)))
-    )
+    return F.slice(parts, 1, F.coalesce(last, F.lit(0)))
+
+
+def java_split(s: Column, regex: str) -> Column:
+    """String.split(regex): Java drops trailing empty strings (F.split alone keeps them), except
+    where the regex matched nothing: then the one piece is the whole string, "" included."""
+    parts = F.split(s, regex, -1)
+    return F.when(F.size(parts) == 1, parts).otherwise(drop_trailing_empty(parts))
 
 
 def fail_where_java_throws(value: Column, source: Column, exception: str) -> Column:
