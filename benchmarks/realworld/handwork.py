@@ -1,12 +1,14 @@
-"""Map-side hand work of the dev split, against the first measurement (mapside-baseline.json).
+"""Hand work of the dev split on one side of the shuffle, against its first measurement.
 
-    python benchmarks/realworld/run.py --split dev     # converts every dev job into work/
-    python benchmarks/realworld/mapside.py             # what is left of the baseline's items
-    python benchmarks/realworld/mapside.py --record    # write the baseline (once, at the first measurement)
+    python benchmarks/realworld/run.py --split dev                  # converts every dev job into work/
+    python benchmarks/realworld/handwork.py --side map              # what is left of the baseline's items
+    python benchmarks/realworld/handwork.py --side reduce --record   # write a baseline (once, at the first measurement)
 
-An item is map side when the mapper's code causes it: map-logic and dates items, and task-lifecycle
-items that are not the reducer's. Each baseline item is `gone` (that line of that job has no
-map-side item any more), `sharper` (an item remains at the line with another reason) or `left`.
+Map side (issue 15's baseline, mapside-baseline.json): what the mapper's code causes, map-logic and
+dates items and task-lifecycle items that are not the reducer's. Reduce side (issue 16's,
+reduceside-baseline.json): reducers, combiners, partitioners, comparators, task lifecycles and
+per-task state, output layout. Each baseline item is `gone` (that line of that job has no item of
+the side any more), `sharper` (an item remains at the line with another reason) or `left`.
 Only job ids, file names, lines, categories and reasons are kept: no one else's code.
 """
 from __future__ import annotations
@@ -20,8 +22,10 @@ ROOT = Path(__file__).resolve().parents[2]
 sys.path.insert(0, str(ROOT))
 from benchmarks.realworld.common import HERE, WORK, load_manifest  # noqa: E402
 
-BASELINE = HERE / "mapside-baseline.json"
+BASELINES = {"map": HERE / "mapside-baseline.json", "reduce": HERE / "reduceside-baseline.json"}
 MAP_CATEGORIES = {"map-logic", "dates"}
+REDUCE_CATEGORIES = {"reduce-logic", "combiner", "partitioner", "secondary-sort", "value-order", "output-layout",
+                     "task-lifecycle", "task-state", "per-task-state", "top-n"}
 
 
 def map_side(item: dict) -> bool:
@@ -30,8 +34,12 @@ def map_side(item: dict) -> bool:
     return item["category"] == "task-lifecycle" and "of the reducer" not in item["reason"]
 
 
-def current_items(split: str = "dev") -> tuple[list[dict], set[str]]:
-    """The map-side items of the split's converted jobs, and the ids of jobs with no report."""
+def reduce_side(item: dict) -> bool:
+    return item["category"] in REDUCE_CATEGORIES
+
+
+def current_items(split: str = "dev", side=map_side) -> tuple[list[dict], set[str]]:
+    """The items of one side in the split's reports, and the ids of jobs with no report."""
     out, missing = [], set()
     for job in load_manifest():
         if job.split != split:
@@ -42,7 +50,7 @@ def current_items(split: str = "dev") -> tuple[list[dict], set[str]]:
             continue
         for j in json.loads(report.read_text())["jobs"]:
             for h in j["hand_work"]:
-                if map_side(h):
+                if side(h):
                     out.append({"job": job.id, "category": h["category"], "file": h["file"], "line": h["line"],
                                 "reason": h["reason"]})
     return out, missing
@@ -61,14 +69,16 @@ def compare(baseline: list[dict], now: list[dict], missing: set[str]) -> list[tu
 
 def main(argv: list[str] | None = None) -> int:
     ap = argparse.ArgumentParser(description=__doc__.splitlines()[0])
+    ap.add_argument("--side", choices=sorted(BASELINES), default="map")
     ap.add_argument("--record", action="store_true", help="write the baseline from work/ (first measurement only)")
     a = ap.parse_args(argv)
-    now, missing = current_items()
+    baseline = BASELINES[a.side]
+    now, missing = current_items(side=map_side if a.side == "map" else reduce_side)
     if a.record:
-        BASELINE.write_text(json.dumps(now, indent=1) + "\n")
-        print(f"{len(now)} map-side items recorded in {BASELINE.name}")
+        baseline.write_text(json.dumps(now, indent=1) + "\n")
+        print(f"{len(now)} {a.side}-side items recorded in {baseline.name}")
         return 0
-    rows = compare(json.loads(BASELINE.read_text()), now, missing)
+    rows = compare(json.loads(baseline.read_text()), now, missing)
     for state, b, n in rows:
         print(f"{state:9} {b['job']:34} {b['file'].rsplit('/', 1)[-1]}:{b['line']}  {b['reason'][:90]}")
         if state == "sharper":
