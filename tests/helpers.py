@@ -57,3 +57,24 @@ public class Main {{
   }}
 }}
 """
+
+
+def verify_one_job(tmp_path: Path, source: str, data: dict[str, bytes], driver: str = "Main",
+                   more: dict[str, str] | None = None, status: str = "converted"):
+    """Convert a one-job repository (checking its status), then `mrlift verify` it: the original on
+    Hadoop's local runner and the script on local Spark over `data`. Returns verify's check."""
+    import json
+
+    from migrate.convert import write_outputs
+    from migrate.verify.runner import load_runs, verify
+
+    scan_text(tmp_path / "repo", {f"{driver}.java": source, **(more or {})})
+    written = write_outputs(scan_repo(tmp_path / "repo"), tmp_path / "out", "repo")
+    (job,) = written.report["jobs"]
+    assert job["status"] == status, job["hand_work"]
+    (tmp_path / "data").mkdir()
+    for name, content in data.items():
+        (tmp_path / "data" / name).write_bytes(content)
+    (tmp_path / "runs.json").write_text(json.dumps({"runs": [{"driver": driver, "args": ["data", "@out"]}]}))
+    (check,), _ = verify(tmp_path / "out", load_runs(tmp_path / "runs.json"), timeout=180)
+    return check

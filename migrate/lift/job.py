@@ -227,10 +227,17 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
                 add("task-state", mcls.span, "in-mapper combining feeds a reducer that does not just sum: the output "
                     "would depend on how Hadoop split the input into tasks", "check what the job should compute", "P2")
         if "partitioner" in spec.classes and partition is None:
-            add("partitioner", at("setPartitionerClass"), f"custom partitioner "
-                f"{spec.classes['partitioner'].rsplit('.', 1)[-1]} is not converted",
-                "only the split into part files changes; repartition by the same rule if readers depend on it", "P2",
-                _sloc_of(index, spec.classes["partitioner"]))
+            name = spec.classes["partitioner"].rsplit(".", 1)[-1]
+            if _one_reduce_task(spec):
+                findings.append(Finding("partitioner-not-called", at("setPartitionerClass"), f"custom partitioner {name} "
+                                        "is never called: with one reduce task Hadoop's map task sends every key to it "
+                                        "without asking the partitioner; the script has no partitioner either",
+                                        "delete setPartitionerClass, or set the number of reduce tasks it was written "
+                                        "for (then it runs, also when -D mapreduce.job.reduces is given at run time)"))
+            else:
+                add("partitioner", at("setPartitionerClass"), f"custom partitioner {name} is not converted",
+                    "only the split into part files changes; repartition by the same rule if readers depend on it",
+                    "P2", _sloc_of(index, spec.classes["partitioner"]))
         key_order = _secondary_sort(spec, index, structs, map_key_t, reduce, add, at)
         if key_order is not None:
             shapes.append("secondary sort")
@@ -579,6 +586,12 @@ def _partition_of(spec: JobSpec, index: ClassIndex, key_t: str, reduce: Step) ->
         return custom_partition(cls, key_t, spec.reduces, structs_of(index)), ""
     except Unsupported as u:
         return None, u.reason
+
+
+def _one_reduce_task(spec: JobSpec) -> bool:
+    """Does the driver leave the job with exactly one reduce task (set to 1, or Hadoop's default)?"""
+    counted = spec.reduces == 1 and not any(e[0] == "reducer-count" for e in spec.extra)
+    return counted and all(spec.conf.get(k, "1") == "1" for k in ("mapreduce.job.reduces", "mapred.reduce.tasks"))
 
 
 def _reads_file_name(steps: list[Step]) -> bool:

@@ -3,11 +3,9 @@ runs the original on Hadoop's local runner and the script on local Spark over th
 (with the traps: empty lines, non-ASCII, short lines, a bad number) and their outputs must agree."""
 from __future__ import annotations
 
-import json
-
 import pytest
 
-from tests.helpers import job_source, scan_text
+from tests.helpers import job_source, scan_text, verify_one_job
 
 pytestmark = pytest.mark.parity
 
@@ -101,19 +99,7 @@ SUM_REDUCER = """
 def _agrees_with_hadoop(tmp_path, source: str, data: dict[str, bytes], driver: str = "Main",
                         more: dict[str, str] | None = None) -> None:
     """Convert the one-job repository, then `mrlift verify` it: Hadoop and the script on `data`."""
-    from migrate.convert import write_outputs
-    from migrate.scan import scan_repo
-    from migrate.verify.runner import load_runs, verify
-
-    scan_text(tmp_path / "repo", {f"{driver}.java": source, **(more or {})})
-    written = write_outputs(scan_repo(tmp_path / "repo"), tmp_path / "out", "repo")
-    (job,) = written.report["jobs"]
-    assert job["status"] == "converted", job["hand_work"]
-    (tmp_path / "data").mkdir()
-    for name, content in data.items():
-        (tmp_path / "data" / name).write_bytes(content)
-    (tmp_path / "runs.json").write_text(json.dumps({"runs": [{"driver": driver, "args": ["data", "@out"]}]}))
-    (check,), _ = verify(tmp_path / "out", load_runs(tmp_path / "runs.json"), timeout=180)
+    check = verify_one_job(tmp_path, source, data, driver, more)
     assert check.verdict == "agrees", f"{check.detail}\n{check.log[-3000:]}"
 
 

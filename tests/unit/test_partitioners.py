@@ -1,0 +1,120 @@
+"""Custom partitioners: when Hadoop calls them, and what the script does about them.
+
+Hadoop fact checked here on the local runner (the hadoop-client jars of the pyspark wheel): with
+one reduce task the map task never calls the job's partitioner (MapTask's output collectors, both
+APIs, use a fixed partition when the job has one reduce task); with two it does, so a partitioner
+that throws fails the job.
+"""
+from __future__ import annotations
+
+import pytest
+
+from tests.helpers import job_source, scan_text, verify_one_job
+
+WORDS = b"quay lantern\nmill quay\n\n\xc3\x84rm lantern quay\n"
+
+SPLIT_BODY = """
+      for (String w : value.toString().split(" ")) {
+        if (!w.isEmpty()) context.write(new Text(w), new IntWritable(1));
+      }"""
+
+SUM = """
+  public static class R extends Reducer<Text, IntWritable, Text, IntWritable> {
+    protected void reduce(Text k, Iterable<IntWritable> vs, Context c) throws IOException, InterruptedException {
+      int s = 0;
+      for (IntWritable v : vs) s += v.get();
+      c.write(k, new IntWritable(s));
+    }
+  }
+  public static class Refuses extends Partitioner<Text, IntWritable> {
+    public int getPartition(Text key, IntWritable value, int n) {
+      throw new IllegalStateException("no partition for " + key);
+    }
+  }"""
+
+
+def _job(reduces: str = ""):
+    return job_source(SPLIT_BODY, reducer=SUM, extra_driver="job.setPartitionerClass(Refuses.class);" + reduces)
+
+
+OLD_API = """
+import java.io.IOException;
+import java.util.Iterator;
+import org.apache.hadoop.fs.Path;
+import org.apache.hadoop.io.*;
+import org.apache.hadoop.mapred.*;
+
+public class Main {
+  public static class M extends MapReduceBase implements Mapper<LongWritable, Text, Text, IntWritable> {
+    public void map(LongWritable k, Text v, OutputCollector<Text, IntWritable> out, Reporter r) throws IOException {
+      for (String w : v.toString().split(" ")) {
+        if (!w.isEmpty()) out.collect(new Text(w), new IntWritable(1));
+      }
+    }
+  }
+  public static class R extends MapReduceBase implements Reducer<Text, IntWritable, Text, IntWritable> {
+    public void reduce(Text k, Iterator<IntWritable> vs, OutputCollector<Text, IntWritable> out, Reporter r)
+        throws IOException {
+      int s = 0;
+      while (vs.hasNext()) s += vs.next().get();
+      out.collect(k, new IntWritable(s));
+    }
+  }
+  public static class Refuses implements Partitioner<Text, IntWritable> {
+    public void configure(JobConf conf) {}
+    public int getPartition(Text key, IntWritable value, int n) {
+      throw new IllegalStateException("no partition for " + key);
+    }
+  }
+  public static void main(String[] args) throws Exception {
+    JobConf conf = new JobConf(Main.class);
+    conf.setMapperClass(M.class);
+    conf.setReducerClass(R.class);
+    conf.setPartitionerClass(Refuses.class);
+    conf.setOutputKeyClass(Text.class);
+    conf.setOutputValueClass(IntWritable.class);
+    FileInputFormat.setInputPaths(conf, new Path(args[0]));
+    FileOutputFormat.setOutputPath(conf, new Path(args[1]));
+    JobClient.runJob(conf);
+  }
+}
+"""
+
+
+def test_a_partitioner_with_one_reduce_task_is_a_finding_not_hand_work(tmp_path):
+    scan = scan_text(tmp_path, {"Main.java": _job()})
+    (job,) = scan.jobs
+    assert job.status == "converted", [(h.category, h.reason) for h in job.plan.hand_work]
+    (f,) = [f for f in job.plan.findings if f.category == "partitioner-not-called"]
+    assert "Refuses is never called" in f.message
+
+
+@pytest.mark.parametrize("count", ["job.setNumReduceTasks(2);", "job.setNumReduceTasks(Integer.parseInt(args[2]));",
+                                   'job.getConfiguration().setInt("mapreduce.job.reduces", 3);'])
+def test_a_partitioner_that_may_run_stays_hand_work(tmp_path, count):
+    scan = scan_text(tmp_path, {"Main.java": _job(count)})
+    (job,) = scan.jobs
+    assert "partitioner" in [h.category for h in job.plan.hand_work]
+    assert not [f for f in job.plan.findings if f.category == "partitioner-not-called"]
+
+
+def test_old_api_partitioner_with_one_reduce_task_is_a_finding(tmp_path):
+    (job,) = scan_text(tmp_path, {"Main.java": OLD_API}).jobs
+    assert job.status == "converted", [(h.category, h.reason) for h in job.plan.hand_work]
+    assert [f for f in job.plan.findings if f.category == "partitioner-not-called"]
+
+
+@pytest.mark.parity
+@pytest.mark.parametrize("source", [_job(), OLD_API], ids=["new API", "old API"])
+def test_hadoop_never_calls_the_partitioner_of_one_reduce_task(tmp_path, source):
+    check = verify_one_job(tmp_path, source, {"words.txt": WORDS})
+    assert check.verdict == "agrees", f"{check.detail}\n{check.log[-3000:]}"
+
+
+@pytest.mark.parity
+def test_hadoop_calls_it_with_two_reduce_tasks(tmp_path):
+    """The control: the same partitioner with two reduce tasks fails the original job."""
+    check = verify_one_job(tmp_path, _job("job.setNumReduceTasks(2);"), {"words.txt": WORDS}, status="partial")
+    assert check.verdict == "error" and "original job failed" in check.detail, check.detail
+    assert "no partition for" in check.log
+
