@@ -655,6 +655,15 @@ def partition_of(hash_code: Column, reduce_tasks: int) -> Column:
     return hash_code.bitwiseAND(F.lit(2147483647)) % reduce_tasks
 ''', ("java_code_units",))
 
+_h("checked_partition", '''
+def checked_partition(task: Column, reduce_tasks: int) -> Column:
+    """A custom getPartition()'s answer; the job fails outside 0..N-1, as Hadoop's map task does
+    ("Illegal partition for <key> (<n>)")."""
+    bad = task.isNull() | (task < 0) | (task >= reduce_tasks)
+    return F.when(bad, F.raise_error(F.concat(F.lit("Illegal partition ("), task.cast("string"), F.lit(")")))) \\
+        .otherwise(task)
+''')
+
 
 def helper_source(names: set[str]) -> str:
     """Source of the named helpers and their dependencies, in a stable order."""

@@ -119,6 +119,7 @@ class ExprWriter:
         self.zones: set[str | None] = set()  # ... or in zones set on its formats (the lift allows one)
         self.regexes: dict[str, str] = {}  # script constant -> regex (java.util.regex syntax)
         self.bound: dict[str, str] = {}  # column -> the lambda parameter standing for it (until_break)
+        self.task_rules: dict[str, tuple[str, str]] = {}  # script function -> (docstring, code): partitioners
 
     def __call__(self, e: Expr | None) -> str:
         if e is None:
@@ -127,6 +128,20 @@ class ExprWriter:
         if method is None:
             raise TypeError(f"the generator has no handler for {type(e).__name__}")
         return method(e)
+
+    def task_rule(self, e: Call) -> str:
+        """A custom partitioner as a function of the script that gives each row's reduce task."""
+        self.helpers.add("checked_partition")
+        task, n, cls = e.args
+        name = "task_of_" + re.sub(r"(?<=[a-z0-9])(?=[A-Z])", "_", cls.value).lower()
+        doc = (f"The reduce task (part file) of each row's `key`, as {cls.value}.getPartition() "
+               f"({_where(e.origin)}) computes it; a task outside 0..{n.value - 1} fails the job, as in Hadoop.")
+        code = f"checked_partition({self(task)}, {n.value})"
+        base, i = name, 2
+        while self.task_rules.get(name, (doc, code))[1] != code:
+            name, i = f"{base}_{i}", i + 1
+        self.task_rules[name] = (doc, code)
+        return f"{name}()"
 
     def regex(self, lit: Lit) -> str:
         """A regex as code: a named constant of the script where the Java Pattern had a name."""
@@ -177,7 +192,11 @@ class ExprWriter:
         return f'{self(e.arg)}.cast("{SPARK_TYPES[e.jtype]}")'
 
     def visit_Cond(self, e: Cond) -> str:
-        return f"F.when({bare(self(e.cond))}, {self(e.then)}).otherwise({self(e.other)})"
+        code = f"F.when({bare(self(e.cond))}, {self(e.then)})"
+        while isinstance(e.other, Cond):  # else-if chains read as one when() chain (the first that holds)
+            e = e.other
+            code += f".when({bare(self(e.cond))}, {self(e.then)})"
+        return f"{code}.otherwise({self(e.other)})"
 
     def visit_BoolOp(self, e: BoolOp) -> str:
         if e.op == "!":
@@ -247,6 +266,8 @@ class ExprWriter:
             escape, sep = args[1].value, args[2].value
             tail = "" if (escape, sep) == ("\\", ",") else f", escape={escape!r}, separator={sep!r}"
             return f"hadoop_split({self(args[0])}{tail})"
+        if op == "checked_partition":  # a custom getPartition(): a named function of the script
+            return self.task_rule(e)
         if op == "until_break":  # the elements a loop visits: up to the first where its break fires
             self.helpers.add("until_break")
             element = args[1].name
@@ -954,6 +975,11 @@ def render_script(plan: Plan, header: dict, hand_work: list[HandWork]) -> str:
         for k, v in w.regexes.items():
             if regexes.setdefault(k, v) != v:
                 raise TypeError(f"two regexes named {k} in one script")
+    task_rules: dict[str, tuple[str, str]] = {}
+    for w in writers:
+        for k, v in w.task_rules.items():
+            if task_rules.setdefault(k, v) != v:
+                raise TypeError(f"two partitioner functions named {k} in one script")
     positional = sorted([p for p in plan.params if p.position is not None], key=lambda p: p.position)
     slots = []
     for i in range(max([p.position for p in positional], default=-1) + 1):
@@ -963,7 +989,7 @@ def render_script(plan: Plan, header: dict, hand_work: list[HandWork]) -> str:
     doc_end = f"<mrlift-docstring-end-{uuid.uuid4().hex}>"  # unguessable: Java text cannot fake the end
     text = _ENV.get_template("job.py.j2").render(
         doc_end=doc_end, plan=plan, header=header, body=parts.body, helpers=helpers,
-        regexes=[(k, raw_string(v)) for k, v in regexes.items()],
+        regexes=[(k, raw_string(v)) for k, v in regexes.items()], task_rules=sorted(task_rules.items()),
         uses_window=parts.uses_window or any(st["uses_window"] for st in stages),
         slots=slots, options=[p for p in plan.params if p.position is None], sink=plan.sink,
         build_args=build_args, build_call=build_call, hand_work=hand_work, stages=stages,
@@ -1057,7 +1083,7 @@ def _tasks(plan: Plan) -> int:
         return 0
     if isinstance(r, TopN):
         return r.partitions
-    call = plan.sink.partition  # partition_of(hash, Lit(n))
+    call = plan.sink.partition  # partition_of(hash, Lit(n)) or checked_partition(task, Lit(n))
     return int(call.args[1].value)
 
 

@@ -157,6 +157,8 @@ class Scope:
     resolve: Any = None
     # the time zones date operations ran in (None: the JVM's default); one script runs in one zone
     zones: set = field(default_factory=set)
+    # parameters holding a Hadoop Text (their column is its String; their methods are Text's)
+    texts: frozenset = frozenset()
 
     def on_error(self, op: str) -> str:
         exc = THROWS.get(op)
@@ -491,6 +493,9 @@ def _invocation(node: T.MethodInvocation, scope: Scope) -> Expr:
 
         if isinstance(recv, Refused):
             raise Unsupported(node, f"`{q}`: {recv.reason}")
+        if q in scope.texts and not isinstance(recv, Writable) or isinstance(recv, Writable) and recv.kind == "Text":
+            base = _binding_value(recv, node, q)
+            return _selectors(_text_method(base, node, scope), node.selectors or [], scope, node)
         if isinstance(recv, dates.DateFormat):
             _in_zone(scope, recv.zone, node)
             if m == "parse" and len(args) == 1:
@@ -691,6 +696,28 @@ def _struct(scope: Scope, name: str, node):
     if isinstance(info, Unsupported):
         raise Unsupported(node, info.reason, info.suggestion)
     return info
+
+
+def text_params(method) -> frozenset:
+    """Names of a method's parameters declared as Hadoop Text (for Scope.texts)."""
+    return frozenset(p.name for p in method.parameters if getattr(p.type, "name", "").split(".")[-1] == "Text")
+
+
+def _text_method(text: Expr, node: T.MethodInvocation, scope: Scope) -> Expr:
+    """A method of a Hadoop Text object (not of the String it holds): Text works on UTF-8 bytes, so
+    only the methods whose meaning is known are read (Hadoop API docs, org.apache.hadoop.io.Text)."""
+    m, args = node.member, node.arguments or []
+    if m == "toString" and not args:
+        return text
+    if m == "getLength" and not args:  # bytes of the UTF-8 encoding
+        return Call("int", "utf8_length", (text,))
+    if m == "hashCode" and not args:  # WritableComparator.hashBytes over the UTF-8 bytes, not String.hashCode
+        return Call("int", "text_hash", (text,))
+    why = {"equals": "Text.equals is true only for another Text (a String argument is never equal)",
+           "charAt": "Text.charAt takes a byte position and gives a code point",
+           "getBytes": "Text.getBytes gives the backing array, which can be longer than getLength()",
+           "find": "Text.find gives a byte position"}.get(m, "Text is not a String")
+    raise Unsupported(node, f"Text.{m}(...) is not lifted: {why}", "call toString() first if the String method is meant")
 
 
 def _method(recv: Expr, node: T.MethodInvocation, scope: Scope) -> Expr:
@@ -1229,9 +1256,44 @@ def _body_value(stmts: list, scope: Scope, decl) -> Expr:
             return Cond(t, c, _widen(then, t), _widen(other, t))
         if isinstance(st, T.TryStatement):
             return _try_value(st, scope, decl)
+        if isinstance(st, T.SwitchStatement):
+            return _switch_value(st, stmts[i + 1:], scope, decl)
         raise Unsupported(st, f"helper {decl.name}() does more than compute a value (pure helpers are inlined)",
                           "inline it by hand, or keep it as a Python function over Columns")
     raise Unsupported(decl, f"helper {decl.name}() can end without returning a value")
+
+
+def _switch_value(st: T.SwitchStatement, after: list, scope: Scope, decl) -> Expr:
+    """`switch (x) { case a: case b: return v; ... default: return d; }` as an if-else chain over
+    x.equals(label) (JLS 14.11: a String switch compares with equals, an int or char one by value);
+    with no default the statements after the switch give the value. Every case group must return:
+    a fall-through into the next group, or a break, is declined."""
+    subject = lift(st.expression, scope)
+    arms: list[tuple[Expr, Expr]] = []
+    default = None
+    for group in st.cases:
+        body = list(group.statements or [])
+        if not body or not isinstance(body[-1], T.ReturnStatement):
+            raise Unsupported(group.statements[-1] if body else st, f"helper {decl.name}(): a switch case that does "
+                              "not end in return (fall-through or break)")
+        value = _body_value(body, replace(scope, env=dict(scope.env)), decl)
+        labels = [c for c in group.case or [] if c != "default"]
+        if len(labels) < len(group.case or []) or not group.case:
+            default = value
+        if labels:
+            test = None
+            for label in labels:
+                one = Compare("boolean", "==", subject, lift(label, scope))
+                test = one if test is None else BoolOp("boolean", "||", (test, one))
+            arms.append((test, value))
+    other = default if default is not None else _body_value(after, replace(scope, env=dict(scope.env)), decl)
+    types = {v.jtype for _, v in arms} | {other.jtype}
+    t = types.pop() if len(types) == 1 else None
+    if t is None:
+        raise Unsupported(st, f"helper {decl.name}() returns different types from its switch cases")
+    for test, value in reversed(arms):
+        other = Cond(t, test, value, other)
+    return other
 
 
 def _try_value(st: T.TryStatement, scope: Scope, decl) -> Expr:

@@ -583,7 +583,7 @@ def _partition_of(spec: JobSpec, index: ClassIndex, key_t: str, reduce: Step) ->
         cls = index.get(fq)
         if cls is None:
             return None, f"partitioner {fq.rsplit('.', 1)[-1]} is not in the repository"
-        return custom_partition(cls, key_t, spec.reduces, structs_of(index)), ""
+        return custom_partition(cls, key_t, spec.reduces, structs_of(index), index), ""
     except Unsupported as u:
         return None, u.reason
 

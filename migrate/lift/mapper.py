@@ -19,7 +19,7 @@ from migrate.java.index import ClassInfo, node_lines
 from migrate.lift.writables import is_struct, structs_of
 from migrate.lift.exprs import (BYTE_OFFSET, CATCH_ALL, NARROWING, WRITABLE_OF, HelperClass, MaybeNull, Opaque, Refused, Scope,
                                 Tokenizer, Unsupported, Writable, lift, lookup_key, map_lookup, promote, refined,
-                                regex_object, widen_at, writable_creator, writable_set, write_argument)
+                                regex_object, text_params, widen_at, writable_creator, writable_set, write_argument)
 from migrate.lift import dates
 from migrate.lift import regex as rx
 from migrate.lift.collections import ConstMap
@@ -160,7 +160,7 @@ class MapBodyLifter:
                            enums=frozenset(fq.rsplit(".", 1)[-1] for fq in (index.enums if index else {})),
                            structs=structs_of(index), lookup=self._lookup, fields=fields,
                            shadowed=set(params) & set(fields), classes=repository_classes(cls, index),
-                           resolve=type_resolver(cls, index))
+                           resolve=type_resolver(cls, index), texts=text_params(method))
         self.guard_now: Expr | None = None  # the guard of the statement being lifted
         self.lookups: dict[tuple[str, Expr], Col] = {}
         self.tables: dict[str, SideTable] = {}

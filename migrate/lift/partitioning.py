@@ -10,15 +10,22 @@ Recognises: the default HashPartitioner, `(key.hashCode() & Integer.MAX_VALUE) %
 partitioners whose getPartition() is `return (X & Integer.MAX_VALUE) % numPartitions;` with X
 one of `key.hashCode()`, `key.toString().hashCode()`, `key.toString().charAt(0)`, `key.get()`,
 and for a custom key `key.getF().hashCode()` of a String or Text field (secondary sort).
-Produces: an int expression over the column `key` (Call "partition_of"). Declines anything else.
+Any other getPartition() whose body reads as a value of the key (locals, ifs, returns, helper
+methods: a helper method's rules) becomes that value, checked at run time as Hadoop's map task
+checks it (a task number outside 0..N-1 fails the job: "Illegal partition for <key> (<n>)").
+Produces: an int expression over the column `key`. Declines a partitioner that reads the value,
+a field that may change, or anything the expression lift does not read.
 """
 from __future__ import annotations
 
+import operator
+from dataclasses import replace
+
 from javalang import tree as T
 
-from migrate.java.index import ClassInfo
+from migrate.java.index import ClassInfo, node_lines
 from migrate.lift.exprs import Unsupported
-from migrate.plan import Call, Col, Expr, Lit
+from migrate.plan import Arith, BoolOp, Call, Col, Compare, Cond, Expr, Lit, Span
 
 _WRITABLE_HASH = {"String": "text_hash", "int": "int_hash", "long": "long_hash"}
 
@@ -33,7 +40,7 @@ def hash_partition(key_t: str, reduces: int, where) -> Expr:
     return Call("int", "partition_of", (Call("int", op, (Col(key_t, "key"),)), Lit("int", reduces)))
 
 
-def custom_partition(cls: ClassInfo, key_t: str, reduces: int, structs: dict | None = None) -> Expr:
+def custom_partition(cls: ClassInfo, key_t: str, reduces: int, structs: dict | None = None, index=None) -> Expr:
     ms = [m for m in cls.methods("getPartition") if len(m.parameters) == 3]
     if not ms:
         raise Unsupported(cls.node, f"{cls.name} has no getPartition(key, value, numPartitions)")
@@ -48,9 +55,68 @@ def custom_partition(cls: ClassInfo, key_t: str, reduces: int, structs: dict | N
             x = _hashed(masked.operandl, key, key_t, structs or {})
             if x is not None:
                 return Call("int", "partition_of", (x, Lit("int", reduces)))
-    raise Unsupported(ret or m, f"{cls.name}.getPartition() is not `(X & Integer.MAX_VALUE) % numPartitions` over "
-                                "the key's hashCode(), its text's hashCode() or its first character",
-                      "compute the task number as a column and sort by it, then by key")
+    return _partition_body(cls, m, key_t, reduces, index)
+
+
+def _partition_body(cls: ClassInfo, m, key_t: str, reduces: int, index) -> Expr:
+    """Any other getPartition(): its body read as a value of the key (locals, ifs, returns, helpers,
+    as a helper method is inlined), checked at run time the way Hadoop's map task checks it."""
+    from migrate.lift.exprs import Opaque, Scope, _body_value, _widen, text_params
+    from migrate.lift.mapper import class_constants, helper_methods, repository_classes, type_resolver
+    from migrate.lift.writables import structs_of
+
+    key, value, num = (p.name for p in m.parameters)
+    fields = dict(class_constants(cls, index))
+    for f in cls.fields():
+        for d in f.declarators:
+            fields.setdefault(d.name, Opaque(f"the field `{d.name}` of the partitioner, which may change between calls"))
+    env = {**fields, key: Col(key_t, "key"), num: Lit("int", reduces),
+           value: Opaque("the map output value: the task of a key would depend on its values")}
+    scope = Scope(env, file=cls.file.path, methods=helper_methods(cls, index), structs=structs_of(index),
+                  fields=fields, shadowed={key, value, num} & set(fields), classes=repository_classes(cls, index),
+                  resolve=type_resolver(cls, index), texts=text_params(m))
+    try:
+        task = _body_value(list(m.body or []), scope, m)
+    except Unsupported as u:
+        raise Unsupported(u.line or m, f"{cls.name}.getPartition() is not read: {u.reason}",
+                          "compute the task number as a column and sort by it, then by key") from None
+    if task.jtype not in ("int", "short", "byte", "char"):
+        raise Unsupported(m, f"{cls.name}.getPartition() gives a {task.jtype}")
+    where = Span(cls.file.path, *node_lines(m))
+    return Call("int", "checked_partition", (_fold(_widen(task, "int")), Lit("int", reduces), Lit("String", cls.name)),
+                "fail", origin=where)
+
+
+_COMPARE = {"==": operator.eq, "!=": operator.ne, "<": operator.lt, "<=": operator.le, ">": operator.gt,
+            ">=": operator.ge}
+_ARITH = {"+": operator.add, "-": operator.sub, "*": operator.mul, "%": operator.mod}
+
+
+def _fold(e: Expr) -> Expr:
+    """Decide what numPartitions (a constant here) decides: `n == 9 ? a : b` is a when n is 9,
+    `1 % n` is 1. Integer arithmetic is folded only over non-negative ints with an int result."""
+    if not isinstance(e, (Compare, Cond, BoolOp, Arith)):
+        return e
+    kids = {f: _fold(getattr(e, f)) for f in ("cond", "then", "other", "left", "right") if hasattr(e, f)}
+    if isinstance(e, BoolOp):
+        kids["args"] = tuple(_fold(a) for a in e.args)
+    e = replace(e, **kids)
+    lits = isinstance(getattr(e, "left", None), Lit) and isinstance(getattr(e, "right", None), Lit) \
+        and {e.left.jtype, e.right.jtype} == {"int"} and e.left.value >= 0 and e.right.value >= 0
+    if isinstance(e, Compare) and lits and e.op in _COMPARE:
+        return Lit("boolean", _COMPARE[e.op](e.left.value, e.right.value))
+    if isinstance(e, Arith) and lits and e.op in _ARITH and (e.op != "%" or e.right.value):
+        v = _ARITH[e.op](e.left.value, e.right.value)
+        return Lit("int", v) if 0 <= v < 2**31 else e
+    if isinstance(e, Cond) and isinstance(e.cond, Lit):
+        return e.then if e.cond.value else e.other
+    if isinstance(e, BoolOp) and e.op in ("&&", "||"):
+        unit = e.op == "&&"  # true && x is x; false || x is x
+        args = tuple(a for a in e.args if not (isinstance(a, Lit) and a.value is unit))
+        if any(isinstance(a, Lit) and a.value is (not unit) for a in args):
+            return Lit("boolean", not unit)
+        return Lit("boolean", unit) if not args else args[0] if len(args) == 1 else replace(e, args=args)
+    return e
 
 
 def _hashed(n, key: str, key_t: str, structs: dict) -> Expr | None:

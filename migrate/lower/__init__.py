@@ -3,7 +3,7 @@
 Users write one meaning in many surface forms: a field set in setup() or at its declaration, a
 counting loop or a for-each, a field used as a scratch local, a stack trace printed in a catch.
 Each rule here is a meaning-preserving rewrite of the javalang tree of one task class (mapper,
-reducer, combiner), so the lift rules only ever see one form of each meaning. The rules work on a
+reducer, combiner, partitioner), so the lift rules only ever see one form of each meaning. The rules work on a
 copy of the class's tree: the file's own tree (javac's checks, the review) is left as written.
 
 Every rewrite keeps the source positions of the code it replaces, so hand work and comments still
@@ -16,7 +16,7 @@ import copy
 from migrate.java.index import ClassIndex, ClassInfo
 from migrate.lower import builders, configured, fields, logging, loops, names
 
-TASK_ROLES = {"mapper", "reducer", "combiner"}
+TASK_ROLES = {"mapper", "reducer", "combiner", "partitioner"}
 
 # Order matters: names first (`this.x` is x for the rules after), logging (it hides reads of
 # fields), then objects configured where made (a configured format is still a constant), then

@@ -2,8 +2,8 @@
 `info/debug/warn/error/trace`, `e.printStackTrace()` on a caught exception. They are dropped
 when their arguments cannot change anything (no call that advances an iterator or a tokenizer,
 no assignment, no ++/--), so `catch (Exception e) { e.printStackTrace(); }` is the same
-catch-and-skip as an empty catch block. Only map() and reduce() are lowered: the side-file reader
-of setup() names the line of a catch's logging in its own findings.
+catch-and-skip as an empty catch block. Only map(), reduce() and getPartition() are lowered: the
+side-file reader of setup() names the line of a catch's logging in its own findings.
 """
 from __future__ import annotations
 
@@ -52,7 +52,7 @@ def _pure(node) -> bool:
 
 def drop_logging(cls, index=None) -> list[tuple[int, str]]:
     done = []
-    for method in [m for m in cls.node.methods if m.name in ("map", "reduce")]:  # setup() keeps its own lines
+    for method in [m for m in cls.node.methods if m.name in ("map", "reduce", "getPartition")]:  # not setup()
         for stmts, caught in statement_lists(method):
             keep = []
             for s in stmts:

@@ -12,6 +12,11 @@ pytestmark = pytest.mark.parity
 INPUT = "ab c\n\nÄö😀 x\nq\n7 8 9\nzz,1\n  lead  trail \nbad x1\n"
 
 CASES = {
+    # Text.hashCode() is hashBytes over the UTF-8 bytes (org.apache.hadoop.io.Text), not String.hashCode
+    "text_hash_codes": ("""
+      Text trimmed = new Text(value.toString().trim());
+      context.write(new Text("line " + value.hashCode()), new IntWritable(trimmed.hashCode()));
+      context.write(new Text("string " + value.toString().hashCode()), new IntWritable(value.getLength()));""", ""),
     "chars_of_a_word": ("""
       String[] words = value.toString().split(" ");
       for (int i = 0; i < words.length; i++) {

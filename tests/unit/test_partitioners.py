@@ -118,3 +118,87 @@ def test_hadoop_calls_it_with_two_reduce_tasks(tmp_path):
     assert check.verdict == "error" and "original job failed" in check.detail, check.detail
     assert "no partition for" in check.log
 
+
+
+def _by_region(body: str) -> str:
+    """A sum per region with three reduce tasks and the partitioner `body` (getPartition's)."""
+    partitioner = """
+  public static class ByRegion extends Partitioner<Text, IntWritable> {
+    @Override
+    public int getPartition(Text key, IntWritable value, int numPartitions) {%s
+    }
+  }""" % body
+    source = job_source("""
+      String[] f = value.toString().split(",");
+      if (f.length > 1) context.write(new Text(f[0]), new IntWritable(Integer.parseInt(f[1].trim())));""",
+                        reducer=SUM.split("  public static class Refuses")[0] + partitioner,
+                        extra_driver="job.setPartitionerClass(ByRegion.class); job.setNumReduceTasks(3);")
+    return source
+
+
+SWITCH = """
+      String region = key.toString().toLowerCase();
+      System.out.println("partitioning " + region);
+      switch (region) {
+        case "north":
+        case "east":
+          return 0;
+        case "south":
+          return 1 % numPartitions;
+        default:
+          if (numPartitions == 3 && region.startsWith("w")) return 2;
+          return region.length() % numPartitions;
+      }"""
+
+REGIONS = "north,4\nSouth,2\nwest,7\neast,1\nnorth,3\nmid lands,5\nwest,1\nÖstra,9\nsouth,8\nzone,2\n".encode()
+
+
+def test_a_partitioner_read_as_an_expression_reproduces_the_task_of_each_key(tmp_path):
+    from migrate.plan import dump_expr
+
+    (job,) = scan_text(tmp_path, {"Main.java": _by_region(SWITCH)}).jobs
+    assert job.status == "converted", [(h.category, h.reason) for h in job.plan.hand_work]
+    assert dump_expr(job.plan.sink.partition).startswith("checked_partition((((lower(key) == 'north') || ")
+
+
+@pytest.mark.parametrize("body", ["return value.get() % numPartitions;", "return (int) (Math.random() * 3);",
+                                  "calls++; return calls % numPartitions;"])
+def test_a_partitioner_that_reads_the_value_or_state_is_declined(tmp_path, body):
+    source = _by_region(body).replace("public int getPartition", "int calls = 0;\n    public int getPartition")
+    (job,) = scan_text(tmp_path, {"Main.java": source}).jobs
+    (item,) = [h for h in job.plan.hand_work if h.category == "output-layout"]
+    assert "getPartition() is not read" in item.reason
+
+
+@pytest.mark.parity
+def test_a_switch_partitioner_agrees_with_hadoop_part_file_by_part_file(tmp_path):
+    check = verify_one_job(tmp_path, _by_region(SWITCH), {"sales.csv": REGIONS})
+    assert check.verdict == "agrees", f"{check.detail}\n{check.log[-3000:]}"
+
+
+@pytest.mark.parity
+def test_a_task_number_out_of_range_fails_both_jobs(tmp_path):
+    """Hadoop's map task refuses a partition outside 0..N-1 ("Illegal partition"); so does the script."""
+    import subprocess
+    import sys
+
+    source = _by_region("return key.toString().length() % 5;")
+    check = verify_one_job(tmp_path, source, {"sales.csv": REGIONS})
+    assert check.verdict == "error" and "Illegal partition" in check.log, check.detail
+    (script,) = (tmp_path / "out").glob("*.py")
+    p = subprocess.run([sys.executable, str(script), str(tmp_path / "data"), str(tmp_path / "spark-out")],
+                       capture_output=True, text=True, timeout=300)
+    assert p.returncode != 0 and "Illegal partition" in p.stderr, p.stderr[-2000:]
+
+
+@pytest.mark.parity
+def test_math_abs_of_the_text_hash_agrees_with_hadoop(tmp_path):
+    """`key.hashCode()` of a Text is WritableComparator.hashBytes over its UTF-8 bytes, not
+    String.hashCode; the two differ on every key, so a wrong hash puts lines in other part files."""
+    source = _by_region("return Math.abs(key.hashCode() % numPartitions);")
+    (job,) = scan_text(tmp_path / "scan", {"Main.java": source}).jobs
+    from migrate.plan import dump_expr
+
+    assert "text_hash(key)" in dump_expr(job.plan.sink.partition)
+    check = verify_one_job(tmp_path, source, {"sales.csv": REGIONS})
+    assert check.verdict == "agrees", f"{check.detail}\n{check.log[-3000:]}"

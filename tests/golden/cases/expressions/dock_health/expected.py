@@ -219,11 +219,9 @@ def build(spark: SparkSession, input_path: str) -> DataFrame:
         # DockHealthLines.java:36  String level = fill < 0.2 ? Level.LOW.name() : fill > 0.8 ? Level.FULL.name() : Level.O...
         .withColumn(
             "level",
-            F.when(~F.isnan(F.col("fill")) & (F.col("fill") < 0.2), F.lit("LOW")).otherwise(
-                F.when(~F.isnan(F.col("fill")) & (F.col("fill") > 0.8), F.lit("FULL")).otherwise(
-                    F.lit("OK")
-                )
-            ),
+            F.when(~F.isnan(F.col("fill")) & (F.col("fill") < 0.2), F.lit("LOW"))
+            .when(~F.isnan(F.col("fill")) & (F.col("fill") > 0.8), F.lit("FULL"))
+            .otherwise(F.lit("OK")),
         )
         # DockHealthLines.java:37  String when = f[2].replaceAll("[-:]", "").replace("T", " ");
         .withColumn(
