@@ -75,6 +75,6 @@ def verify_one_job(tmp_path: Path, source: str, data: dict[str, bytes], driver: 
     (tmp_path / "data").mkdir()
     for name, content in data.items():
         (tmp_path / "data" / name).write_bytes(content)
-    (tmp_path / "runs.json").write_text(json.dumps({"runs": [{"driver": driver, "args": ["data", "@out"]}]}))
+    (tmp_path / "runs.json").write_text(json.dumps({"runs": [{"driver": job["driver"], "args": ["data", "@out"]}]}))
     (check,), _ = verify(tmp_path / "out", load_runs(tmp_path / "runs.json"), timeout=180)
     return check

@@ -206,6 +206,11 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
                 add("per-task-state", at("setNumReduceTasks"), f"the reducer's state is kept per reduce task ({spec.reduces} "
                     f"tasks) and which task gets which key is not known: {why}",
                     "rank per task with Window.partitionBy(<task of the key>), or decide one overall top-N is meant", "P2")
+            elif partition is None and _layout_only(spec, index, map_key_t, reduce):
+                findings.append(Finding("output-layout", at("setNumReduceTasks"), f"Hadoop wrote {spec.reduces} part "
+                                        "files, each sorted by key; the script writes one file sorted by key: the same "
+                                        f"lines, each part file's lines in their order ({why})", "if readers open part "
+                                        "files by name, repartition by the same rule"))
             elif partition is None:
                 add("output-layout", at("setNumReduceTasks"), f"Hadoop split the output over {spec.reduces} part "
                     f"files ({why}); the script writes one file sorted by key",
@@ -586,6 +591,23 @@ def _partition_of(spec: JobSpec, index: ClassIndex, key_t: str, reduce: Step) ->
         return custom_partition(cls, key_t, spec.reduces, structs_of(index), index), ""
     except Unsupported as u:
         return None, u.reason
+
+
+def _layout_only(spec: JobSpec, index: ClassIndex, key_t: str, reduce: Step) -> bool:
+    """With several reduce tasks and the task of a key not reproduced, does only the layout differ?
+
+    It does when Hadoop's default HashPartitioner gives every key one task (the key's own
+    hashCode(), which a custom key must override, or equal keys land in different tasks) and each
+    reduce() call sees all values of one key (no grouping comparator: its groups could be split
+    over tasks). A reducer with state kept across calls is not lifted, so it cannot get here. A
+    custom partitioner that was not read is not proved to give a task in 0..N-1 for every key."""
+    fq = spec.classes.get("partitioner")
+    if fq is not None and not fq.endswith(".HashPartitioner") or "grouping_comparator" in spec.classes:
+        return False
+    if isinstance(reduce, (Identity, TopN)) or not is_struct(key_t):
+        return not isinstance(reduce, TopN)
+    key_cls = index.get(key_t[len("struct:"):])
+    return key_cls is not None and any(not m.parameters for m in key_cls.methods("hashCode"))
 
 
 def _one_reduce_task(spec: JobSpec) -> bool:

@@ -54,7 +54,7 @@ def unread_entry(u, hours: float, sloc: int, lines: int) -> dict:
                        "suggestion": "fix what the message names (javac must accept the file) and run mrlift "
                                      "again, or translate the code by hand", "snippet": "", "profile": "P3",
                        "sloc": sloc}],
-        "notes": [], "reduce_tasks": None, "task_files": False, "findings": [], "aggregates": [], "inputs": [],
+        "notes": [], "reduce_tasks": None, "task_files": False, "layout": "", "findings": [], "aggregates": [], "inputs": [],
         "join": None, "side_tables": [], "chain": [], "counters": [], "comparison": "bytes", "verification": None,
         "sloc": {"total": sloc, "automatic": 0, "hand": sloc}, "effort_hours": round(hours, 2),
     }
@@ -95,6 +95,7 @@ def build_report(jobs: list[tuple[JobResult, str]], errors: list[ParseFailure], 
             "notes": list(job.plan.notes),
             "reduce_tasks": job.spec.reduces,
             "task_files": job.plan.sink.partition is not None,  # the script can write one file per task
+            "layout": layout_of(job),
             "findings": [{"category": f.category, "file": f.origin.file, "line": f.origin.line_start,
                           "finding": f.message, "suggestion": f.suggestion} for f in job.plan.findings],
             "aggregates": aggregates_of(job),
@@ -253,9 +254,11 @@ def to_markdown(report: dict) -> str:
     for j in report["jobs"]:
         v = j.get("verification") or {}
         if not (j["hand_work"] or j["notes"] or j["counters"] or j["findings"] or j["aggregates"] or j["inputs"]
-                or j["side_tables"] or j["chain"] or v.get("verdict") in ("error", "differs")):
+                or j["side_tables"] or j["chain"] or j.get("layout") or v.get("verdict") in ("error", "differs")):
             continue
         out += [f"## {md_cell(j['name'])} ({j['status']})", ""]
+        if j.get("layout"):
+            out.append(f"- layout: {LAYOUT_TEXT[j['layout']].format(n=j['reduce_tasks'])}")
         if v.get("verdict") in ("error", "differs"):
             out.append(f"- **checked against Hadoop: {v['verdict']}**: {v['detail']} ({v['checked_at']})")
             for d in (v.get("comparison") or {}).get("differences", []):
@@ -318,9 +321,25 @@ def comparison_of(job) -> str:
         return "keys"  # the original's values depended on how often its combiner ran
     if "output-layout" in cats:
         return "lines"
-    if isinstance(job.plan.reduce, (Join, EachValue, Identity)):
-        return "within-key"
-    return "bytes"
+    within_key = isinstance(job.plan.reduce, (Join, EachValue, Identity))
+    if layout_of(job) == "one file":  # the original's part files, each sorted, are not reproduced
+        return "lines" if within_key else "part-files"
+    return "within-key" if within_key else "bytes"
+
+
+LAYOUT_TEXT = {"reproduced": "reproduced ({n} part files: one file holding them one after another, or with "
+                              "--task-files one file per reduce task)",
+               "one file": "one file instead of {n} (sorted by key; which key went to which part file is not "
+                           "reproduced; the lines and each part file's order are)"}
+
+
+def layout_of(job) -> str:
+    """How the script lays out the original's part files: "reproduced" (one file, the part files
+    one after another, or one per task with --task-files), "one file" (sorted by key; which key went
+    to which reduce task is not reproduced), or "" (one reduce task, or map only)."""
+    if job.spec.reduces <= 1 or job.plan.reduce is None:
+        return ""
+    return "reproduced" if job.plan.sink.partition is not None else "one file"
 
 
 def inputs_of(job) -> list[dict]:

@@ -7,6 +7,8 @@ that throws fails the job.
 """
 from __future__ import annotations
 
+from pathlib import Path
+
 import pytest
 
 from tests.helpers import job_source, scan_text, verify_one_job
@@ -202,3 +204,51 @@ def test_math_abs_of_the_text_hash_agrees_with_hadoop(tmp_path):
     assert "text_hash(key)" in dump_expr(job.plan.sink.partition)
     check = verify_one_job(tmp_path, source, {"sales.csv": REGIONS})
     assert check.verdict == "agrees", f"{check.detail}\n{check.log[-3000:]}"
+
+
+STATION_HOUR = Path(__file__).resolve().parent.parent / "golden" / "cases" / "custom_writable" / "station_hour"
+RIDES = ("ride_id,bike,start_station,end_station,started_at,seconds\n"
+         "r1,b1,Quayside,Old Mill,2024-05-01 08:15:00,600\nr2,b2,Old Mill,Quayside,2024-05-01 08:40:00,900\n"
+         "r3,b3,Quayside,Lantern Sq,2024-05-01 09:05:00,1200\nr4,b4,Ærøskøbing Pier,Quayside,2024-05-01 08:00:00,300\n"
+         "r5,b5,Lantern Sq,Old Mill,2024-05-01 17:30:00,2400\nr6,b6,Quayside,Old Mill,2024-05-01 08:55:00,660\n"
+         "bad,b7,Quayside,Old Mill,2024-05-01 xx:00:00,60\nr8,b8,Old Mill,Lantern Sq,2024-05-02 23:59:00,3000\n")
+
+
+def _station_hour(edit=lambda s: s) -> dict[str, str]:
+    files = {p.name: p.read_text(encoding="utf-8") for p in STATION_HOUR.glob("*.java")}
+    files["StationHourLoad.java"] = files["StationHourLoad.java"].replace(
+        "job.setMapperClass(LoadMapper.class);", "job.setMapperClass(LoadMapper.class);\n        job.setNumReduceTasks(3);")
+    files["StationHour.java"] = edit(files["StationHour.java"])
+    return files
+
+
+def test_a_custom_key_over_several_tasks_is_converted_with_its_layout_reported(tmp_path):
+    from migrate.report.render import comparison_of, layout_of
+
+    scan = scan_text(tmp_path, _station_hour())
+    (job,) = scan.jobs
+    assert job.status == "converted", [(h.category, h.reason) for h in job.plan.hand_work]
+    assert (layout_of(job), comparison_of(job)) == ("one file", "part-files")
+    assert [f for f in job.plan.findings if f.category == "output-layout" and "not reproduced" in f.message]
+
+
+def test_a_custom_key_without_its_own_hash_code_is_not(tmp_path):
+    """Object.hashCode is the object's identity: equal keys go to different reduce tasks."""
+    import re
+
+    def no_hash(s: str) -> str:
+        return re.sub(r"@Override\s+public int hashCode\(\) \{[^}]*\}", "", s)
+
+    files = _station_hour(no_hash)
+    assert "hashCode" not in files["StationHour.java"]
+    (job,) = scan_text(tmp_path, files).jobs
+    assert "output-layout" in [h.category for h in job.plan.hand_work]
+
+
+@pytest.mark.parity
+def test_a_custom_key_over_three_tasks_agrees_with_hadoop_part_file_by_part_file(tmp_path):
+    files = _station_hour()
+    check = verify_one_job(tmp_path, files.pop("StationHourLoad.java"), {"rides.csv": RIDES.encode()},
+                           driver="StationHourLoad", more=files)
+    assert check.verdict == "agrees", f"{check.detail}\n{check.log[-3000:]}"
+    assert check.mode == "part-files"

@@ -60,6 +60,18 @@ def test_part_files_are_read_in_order_and_a_missing_last_newline_is_the_same_lin
     assert compare_folders(a, _folder(tmp_path / "b", b"a\t1\nb\t2"), "bytes").agrees
 
 
+def test_part_files_mode_wants_the_lines_and_each_part_files_order(tmp_path):
+    """Two reduce tasks wrote b,d and a,c,e (each sorted); one file sorted by key interleaves them."""
+    a = _folder(tmp_path / "a", b"b\t1\nd\t2\n", b"a\t3\nc\t4\ne\t5\n")
+    merged = _folder(tmp_path / "m", b"a\t3\nb\t1\nc\t4\nd\t2\ne\t5\n")
+    assert compare_folders(a, merged, "part-files").agrees and not compare_folders(a, merged, "bytes").agrees
+    swapped = compare_folders(a, _folder(tmp_path / "s", b"a\t3\nd\t2\nc\t4\nb\t1\ne\t5\n"), "part-files")
+    assert not swapped.agrees and swapped.differences[0][1] == "part-r-00000 line 2: d\t2"
+    assert not compare_folders(a, _folder(tmp_path / "l", b"a\t3\nb\t1\nc\t4\nd\t2\n"), "part-files").agrees
+    assert not compare_folders(a, _folder(tmp_path / "x", b"a\t3\nb\t1\nc\t4\nd\t2\ne\t5\ne\t5\n"),
+                               "part-files").agrees
+
+
 def test_empty_outputs(tmp_path):
     empty = _folder(tmp_path / "a", b"")
     v = compare_folders(empty, _folder(tmp_path / "b"), "bytes")
