@@ -421,6 +421,12 @@ def tool_drivers(tree, lines: list[str]) -> None:
         return
 
 
+def compare_when_equal(text: str) -> str:
+    """`if (c != 0) { return c; } return next;` vs `if (c == 0) { c = next; } return c;` in a comparison."""
+    return re.sub(r"if \((\w+) != 0\) \{\s*return \1;\s*\}(\s*)return ([^;]+);",
+                  lambda m: f"if ({m[1]} == 0) {{{m[2]}    {m[1]} = {m[3]};{m[2]}}}{m[2]}return {m[1]};", text)
+
+
 AXES = (
     Axis("catch-logs", "empty catch vs logging then skipping", catch_logs),
     Axis("field-scratch", "array local vs scratch field", field_scratch),
@@ -440,6 +446,8 @@ AXES = (
     Axis("string-counters", "enum counters vs counters named by group and name Strings", string_counters),
     Axis("tool-drivers", "work in main vs in a Tool's run() started by ToolRunner", tool_drivers),
     Axis("iterator-loops", "for-each over the values vs a hasNext()/next() loop", iterator_loops),
+    Axis("compare-when-equal", "return the first difference vs assign the next comparison when equal",
+         compare_when_equal),
 )
 
 

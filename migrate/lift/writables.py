@@ -339,6 +339,9 @@ def compare_chain(body: list, left: str, right: str, typed: dict[str, str], gett
                     and ret.expression.member == s.condition.operandl.member:
                 order.append(pending.pop(ret.expression.member))
                 continue
+        if isinstance(s, T.IfStatement) and s.else_statement is None and _is_zero_test(s.condition, pending):
+            _next_when_equal(s, ctx, pending, order)  # `if (c == 0) { c = <next>; }`
+            continue
         if isinstance(s, T.ReturnStatement) and last:
             order.extend(_returned(s.expression, ctx, pending))
             break
@@ -356,6 +359,30 @@ def _returned(e, ctx, pending) -> list[tuple[str, bool]]:
     if isinstance(e, T.MemberReference) and e.member in pending:
         return [pending.pop(e.member)]
     return [_term(e, ctx)]
+
+
+def _next_when_equal(s: T.IfStatement, ctx, pending: dict, order: list) -> None:
+    """`if (c == 0) { c = <comparison>; [if (c == 0) {...}] }`: the same as `if (c != 0) return c;`
+    followed by the next comparison; nested ifs of the same form go on down the chain."""
+    name = s.condition.operandl.member
+    order.append(pending.pop(name))
+    body = list(s.then_statement.statements) if isinstance(s.then_statement, T.BlockStatement) else [s.then_statement]
+    first = body[0] if body else None
+    if not (isinstance(first, T.StatementExpression) and isinstance(first.expression, T.Assignment)
+            and first.expression.type == "=" and isinstance(first.expression.expressionl, T.MemberReference)
+            and first.expression.expressionl.member == name and not first.expression.expressionl.qualifier):
+        raise Unsupported(s, f"{ctx[3]}'s comparison is not a chain of field comparisons")
+    pending[name] = _term(first.expression.value, ctx)
+    for rest in body[1:]:
+        if not (isinstance(rest, T.IfStatement) and rest.else_statement is None and _is_zero_test(rest.condition, pending)
+                and rest.condition.operandl.member == name):
+            raise Unsupported(rest, f"{ctx[3]}'s comparison is not a chain of field comparisons")
+        _next_when_equal(rest, ctx, pending, order)
+
+
+def _is_zero_test(c, pending) -> bool:
+    return (isinstance(c, T.BinaryOperation) and c.operator == "==" and isinstance(c.operandl, T.MemberReference)
+            and c.operandl.member in pending and isinstance(c.operandr, T.Literal) and c.operandr.value == "0")
 
 
 def _is_nonzero_test(c, pending) -> bool:

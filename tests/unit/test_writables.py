@@ -77,6 +77,19 @@ def test_descending_and_ternary_chains_are_read(tmp_path):
                                                                             ("key.hour", False)]
 
 
+def test_the_next_comparison_assigned_when_equal_is_the_same_chain(tmp_path):
+    """`if (c == 0) c = next; return c;` orders exactly as `if (c != 0) return c; return next;`."""
+    from migrate.plan import dump_expr
+
+    for body in ("int c = station.compareTo(o.station); if (c == 0) { c = -Integer.compare(hour, o.hour); } return c;",
+                 "int c = station.compareTo(o.station); if (c == 0) c = Integer.compare(o.hour, hour); return c;"):
+        job = _job(tmp_path / str(len(body)), body)
+        assert [(dump_expr(e), asc) for e, asc in job.plan.sink.sort_terms] == [("utf16_order(key.station)", True),
+                                                                                ("key.hour", False)]
+    _declined(_job(tmp_path / "x", "int c = station.compareTo(o.station); if (c == 0) { c = 1; } return c;"),
+              "compares something other than fields")
+
+
 def _declined(job, text):
     items = [h for h in job.plan.hand_work if h.category == "custom-writable"]
     assert items and text in items[0].reason, [(h.category, h.reason) for h in job.plan.hand_work]
