@@ -21,7 +21,7 @@ from dataclasses import dataclass
 
 from javalang import tree as T
 
-from migrate.java.index import ClassIndex, ClassInfo
+from migrate.java.index import ClassIndex, ClassInfo, node_lines
 from migrate.lift.exprs import WRITABLE_OF, Scope, Unsupported, lift, widen, writable_creator
 from migrate.plan import Call, Expr, Field, Lit, StructNew
 
@@ -469,12 +469,31 @@ def read_comparator(cls: ClassInfo, structs: dict) -> tuple[StructInfo, tuple[tu
 def struct_infos(index: ClassIndex) -> dict[str, StructInfo | Unsupported]:
     """Every custom Writable in the repository, read or with the reason it was not."""
     out: dict[str, StructInfo | Unsupported] = {}
+    raw = _raw_comparators(index)
     for c in index:
         if "writable" in c.roles:
             try:
                 out[c.fqcn] = read_struct(c)
             except Unsupported as u:
                 out[c.fqcn] = u
+                continue
+            if c.name in raw:  # WritableComparator.get(key class) returns it: the job's default order
+                out[c.fqcn].no_order = (f"{c.name} registers its own comparator (WritableComparator.define at "
+                                        f"{raw[c.name]}), which Hadoop sorts and groups with instead of "
+                                        "compareTo(); it is not read")
+    return out
+
+
+def _raw_comparators(index: ClassIndex) -> dict[str, str]:
+    """Simple names of the classes some code registers a comparator for, with where it does so."""
+    out = {}
+    for c in index:
+        for _, n in c.node.filter(T.MethodInvocation):
+            args = n.arguments or []
+            if n.member == "define" and (n.qualifier or "").endswith("WritableComparator") and args \
+                    and isinstance(args[0], T.ClassReference):
+                line = n.position.line if n.position else node_lines(c.node)[0]
+                out.setdefault(args[0].type.name.split(".")[-1], f"{c.file.path.rsplit('/', 1)[-1]}:{line}")
     return out
 
 

@@ -90,6 +90,18 @@ def test_the_next_comparison_assigned_when_equal_is_the_same_chain(tmp_path):
               "compares something other than fields")
 
 
+def test_a_key_with_a_registered_raw_comparator_is_not_sorted_by_compare_to(tmp_path):
+    """WritableComparator.define(Slot.class, ...) makes WritableComparator.get(Slot.class), the job's
+    default sort and grouping comparator, that comparator (WritableComparator javadoc)."""
+    raw = KEY.replace("public Slot() {}", """public Slot() {}
+  public static class Raw extends WritableComparator {
+    public Raw() { super(Slot.class); }
+    public int compare(byte[] b1, int s1, int l1, byte[] b2, int s2, int l2) { return -compareBytes(b1, s1, l1, b2, s2, l2); }
+  }
+  static { WritableComparator.define(Slot.class, new Raw()); }""")
+    _declined(_job(tmp_path, key=raw), "registers its own comparator (WritableComparator.define at Slot.java:")
+
+
 def _declined(job, text):
     items = [h for h in job.plan.hand_work if h.category == "custom-writable"]
     assert items and text in items[0].reason, [(h.category, h.reason) for h in job.plan.hand_work]
