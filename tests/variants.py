@@ -421,6 +421,24 @@ def tool_drivers(tree, lines: list[str]) -> None:
         return
 
 
+@_on_tree
+def key_text_local(tree, lines: list[str]) -> None:
+    """A reducer writing its Text key as it came vs its text read into a local first thing in reduce()
+    and written as `new Text(local)`."""
+    for _, m in _map_methods(tree):
+        if m.name != "reduce" or getattr(m.parameters[0].type, "name", "") != "Text" or not m.body:
+            continue
+        key, start, end = m.parameters[0].name, m.position.line, _method_end(lines, m.position.line)
+        wrote = False
+        for i in range(start, end):
+            lines[i], n = re.subn(r"\b(write|collect)\(" + key + r",", r"\1(new Text(keyText),", lines[i])
+            wrote = wrote or n > 0
+        if wrote:
+            first = m.body[0].position.line - 1
+            indent = re.match(r"\s*", lines[first])[0]
+            lines[first] = f"{indent}String keyText = {key}.toString();\n" + lines[first]
+
+
 def compare_when_equal(text: str) -> str:
     """`if (c != 0) { return c; } return next;` vs `if (c == 0) { c = next; } return c;` in a comparison."""
     return re.sub(r"if \((\w+) != 0\) \{\s*return \1;\s*\}(\s*)return ([^;]+);",
@@ -446,6 +464,8 @@ AXES = (
     Axis("string-counters", "enum counters vs counters named by group and name Strings", string_counters),
     Axis("tool-drivers", "work in main vs in a Tool's run() started by ToolRunner", tool_drivers),
     Axis("iterator-loops", "for-each over the values vs a hasNext()/next() loop", iterator_loops),
+    Axis("key-text-local", "the Text key written as it came vs its text read into a local first",
+         key_text_local),
     Axis("compare-when-equal", "return the first difference vs assign the next comparison when equal",
          compare_when_equal),
 )

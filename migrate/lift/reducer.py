@@ -159,11 +159,11 @@ class FoldLifter:
                 if t is None:
                     raise Unsupported(s, f"local of type {tname} in reduce()")
                 e = widen_at(e, t, self.scope, s) if e.jtype != t and e.jtype in NUMERIC else e
-                if not self.seen_loop:
-                    if not isinstance(e, Lit):
-                        raise Unsupported(s, "accumulator initialised from something other than a constant")
+                if not self.seen_loop and isinstance(e, Lit):
                     self.accs[d.name] = (t, e)
-                self.scope.env[d.name] = e
+                elif not self.seen_loop and self._changed_later(d.name):
+                    raise Unsupported(s, "accumulator initialised from something other than a constant")
+                self.scope.env[d.name] = e  # else a value of the key (never changed): a column of the group
         elif isinstance(s, T.ForStatement) and self.seen_loop and self._walk_of_trimmed_set(s):
             return
         elif isinstance(s, (T.ForStatement, T.WhileStatement)):
@@ -207,6 +207,10 @@ class FoldLifter:
             return
         else:
             raise Unsupported(s, f"{type(s).__name__} in reduce() is not lifted")
+
+    def _changed_later(self, name: str) -> bool:
+        """Is the local `name` assigned or stepped anywhere in reduce() after its declaration?"""
+        return any(_changed_name(n) == name for _, n in self.method if isinstance(n, (T.Assignment, T.MemberReference)))
 
     def _output_cap(self, s: T.IfStatement) -> bool:
         """`if (written < N) { <writes>; written++; }` over a field that starts at 0: the first N keys."""
