@@ -282,6 +282,12 @@ class EachValue(Step):
 
     emits: tuple[Emit, ...]
     lets: tuple[Let, ...] = ()
+    # reduce() took the first value before its loop (`it.next()`): the loop writes the group's other
+    # values, and column `first_value` holds the first one. Only defined with a secondary sort:
+    # `group` are the grouping comparator's fields, `order` the sort order, (expression, ascending).
+    first_value: bool = False
+    group: tuple[Expr, ...] = ()
+    order: tuple[tuple[Expr, bool], ...] = ()
 
 
 @dataclass(frozen=True)

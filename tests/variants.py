@@ -439,6 +439,11 @@ def key_text_local(tree, lines: list[str]) -> None:
             lines[first] = f"{indent}String keyText = {key}.toString();\n" + lines[first]
 
 
+def for_has_next(text: str) -> str:
+    """`while (it.hasNext()) {` vs `for (; it.hasNext(); ) {` over an iterator (the values, or a local)."""
+    return re.sub(r"\bwhile \((\w+)\.hasNext\(\)\) \{", r"for (; \1.hasNext(); ) {", text)
+
+
 def compare_when_equal(text: str) -> str:
     """`if (c != 0) { return c; } return next;` vs `if (c == 0) { c = next; } return c;` in a comparison."""
     return re.sub(r"if \((\w+) != 0\) \{\s*return \1;\s*\}(\s*)return ([^;]+);",
@@ -466,6 +471,7 @@ AXES = (
     Axis("iterator-loops", "for-each over the values vs a hasNext()/next() loop", iterator_loops),
     Axis("key-text-local", "the Text key written as it came vs its text read into a local first",
          key_text_local),
+    Axis("for-has-next", "while (it.hasNext()) vs for (; it.hasNext(); )", for_has_next),
     Axis("compare-when-equal", "return the first difference vs assign the next comparison when equal",
          compare_when_equal),
 )

@@ -521,8 +521,13 @@ def build_body(plan: Plan, x: ExprWriter) -> ScriptParts:
         out.append("")
         out.append(f"# Reduce side: the reducer writes inside its loop over values ({_where(r.origin)});")
         out.append("# the shuffle only brings the keys together: each value is written as the loop wrote it")
+        if r.first_value:
+            out.extend(_first_value_windows(r, x))
+            parts.uses_window = True
         out.append("result = (")
         out.append("    map_output")
+        if r.first_value:
+            out.extend("    " + c for c in _first_value_code())
         out.extend("    " + c for s in r.lets for c in _step_code(s, x))
         out.extend("    " + c for c in _reduce_writes(r.emits, x, plan.sink.partition, plan.sink.sort_terms))
         out.append(")")
@@ -711,6 +716,31 @@ def _walk_order(r: TopN | TopPerKey) -> str:
     """The write order of kept entries from their rank `_kept` (1 = the first one the trim keeps):
     the same when the loop walks from the kept end, reversed otherwise."""
     return 'F.col("_kept")' if r.keep_largest == r.descending else f'F.lit({r.n} + 1) - F.col("_kept")'
+
+
+def _first_value_windows(r: EachValue, x: ExprWriter) -> list[str]:
+    """The windows of a reducer that takes its group's first value before the loop over the rest."""
+    group = ", ".join(x(e) for e in r.group)
+    order = ", ".join(x(e) + ("" if asc else ".desc()") for e, asc in r.order)
+    return ["# one reduce() call per group of the grouping comparator, its values in the sort order",
+            f"group_order = Window.partitionBy({group}).orderBy({order})",
+            "# values with the same full key: if the group's first key has several, Hadoop's first is any",
+            f"same_key = Window.partitionBy({', '.join(x(e) for e, _ in r.order)})",
+            f"whole_group = Window.partitionBy({group})"]
+
+
+def _first_value_code() -> list[str]:
+    return ['.withColumn("_place", F.row_number().over(group_order))',
+            '.withColumn("_same_key", F.count(F.lit(1)).over(same_key))',
+            '.withColumn("_first_ties", F.max(F.when(F.col("_place") == 1, F.col("_same_key"))).over(whole_group))',
+            "# it.next() before the loop: the group's first value; the loop goes on from the second",
+            '.withColumn(',
+            '    "first_value",',
+            '    F.when(F.col("_first_ties") > 1, F.raise_error(F.lit("the first value of a group is not defined: '
+            'several values share its smallest key")))',
+            '    .otherwise(F.first("value").over(group_order)),',
+            ')',
+            '.where(F.col("_place") > 1)']
 
 
 def _top_per_key_code(r: TopPerKey, x: ExprWriter, partition: Expr | None) -> list[str]:

@@ -63,6 +63,9 @@ class FoldLifter:
         self.sets: dict[str, str] = {}  # name -> element type
         self.aggs: dict[str, Agg] = {}
         self.seen_loop = False
+        self.in_loop = False
+        self.iterator: str | None = None  # `Iterator<V> it = values.iterator();` before the loop
+        self.first_taken = False  # `it.next()` before the loop: the group's first value
         self.emits: list[Emit] = []  # writes after the loop (or without one)
         self.loop_emits: list[Emit] = []  # writes inside the loop, once per value
         self.lets: list[Let] = []  # locals of the loop body: per-value columns
@@ -84,10 +87,14 @@ class FoldLifter:
             self._stmt(s, None)
         a, b = node_lines(self.method)
         span = Span(self.file, a, b)
+        if self.first_taken and not self.loop_emits:
+            raise Unsupported(self.method, "reduce() takes the first value before its loop and does not write in the "
+                                           "loop", category="value-order")
         if self.loop_emits:
             if self.emits or self.aggs:
                 raise Unsupported(self.method, "reduce() writes both inside its loop over values and after it")
-            return EachValue(span, "writes inside the loop over values", tuple(self.loop_emits), tuple(self.lets))
+            return EachValue(span, "writes inside the loop over values", tuple(self.loop_emits), tuple(self.lets),
+                             first_value=self.first_taken)
         if self.set_walk is not None:
             return self._top_per_key(span)
         if self.collector is not None:
@@ -108,10 +115,19 @@ class FoldLifter:
 
     # ------------------------------------------------------------------ statements outside the loop
     def _rewrite(self, node):
-        """A copy of `node` with `values.next()` and `set.size()` replaced by names the scope binds."""
+        """A copy of `node` with `values.next()` (or `it.next()` of `it = values.iterator()`) and
+        `set.size()` replaced by names the scope binds: inside the loop the value of the row, before
+        it the group's first value (taken once)."""
         def name_of(n):
-            if (n.qualifier, n.member) == (self.values, "next"):
-                return "__next__"
+            if n.qualifier in (self.values, self.iterator) and n.member == "next":
+                if self.in_loop:
+                    return "__next__"
+                if self.seen_loop or self.first_taken:
+                    raise Unsupported(n, "reduce() takes a value outside its loop other than the first",
+                                      category="value-order")
+                self.first_taken = True
+                self.scope.env["__first__"] = Col(self.value_type, "first_value")
+                return "__first__"
             return f"__size_{n.qualifier}" if n.qualifier in self.sets and n.member == "size" and not n.selectors else None
 
         return calls_as_names(node, name_of)
@@ -135,8 +151,20 @@ class FoldLifter:
         if isinstance(s, T.LocalVariableDeclaration):
             tname = getattr(s.type, "name", "")
             for d in s.declarators:
+                init = d.initializer
+                if tname == "Iterator" and isinstance(init, T.MethodInvocation) and init.qualifier == self.values \
+                        and init.member == "iterator" and not init.arguments and not init.selectors \
+                        and self.iterator is None and not self.seen_loop:
+                    self.iterator = d.name
+                    self.scope.env[d.name] = Opaque("the iterator over the values")
+                    continue
+                if isinstance(init, T.MethodInvocation) and init.member == "next" and not init.selectors \
+                        and init.qualifier in (self.values, self.iterator) and not self.seen_loop:
+                    raise Unsupported(s, f"`{d.name}` holds the value object itself, which Hadoop reuses: it changes "
+                                         "to each value the loop reads next", f"copy it: new {tname}(...) or "
+                                         ".toString() / .get()", category="value-order")
                 if tname in WRITABLE_OF and isinstance(d.initializer, T.ClassCreator):
-                    self.scope.env[d.name] = writable_creator(d.initializer, self.scope)
+                    self.scope.env[d.name] = writable_creator(self._rewrite(d.initializer), self.scope)
                     continue
                 if tname in _SETS and isinstance(d.initializer, T.ClassCreator) and not self.seen_loop:
                     self._declare_set(s, d)
@@ -169,8 +197,9 @@ class FoldLifter:
         elif isinstance(s, (T.ForStatement, T.WhileStatement)):
             if self.seen_loop:
                 raise Unsupported(s, "a second loop over values: Hadoop's values can be iterated once")
-            self.seen_loop = True
+            self.seen_loop = self.in_loop = True
             self._loop(s)
+            self.in_loop = False
             for name, (t, init) in self.accs.items():
                 self.scope.env[name] = AggRef(t, name) if name in self.aggs else init
             for name in self.sets:
@@ -304,18 +333,23 @@ class FoldLifter:
 
     # ------------------------------------------------------------------ the loop over values
     def _loop(self, s) -> None:
-        if isinstance(s, T.ForStatement):
-            ctl = s.control
-            if not (isinstance(ctl, T.EnhancedForControl) and isinstance(ctl.iterable, T.MemberReference)
-                    and ctl.iterable.member == self.values and not ctl.iterable.qualifier):
+        ctl = s.control if isinstance(s, T.ForStatement) else None
+        if isinstance(ctl, T.EnhancedForControl):
+            if not (isinstance(ctl.iterable, T.MemberReference) and ctl.iterable.member == self.values
+                    and not ctl.iterable.qualifier):
                 raise Unsupported(s, "loop that is not over the reducer's values")
+            if self.first_taken:  # Hadoop's values.iterator() is one iterator: the loop would go on from the second
+                raise Unsupported(s, "a for-each over the values after taking the first one", category="value-order")
             self.scope.env[ctl.var.declarators[0].name] = Col(self.value_type, "value")
         else:
-            c = s.condition
-            if not (isinstance(c, T.MethodInvocation) and c.qualifier == self.values and c.member == "hasNext"):
+            c = s.condition if ctl is None else ctl.condition
+            if ctl is not None and (ctl.init or ctl.update):
+                raise Unsupported(s, "loop that is not over the reducer's values")
+            if not (isinstance(c, T.MethodInvocation) and c.qualifier in (self.values, self.iterator)
+                    and c.member == "hasNext"):
                 raise Unsupported(s, "while loop that is not `while (values.hasNext())`")
             nexts = [n for st in _block(s.body) for _, n in st if isinstance(n, T.MethodInvocation)
-                     and n.qualifier == self.values and n.member == "next"]
+                     and n.qualifier == c.qualifier and n.member == "next"]
             if len(nexts) != 1:
                 raise Unsupported(s, "the loop does not take exactly one value per iteration")
             self.scope.env["__next__"] = Col(self.value_type, "value")

@@ -3,6 +3,8 @@
 same input; the outputs must agree."""
 from __future__ import annotations
 
+from pathlib import Path
+
 import pytest
 
 from tests.helpers import job_source, scan_text, verify_one_job
@@ -57,3 +59,84 @@ def test_a_local_of_the_key_that_the_loop_changes_is_still_declined(tmp_path):
 def test_locals_of_the_key_agree_with_hadoop(tmp_path):
     check = verify_one_job(tmp_path, _source(KEY_LOCALS), {"rides.txt": DOCKS})
     assert check.verdict == "agrees", f"{check.detail}\n{check.log[-3000:]}"
+
+
+# ---------------------------------------------------------------- the first value of a secondary sort
+BOARD = Path(__file__).resolve().parent.parent / "golden" / "cases" / "secondary_sort" / "departure_board"
+FOR_EACH = """            for (Text ride : rides) {
+                // the key moves with the values: here it is this ride's own station and time
+                context.write(new Text(key.getStation() + " " + key.getStartedAt()), ride);
+            }"""
+LATEST_THEN_REST = """            Iterator<Text> it = rides.iterator();
+            Text latest = new Text(it.next());  // the sort puts the latest ride first
+            while (it.hasNext()) {
+                Text earlier = it.next();
+                context.write(new Text(key.getStation() + " after " + latest), earlier);
+            }"""
+RIDES = ("ride_id,bike,start_station,end_station,started_at\n"
+         "r1,b1,Quayside,Old Mill,2024-05-01 08:15\nr2,b2,Old Mill,Quayside,2024-05-01 08:40\n"
+         "r3,b3,Quayside,Lantern Sq,2024-05-01 09:05\nr4,b4,Ærøskøbing,Quayside,2024-05-01 08:00\n"
+         "r5,b5,Quayside,Old Mill,2024-05-01 07:30\nr6,b6,Old Mill,Lantern Sq,2024-05-02 23:59\n")
+
+
+def _board(reducer_body: str, edit=lambda s: s) -> dict[str, str]:
+    files = {p.name: p.read_text(encoding="utf-8") for p in BOARD.glob("*.java")}
+    board = files["DepartureBoard.java"].replace(FOR_EACH, reducer_body)
+    files["DepartureBoard.java"] = edit(board.replace("import java.io.IOException;",
+                                                      "import java.io.IOException;\nimport java.util.Iterator;"))
+    return files
+
+
+def test_the_first_value_of_a_secondary_sort_group_is_read(tmp_path):
+    (job,) = scan_text(tmp_path, _board(LATEST_THEN_REST)).jobs
+    assert job.status == "converted", [(h.category, h.reason) for h in job.plan.hand_work]
+    assert job.plan.reduce.first_value and len(job.plan.reduce.group) == 1 and len(job.plan.reduce.order) == 2
+
+
+@pytest.mark.parametrize("body, why", [
+    (LATEST_THEN_REST.replace("new Text(it.next())", "it.next()"), "holds the value object itself"),
+    (LATEST_THEN_REST.replace("while (it.hasNext()) {\n                Text earlier = it.next();",
+                              "for (Text earlier : rides) {"), "a for-each over the values after taking the first"),
+    (LATEST_THEN_REST.replace("Text earlier = it.next();", "Text earlier = it.next(); it.next();"),
+     "exactly one value per iteration"),
+])
+def test_first_value_forms_that_are_declined(tmp_path, body, why):
+    (job,) = scan_text(tmp_path, _board(body)).jobs
+    assert job.status != "converted" and any(why in h.reason for h in job.plan.hand_work), job.plan.hand_work
+
+
+def test_without_a_grouping_comparator_the_first_value_is_not_defined(tmp_path):
+    files = _board(LATEST_THEN_REST, lambda s: s.replace("job.setGroupingComparatorClass(SameStation.class);", ""))
+    (job,) = scan_text(tmp_path, files).jobs
+    (item,) = [h for h in job.plan.hand_work if h.category == "value-order"]
+    assert "which value is first was not defined" in item.reason
+
+
+@pytest.mark.parity
+def test_the_first_value_of_a_group_agrees_with_hadoop(tmp_path):
+    files = _board(LATEST_THEN_REST)
+    check = verify_one_job(tmp_path, files.pop("DepartureBoard.java"), {"rides.csv": RIDES.encode()},
+                           driver="DepartureBoard", more=files)
+    assert check.verdict == "agrees", f"{check.detail}\n{check.log[-3000:]}"
+
+
+def test_a_first_key_shared_by_two_values_stops_the_script(spark):
+    """Hadoop would take either of them; the script refuses to pick one (a later tie is fine)."""
+    from pyspark.sql import Window
+    from pyspark.sql import functions as F
+
+    from migrate.gen.pyspark import _first_value_code
+
+    def run(rows):
+        df = spark.createDataFrame(rows, "key struct<station:string,at:string>, value string")
+        station, at = F.col("key")["station"], F.col("key")["at"]
+        scope = {"F": F, "group_order": Window.partitionBy(station).orderBy(at.desc()),
+                 "same_key": Window.partitionBy(station, at), "whole_group": Window.partitionBy(station),
+                 "map_output": df}
+        code = "".join(line.strip() for line in _first_value_code() if not line.strip().startswith("#"))
+        return sorted((r["first_value"], r["value"]) for r in eval("map_output" + code, scope).collect())
+
+    assert run([(("Quay", "09:00"), "r1"), (("Quay", "08:00"), "r2"), (("Quay", "08:00"), "r3")]) == [
+        ("r1", "r2"), ("r1", "r3")]
+    with pytest.raises(Exception, match="first value of a group is not defined"):
+        run([(("Quay", "09:00"), "r1"), (("Quay", "09:00"), "r2"), (("Quay", "08:00"), "r3")])
