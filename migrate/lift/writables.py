@@ -450,6 +450,11 @@ def _side(n, ctx) -> tuple[str, bool] | None:
 
 def read_comparator(cls: ClassInfo, structs: dict) -> tuple[StructInfo, tuple[tuple[str, bool], ...]]:
     """A WritableComparator subclass over a custom key: the key it compares and its order."""
+    raw = [m for m in cls.methods("compare") if len(m.parameters) == 6]
+    if raw:  # the shuffle calls compare(byte[], int, int, byte[], int, int): the object form is not what runs
+        raise Unsupported(raw[0], f"{cls.name} compares the keys' serialised bytes (compare(byte[], ...)), which is "
+                                  "what Hadoop calls; raw byte comparators are not read",
+                          "express the order with orderBy over the key's fields")
     ms = [m for m in cls.methods("compare") if len(m.parameters) == 2]
     if not ms:
         raise Unsupported(cls.node, f"{cls.name} has no compare(a, b) over deserialised keys (raw byte comparators "
