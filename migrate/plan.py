@@ -288,6 +288,9 @@ class EachValue(Step):
     first_value: bool = False
     group: tuple[Expr, ...] = ()
     order: tuple[tuple[Expr, bool], ...] = ()
+    # writes of reduce() before and after its loop: once per call (per group), around its values'
+    before: tuple[Emit, ...] = ()
+    after: tuple[Emit, ...] = ()
 
 
 @dataclass(frozen=True)
@@ -664,9 +667,14 @@ def _dump_step(s: Step) -> str:
         return "\n".join(lines)
     if isinstance(s, EachValue):
         lines = ["For each value (sorted by key)"] + [f"    {_dump_step(x)}" for x in s.lets]
-        for e in s.emits:
-            g = f" if {dump_expr(e.guard)}" if e.guard is not None else ""
-            lines.append(f"    Emit {dump_expr(e.key)} -> {dump_expr(e.value)}{g}")
+        if s.group:
+            order = ", ".join(f"{dump_expr(e)}{'' if asc else ' desc'}" for e, asc in s.order)
+            lines.append(f"    Call per group ({', '.join(dump_expr(e) for e in s.group)}) ordered by ({order})"
+                         + (", first value taken before the loop" if s.first_value else ""))
+        for label, emits in (("Before", s.before), ("Emit", s.emits), ("After", s.after)):
+            for e in emits:
+                g = f" if {dump_expr(e.guard)}" if e.guard is not None else ""
+                lines.append(f"    {label} {dump_expr(e.key)} -> {dump_expr(e.value)}{g}")
         return "\n".join(lines)
     if isinstance(s, TopN):
         part = f" per reduce task ({s.partitions}, by {dump_expr(s.partition)})" if s.partition is not None else ""

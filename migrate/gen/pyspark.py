@@ -6,7 +6,7 @@ import keyword
 import math
 import re
 import uuid
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 from pathlib import Path
 
 import black
@@ -521,15 +521,16 @@ def build_body(plan: Plan, x: ExprWriter) -> ScriptParts:
         out.append("")
         out.append(f"# Reduce side: the reducer writes inside its loop over values ({_where(r.origin)});")
         out.append("# the shuffle only brings the keys together: each value is written as the loop wrote it")
-        if r.first_value:
-            out.extend(_first_value_windows(r, x))
+        calls = r.first_value or r.before or r.after
+        if calls:
+            out.extend(_call_windows(r, x))
             parts.uses_window = True
         out.append("result = (")
         out.append("    map_output")
-        if r.first_value:
-            out.extend("    " + c for c in _first_value_code())
+        if calls:
+            out.extend("    " + c for c in _call_position_code(r))
         out.extend("    " + c for s in r.lets for c in _step_code(s, x))
-        out.extend("    " + c for c in _reduce_writes(r.emits, x, plan.sink.partition, plan.sink.sort_terms))
+        out.extend("    " + c for c in _reduce_writes(call_writes(r), x, plan.sink.partition, plan.sink.sort_terms))
         out.append(")")
         out.append("return result")
     elif isinstance(r, TopN):
@@ -718,29 +719,51 @@ def _walk_order(r: TopN | TopPerKey) -> str:
     return 'F.col("_kept")' if r.keep_largest == r.descending else f'F.lit({r.n} + 1) - F.col("_kept")'
 
 
-def _first_value_windows(r: EachValue, x: ExprWriter) -> list[str]:
-    """The windows of a reducer that takes its group's first value before the loop over the rest."""
+def _call_windows(r: EachValue, x: ExprWriter) -> list[str]:
+    """The windows of a reducer that writes once per reduce() call (before or after its loop over
+    values) or takes the call's first value before that loop: one call per group, in sort order."""
     group = ", ".join(x(e) for e in r.group)
-    order = ", ".join(x(e) + ("" if asc else ".desc()") for e, asc in r.order)
-    return ["# one reduce() call per group of the grouping comparator, its values in the sort order",
-            f"group_order = Window.partitionBy({group}).orderBy({order})",
-            "# values with the same full key: if the group's first key has several, Hadoop's first is any",
-            f"same_key = Window.partitionBy({', '.join(x(e) for e, _ in r.order)})",
-            f"whole_group = Window.partitionBy({group})"]
+    order = ", ".join(x(e) + ("" if asc else ".desc()") for e, asc in r.order) or "F.lit(0)"
+    out = ["# one reduce() call per group" + (" of the grouping comparator, its values in the sort order"
+                                              if r.order else " (key): its values in no defined order"),
+           f"group_order = Window.partitionBy({group}).orderBy({order})",
+           f"whole_group = Window.partitionBy({group})"]
+    if r.first_value:
+        out += ["# values with the same full key: if the group's first key has several, Hadoop's first is any",
+                f"same_key = Window.partitionBy({', '.join(x(e) for e, _ in r.order)})"]
+    return out
 
 
-def _first_value_code() -> list[str]:
-    return ['.withColumn("_place", F.row_number().over(group_order))',
-            '.withColumn("_same_key", F.count(F.lit(1)).over(same_key))',
-            '.withColumn("_first_ties", F.max(F.when(F.col("_place") == 1, F.col("_same_key"))).over(whole_group))',
-            "# it.next() before the loop: the group's first value; the loop goes on from the second",
-            '.withColumn(',
-            '    "first_value",',
-            '    F.when(F.col("_first_ties") > 1, F.raise_error(F.lit("the first value of a group is not defined: '
-            'several values share its smallest key")))',
-            '    .otherwise(F.first("value").over(group_order)),',
-            ')',
-            '.where(F.col("_place") > 1)']
+def _call_position_code(r: EachValue) -> list[str]:
+    out = ["# each value's place in its reduce() call", '.withColumn("_place", F.row_number().over(group_order))']
+    if r.after:
+        out.append('.withColumn("_values", F.count(F.lit(1)).over(whole_group))')
+    if r.first_value:
+        out += ['.withColumn("_same_key", F.count(F.lit(1)).over(same_key))',
+                '.withColumn("_first_ties", F.max(F.when(F.col("_place") == 1, F.col("_same_key"))).over(whole_group))',
+                "# it.next() before the loop: the group's first value; the loop goes on from the second",
+                '.withColumn(',
+                '    "first_value",',
+                '    F.when(F.col("_first_ties") > 1, F.raise_error(F.lit("the first value of a group is not defined: '
+                'several values share its smallest key")))',
+                '    .otherwise(F.first("value").over(group_order)),',
+                ')']
+    return out
+
+
+def call_writes(r: EachValue) -> tuple[Emit, ...]:
+    """Every write of one reduce() call as a per-row write: those before the loop on the call's first
+    row, the loop's on each row it reads (from the second when the first was taken), those after the
+    loop on its last row; in Java's order within the call."""
+    place, size = Col("int", "_place"), Col("int", "_values")
+
+    def at(emits, test):
+        return tuple(replace(e, guard=test if e.guard is None else BoolOp("boolean", "&&", (test, e.guard)))
+                     for e in emits)
+
+    loop = at(r.emits, Compare("boolean", ">", place, Lit("int", 1))) if r.first_value else r.emits
+    return at(r.before, Compare("boolean", "==", place, Lit("int", 1))) + loop + \
+        at(r.after, Compare("boolean", "==", place, size))
 
 
 def _top_per_key_code(r: TopPerKey, x: ExprWriter, partition: Expr | None) -> list[str]:
@@ -879,7 +902,7 @@ def sort_columns(plan: Plan) -> list[str]:
     if isinstance(r, TopPerKey):  # reduce() writes its kept values in set order, key after key
         cols = [f'"{n}"' for n, _ in _hidden_sort(r.writes, ())] + ['"_write"']
         return (['"_partition"'] if plan.sink.partition is not None else []) + cols
-    emits = r.emits if isinstance(r, (Group, EachValue)) else ()
+    emits = r.emits if isinstance(r, Group) else call_writes(r) if isinstance(r, EachValue) else ()
     cols = [f'"{n}"' if asc else f'F.col("{n}").desc()' for n, asc in _hidden_sort(emits, plan.sink.sort_terms)] \
         if emits else ['"key"']
     if len(emits) > 1:

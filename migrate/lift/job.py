@@ -244,8 +244,8 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
                     "only the split into part files changes; repartition by the same rule if readers depend on it",
                     "P2", _sloc_of(index, spec.classes["partitioner"]))
         key_order = _secondary_sort(spec, index, structs, map_key_t, reduce, add, at)
-        if isinstance(reduce, EachValue) and reduce.first_value:
-            reduce = _first_value(spec, index, structs, map_key_t, reduce, key_order, add)
+        if isinstance(reduce, EachValue) and (reduce.first_value or reduce.before or reduce.after):
+            reduce = _reduce_calls(spec, index, structs, map_key_t, reduce, key_order, add)
         if key_order is not None:
             shapes.append("secondary sort")
             notes.append("the values reach reduce() in the sort comparator's order; the script sorts its output by "
@@ -471,8 +471,11 @@ def _struct_output_text(steps: list[Step], reduce: Step | None, structs: dict, a
         return replace(e, key=k, value=v) if (k, v) != (e.key, e.value) else e
 
     try:
-        if isinstance(reduce, (Group, EachValue)):
+        if isinstance(reduce, Group):
             reduce = replace(reduce, emits=tuple(text(e) for e in reduce.emits))
+        elif isinstance(reduce, EachValue):
+            reduce = replace(reduce, emits=tuple(text(e) for e in reduce.emits),
+                             before=tuple(text(e) for e in reduce.before), after=tuple(text(e) for e in reduce.after))
         elif isinstance(reduce, TopN):
             reduce = replace(reduce, writes=tuple(text(e) for e in reduce.writes))
         elif reduce is None and map_only:
@@ -541,25 +544,28 @@ def _secondary_sort(spec: JobSpec, index: ClassIndex, structs: dict, key_t: str,
     return sort
 
 
-def _first_value(spec: JobSpec, index: ClassIndex, structs: dict, key_t: str, reduce: EachValue, key_order,
-                 add) -> EachValue:
-    """reduce() took the first value before its loop: that is the group's first in the sort order
-    only where a grouping comparator gathers several sorted keys into one call (a secondary sort)."""
-    why = "Hadoop gives the values of a key in no defined order (no secondary sort here)"
-    group = None
-    if key_order is not None and "grouping_comparator" in spec.classes:
-        cls = index.get(spec.classes["grouping_comparator"])
-        group = read_comparator(cls, structs)[1] if cls is not None else None
-        why = "the grouping comparator compares every field the sort does, so the values of one call share one key"
-    if group is None or len(group) >= len(key_order):
+def _reduce_calls(spec: JobSpec, index: ClassIndex, structs: dict, key_t: str, reduce: EachValue, key_order,
+                  add) -> EachValue:
+    """Which rows make one reduce() call (`group`) and their order in it (`order`), for a reducer
+    that writes before or after its loop, or takes the first value before it. The first value is
+    the group's first in the sort order only where a grouping comparator gathers several sorted keys
+    into one call (a secondary sort); without one it is any of the key's values."""
+    k = Col(key_t, "key")
+    group, order = None, ()
+    if key_order is not None:
+        info = structs[key_t]
+        order = info.sort_terms(k, spec.origin, key_order)
+        cls = index.get(spec.classes.get("grouping_comparator", ""))
+        names = read_comparator(cls, structs)[1] if cls is not None else key_order
+        group = tuple(info.field_of(k, n) for n, _ in names)
+    if reduce.first_value and (group is None or len(group) >= len(order)):
+        why = "Hadoop gives the values of a key in no defined order (no secondary sort here)" if group is None else \
+            "the values of one call share one key (the grouping compares every field the sort does)"
         add("value-order", reduce.origin, f"reduce() takes the first value before its loop over the others; {why}, "
             "so which value is first was not defined and the original output was not deterministic",
             "sort the values (a secondary sort) and take F.first over Window.partitionBy(key).orderBy(...)", "P2")
         return reduce
-    info = structs[key_t]
-    k = Col(key_t, "key")
-    return replace(reduce, group=tuple(info.field_of(k, n) for n, _ in group),
-                   order=info.sort_terms(k, spec.origin, key_order))
+    return replace(reduce, group=group or (k,), order=order)
 
 
 # Hadoop codec class -> the Spark text writer's `compression` name for the same codec (Spark's

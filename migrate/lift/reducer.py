@@ -66,6 +66,7 @@ class FoldLifter:
         self.in_loop = False
         self.iterator: str | None = None  # `Iterator<V> it = values.iterator();` before the loop
         self.first_taken = False  # `it.next()` before the loop: the group's first value
+        self.emits_before_loop = 0  # how many of `emits` reduce() wrote before its loop
         self.emits: list[Emit] = []  # writes after the loop (or without one)
         self.loop_emits: list[Emit] = []  # writes inside the loop, once per value
         self.lets: list[Let] = []  # locals of the loop body: per-value columns
@@ -91,10 +92,14 @@ class FoldLifter:
             raise Unsupported(self.method, "reduce() takes the first value before its loop and does not write in the "
                                            "loop", category="value-order")
         if self.loop_emits:
-            if self.emits or self.aggs:
-                raise Unsupported(self.method, "reduce() writes both inside its loop over values and after it")
+            used = {x.name for e in self.emits for side in (e.key, e.value, e.guard) for x in walk(side)
+                    if isinstance(x, AggRef)}
+            if used:
+                raise Unsupported(self.method, "reduce() writes inside its loop over values and, after it, a figure "
+                                               f"of all the values (`{sorted(used)[0]}`)")
             return EachValue(span, "writes inside the loop over values", tuple(self.loop_emits), tuple(self.lets),
-                             first_value=self.first_taken)
+                             first_value=self.first_taken, before=tuple(self.emits[:self.emits_before_loop]),
+                             after=tuple(self.emits[self.emits_before_loop:]))
         if self.set_walk is not None:
             return self._top_per_key(span)
         if self.collector is not None:
@@ -210,6 +215,7 @@ class FoldLifter:
             emit = self._write(s, guard)
             if emit is not None:
                 self.emits.append(emit)
+                self.emits_before_loop += not self.seen_loop
                 return
             e = s.expression
             changed = _changed_name(e)

@@ -140,3 +140,52 @@ def test_a_first_key_shared_by_two_values_stops_the_script(spark):
         ("r1", "r2"), ("r1", "r3")]
     with pytest.raises(Exception, match="first value of a group is not defined"):
         run([(("Quay", "09:00"), "r1"), (("Quay", "09:00"), "r2"), (("Quay", "08:00"), "r3")])
+
+
+# ---------------------------------------------------------------- writes once per reduce() call
+AROUND_THE_RIDES = """            context.write(new Text("== " + key.getStation() + " from " + key.getStartedAt()), new Text(""));
+            for (Text ride : rides) {
+                context.write(new Text(key.getStation() + " " + key.getStartedAt()), ride);
+            }
+            context.write(new Text("-- " + key.getStation() + " down to " + key.getStartedAt()), new Text("end"));"""
+
+PER_KEY_LIST = """
+  public static class R extends Reducer<Text, IntWritable, Text, Text> {
+    protected void reduce(Text key, Iterable<IntWritable> values, Context context)
+        throws IOException, InterruptedException {
+      context.write(new Text("[" + key + "]"), new Text("rides listed below"));
+      for (IntWritable v : values) {
+        if (v.get() > 2) context.write(key, new Text("ride of " + v.get()));
+      }
+      context.write(new Text("[/" + key + "]"), new Text(""));
+    }
+  }"""
+
+
+def test_writes_before_and_after_the_loop_are_once_per_call(tmp_path):
+    (job,) = scan_text(tmp_path, _board(AROUND_THE_RIDES)).jobs
+    assert job.status == "converted", [(h.category, h.reason) for h in job.plan.hand_work]
+    r = job.plan.reduce
+    assert (len(r.before), len(r.emits), len(r.after)) == (1, 1, 1) and not r.first_value
+
+
+def test_a_figure_of_all_values_written_after_a_writing_loop_is_declined(tmp_path):
+    body = PER_KEY_LIST.replace('context.write(new Text("[/" + key + "]"), new Text(""));',
+                                'context.write(new Text("[/" + key + "]"), new Text("" + n));').replace(
+        "for (IntWritable v : values) {", "int n = 0;\n      for (IntWritable v : values) {\n        n++;")
+    (job,) = scan_text(tmp_path, {"Main.java": _source(body)}).jobs
+    assert any("a figure of all the values" in h.reason for h in job.plan.hand_work), job.plan.hand_work
+
+
+@pytest.mark.parity
+def test_writes_around_the_loop_of_a_secondary_sort_agree_with_hadoop(tmp_path):
+    files = _board(AROUND_THE_RIDES)
+    check = verify_one_job(tmp_path, files.pop("DepartureBoard.java"), {"rides.csv": RIDES.encode()},
+                           driver="DepartureBoard", more=files)
+    assert check.verdict == "agrees", f"{check.detail}\n{check.log[-3000:]}"
+
+
+@pytest.mark.parity
+def test_writes_around_the_loop_of_a_plain_key_agree_with_hadoop(tmp_path):
+    check = verify_one_job(tmp_path, _source(PER_KEY_LIST), {"rides.txt": DOCKS})
+    assert check.verdict == "agrees", f"{check.detail}\n{check.log[-3000:]}"

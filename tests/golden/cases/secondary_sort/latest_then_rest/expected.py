@@ -132,13 +132,15 @@ def build(spark: SparkSession, input_path: str) -> DataFrame:
     group_order = Window.partitionBy(F.col("key")["station"]).orderBy(
         F.col("key")["station"], F.encode(F.col("key")["startedAt"], "UTF-16BE").desc()
     )
+    whole_group = Window.partitionBy(F.col("key")["station"])
     # values with the same full key: if the group's first key has several, Hadoop's first is any
     same_key = Window.partitionBy(
         F.col("key")["station"], F.encode(F.col("key")["startedAt"], "UTF-16BE")
     )
-    whole_group = Window.partitionBy(F.col("key")["station"])
     result = (
-        map_output.withColumn("_place", F.row_number().over(group_order))
+        map_output
+        # each value's place in its reduce() call
+        .withColumn("_place", F.row_number().over(group_order))
         .withColumn("_same_key", F.count(F.lit(1)).over(same_key))
         .withColumn(
             "_first_ties", F.max(F.when(F.col("_place") == 1, F.col("_same_key"))).over(whole_group)
@@ -155,8 +157,8 @@ def build(spark: SparkSession, input_path: str) -> DataFrame:
                 ),
             ).otherwise(F.first("value").over(group_order)),
         )
+        # DepartureBoard.java:80  context.write(new Text(key.getStation() + " after " + latest), earlier);  (written only when the condition holds)
         .where(F.col("_place") > 1)
-        # DepartureBoard.java:80  context.write(new Text(key.getStation() + " after " + latest), earlier);
         .select(
             F.concat(F.col("key")["station"], F.lit(" after "), F.col("first_value")).alias("key"),
             F.col("value").alias("value"),
