@@ -517,7 +517,7 @@ def _secondary_sort(spec: JobSpec, index: ClassIndex, structs: dict, key_t: str,
         try:
             if cls is None:
                 raise Unsupported(None, "its source is not in the repository")
-            info, orders[r] = read_comparator(cls, structs)
+            info, orders[r] = read_comparator(cls, structs, equality_only=r == "grouping_comparator")
             if info.jtype != key_t:
                 raise Unsupported(None, f"it compares {info.cls.name}, not the map output key")
         except Unsupported as u:
@@ -556,7 +556,7 @@ def _reduce_calls(spec: JobSpec, index: ClassIndex, structs: dict, key_t: str, r
         info = structs[key_t]
         order = info.sort_terms(k, spec.origin, key_order)
         cls = index.get(spec.classes.get("grouping_comparator", ""))
-        names = read_comparator(cls, structs)[1] if cls is not None else key_order
+        names = read_comparator(cls, structs, equality_only=True)[1] if cls is not None else key_order
         group = tuple(info.field_of(k, n) for n, _ in names)
     if reduce.first_value and (group is None or len(group) >= len(order)):
         why = "Hadoop gives the values of a key in no defined order (no secondary sort here)" if group is None else \

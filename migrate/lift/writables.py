@@ -22,6 +22,7 @@ from dataclasses import dataclass
 from javalang import tree as T
 
 from migrate.java.index import ClassIndex, ClassInfo, node_lines
+from migrate.lift.raw_comparators import raw_order
 from migrate.lift.exprs import WRITABLE_OF, Scope, Unsupported, lift, widen, writable_creator
 from migrate.plan import Call, Expr, Field, Lit, StructNew
 
@@ -448,13 +449,18 @@ def _side(n, ctx) -> tuple[str, bool] | None:
     return None
 
 
-def read_comparator(cls: ClassInfo, structs: dict) -> tuple[StructInfo, tuple[tuple[str, bool], ...]]:
-    """A WritableComparator subclass over a custom key: the key it compares and its order."""
-    raw = [m for m in cls.methods("compare") if len(m.parameters) == 6]
-    if raw:  # the shuffle calls compare(byte[], int, int, byte[], int, int): the object form is not what runs
-        raise Unsupported(raw[0], f"{cls.name} compares the keys' serialised bytes (compare(byte[], ...)), which is "
-                                  "what Hadoop calls; raw byte comparators are not read",
-                          "express the order with orderBy over the key's fields")
+def read_comparator(cls: ClassInfo, structs: dict, equality_only: bool = False
+                    ) -> tuple[StructInfo, tuple[tuple[str, bool], ...]]:
+    """A comparator over a custom key: the key it compares and its order. A grouping comparator
+    only decides which neighbours are equal (`equality_only`): a raw one may then compare bytes
+    whose order is not the fields' order."""
+    if any(len(m.parameters) == 6 for m in cls.methods("compare")):
+        # the shuffle calls compare(byte[], int, int, byte[], int, int): the object form is not what runs
+        info = _compared_struct(cls, structs)
+        if info is None:
+            raise Unsupported(cls.node, f"{cls.name} compares the serialised bytes of a key the converter did not "
+                                        "read", "express the order with orderBy over the key's fields")
+        return info, raw_order(cls, info.cls, equality_only)
     ms = [m for m in cls.methods("compare") if len(m.parameters) == 2]
     if not ms:
         raise Unsupported(cls.node, f"{cls.name} has no compare(a, b) over deserialised keys (raw byte comparators "
@@ -471,6 +477,18 @@ def read_comparator(cls: ClassInfo, structs: dict) -> tuple[StructInfo, tuple[tu
     return info, order
 
 
+def _compared_struct(cls: ClassInfo, structs: dict) -> StructInfo | None:
+    """The key a raw comparator is for: `super(K.class, ...)`, `implements RawComparator<K>`, or the
+    parameter types of its compare(K, K)."""
+    names = [n.arguments[0].type.name for _, n in cls.node.filter(T.SuperConstructorInvocation)
+             if n.arguments and isinstance(n.arguments[0], T.ClassReference)]
+    for t in getattr(cls.node, "implements", None) or []:
+        names += [a.type.name for a in (t.arguments or []) if getattr(a, "type", None) is not None]
+    names += [p.type.name for m in cls.methods("compare") if len(m.parameters) == 2 for p in m.parameters]
+    found = {id(i): i for i in (structs.get(n.split(".")[-1]) for n in names) if isinstance(i, StructInfo)}
+    return next(iter(found.values())) if len(found) == 1 else None
+
+
 def struct_infos(index: ClassIndex) -> dict[str, StructInfo | Unsupported]:
     """Every custom Writable in the repository, read or with the reason it was not."""
     out: dict[str, StructInfo | Unsupported] = {}
@@ -483,22 +501,42 @@ def struct_infos(index: ClassIndex) -> dict[str, StructInfo | Unsupported]:
                 out[c.fqcn] = u
                 continue
             if c.name in raw:  # WritableComparator.get(key class) returns it: the job's default order
-                out[c.fqcn].no_order = (f"{c.name} registers its own comparator (WritableComparator.define at "
-                                        f"{raw[c.name]}), which Hadoop sorts and groups with instead of "
-                                        "compareTo(); it is not read")
+                _registered_order(out[c.fqcn], *raw[c.name], index)
     return out
 
 
-def _raw_comparators(index: ClassIndex) -> dict[str, str]:
-    """Simple names of the classes some code registers a comparator for, with where it does so."""
+def _registered_order(info: StructInfo, where: str, comparator: str | None, index: ClassIndex) -> None:
+    """The order of a key whose class registers a comparator (WritableComparator.define): that
+    comparator's, read where it can be, else no order with the reason."""
+    found = [c for c in index if c.name == comparator and c.file.path == info.cls.file.path] or \
+        [c for c in index if c.name == comparator]
+    why = "it is not in the repository"
+    if len(found) == 1:
+        try:
+            order = read_comparator(found[0], {info.cls.name: info})[1]
+            missing = [f for f in info.fields if f not in {n for n, _ in order}]
+            if not missing:
+                info.order, info.no_order = order, ""
+                return
+            why = f"it ignores `{missing[0]}`"
+        except Unsupported as u:
+            why = u.reason
+    info.order, info.no_order = (), (f"{info.cls.name} registers its own comparator (WritableComparator.define at "
+                                     f"{where}), which Hadoop sorts and groups with instead of compareTo(): {why}")
+
+
+def _raw_comparators(index: ClassIndex) -> dict[str, tuple[str, str | None]]:
+    """Simple names of the classes some code registers a comparator for: where it does so, and the
+    simple name of the comparator's class (`define(K.class, new C())`), if it is made there."""
     out = {}
     for c in index:
         for _, n in c.node.filter(T.MethodInvocation):
             args = n.arguments or []
-            if n.member == "define" and (n.qualifier or "").endswith("WritableComparator") and args \
+            if n.member == "define" and (n.qualifier or "").endswith("WritableComparator") and len(args) == 2 \
                     and isinstance(args[0], T.ClassReference):
                 line = n.position.line if n.position else node_lines(c.node)[0]
-                out.setdefault(args[0].type.name.split(".")[-1], f"{c.file.path.rsplit('/', 1)[-1]}:{line}")
+                made = args[1].type.name.split(".")[-1] if isinstance(args[1], T.ClassCreator) else None
+                out.setdefault(args[0].type.name.split(".")[-1], (f"{c.file.path.rsplit('/', 1)[-1]}:{line}", made))
     return out
 
 
