@@ -67,6 +67,7 @@ class FoldLifter:
         self.iterator: str | None = None  # `Iterator<V> it = values.iterator();` before the loop
         self.first_taken = False  # `it.next()` before the loop: the group's first value
         self.emits_before_loop = 0  # how many of `emits` reduce() wrote before its loop
+        self.loop_locals: dict[str, str] = {}  # locals declared in the loop body -> Java type
         self.emits: list[Emit] = []  # writes after the loop (or without one)
         self.loop_emits: list[Emit] = []  # writes inside the loop, once per value
         self.lets: list[Let] = []  # locals of the loop body: per-value columns
@@ -373,13 +374,8 @@ class FoldLifter:
                 e = self._expr(d.initializer)
                 t = _DECLARED.get(getattr(st.type, "name", ""), e.jtype)
                 e = widen_at(e, t, self.scope, st) if e.jtype in NUMERIC and t in NUMERIC else e
-                if isinstance(e, (Col, Lit)):
-                    self.scope.env[d.name] = e
-                    continue
-                col = d.name if d.name not in ("key", "value") and d.name not in self.accs else f"{d.name}_v"
-                a, b = node_lines(st)
-                self.lets.append(Let(Span(self.file, a, b), self.cls.file.lines[a - 1].strip() if a else "", col, e))
-                self.scope.env[d.name] = Col(e.jtype, col)
+                self.loop_locals[d.name] = t
+                self._bind_row_local(st, d.name, e)
             return
         emit = self._write(st, guard)
         if emit is not None:
@@ -393,6 +389,9 @@ class FoldLifter:
                 if guard is not None:
                     raise Unsupported(st, "a set filled under a condition")
                 return self._agg(st, e.qualifier, "count_distinct", self._expr(e.arguments[0]))
+            if isinstance(e, T.Assignment) and isinstance(e.expressionl, T.MemberReference) \
+                    and e.expressionl.member in self.loop_locals and not e.expressionl.qualifier:
+                return self._reassign_row_local(st, e, guard)
             if isinstance(e, T.Assignment) and isinstance(e.expressionl, T.MemberReference):
                 return self._assignment(st, e, guard)
         if isinstance(st, T.IfStatement) and st.else_statement is None:
@@ -407,6 +406,39 @@ class FoldLifter:
             return
         raise Unsupported(st, "statement in the loop over values is not a recognised accumulator update",
                           "write the aggregation by hand: groupBy('key').agg(...)")
+
+    def _bind_row_local(self, st, name: str, e: Expr) -> None:
+        """A local of the loop body: a column of the value's row (a Let), or the value itself."""
+        if isinstance(e, (Col, Lit)):
+            self.scope.env[name] = e
+            return
+        col = name if name not in ("key", "value") and name not in self.accs else f"{name}_v"
+        taken = {x.name for x in self.lets}
+        base, n = col, 2
+        while col in taken:  # a local set again in the same iteration: a new column, earlier reads keep theirs
+            col, n = f"{base}_{n}", n + 1
+        a, b = node_lines(st)
+        self.lets.append(Let(Span(self.file, a, b), self.cls.file.lines[a - 1].strip() if a else "", col, e))
+        self.scope.env[name] = Col(e.jtype, col)
+
+    def _reassign_row_local(self, st, e: T.Assignment, guard: Expr | None) -> None:
+        """`x = v` / `x += v` on a local declared in this iteration (a new value for the rest of it)."""
+        name = e.expressionl.member
+        if e.type == "=":
+            new = self._expr(e.value)
+        elif e.type in ("+=", "-=", "*=") and self.loop_locals[name] in ("String", "int", "long", "double"):
+            op = T.BinaryOperation(operator=e.type[0], operandl=T.MemberReference(member=name, qualifier=""),
+                                   operandr=e.value)
+            new = self._expr(op)
+        else:
+            raise Unsupported(st, f"update `{e.type}` of the local `{name}` in the loop over values is not lifted")
+        t = self.loop_locals[name]
+        if new.jtype != t and not (new.jtype in NUMERIC and t in NUMERIC and promote(new.jtype, t) == t):
+            raise Unsupported(st, f"`{name}` ({t}) is given a {new.jtype}")
+        new = widen(new, t) if new.jtype != t else new
+        if guard is not None:
+            new = Cond(t, guard, new, self._expr(e.expressionl))
+        self._bind_row_local(st, name, new)
 
     def _assignment(self, st, e: T.Assignment, guard: Expr | None) -> None:
         name = e.expressionl.member

@@ -126,12 +126,12 @@ def test_identity_loop_is_per_value(tmp_path):
     assert "Emit key -> value" in dump and job.status == "converted"
 
 
-def test_writes_inside_and_after_the_loop_are_declined(tmp_path):
+def test_writes_inside_and_a_figure_after_the_loop_are_declined(tmp_path):
     job, _ = _plan(tmp_path, """
       int n = 0;
       for (IntWritable v : values) { n++; context.write(key, v); }
       context.write(key, new IntWritable(n));""")
-    assert "both inside" in _declined(job).reason
+    assert "a figure of all the values (`n`)" in _declined(job).reason
 
 
 def test_reading_an_accumulator_inside_the_loop_is_declined(tmp_path):
