@@ -444,6 +444,31 @@ def for_has_next(text: str) -> str:
     return re.sub(r"\bwhile \((\w+)\.hasNext\(\)\) \{", r"for (; \1.hasNext(); ) {", text)
 
 
+@_on_tree
+def unused_side_outputs(tree, lines: list[str]) -> None:
+    """A reducer as written vs the same with a MultipleOutputs made in setup() and closed in
+    cleanup() that it never writes to (what is left when side outputs are commented out)."""
+    mos = "org.apache.hadoop.mapreduce.lib.output.MultipleOutputs"
+    edits = []
+    for _, cls in tree.filter(T.ClassDeclaration):
+        ext = cls.extends
+        if ext is None or ext.name != "Reducer" or any(m.name in ("setup", "cleanup") for m in cls.methods) \
+                or not any(m.name == "reduce" for m in cls.methods):
+            continue
+        edits.append(_body_line(lines, cls))
+    for i in sorted(edits, reverse=True):
+        indent = re.match(r"\s*", lines[i + 1])[0] or "    "
+        lines[i + 1:i + 1] = [
+            f"{indent}private {mos} sideFiles;",
+            f"{indent}@Override",
+            f"{indent}protected void setup(Context context) {{ sideFiles = new {mos}(context); }}",
+            f"{indent}@Override",
+            f"{indent}protected void cleanup(Context context) throws java.io.IOException, InterruptedException {{",
+            f"{indent}    sideFiles.close();",
+            f"{indent}    super.cleanup(context);",
+            f"{indent}}}"]
+
+
 def compare_when_equal(text: str) -> str:
     """`if (c != 0) { return c; } return next;` vs `if (c == 0) { c = next; } return c;` in a comparison."""
     return re.sub(r"if \((\w+) != 0\) \{\s*return \1;\s*\}(\s*)return ([^;]+);",
@@ -472,6 +497,8 @@ AXES = (
     Axis("key-text-local", "the Text key written as it came vs its text read into a local first",
          key_text_local),
     Axis("for-has-next", "while (it.hasNext()) vs for (; it.hasNext(); )", for_has_next),
+    Axis("unused-side-outputs", "a reducer vs the same with a MultipleOutputs made and closed, never written",
+         unused_side_outputs),
     Axis("compare-when-equal", "return the first difference vs assign the next comparison when equal",
          compare_when_equal),
 )

@@ -192,3 +192,46 @@ def test_writes_around_the_loop_of_a_secondary_sort_agree_with_hadoop(tmp_path):
 def test_writes_around_the_loop_of_a_plain_key_agree_with_hadoop(tmp_path):
     check = verify_one_job(tmp_path, _source(PER_KEY_LIST), {"rides.txt": DOCKS})
     assert check.verdict == "agrees", f"{check.detail}\n{check.log[-3000:]}"
+
+
+# ---------------------------------------------------------------- side outputs made and closed, never written
+SIDE_OUTPUTS = """
+  public static class R extends Reducer<Text, IntWritable, Text, Text> {
+    private org.apache.hadoop.mapreduce.lib.output.MultipleOutputs<Text, Text> byDay;
+    @Override
+    protected void setup(Context context) throws IOException, InterruptedException {
+      byDay = new org.apache.hadoop.mapreduce.lib.output.MultipleOutputs<>(context);
+      super.setup(context);
+    }
+    protected void reduce(Text key, Iterable<IntWritable> values, Context context)
+        throws IOException, InterruptedException {
+      int total = 0;
+      for (IntWritable v : values) total += v.get();
+      context.write(key, new Text("" + total));
+      // byDay.write(key, new Text("" + total), "days");
+    }
+    @Override
+    protected void cleanup(Context context) throws IOException, InterruptedException {
+      this.byDay.close();
+      super.cleanup(context);
+    }
+  }"""
+
+
+def test_side_outputs_never_written_leave_setup_and_cleanup_empty(tmp_path):
+    (job,) = scan_text(tmp_path, {"Main.java": _source(SIDE_OUTPUTS)}).jobs
+    assert job.status == "converted", [(h.category, h.reason) for h in job.plan.hand_work]
+    assert any("never written to" in n for n in job.notes)
+
+
+def test_side_outputs_that_are_written_stay_hand_work(tmp_path):
+    written = SIDE_OUTPUTS.replace("// byDay.write", "byDay.write")
+    (job,) = scan_text(tmp_path, {"Main.java": _source(written)}).jobs
+    assert job.status != "converted"
+    assert {h.category for h in job.plan.hand_work} & {"task-lifecycle", "reduce-logic"}
+
+
+@pytest.mark.parity
+def test_side_outputs_never_written_agree_with_hadoop(tmp_path):
+    check = verify_one_job(tmp_path, _source(SIDE_OUTPUTS), {"rides.txt": DOCKS})
+    assert check.verdict == "agrees", f"{check.detail}\n{check.log[-3000:]}"
