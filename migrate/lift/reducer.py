@@ -394,15 +394,17 @@ class FoldLifter:
                 return self._reassign_row_local(st, e, guard)
             if isinstance(e, T.Assignment) and isinstance(e.expressionl, T.MemberReference):
                 return self._assignment(st, e, guard)
-        if isinstance(st, T.IfStatement) and st.else_statement is None:
+        if isinstance(st, T.IfStatement):
             body = _block(st.then_statement)
-            if guard is None and self._set_trim(st):
+            if guard is None and st.else_statement is None and self._set_trim(st):
                 return
-            if guard is None and self._compare_and_keep(st, body):
+            if guard is None and st.else_statement is None and self._compare_and_keep(st, body):
                 return
-            c = self._expr(st.condition)
-            for x in body:
-                self._update(x, c if guard is None else BoolOp("boolean", "&&", (guard, c)))
+            c = self._expr(st.condition)  # Spark's & evaluates its right side only where the left holds
+            for branch, cond in ((body, c), (_block(st.else_statement) if st.else_statement is not None else [],
+                                             BoolOp("boolean", "!", (c,)))):
+                for x in branch:
+                    self._update(x, cond if guard is None else BoolOp("boolean", "&&", (guard, cond)))
             return
         raise Unsupported(st, "statement in the loop over values is not a recognised accumulator update",
                           "write the aggregation by hand: groupBy('key').agg(...)")

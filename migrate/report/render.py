@@ -321,7 +321,10 @@ def comparison_of(job) -> str:
         return "keys"  # the original's values depended on how often its combiner ran
     if "output-layout" in cats:
         return "lines"
-    within_key = isinstance(job.plan.reduce, (Join, EachValue, Identity))
+    within_key = isinstance(job.plan.reduce, (Join, Identity)) or \
+        isinstance(job.plan.reduce, EachValue) and _keys_per_call(job.plan.reduce)
+    if isinstance(job.plan.reduce, EachValue) and not within_key:
+        return "lines"  # one call's lines, in no defined order, are written under keys of their own values
     if layout_of(job) == "one file":  # the original's part files, each sorted, are not reproduced
         return "lines" if within_key else "part-files"
     return "within-key" if within_key else "bytes"
@@ -331,6 +334,20 @@ LAYOUT_TEXT = {"reproduced": "reproduced ({n} part files: one file holding them 
                               "--task-files one file per reduce task)",
                "one file": "one file instead of {n} (sorted by key; which key went to which part file is not "
                            "reproduced; the lines and each part file's order are)"}
+
+
+def _keys_per_call(r) -> bool:
+    """Does every written key depend on the reduce key alone (or the call's first value), so that
+    the lines of one reduce() call, in no defined order, share their written key?"""
+    from migrate.plan import Col, walk
+
+    lets = {x.name: x.expr for x in r.lets}
+
+    def per_call(e) -> bool:
+        cols = {c.name for c in walk(e) if isinstance(c, Col)}
+        return all(c in ("key", "first_value") or c in lets and per_call(lets[c]) for c in cols)
+
+    return all(e.key is None or per_call(e.key) for e in r.emits)
 
 
 def layout_of(job) -> str:
