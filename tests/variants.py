@@ -469,6 +469,25 @@ def unused_side_outputs(tree, lines: list[str]) -> None:
             f"{indent}}}"]
 
 
+@_on_tree
+def same_branches(tree, lines: list[str]) -> None:
+    """A reducer's loop over values as written vs the same loop in both branches of an if on the key
+    (`if (key.toString().isEmpty()) { loop } else { loop }`)."""
+    found = []
+    for _, m in _map_methods(tree):
+        loops = [s for s in m.body or [] if isinstance(s, (T.ForStatement, T.WhileStatement)) and s.position]
+        if m.name == "reduce" and len(loops) == 1:
+            found.append((loops[0].position.line - 1, m.parameters[0].name))
+    for start, key in sorted(found, reverse=True):  # from the end: earlier lines keep their numbers
+        if not lines[start].rstrip().endswith("{"):
+            continue  # a loop without braces
+        stop = _method_end(lines, start + 1) - 1  # the line closing the loop's braces
+        loop = lines[start:stop + 1]
+        indent = re.match(r"\s*", loop[0])[0]
+        lines[start:stop + 1] = [f"{indent}if ({key}.toString().isEmpty()) {{", *loop, f"{indent}}} else {{", *loop,
+                                 f"{indent}}}"]
+
+
 def compare_when_equal(text: str) -> str:
     """`if (c != 0) { return c; } return next;` vs `if (c == 0) { c = next; } return c;` in a comparison."""
     return re.sub(r"if \((\w+) != 0\) \{\s*return \1;\s*\}(\s*)return ([^;]+);",
@@ -499,6 +518,7 @@ AXES = (
     Axis("for-has-next", "while (it.hasNext()) vs for (; it.hasNext(); )", for_has_next),
     Axis("unused-side-outputs", "a reducer vs the same with a MultipleOutputs made and closed, never written",
          unused_side_outputs),
+    Axis("same-branches", "a reducer's loop vs the same loop in both branches of an if on the key", same_branches),
     Axis("compare-when-equal", "return the first difference vs assign the next comparison when equal",
          compare_when_equal),
 )

@@ -603,3 +603,22 @@ def test_date_formats_in_zones_the_script_cannot_run_in_are_declined(tmp_path, f
 def test_a_break_the_converter_cannot_test_per_element_is_declined(tmp_path, body, why):
     job = _job(tmp_path, body)
     assert any(why in r for r in _reasons(job)), _reasons(job)
+
+
+@pytest.mark.parametrize("cond, merged", [
+    ('value.toString().startsWith("x")', True),
+    ('key.get() > 3 && value.toString().isEmpty()', True),
+    ('f[3].equals("x")', False),  # may throw where Java indexes past the end
+    ('value.toString().length() / 0 > 1', False),  # divides
+    ('value.toString().charAt(0) == \'x\'', False),  # charAt throws on an empty line
+])
+def test_an_if_with_the_same_branches_is_merged_only_when_its_test_cannot_throw(tmp_path, cond, merged):
+    job = _job(tmp_path, f"""
+      String[] f = value.toString().split(",");
+      if ({cond}) {{
+        context.write(new Text(f[0]), new IntWritable(1));
+      }} else {{
+        context.write(new Text(f[0]), new IntWritable(1));
+      }}""")
+    notes = [n for n in job.plan.notes if "branches are the same" in n]
+    assert bool(notes) == merged, (notes, _reasons(job))

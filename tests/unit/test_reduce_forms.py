@@ -268,3 +268,32 @@ def test_if_else_in_the_loop_and_keys_made_from_values_compare_as_lines(tmp_path
 def test_if_else_in_the_loop_agrees_with_hadoop(tmp_path):
     check = verify_one_job(tmp_path, _source(IF_ELSE), {"rides.txt": DOCKS})
     assert check.verdict == "agrees", f"{check.detail}\n{check.log[-3000:]}"
+
+
+# ---------------------------------------------------------------- the same statements in both branches
+SAME_BRANCHES = KEY_LOCALS.replace("""      for (IntWritable v : values) {
+        total += v.get();
+      }""", """      if (key.equals("Quay North 2024-05-01")) {  // a Text never equals a String; both branches agree anyway
+        for (IntWritable v : values) {
+          total += v.get();
+        }
+      } else {
+        for (IntWritable v : values) {
+          total += v.get();
+        }
+      }""")
+
+
+def test_an_if_with_the_same_branches_is_its_branch(tmp_path):
+    (job,) = scan_text(tmp_path, {"Main.java": _source(SAME_BRANCHES)}).jobs
+    assert job.status == "converted", [(h.category, h.reason) for h in job.plan.hand_work]
+    differ = SAME_BRANCHES.replace("} else {\n        for (IntWritable v : values) {\n          total += v.get();",
+                                   "} else {\n        for (IntWritable v : values) {\n          total += 2 * v.get();")
+    (job,) = scan_text(tmp_path / "d", {"Main.java": _source(differ)}).jobs
+    assert job.status != "converted"  # the test matters then, and Text.equals(String) is declined
+
+
+@pytest.mark.parity
+def test_the_same_branches_agree_with_hadoop(tmp_path):
+    check = verify_one_job(tmp_path, _source(SAME_BRANCHES), {"rides.txt": DOCKS})
+    assert check.verdict == "agrees", f"{check.detail}\n{check.log[-3000:]}"
