@@ -631,10 +631,11 @@ def _layout_only(spec: JobSpec, index: ClassIndex, key_t: str, reduce: Step) -> 
     over tasks). A reducer with state kept across calls is not lifted, so it cannot get here. A
     custom partitioner that was not read is not proved to give a task in 0..N-1 for every key."""
     fq = spec.classes.get("partitioner")
-    if fq is not None and not fq.endswith(".HashPartitioner") or "grouping_comparator" in spec.classes:
+    custom = fq is not None and not fq.endswith(".HashPartitioner")
+    if custom or "grouping_comparator" in spec.classes or isinstance(reduce, TopN):
         return False
-    if isinstance(reduce, (Identity, TopN)) or not is_struct(key_t):
-        return not isinstance(reduce, TopN)
+    if isinstance(reduce, Identity) or not is_struct(key_t):  # every pair is written, wherever it went
+        return True
     key_cls = index.get(key_t[len("struct:"):])
     return key_cls is not None and any(not m.parameters for m in key_cls.methods("hashCode"))
 

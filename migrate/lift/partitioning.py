@@ -112,10 +112,16 @@ def _fold(e: Expr) -> Expr:
         return e.then if e.cond.value else e.other
     if isinstance(e, BoolOp) and e.op in ("&&", "||"):
         unit = e.op == "&&"  # true && x is x; false || x is x
-        args = tuple(a for a in e.args if not (isinstance(a, Lit) and a.value is unit))
-        if any(isinstance(a, Lit) and a.value is (not unit) for a in args):
-            return Lit("boolean", not unit)
-        return Lit("boolean", unit) if not args else args[0] if len(args) == 1 else replace(e, args=args)
+        kept = []
+        for a in e.args:
+            if isinstance(a, Lit) and a.value is unit:
+                continue
+            kept.append(a)
+            if isinstance(a, Lit):  # it decides: what follows never runs (what comes before still does)
+                break
+        if len(kept) == 1 or not kept:
+            return kept[0] if kept else Lit("boolean", unit)
+        return replace(e, args=tuple(kept))
     return e
 
 
