@@ -713,11 +713,37 @@ def _text_method(text: Expr, node: T.MethodInvocation, scope: Scope) -> Expr:
         return Call("int", "utf8_length", (text,))
     if m == "hashCode" and not args:  # WritableComparator.hashBytes over the UTF-8 bytes, not String.hashCode
         return Call("int", "text_hash", (text,))
+    if m == "equals" and len(args) == 1:
+        return _text_equals(text, node, args[0], scope)
     why = {"equals": "Text.equals is true only for another Text (a String argument is never equal)",
            "charAt": "Text.charAt takes a byte position and gives a code point",
            "getBytes": "Text.getBytes gives the backing array, which can be longer than getLength()",
            "find": "Text.find gives a byte position"}.get(m, "Text is not a String")
     raise Unsupported(node, f"Text.{m}(...) is not lifted: {why}", "call toString() first if the String method is meant")
+
+
+def _text_equals(text: Expr, node: T.MethodInvocation, arg, scope: Scope) -> Expr:
+    """Text.equals(o) is true only when o is a Text with the same bytes (org.apache.hadoop.io.Text,
+    BinaryComparable.equals): another Text compares as text; a String literal is never equal, which
+    the original did for every record, so the script does too and says so."""
+    from migrate.java.index import node_lines
+    from migrate.plan import Finding
+
+    name = arg.member if isinstance(arg, T.MemberReference) and not arg.qualifier and not arg.selectors else None
+    other = scope.env.get(name) if name else None
+    if name and (name in scope.texts or isinstance(other, Writable) and other.kind == "Text"):
+        return Compare("boolean", "==", text, _binding_value(other, node, name))
+    if isinstance(arg, T.Literal) and arg.value.startswith('"'):
+        line = node_lines(node)[0]
+        scope.findings.append(Finding(
+            "text-equals-string", Span(scope.file, line, line),
+            f"a Text is compared with the String {arg.value} by equals(): Text.equals is true only for another Text, "
+            "so the test is false for every record in the original; so it is in the script",
+            f"if the job meant to compare text, call toString() first: .toString().equals({arg.value}); that changes "
+            "the output"))
+        return Lit("boolean", False)
+    raise Unsupported(node, "Text.equals(...) of something other than a Text or a String literal is not lifted: "
+                            "Text.equals is true only for another Text", "call toString() first if text is meant")
 
 
 def _method(recv: Expr, node: T.MethodInvocation, scope: Scope) -> Expr:

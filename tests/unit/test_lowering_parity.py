@@ -17,6 +17,12 @@ CASES = {
       Text trimmed = new Text(value.toString().trim());
       context.write(new Text("line " + value.hashCode()), new IntWritable(trimmed.hashCode()));
       context.write(new Text("string " + value.toString().hashCode()), new IntWritable(value.getLength()));""", ""),
+    # Text.equals is true only for another Text: against a String literal it is never true (Text javadoc)
+    "text_equals": ("""
+      Text q = new Text("q");
+      if (value.equals("q")) context.write(new Text("never"), new IntWritable(1));
+      if (value.equals(q)) context.write(new Text("text q"), new IntWritable(2));
+      if (value.toString().equals("q")) context.write(new Text("string q"), new IntWritable(3));""", ""),
     "chars_of_a_word": ("""
       String[] words = value.toString().split(" ");
       for (int i = 0; i < words.length; i++) {

@@ -102,3 +102,13 @@ def test_hadoop_and_the_script_agree_on_a_reference_comparison(tmp_path):
     (tmp_path / "runs.json").write_text(json.dumps({"runs": [{"driver": "Main", "args": ["data", "@out"]}]}))
     (check,), _ = verify(tmp_path / "out", load_runs(tmp_path / "runs.json"), timeout=120)
     assert check.verdict == "agrees", f"{check.detail}\n{check.log}"
+
+
+def test_text_equals_a_string_literal_is_false_for_every_record_and_a_finding(tmp_path):
+    """org.apache.hadoop.io.Text.equals(Object) is true only for a Text (Hadoop API docs)."""
+    scan = scan_text(tmp_path, {"Main.java": job_source(
+        'if (value.equals("q")) context.write(new Text("never"), new IntWritable(1));', reducer_class=None)})
+    (job,) = scan.jobs
+    assert job.status == "converted", job.plan.hand_work
+    (f,) = [f for f in job.plan.findings if f.category == "text-equals-string"]
+    assert "false for every record" in f.message
