@@ -1012,6 +1012,17 @@ def _typed(x: ExprWriter, e: Expr | None, t: str | None) -> str:
     return code if e.jtype == t or t is None else f'{code}.cast("{SPARK_TYPES[t]}")'
 
 
+def _script_names_of(writers: list[ExprWriter], attr: str, what: str) -> dict:
+    """The top-level names the stages' writers gave (regex constants, partitioner functions), merged:
+    one name, one meaning."""
+    merged: dict = {}
+    for w in writers:
+        for k, v in getattr(w, attr).items():
+            if merged.setdefault(k, v) != v:
+                raise TypeError(f"two {what} named {k} in one script")
+    return merged
+
+
 def render_script(plan: Plan, header: dict, hand_work: list[HandWork]) -> str:
     """The whole script, formatted by black."""
     x = ExprWriter()
@@ -1023,16 +1034,8 @@ def render_script(plan: Plan, header: dict, hand_work: list[HandWork]) -> str:
     writers = [x, *(st["x"] for st in stages)]
     used = set().union(*(w.helpers for w in writers))
     helpers = helper_source(used) if used else ""
-    regexes: dict[str, str] = {}
-    for w in writers:
-        for k, v in w.regexes.items():
-            if regexes.setdefault(k, v) != v:
-                raise TypeError(f"two regexes named {k} in one script")
-    task_rules: dict[str, tuple[str, str]] = {}
-    for w in writers:
-        for k, v in w.task_rules.items():
-            if task_rules.setdefault(k, v) != v:
-                raise TypeError(f"two partitioner functions named {k} in one script")
+    regexes = _script_names_of(writers, "regexes", "regexes")
+    task_rules = _script_names_of(writers, "task_rules", "partitioner functions")
     positional = sorted([p for p in plan.params if p.position is not None], key=lambda p: p.position)
     slots = []
     for i in range(max([p.position for p in positional], default=-1) + 1):
