@@ -107,6 +107,21 @@ def _script_names() -> frozenset[str]:
     return frozenset(defined | {"F", "Column", "DataFrame", "SparkSession", "Window", "Observation", "re", "sys"})
 
 
+def _snake(name: str) -> str:
+    """camelCase / CamelCase -> snake_Case (the caller picks the letter case)."""
+    return re.sub(r"(?<=[a-z0-9])(?=[A-Z])", "_", name)
+
+
+def _claim(table: dict, name: str, value) -> str:
+    """A top-level name of the script for `value`: `name`, or `name_2`, `name_3`, ... where another
+    value has it already; the same value keeps its name."""
+    base, i = name, 2
+    while table.get(name, value) != value:
+        name, i = f"{base}_{i}", i + 1
+    table[name] = value
+    return name
+
+
 class ExprWriter:
     """Spells plan expressions as Column code and remembers which helpers they need."""
 
@@ -133,29 +148,20 @@ class ExprWriter:
         """A custom partitioner as a function of the script that gives each row's reduce task."""
         self.helpers.add("checked_partition")
         task, n, cls = e.args
-        name = "task_of_" + re.sub(r"(?<=[a-z0-9])(?=[A-Z])", "_", cls.value).lower()
         doc = (f"The reduce task (part file) of each row's `key`, as {cls.value}.getPartition() "
                f"({_where(e.origin)}) computes it; a task outside 0..{n.value - 1} fails the job, as in Hadoop.")
         code = f"checked_partition({self(task)}, {n.value})"
-        base, i = name, 2
-        while self.task_rules.get(name, (doc, code))[1] != code:
-            name, i = f"{base}_{i}", i + 1
-        self.task_rules[name] = (doc, code)
-        return f"{name}()"
+        return _claim(self.task_rules, "task_of_" + _snake(cls.value).lower(), (doc, code)) + "()"
 
     def regex(self, lit: Lit) -> str:
         """A regex as code: a named constant of the script where the Java Pattern had a name."""
         name = getattr(lit, "name", "")
         if not name:
             return repr(lit.value)
-        name = re.sub(r"(?<=[a-z0-9])(?=[A-Z])", "_", name).upper()
+        name = _snake(name).upper()
         if name in _reserved_names():
             name += "_REGEX"
-        base, i = name, 2
-        while self.regexes.get(name, lit.value) != lit.value:
-            name, i = f"{base}_{i}", i + 1
-        self.regexes[name] = lit.value
-        return name
+        return _claim(self.regexes, name, lit.value)
 
     def visit_Col(self, e: Col) -> str:
         if e.name in self.bound:

@@ -243,9 +243,9 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
                 add("partitioner", at("setPartitionerClass"), f"custom partitioner {name} is not converted",
                     "only the split into part files changes; repartition by the same rule if readers depend on it",
                     "P2", _sloc_of(index, spec.classes["partitioner"]))
-        key_order = _secondary_sort(spec, index, structs, map_key_t, reduce, add, at)
+        key_order, key_group = _secondary_sort(spec, index, structs, map_key_t, reduce, add, at) or (None, None)
         if isinstance(reduce, EachValue) and (reduce.first_value or reduce.before or reduce.after):
-            reduce = _reduce_calls(spec, index, structs, map_key_t, reduce, key_order, add)
+            reduce = _reduce_calls(spec, structs, map_key_t, reduce, key_order, key_group, add)
         if key_order is not None:
             shapes.append("secondary sort")
             notes.append("the values reach reduce() in the sort comparator's order; the script sorts its output by "
@@ -496,7 +496,8 @@ _COMPARATOR_CALLS = {"sort_comparator": ("setSortComparatorClass", "setOutputKey
 
 def _secondary_sort(spec: JobSpec, index: ClassIndex, structs: dict, key_t: str, reduce: Step | None, add, at):
     """Sort and grouping comparators over a custom key (secondary sort): the order of the reduce
-    input, or hand work saying why it was not read. Returns the sort order, or None for compareTo's."""
+    input, or hand work saying why it was not read. Returns the sort order and the grouping
+    comparator's fields (the sort's where there is none), or None for compareTo's."""
     roles = [r for r in ("sort_comparator", "grouping_comparator") if r in spec.classes]
     if not roles:
         return None
@@ -541,10 +542,10 @@ def _secondary_sort(spec: JobSpec, index: ClassIndex, structs: dict, key_t: str,
                            "which values come first follows the sort order; only reducers that write inside their "
                            "loop over values are converted")
         return None
-    return sort
+    return sort, group
 
 
-def _reduce_calls(spec: JobSpec, index: ClassIndex, structs: dict, key_t: str, reduce: EachValue, key_order,
+def _reduce_calls(spec: JobSpec, structs: dict, key_t: str, reduce: EachValue, key_order, key_group,
                   add) -> EachValue:
     """Which rows make one reduce() call (`group`) and their order in it (`order`), for a reducer
     that writes before or after its loop, or takes the first value before it. The first value is
@@ -555,9 +556,7 @@ def _reduce_calls(spec: JobSpec, index: ClassIndex, structs: dict, key_t: str, r
     if key_order is not None:
         info = structs[key_t]
         order = info.sort_terms(k, spec.origin, key_order)
-        cls = index.get(spec.classes.get("grouping_comparator", ""))
-        names = read_comparator(cls, structs, equality_only=True)[1] if cls is not None else key_order
-        group = tuple(info.field_of(k, n) for n, _ in names)
+        group = tuple(info.field_of(k, n) for n, _ in key_group)
     if reduce.first_value and (group is None or len(group) >= len(order)):
         why = "Hadoop gives the values of a key in no defined order (no secondary sort here)" if group is None else \
             "the values of one call share one key (the grouping compares every field the sort does)"

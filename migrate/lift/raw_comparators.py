@@ -21,6 +21,8 @@ Anything else in write(), or another body in compare(), is declined by name.
 """
 from __future__ import annotations
 
+import operator
+
 from javalang import tree as T
 
 from migrate.java.index import ClassInfo
@@ -29,6 +31,7 @@ from migrate.lift.exprs import Unsupported
 _WIDTHS = {"writeInt": 4, "writeLong": 8, "writeBoolean": 1, "writeUTF": None}
 _MIN = {"writeInt": "Integer", "writeLong": "Long"}
 _WRITABLE_WIDTHS = {"IntWritable": 4, "LongWritable": 8, "Text": None}
+_OPS = {"+": operator.add, "-": operator.sub, "*": operator.mul, "/": operator.floordiv}
 _SIZES = {("Integer", "SIZE"): 32, ("Long", "SIZE"): 64, ("Integer", "BYTES"): 4, ("Long", "BYTES"): 8}
 
 
@@ -125,5 +128,5 @@ def _constant(e) -> int | None:
         a, b = _constant(e.operandl), _constant(e.operandr)
         if a is None or b is None or (e.operator == "/" and (b == 0 or a % b)):
             return None
-        return {"+": a + b, "-": a - b, "*": a * b, "/": a // b if b else 0}[e.operator]
+        return _OPS[e.operator](a, b)
     return None

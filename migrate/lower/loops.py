@@ -11,7 +11,8 @@ import copy
 
 from javalang import tree as T
 
-from migrate.lower.walk import assigned_names, line_of, mentions, name_ref, positioned, replace_nodes, statement_lists
+from migrate.lower.walk import (assigned_names, line_of, mentions, name_ref, positioned, qualified, replace_nodes,
+                               statement_lists)
 
 
 def counting_loops(cls, index=None) -> list[tuple[int, str]]:
@@ -280,7 +281,7 @@ def _iterator_loop(stmts: list, k: int, method, cls):
     decl = stmts[k]
     if not isinstance(decl, T.LocalVariableDeclaration) or len(decl.declarators) != 1:
         return None
-    name, args = _qualified(decl.type)
+    name, args = qualified(decl.type)
     if name not in ("Iterator", "java.util.Iterator") or len(args) != 1 or args[0].pattern_type is not None \
             or args[0].type is None:
         return None
@@ -329,16 +330,6 @@ def _iterator_loop(stmts: list, k: int, method, cls):
     control = positioned(T.EnhancedForControl(var=loop_var, iterable=iterable), loop)
     new_body = positioned(T.BlockStatement(label=None, statements=rest), loop.body)
     return j, positioned(T.ForStatement(label=loop.label, control=control, body=new_body), loop)
-
-
-def _qualified(t) -> tuple[str, list]:
-    """A reference type's dotted name and the type arguments of its last part (`java.util.Iterator<T>`
-    is a chain of sub_types in javalang)."""
-    parts = []
-    while t is not None and isinstance(t, T.ReferenceType):
-        parts.append(t.name)
-        last, t = t, t.sub_type
-    return (".".join(parts), list(last.arguments or [])) if parts else ("", [])
 
 
 def _iterated(init):

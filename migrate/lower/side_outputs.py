@@ -7,7 +7,7 @@ from __future__ import annotations
 
 from javalang import tree as T
 
-from migrate.lower.walk import line_of, statement_lists
+from migrate.lower.walk import line_of, qualified, statement_lists
 
 
 def unused_side_outputs(cls, index=None) -> list[tuple[int, str]]:
@@ -42,10 +42,8 @@ def _makes_or_closes(s, name: str) -> bool:
 
 
 def _simple_name(t) -> str:
-    """`MultipleOutputs`, also when written qualified (javalang nests `a.b.C` as sub-types)."""
-    while getattr(t, "sub_type", None) is not None:
-        t = t.sub_type
-    return getattr(t, "name", "").split(".")[-1]
+    """`MultipleOutputs`, also when written qualified (`org.apache...MultipleOutputs`)."""
+    return qualified(t)[0].rsplit(".", 1)[-1]
 
 
 def _is_field(n, name: str) -> bool:

@@ -112,3 +112,13 @@ def assigned_names(node) -> set[str]:
         elif isinstance(target, T.This) and target.selectors:
             out.add(getattr(target.selectors[0], "member", None))
     return out - {None}
+
+
+def qualified(t) -> tuple[str, list]:
+    """A reference type's dotted name and the type arguments of its last part (`java.util.Iterator<T>`
+    is a chain of sub_types in javalang)."""
+    parts = []
+    while t is not None and isinstance(t, T.ReferenceType):
+        parts.append(t.name)
+        last, t = t, t.sub_type
+    return (".".join(parts), list(last.arguments or [])) if parts else ("", [])
