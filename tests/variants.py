@@ -494,6 +494,14 @@ def compare_when_equal(text: str) -> str:
                   lambda m: f"if ({m[1]} == 0) {{{m[2]}    {m[1]} = {m[3]};{m[2]}}}{m[2]}return {m[1]};", text)
 
 
+def compare_relations(text: str) -> str:
+    """`return Integer.compare(a, b);` vs `if (a < b) { return -1; } return (a == b ? 0 : 1);` (int and long
+    fields only, where `==` compares numbers)."""
+    arg = r"[\w.]+(?:\(\))?"
+    return re.sub(rf"return (?:Integer|Long)\.compare\(({arg}), ({arg})\);",
+                  lambda m: f"if ({m[1]} < {m[2]}) {{ return -1; }} return ({m[1]} == {m[2]} ? 0 : 1);", text)
+
+
 AXES = (
     Axis("catch-logs", "empty catch vs logging then skipping", catch_logs),
     Axis("field-scratch", "array local vs scratch field", field_scratch),
@@ -521,6 +529,7 @@ AXES = (
     Axis("same-branches", "a reducer's loop vs the same loop in both branches of an if on the key", same_branches),
     Axis("compare-when-equal", "return the first difference vs assign the next comparison when equal",
          compare_when_equal),
+    Axis("compare-relations", "Integer.compare(a, b) vs a < b / a == b tests returning -1, 0, 1", compare_relations),
 )
 
 

@@ -89,8 +89,8 @@ def _pipeline(group: list[JobResult]) -> JobResult:
         shapes += [f"job {k}: {s}" for s in p.shapes]
         for role, fq in job.classes.items():
             classes[role if role == "driver" else f"job {k} {role}"] = fq
-            if role in job.files:
-                files[role if role == "driver" else f"job {k} {role}"] = job.files[role]
+        for role, span in job.files.items():
+            files[role if role == "driver" else f"job {k} {role}"] = span
         for param in p.params:
             if k > 1 and param.name in p.source.params:  # the previous job's lines, not a path
                 continue

@@ -125,6 +125,10 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
     map_val_fq = spec.types.get("map_value", spec.types.get("out_value", "org.apache.hadoop.io.Text"))
     structs = structs_of(index)
     map_key_t, map_val_t = _jtype(map_key_fq, structs), _jtype(map_val_fq, structs)
+    for what, fq in (("map output key", map_key_fq), ("map output value", map_val_fq),
+                     ("output key", spec.types.get("out_key")), ("output value", spec.types.get("out_value"))):
+        if index.get(fq) is not None:  # a repository class: its compareTo/toString are part of the job
+            files.setdefault(what, index.get(fq).span)
     for what, fq, t in (("map output key", map_key_fq, map_key_t), ("map output value", map_val_fq, map_val_t)):
         if t == "?":
             why = structs.get(fq)
@@ -182,7 +186,8 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
     else:
         rcls = index.get(reducer_fq)
         if rcls is not None and "reducer" in rcls.roles:
-            reduce = _lift_reducer(rcls, map_key_t, map_val_t, hand, index, findings, spec.reduces)
+            reduce = _lift_reducer(rcls, map_key_t, map_val_t, hand, index, findings, spec.reduces,
+                                   sorted_values=bool(_SECONDARY_SORT_ROLES & spec.classes.keys()))
             if isinstance(reduce, Join):
                 shapes.append(_join_shape(reduce))
                 notes.append("a join writes the combinations of one key's values in the order they reached reduce(), "
@@ -492,6 +497,9 @@ def _struct_output_text(steps: list[Step], reduce: Step | None, structs: dict, a
 
 _COMPARATOR_CALLS = {"sort_comparator": ("setSortComparatorClass", "setOutputKeyComparatorClass"),
                      "grouping_comparator": ("setGroupingComparatorClass", "setOutputValueGroupingComparator")}
+
+
+_SECONDARY_SORT_ROLES = {"sort_comparator", "grouping_comparator"}
 
 
 def _secondary_sort(spec: JobSpec, index: ClassIndex, structs: dict, key_t: str, reduce: Step | None, add, at):
@@ -831,7 +839,7 @@ def not_an_override(cls: ClassInfo, m, base: str) -> str | None:
 
 
 def _lift_reducer(rcls: ClassInfo, key_t: str, val_t: str, hand: list[HandWork], index: ClassIndex,
-                  findings: list[Finding], reduces: int) -> Step | None:
+                  findings: list[Finding], reduces: int, sorted_values: bool = False) -> Step | None:
     owner, m = _find_method(rcls, index, "reduce", (3, 4))
     if m is None:
         return Identity(rcls.span, "reducer without reduce(): identity")
@@ -860,7 +868,7 @@ def _lift_reducer(rcls: ClassInfo, key_t: str, val_t: str, hand: list[HandWork],
     if top is not None:
         findings.extend(top_n_findings(top, top.fold.emits[0].origin, reduces))
         return top
-    fold = FoldLifter(owner, m, key_t, val_t, index)
+    fold = FoldLifter(owner, m, key_t, val_t, index, sorted_values=sorted_values)
     group, items = fold.run()
     if group is not None:
         findings.extend(f for f in dict.fromkeys(fold.scope.findings) if f not in findings)

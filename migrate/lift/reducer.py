@@ -35,8 +35,9 @@ class FoldLifter:
     """Turns one reduce() method into a Group or EachValue step (or hand work)."""
 
     def __init__(self, cls: ClassInfo, method: T.MethodDeclaration, key_type: str, value_type: str, index=None,
-                 collector=None):
+                 collector=None, sorted_values: bool = False):
         self.cls, self.method = cls, method
+        self.sorted_values = sorted_values  # the driver sets a sort or grouping comparator (secondary sort)
         self.collector = collector  # a rule for statements filling a field across keys (lift.topn)
         self.file = cls.file.path
         self.key_type, self.value_type = key_type, value_type
@@ -175,6 +176,11 @@ class FoldLifter:
                 if tname in _SETS and isinstance(d.initializer, T.ClassCreator) and not self.seen_loop:
                     self._declare_set(s, d)
                     continue
+                if tname in _IN_ARRIVAL_ORDER and self.sorted_values:
+                    raise Unsupported(s, f"`{d.name}` ({tname}) gathers the values in the order the job's sort "
+                                         "comparator gives them; a collection built in sort order is not converted "
+                                         "yet", "F.collect_list(F.struct(sort fields..., value)), F.array_sort, then "
+                                         "F.transform to the value", category="value-order")
                 if tname in _IN_ARRIVAL_ORDER:
                     raise Unsupported(s, f"`{d.name}` ({tname}) gathers the values in the order they reach reduce(), "
                                          "which Hadoop does not define without a secondary sort, so the original's "
@@ -462,6 +468,11 @@ class FoldLifter:
                 other = b if _is_ref(a, name) else a if _is_ref(b, name) else None
                 if other is not None:
                     return self._agg(st, name, v.member, self._expr(other))
+            if not any(_is_ref(n, name) for _, n in v) and self.sorted_values:
+                raise Unsupported(st, f"`{name}` keeps the last value assigned in the loop: the group's last value in "
+                                      "the order of the job's sort comparator; a last value in sort order is not "
+                                      "converted yet", "F.max_by(value, F.struct(sort fields...))",
+                                  category="value-order")
             if not any(_is_ref(n, name) for _, n in v):
                 raise Unsupported(st, f"`{name}` keeps the last value assigned in the loop; Hadoop gives the values "
                                       "of a key in no defined order (no secondary sort here), so the original "

@@ -284,7 +284,8 @@ def _compare_order(cls: ClassInfo, typed: dict[str, str]) -> tuple[tuple[str, bo
     if not ms:
         raise Unsupported(cls.node, f"{cls.name} has no compareTo(): it cannot be a key")
     m = ms[0]
-    order = compare_chain(list(m.body or []), "this", m.parameters[0].name, typed, _getters(cls, typed), cls.name, m)
+    order = compare_chain(list(m.body or []), "this", m.parameters[0].name, typed, _getters(cls, typed), cls.name, m,
+                          _primitive_fields(cls))
     skipped = [f for f in typed if f not in {n for n, _ in order}]
     if skipped:
         raise Unsupported(m, f"{cls.name}.compareTo ignores `{skipped[0]}`: Hadoop would group keys that differ "
@@ -311,19 +312,44 @@ def _getters(cls: ClassInfo, typed: dict[str, str]) -> dict[str, str]:
     return out
 
 
+def _primitive_fields(cls: ClassInfo) -> set[str]:
+    """Fields declared `int` or `long`: `<` and `==` on them compare numbers (on a boxed Integer
+    or a Writable `==` compares references)."""
+    return {d.name for f in cls.fields() if getattr(f.type, "name", "") in ("int", "long")
+            and not getattr(f.type, "dimensions", None) for d in f.declarators}
+
+
 def compare_chain(body: list, left: str, right: str, typed: dict[str, str], getters: dict[str, str], owner: str,
-                  where) -> tuple[tuple[str, bool], ...]:
+                  where, primitive: set[str] = frozenset()) -> tuple[tuple[str, bool], ...]:
     """A comparison method's body as (field, ascending) terms, most significant first.
 
     `left`/`right` name the two objects compared ("this" for compareTo). Locals of the same
-    class cast from the parameters (`Slot x = (Slot) a;`) stand for them.
+    class cast from the parameters (`Slot x = (Slot) a;`) stand for them. A `primitive` field may
+    also be compared with relations: `a < b ? -1 : (a == b ? 0 : 1)`, or `if (a < b) return -1;
+    if (a > b) return 1;` before the next field's comparison.
     """
     alias = {left: left, right: right}
     order: list[tuple[str, bool]] = []
     pending: dict[str, tuple[str, bool]] = {}
-    ctx = (alias, typed, getters, owner, left)
+    ctx = (alias, typed, getters, owner, left, primitive)
+    skip = 0
     for i, s in enumerate(body):
+        if skip:
+            skip -= 1
+            continue
         last = i == len(body) - 1
+        run = _relation_returns(body[i:], ctx)
+        if run is not None:  # `if (a.f < b.f) return -1; if (a.f > b.f) return 1;` [`return 0;`]
+            term, used, ends = run
+            order.append(term)
+            skip = used - 1
+            if ends:
+                if i + used != len(body):
+                    raise Unsupported(body[i + used], f"{owner}'s comparison has statements after its last return")
+                break
+            continue
+        if order and last and _int_literal(_return_expr(s)) == 0:
+            break  # `return 0;` after the last field: equal keys
         if isinstance(s, T.LocalVariableDeclaration) and len(s.declarators) == 1:
             d = s.declarators[0]
             init = d.initializer
@@ -393,7 +419,9 @@ def _is_nonzero_test(c, pending) -> bool:
 
 def _term(e, ctx) -> tuple[str, bool]:
     """One comparison of a field of the left object with the same field of the right: (field, ascending)."""
-    alias, typed, getters, owner, _ = ctx
+    alias, typed, getters, owner = ctx[:4]
+    if isinstance(e, T.TernaryExpression):
+        return _three_way(e, ctx)
     negated = "-" in (getattr(e, "prefix_operators", None) or [])
     if isinstance(e, T.BinaryOperation) and e.operator == "-":
         raise Unsupported(e, f"{owner} subtracts fields to compare them: that overflows for large values, so its "
@@ -425,9 +453,125 @@ def _term(e, ctx) -> tuple[str, bool]:
     return name, is_left != negated
 
 
+# A relation's truth when the left object's field is less than, equal to, greater than the right's.
+_HOLDS = {"<": (True, False, False), "<=": (True, True, False), ">": (False, False, True),
+          ">=": (False, True, True), "==": (False, True, False), "!=": (True, False, True)}
+_MIRROR = {"<": ">", ">": "<", "<=": ">=", ">=": "<=", "==": "==", "!=": "!="}
+
+
+def _relation(c, ctx) -> tuple[str, tuple[bool, bool, bool]] | None:
+    """`x.f < y.f` (any relation, either object first) over a primitive field: (f, truth in the
+    three cases), else None."""
+    if not (isinstance(c, T.BinaryOperation) and c.operator in _HOLDS) or getattr(c, "prefix_operators", None):
+        return None
+    a, b = _side(c.operandl, ctx), _side(c.operandr, ctx)
+    if a is None or b is None or a[0] != b[0] or a[1] == b[1] or a[0] not in ctx[5]:
+        return None
+    return a[0], _HOLDS[c.operator if a[1] else _MIRROR[c.operator]]
+
+
+def _int_literal(e) -> int | None:
+    if not isinstance(e, T.Literal) or e.selectors or set(e.prefix_operators or []) - {"-", "+"}:
+        return None
+    try:
+        v = int(e.value.rstrip("lL"))
+    except ValueError:
+        return None
+    return -v if (e.prefix_operators or []).count("-") % 2 else v
+
+
+def _as_term(owner: str, field: str, signs: tuple, where) -> tuple[str, bool]:
+    """(field, ascending) from the sign returned when the left field is less, equal, greater."""
+    if signs == (-1, 0, 1):
+        return field, True
+    if signs == (1, 0, -1):
+        return field, False
+    raise Unsupported(where, f"{owner}'s comparison of `{field}` is not an order (it returns {signs} for less, "
+                             "equal, greater)")
+
+
+def _case_value(n, case: int, ctx, fields: set[str]) -> int | None:
+    """The int a conditional expression of relations and literals gives in one of the three cases
+    (0: left field less, 1: equal, 2: greater), noting the fields it tests; None if it is not one."""
+    if isinstance(n, T.TernaryExpression):
+        r = _relation(n.condition, ctx)
+        if r is None:
+            return None
+        fields.add(r[0])
+        return _case_value(n.if_true if r[1][case] else n.if_false, case, ctx, fields)
+    return _int_literal(n)
+
+
+def _three_way(e: T.TernaryExpression, ctx) -> tuple[str, bool]:
+    """`a.f < b.f ? -1 : (a.f == b.f ? 0 : 1)` and its other spellings: evaluated in the three cases."""
+    fields: set[str] = set()
+    values = [_case_value(e, c, ctx, fields) for c in range(3)]
+    if None in values:
+        raise Unsupported(e, f"{ctx[3]} compares something other than fields")
+    if len(fields) != 1:
+        raise Unsupported(e, f"{ctx[3]} tests several fields in one conditional expression")
+    return _as_term(ctx[3], fields.pop(), tuple((v > 0) - (v < 0) for v in values), e)
+
+
+def _relation_returns(body: list, ctx) -> tuple[tuple[str, bool], int, bool] | None:
+    """Leading `if (rel) return k;` statements (else-if chains too) over one primitive field:
+    ((field, ascending), statements used, whether every case returns). The equal case falls
+    through to what follows, or returns (a final else, or a `return` right after, of a literal or
+    a conditional expression over the same field)."""
+    tests: list[tuple[tuple[bool, bool, bool], object]] = []  # (holds in each case, returned)
+    field, used = None, 0
+    for s in body:
+        if not isinstance(s, T.IfStatement) or (r := _relation(s.condition, ctx)) is None \
+                or field not in (None, r[0]):
+            break
+        field = r[0]
+        while isinstance(s, T.IfStatement):  # one statement: an if / else-if chain
+            r = _relation(s.condition, ctx)
+            k = _return_expr(s.then_statement)
+            if r is None or k is None or r[0] != field:
+                raise Unsupported(s, f"{ctx[3]}'s comparison is not a chain of field comparisons")
+            tests.append((r[1], k))
+            s = s.else_statement
+        used += 1
+        if s is not None:  # a final else
+            k = _return_expr(s)
+            if k is None:
+                raise Unsupported(s, f"{ctx[3]}'s comparison is not a chain of field comparisons")
+            tests.append(((True, True, True), k))
+            break
+    if not tests:
+        return None
+    if used < len(body) and tests[-1][0] != (True, True, True) and (k := _return_expr(body[used])) is not None \
+            and _case_value(k, 1, ctx, seen := set()) is not None and seen <= {field}:
+        tests.append(((True, True, True), k))
+        used += 1
+
+    def result(case: int) -> int | None:
+        fields: set[str] = set()
+        k = next((k for holds, k in tests if holds[case]), None)
+        v = _case_value(k, case, ctx, fields) if k is not None else None
+        if k is not None and (v is None or fields - {field}):
+            raise Unsupported(body[0], f"{ctx[3]}'s comparison of `{field}` returns something other than numbers")
+        return v
+
+    lt, eq, gt = (result(c) for c in range(3))
+    if lt is None or gt is None or eq not in (None, 0):
+        raise Unsupported(body[0], f"{ctx[3]}'s comparison of `{field}` does not return for both less and greater, "
+                                   "or returns non-zero when equal")
+    signs = ((lt > 0) - (lt < 0), 0, (gt > 0) - (gt < 0))
+    return _as_term(ctx[3], field, signs, body[0]), used, eq is not None
+
+
+def _return_expr(s):
+    """The expression of `return e;` or `{ return e; }`, else None."""
+    if isinstance(s, T.BlockStatement) and len(s.statements or []) == 1:
+        s = s.statements[0]
+    return s.expression if isinstance(s, T.ReturnStatement) else None
+
+
 def _side(n, ctx) -> tuple[str, bool] | None:
     """(field, is the left object) for `f`, `this.f`, `x.f`, `x.getF()`."""
-    alias, typed, getters, _, left = ctx
+    alias, typed, getters, _, left = ctx[:5]
 
     def who(q: str | None) -> str | None:
         return alias.get(q) if q and q != "this" else ("this" if "this" in alias else None)
@@ -473,7 +617,8 @@ def read_comparator(cls: ClassInfo, structs: dict, equality_only: bool = False
     if not isinstance(info, StructInfo):
         raise Unsupported(m, f"{cls.name}.compare() does not compare one custom key class the converter read")
     a, b = (p.name for p in m.parameters)
-    order = compare_chain(list(m.body or []), a, b, info.fields, _getters(info.cls, info.fields), cls.name, m)
+    order = compare_chain(list(m.body or []), a, b, info.fields, _getters(info.cls, info.fields), cls.name, m,
+                          _primitive_fields(info.cls))
     return info, order
 
 

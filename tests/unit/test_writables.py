@@ -90,6 +90,47 @@ def test_the_next_comparison_assigned_when_equal_is_the_same_chain(tmp_path):
               "compares something other than fields")
 
 
+def test_relations_on_a_primitive_field_are_read_by_their_value_in_the_three_cases(tmp_path):
+    """`a < b ? -1 : (a == b ? 0 : 1)` and `if (a < b) return -1; if (a > b) return 1; return 0;`
+    order as Integer.compare(a, b) (Integer.compare javadoc: "the value 0 if x == y; a value less
+    than 0 if x < y; and a value greater than 0 if x > y"); each spelling is evaluated for the
+    left field less, equal and greater, so swapped operands and mirrored tests need no rule."""
+    from migrate.plan import dump_expr
+
+    head = "int c = station.compareTo(o.station); "
+    cases = {
+        head + "if (c == 0) { c = (hour < o.hour ? -1 : (hour == o.hour ? 0 : 1)); } return c;": True,
+        head + "if (c != 0) return c; return o.hour > hour ? -1 : o.hour < hour ? 1 : 0;": True,
+        head + "if (c != 0) return c; return hour > o.hour ? -1 : (hour < o.hour ? 1 : 0);": False,
+        head + "if (c != 0) return c; if (hour < o.hour) return -1; if (hour > o.hour) return 1; return 0;": True,
+        head + "if (c != 0) { return c; } if (hour > o.hour) { return -5; } else if (hour == o.hour) { return 0; } "
+               "else { return 5; }": False,
+        head + "if (c != 0) return c; if (hour < o.hour) { return -1; } return hour == o.hour ? 0 : 1;": True,
+        "if (hour < o.hour) return -1; else if (o.hour < hour) return 1; return station.compareTo(o.station);": True,
+    }
+    for i, (body, ascending) in enumerate(cases.items()):
+        job = _job(tmp_path / str(i), body)
+        terms = [(dump_expr(e), asc) for e, asc in job.plan.sink.sort_terms]
+        want = ("key.hour", ascending)
+        assert want in terms and len(terms) == 2, (body, terms, job.plan.hand_work)
+    assert [dump_expr(e) for e, _ in _job(tmp_path / "first", list(cases)[-1]).plan.sink.sort_terms] == \
+        ["key.hour", "utf16_order(key.station)"]
+
+
+def test_relations_that_are_not_an_order_or_not_on_numbers_are_declined(tmp_path):
+    head = "int c = station.compareTo(o.station); if (c != 0) return c; "
+    # equal hours compare as less: not an order
+    _declined(_job(tmp_path / "a", head + "return hour <= o.hour ? -1 : 1;"), "is not an order")
+    # greater compares as equal
+    _declined(_job(tmp_path / "b", head + "if (hour < o.hour) return -1; return 0;"), "returns (-1, 0, 0)")
+    # equal hours compare as greater
+    _declined(_job(tmp_path / "d", head + "if (hour == o.hour) return 1; return -1;"), "returns non-zero when equal")
+    # a boxed Integer field: `==` would compare references
+    boxed = KEY.replace("private int hour;", "private Integer hour;")
+    _declined(_job(tmp_path / "c", head + "return hour < o.hour ? -1 : (hour == o.hour ? 0 : 1);", key=boxed),
+              "compares something other than fields")
+
+
 def test_a_key_with_a_registered_raw_comparator_is_not_sorted_by_compare_to(tmp_path):
     """WritableComparator.define(Slot.class, ...) makes WritableComparator.get(Slot.class), the job's
     default sort and grouping comparator, that comparator (WritableComparator javadoc)."""
