@@ -11,6 +11,7 @@ from migrate.java.index import ClassIndex, ClassInfo, node_lines
 from migrate.java.source import logical_sloc
 from migrate.lift.builtin import IDENTITY_MAPPERS, IDENTITY_REDUCERS, SUM_REDUCERS, library_mapper, library_reducer
 from migrate.lift.collections import constant_fields
+from migrate.lift.combiners import judge
 from migrate.lift.combining import flushes_all_entries
 from migrate.lift.config import task_constants
 from migrate.lift.limits import explain
@@ -22,7 +23,7 @@ from migrate.lift.partitioning import custom_partition, hash_partition
 from migrate.lift.topn import lift_top_n, top_n_findings
 from migrate.lift.joins import JoinLifter
 from migrate.lift.sidefiles import read_side_files
-from migrate.plan import (ADVISORY_CATEGORIES, AggRef, BoolOp, Branch, Cast, Col, EachValue, Join, Emit, Explode, Expr, Filter, Finding, Group, HandWork, Identity, Param, Plan,
+from migrate.plan import (ADVISORY_CATEGORIES, Agg, AggRef, BoolOp, Branch, Cast, Col, EachValue, Join, Emit, Explode, Expr, Filter, Finding, Group, HandWork, Identity, Param, Plan,
                           Project, SideTable, Sink, Source, Span, Step, TopN, TopPerKey)
 
 
@@ -230,7 +231,7 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
                     reduce = replace(reduce, partition=partition, partitions=spec.reduces)
         _check_combiner(spec, reduce, index, add, notes, at("setCombinerClass"), map_key_t, map_val_t)
         if combining:
-            if _is_plain_sum(reduce):
+            if judge(reduce, _summing(map_key_t, map_val_t)).sound:
                 notes.append(f"in-mapper combining ({', '.join(combining)}, flushed in cleanup()) is a partial sum; the "
                              "reducer sums again, so the script writes every update and lets the reducer sum them")
             else:
@@ -891,75 +892,47 @@ def _lift_reducer(rcls: ClassInfo, key_t: str, val_t: str, hand: list[HandWork],
     return group
 
 
-_SAFE_COMBINE = {"sum", "min", "max"}
-
-
-def _is_plain_sum(reduce: Step | None) -> bool:
-    """A reducer that writes (key, sum of values): re-summing partial sums cannot change it."""
-    return (isinstance(reduce, Group) and len(reduce.aggs) == 1 and reduce.aggs[0].fn == "sum"
-            and not reduce.aggs[0].init and isinstance(reduce.aggs[0].arg, (Col, Cast)) and _writes_key_and_agg(reduce))
-
-
-def _writes_key_and_agg(g: Group) -> bool:
-    """The reducer writes (key, one aggregate) once per key, unguarded."""
-    e = g.single
-    # an int aggregate written as a long (LongWritable.set(int)) is the same number
-    value = e.value.arg if e is not None and isinstance(e.value, Cast) and e.value.jtype == "long" \
-        and e.value.arg.jtype == "int" else e.value if e is not None else None
-    return isinstance(value, AggRef) and isinstance(e.key, Col) and e.key.name == "key"
-
-
-def _partial_aggregate(g: Step | None) -> str | None:
-    """The aggregate a reducer applies to the values when partial results of it can be merged by
-    itself (sum, min, max over the value, written as (key, aggregate)), or "distinct"; else None."""
-    if not isinstance(g, Group):
-        return None
-    if g.distinct:
-        return "distinct" if g.single is not None else None
-    if not (_writes_key_and_agg(g) and len(g.aggs) == 1):
-        return None
-    a = g.aggs[0]
-    fn = a.fn.split("_")[0]
-    if fn not in _SAFE_COMBINE or not (isinstance(a.arg, Col) and a.arg.name == "value" or
-                                       isinstance(a.arg, Cast) and isinstance(a.arg.arg, Col)):
-        return None
-    return None if fn == "sum" and a.init else fn  # an initial value would be added once per combine
-
-
 def _check_combiner(spec: JobSpec, reduce: Step | None, index: ClassIndex, add, notes: list[str], where: Span,
                     key_t: str, val_t: str) -> None:
-    """A combiner is sound when it is a partial form of the reducer's own aggregate (Hadoop may run
-    it zero or more times per map task); then Spark needs nothing for it."""
+    """A combiner is sound when the reducer gives the same answer on its partial results
+    (lift.combiners); then Spark needs nothing for it."""
     comb = spec.classes.get("combiner")
     if comb is None:
         return
     name = comb.rsplit(".", 1)[-1]
-    reducer = spec.classes.get("reducer")
-    r_fn = _partial_aggregate(reduce)
-    c_fn, what = None, "its reduce() could not be read"
-    if comb == reducer:
-        c_fn, what = r_fn, "it is the reducer itself"
-    elif comb in SUM_REDUCERS:
-        c_fn, what = "sum", "it sums the values"
+    step, unread, what = None, "", ""
+    if comb == spec.classes.get("reducer"):
+        step, what = reduce, "it is the reducer itself"
+    elif comb in SUM_REDUCERS or comb in IDENTITY_REDUCERS:
+        step = library_reducer(comb, key_t, val_t)
     else:
         ccls = index.get(comb)
         owner, m = _find_method(ccls, index, "reduce", (3, 4)) if ccls is not None else (None, None)
-        if m is not None and not_an_override(owner, m, "Reducer") is None:
+        if m is None:
+            unread = "its source is not in the repository" if ccls is None else "it has no reduce()"
+        elif not_an_override(owner, m, "Reducer") is not None:
+            step = Identity(owner.span, "reduce() is never called: identity")
+        else:
             g, items = FoldLifter(owner, m, key_t, val_t, index).run()
-            c_fn = _partial_aggregate(g) if not items else None
-            what = f"it computes the {c_fn} of the values" if c_fn else "it is not a plain sum, min or max of the values"
-    if r_fn is not None and c_fn == r_fn:
-        form = "passes on each key once, as the reducer does" if r_fn == "distinct" else \
-            f"is a partial {r_fn} of the values the reducer aggregates"
-        notes.append(f"combiner {name} {form} ({what}); Spark's groupBy merges partial aggregates itself, so there "
-                     "is nothing to convert for it")
+            step, unread = (g, "") if not items else (None, f"{items[0].reason}, line {items[0].origin.line_start}")
+    verdict = judge(reduce, step, unread)
+    if verdict.sound:
+        notes.append(f"combiner {name} {verdict.why}{f' ({what})' if what else ''}; Spark's groupBy merges partial "
+                     "aggregates itself, so there is nothing to convert for it")
         return
-    add("combiner", where, f"combiner {name} is not a partial form of the reducer's aggregate ({what}; the reducer "
-        f"{'computes the ' + r_fn if r_fn else 'is not a plain sum, min or max'}): Hadoop runs a combiner zero or "
-        "more times per map task, so the original output depended on how the input was split and spilled; the "
-        "script computes the reducer over all the values, as if the combiner never ran",
+    said = f"{what}; {verdict.why}" if what else verdict.why
+    add("combiner", where, f"combiner {name} can change the answer ({said}): Hadoop runs a combiner zero or more "
+        "times per map task, so the original output depended on how the input was split and spilled; the script "
+        "computes the reducer over all the values, as if the combiner never ran",
         "decide whether the true answer (the script's) is wanted or the old numbers must be kept; then drop the "
         "combiner", "P2", _sloc_of(index, comb))
+
+
+def _summing(key_t: str, val_t: str) -> Group:
+    """What in-mapper combining does to the map output: per-task partial sums of the values."""
+    where = Span("<in-mapper combining>", 0, 0)
+    agg = Agg("sum", "sum", Col(val_t, "value"), val_t, 0, where)
+    return Group(where, "partial sums", (agg,), (Emit(where, "", Col(key_t, "key"), AggRef(val_t, "sum")),))
 
 
 def _check_map_output_types(steps: list[Step], key_t: str, val_t: str, mcls: ClassInfo | None, add) -> None:

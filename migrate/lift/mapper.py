@@ -16,7 +16,7 @@ from dataclasses import dataclass, field, replace
 from javalang import tree as T
 
 from migrate.java.index import ClassInfo, node_lines
-from migrate.lift.writables import is_struct, structs_of
+from migrate.lift.writables import is_struct, structs_seen_from
 from migrate.lift.exprs import (BYTE_OFFSET, CATCH_ALL, NARROWING, WRITABLE_OF, HelperClass, MaybeNull, Opaque, Refused, Scope,
                                 Tokenizer, Unsupported, Writable, lift, lookup_key, map_lookup, promote, refined,
                                 regex_object, text_params, widen_at, writable_creator, writable_set, write_argument)
@@ -158,7 +158,7 @@ class MapBodyLifter:
             env[p] = Opaque("the task context")
         self.scope = Scope(env, file=self.file, methods=helper_methods(cls, index),
                            enums=frozenset(fq.rsplit(".", 1)[-1] for fq in (index.enums if index else {})),
-                           structs=structs_of(index), lookup=self._lookup, fields=fields,
+                           structs=structs_seen_from(cls, index), lookup=self._lookup, fields=fields,
                            shadowed=set(params) & set(fields), classes=repository_classes(cls, index),
                            resolve=type_resolver(cls, index), texts=text_params(method))
         self.guard_now: Expr | None = None  # the guard of the statement being lifted
@@ -1008,7 +1008,7 @@ def class_constants(cls: ClassInfo, index=None) -> dict[str, object]:
 def struct_fields(cls: ClassInfo, index=None) -> dict[str, Writable]:
     """Fields holding a custom Writable made at their declaration and never reassigned: map()
     sets them through setters (checked at each write by check_struct_written)."""
-    structs = structs_of(index)
+    structs = structs_seen_from(cls, index) if index is not None else {}
     assigned = assigned_names(cls.node)
     out = {}
     for f in cls.fields():

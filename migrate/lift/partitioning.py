@@ -63,7 +63,7 @@ def _partition_body(cls: ClassInfo, m, key_t: str, reduces: int, index) -> Expr:
     as a helper method is inlined), checked at run time the way Hadoop's map task checks it."""
     from migrate.lift.exprs import Opaque, Scope, _body_value, _widen, text_params
     from migrate.lift.mapper import class_constants, helper_methods, repository_classes, type_resolver
-    from migrate.lift.writables import structs_of
+    from migrate.lift.writables import structs_seen_from
 
     key, value, num = (p.name for p in m.parameters)
     fields = dict(class_constants(cls, index))
@@ -72,7 +72,7 @@ def _partition_body(cls: ClassInfo, m, key_t: str, reduces: int, index) -> Expr:
             fields.setdefault(d.name, Opaque(f"the field `{d.name}` of the partitioner, which may change between calls"))
     env = {**fields, key: Col(key_t, "key"), num: Lit("int", reduces),
            value: Opaque("the map output value: the task of a key would depend on its values")}
-    scope = Scope(env, file=cls.file.path, methods=helper_methods(cls, index), structs=structs_of(index),
+    scope = Scope(env, file=cls.file.path, methods=helper_methods(cls, index), structs=structs_seen_from(cls, index),
                   fields=fields, shadowed={key, value, num} & set(fields), classes=repository_classes(cls, index),
                   resolve=type_resolver(cls, index), texts=text_params(m))
     try:

@@ -17,7 +17,7 @@ from __future__ import annotations
 from javalang import tree as T
 
 from migrate.java.index import ClassInfo, node_lines
-from migrate.lift.writables import structs_of
+from migrate.lift.writables import structs_seen_from
 from migrate.lift.exprs import (WRITABLE_OF, Opaque, Scope, Unsupported, Writable, calls_as_names, lift, promote, text_params, widen,
                                 widen_at, writable_creator, writable_set, write_argument)
 from migrate.lift.mapper import class_constants, helper_methods, repository_classes
@@ -58,7 +58,7 @@ class FoldLifter:
             env[p] = Opaque("the task context")
         self.scope = Scope(env, file=self.file, methods=helper_methods(cls, index),
                            enums=frozenset(fq.rsplit(".", 1)[-1] for fq in (index.enums if index else {})),
-                           structs=structs_of(index), fields=fields, classes=repository_classes(cls, index),
+                           structs=structs_seen_from(cls, index), fields=fields, classes=repository_classes(cls, index),
                            texts=text_params(method))
         self.accs: dict[str, tuple[str, Lit]] = {}
         self.sets: dict[str, str] = {}  # name -> element type

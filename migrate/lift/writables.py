@@ -685,6 +685,18 @@ def _raw_comparators(index: ClassIndex) -> dict[str, tuple[str, str | None]]:
     return out
 
 
+def structs_seen_from(cls: ClassInfo, index: ClassIndex | None) -> dict:
+    """structs_of(index) with simple names resolved as `cls`'s code resolves them (its imports,
+    package, nesting): two repository classes may share a simple name."""
+    base = structs_of(index)
+    view = dict(base)
+    for name in {n for n in base if "." not in n and ":" not in n}:
+        fq = index.resolve(name, cls)
+        if fq in base:
+            view[name] = base[fq]
+    return view
+
+
 def structs_of(index: ClassIndex | None) -> dict:
     """Lookup of custom Writables by fqcn, simple name and struct jtype (what Scope.structs holds); cached."""
     if index is None:

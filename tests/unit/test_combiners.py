@@ -1,4 +1,4 @@
-"""Combiners: sound when they are a partial form of the reducer's aggregate, flagged otherwise.
+"""Combiners: sound when the reducer gives the same answer on their partial results (lift.combiners).
 
 Hadoop facts (MapReduce tutorial, "Combiner"; Job.setCombinerClass javadoc): the combiner runs
 on map output zero or more times, so a job is only deterministic when applying it any number
@@ -21,6 +21,11 @@ BODIES = {
     "count": "int n = 0; for (IntWritable v : values) n++; context.write(key, new IntWritable(n));",
     "avg": "int s = 0; int n = 0; for (IntWritable v : values) { s += v.get(); n++; } "
            "context.write(key, new IntWritable(s / n));",
+    "having": "int s = 0; for (IntWritable v : values) s += v.get(); if (s >= 60) context.write(key, new IntWritable(s));",
+    "keyed": "int s = 0; for (IntWritable v : values) s += v.get(); "
+             "if (key.toString().startsWith(\"x\")) context.write(key, new IntWritable(s));",
+    "sum3": "int s = 3; for (IntWritable v : values) s += v.get(); context.write(key, new IntWritable(s));",
+    "each": "for (IntWritable v : values) context.write(key, v);",
 }
 
 
@@ -66,4 +71,51 @@ def test_averaging_averages_is_flagged(tmp_path):
 def test_a_combiner_with_another_aggregate_is_flagged(tmp_path):
     job = _job(tmp_path, "sum", "max")
     (item,) = [h for h in job.plan.hand_work if h.category == "combiner"]
-    assert "it computes the max" in item.reason and "the reducer computes the sum" in item.reason
+    assert "the reducer's `s` is the sum of `value`, but the combiner writes the max of `value`" in item.reason
+
+
+def test_a_test_of_the_partial_result_in_the_combiner_loses_keys(tmp_path):
+    """sum >= 60 as its own combiner: per-task sums 30 and 40 both fail the test, the total 70 passes it."""
+    job = _job(tmp_path, "having", None, "R")
+    (item,) = [h for h in job.plan.hand_work if h.category == "combiner"]
+    assert "only when `(s >= 60)` holds of its partial result" in item.reason
+
+
+def test_a_test_of_the_total_in_the_reducer_alone_is_fine(tmp_path):
+    job = _job(tmp_path, "having", "sum")
+    assert job.status == "converted", job.plan.hand_work
+
+
+def test_a_test_of_the_key_shared_by_combiner_and_reducer_is_fine(tmp_path):
+    """Keys the combiner drops are keys the reducer would not write either."""
+    assert _job(tmp_path / "a", "keyed", None, "R").status == "converted"
+    (item,) = [h for h in _job(tmp_path / "b", "sum", "keyed").plan.hand_work if h.category == "combiner"]
+    assert "a test the reducer's writes do not share" in item.reason
+
+
+def test_an_initial_value_and_writes_of_each_value_are_flagged(tmp_path):
+    (item,) = [h for h in _job(tmp_path / "a", "sum3", None, "R").plan.hand_work if h.category == "combiner"]
+    assert "starts its sum `s` at 3" in item.reason
+    (item,) = [h for h in _job(tmp_path / "b", "each", "sum").plan.hand_work if h.category == "combiner"]
+    assert "writes each value it receives" in item.reason
+
+
+def test_an_average_of_averages_names_what_the_combiner_writes(tmp_path):
+    (item,) = [h for h in _job(tmp_path, "avg", None, "R").plan.hand_work if h.category == "combiner"]
+    assert "the combiner writes `(s / n)`, which is not a partial sum" in item.reason
+
+
+def test_sum_and_count_carried_in_a_writable_combine_field_by_field(tmp_path):
+    """A combiner writing new SumCount(sum of sums, sum of counts) feeds a reducer that sums each field:
+    sum of partial sums per field (the (sum, count) pair of the MapReduce tutorial's averages,
+    common practice)."""
+    from tests.unit.combiner_pair import job_files
+
+    scan = scan_text(tmp_path, job_files())
+    (job,) = scan.jobs
+    assert job.status == "converted", job.plan.hand_work
+    assert any("combiner C writes a partial sum" in n for n in job.plan.notes)
+    # the same combiner writing the average instead of the pair: not a partial sum
+    scan = scan_text(tmp_path / "avg", job_files(combiner_writes="new SumCount(s / n, 1)"))
+    (item,) = [h for h in scan.jobs[0].plan.hand_work if h.category == "combiner"]
+    assert "not a partial sum" in item.reason

@@ -175,3 +175,19 @@ def test_a_string_field_left_null_by_the_constructor_is_declined(tmp_path):
     job = _job(tmp_path, key=key)
     assert job.status != "converted"
     assert any("left null" in h.reason for h in job.plan.hand_work), [h.reason for h in job.plan.hand_work]
+
+
+def test_a_simple_class_name_resolves_as_javac_does_when_two_packages_share_it(tmp_path):
+    """Two repository Writables named Slot: the job's own package wins (JLS 6.4.1, a type in the
+    same package shadows nothing imported on demand; no import names the other one)."""
+    other = ("package elsewhere;\n" + KEY % CHAIN).replace("private String station; private int hour;",
+                                                           "private int hour; private String station;") \
+        .replace("public Slot(String s, int h) { this.station = s; this.hour = h; }",
+                 "public Slot(int h, String s) { this.station = s; this.hour = h; }")
+    own = "package here;\n" + KEY % CHAIN
+    scan = scan_text(tmp_path, {"elsewhere/Slot.java": other, "here/Slot.java": own,
+                                "here/Main.java": "package here;\n" + JOB})
+    assert not scan.errors, scan.errors
+    (job,) = scan.jobs
+    assert job.status == "converted", job.plan.hand_work
+    assert "struct:here.Slot" in {e.key.jtype for p in job.plan.map_steps for e in getattr(p, "emits", ())}

@@ -17,7 +17,7 @@ Usage (the same positional arguments as the original driver):
 
 Semantics kept from Java/Hadoop: see the helper docstrings. Java int/long overflow in
 row arithmetic raises an error here (ANSI mode) instead of wrapping silently.
-Note: combiner LongSumReducer is a partial sum of the values the reducer aggregates (it is the reducer itself); Spark's groupBy merges partial aggregates itself, so there is nothing to convert for it
+Note: combiner LongSumReducer writes a partial sum of the values the reducer aggregates (it is the reducer itself); Spark's groupBy merges partial aggregates itself, so there is nothing to convert for it
 
 Verify this script on real data before it replaces the production job: compare its
 output with the original job's output on a representative sample of real data.

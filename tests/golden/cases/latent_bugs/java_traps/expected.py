@@ -17,7 +17,7 @@ Usage (the same positional arguments as the original driver):
 
 Semantics kept from Java/Hadoop: see the helper docstrings. Java int/long overflow in
 row arithmetic raises an error here (ANSI mode) instead of wrapping silently.
-Note: combiner TotalReducer is a partial sum of the values the reducer aggregates (it is the reducer itself); Spark's groupBy merges partial aggregates itself, so there is nothing to convert for it
+Note: combiner TotalReducer writes a partial sum of the values the reducer aggregates (it is the reducer itself); Spark's groupBy merges partial aggregates itself, so there is nothing to convert for it
 
 Findings (the original does this and so does this script; decide whether to keep it):
     DeckLoadPerSailing.java:33  [char-arithmetic]
