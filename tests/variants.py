@@ -502,6 +502,21 @@ def compare_relations(text: str) -> str:
                   lambda m: f"if ({m[1]} < {m[2]}) {{ return -1; }} return ({m[1]} == {m[2]} ? 0 : 1);", text)
 
 
+def own_combiner(text: str) -> str:
+    """No combiner vs the reducer as its own combiner, where the reducer sums what it receives
+    (`n += v.get()`, one write, no test) and writes the types it reads: a sum of partial sums."""
+    if "setCombinerClass" in text:
+        return text
+    m = re.search(r"(?m)^([ \t]*)(\w+)\.setReducerClass\((\w+)\.class\);", text)
+    c = m and re.search(rf"class {m[3]} extends Reducer<(\w+), (\w+), (\w+), (\w+)>", text)
+    if not c or (c[1], c[2]) != (c[3], c[4]):
+        return text
+    body = text[c.end():text.find("\n    }\n", c.end())]
+    if not re.search(r"\w+ \+= \w+(\.next\(\))?\.get\(\);", body) or body.count("write(") != 1 or "if (" in body:
+        return text
+    return text[:m.end()] + f"\n{m[1]}{m[2]}.setCombinerClass({m[3]}.class);" + text[m.end():]
+
+
 AXES = (
     Axis("catch-logs", "empty catch vs logging then skipping", catch_logs),
     Axis("field-scratch", "array local vs scratch field", field_scratch),
@@ -530,6 +545,7 @@ AXES = (
     Axis("compare-when-equal", "return the first difference vs assign the next comparison when equal",
          compare_when_equal),
     Axis("compare-relations", "Integer.compare(a, b) vs a < b / a == b tests returning -1, 0, 1", compare_relations),
+    Axis("own-combiner", "no combiner vs a summing reducer set as its own combiner", own_combiner),
 )
 
 
