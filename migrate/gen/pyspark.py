@@ -911,6 +911,8 @@ def sort_columns(plan: Plan) -> list[str]:
     emits = r.emits if isinstance(r, Group) else call_writes(r) if isinstance(r, EachValue) else ()
     cols = [f'"{n}"' if asc else f'F.col("{n}").desc()' for n, asc in _hidden_sort(emits, plan.sink.sort_terms)] \
         if emits else ['"key"']
+    if not emits and plan.sink.sort_terms and all(isinstance(e, Col) and e.name == "key" for e, _ in plan.sink.sort_terms):
+        cols = ['"key"' if asc else 'F.col("key").desc()' for _, asc in plan.sink.sort_terms]  # pairs as they came
     if len(emits) > 1:
         cols.append('"_write"')
     return (['"_partition"'] if plan.sink.partition is not None else []) + cols

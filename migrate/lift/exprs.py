@@ -1362,13 +1362,15 @@ def _block_of(st) -> list:
 def calls_as_names(node, name_of):
     """A copy of `node` where each argument-less call `name_of` names (it returns a name or None)
     becomes a reference to that name, keeping the call's selectors and prefix operators: how
-    `values.next()` or `e.getKey()` are bound in a Scope like any local."""
+    `values.next()` or `e.getKey()` are bound in a Scope like any local. `name_of` may return
+    (name, k): the call and its first k selectors are that name (`values.iterator().next()`)."""
     import copy
 
     def swap(n):
         name = name_of(n) if isinstance(n, T.MethodInvocation) and not n.arguments else None
+        name, used = name if isinstance(name, tuple) else (name, 0)
         if name:
-            return T.MemberReference(member=name, qualifier="", selectors=n.selectors or [],
+            return T.MemberReference(member=name, qualifier="", selectors=(n.selectors or [])[used:],
                                      prefix_operators=n.prefix_operators or [], postfix_operators=[])
         for attr in getattr(n, "attrs", ()):
             v = getattr(n, attr, None)

@@ -17,7 +17,7 @@ from migrate.lift.config import task_constants
 from migrate.lift.limits import explain
 from migrate.lift.mapper import MapBodyLifter, class_constants
 from migrate.lift.exprs import Opaque, Scope, Unsupported, to_string
-from migrate.lift.writables import is_struct, read_comparator, structs_of
+from migrate.lift.writables import is_struct, plain_key_order, read_comparator, structs_of
 from migrate.lift.reducer import FoldLifter
 from migrate.lift.partitioning import custom_partition, hash_partition
 from migrate.lift.topn import lift_top_n, top_n_findings
@@ -178,6 +178,7 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
     reduce: Step | None = None
     partition: Expr | None = None  # with several reduce tasks: the task of each key
     key_order = None  # a sort comparator's order of a custom key (None: its compareTo)
+    plain_ascending = None  # a sort comparator's order of a Text/int/long key (False: reversed)
     reducer_fq = spec.classes.get("reducer")
     if spec.reduces == 0:
         shapes.append("map only")
@@ -250,6 +251,11 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
                     "only the split into part files changes; repartition by the same rule if readers depend on it",
                     "P2", _sloc_of(index, spec.classes["partitioner"]))
         key_order, key_group = _secondary_sort(spec, index, structs, map_key_t, reduce, add, at) or (None, None)
+        if not is_struct(map_key_t) and _SECONDARY_SORT_ROLES & spec.classes.keys():
+            plain_ascending = _plain_key_order(spec, index, map_key_t, reduce, add, at)
+            if plain_ascending is False:
+                notes.append("the sort comparator puts the keys in reverse order: reduce() meets them, and the "
+                             "output holds them, largest first; the script sorts the same way")
         if isinstance(reduce, EachValue) and (reduce.first_value or reduce.before or reduce.after):
             reduce = _reduce_calls(spec, structs, map_key_t, reduce, key_order, key_group, add)
         if key_order is not None:
@@ -292,7 +298,7 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
     # ---- shapes and the sink
     shapes.extend(_shapes(steps if mcls is not None else [], reduce))
     steps, reduce = _struct_output_text(steps, reduce, structs, add, spec.origin, spec.reduces == 0)
-    sort_terms = ()
+    sort_terms = ((Col(map_key_t, "key"), False),) if plain_ascending is False and reduce is not None else ()
     if is_struct(map_key_t) and reduce is not None and not isinstance(reduce, TopN):
         try:
             sort_terms = structs[map_key_t].sort_terms(Col(map_key_t, "key"), spec.driver.node, key_order)
@@ -503,6 +509,32 @@ _COMPARATOR_CALLS = {"sort_comparator": ("setSortComparatorClass", "setOutputKey
 _SECONDARY_SORT_ROLES = {"sort_comparator", "grouping_comparator"}
 
 
+def _plain_key_order(spec: JobSpec, index: ClassIndex, key_t: str, reduce: Step | None, add, at) -> bool | None:
+    """Sort and grouping comparators over a Text/IntWritable/LongWritable key: False when the keys
+    reach reduce() in reverse order, True when in their own; None (and hand work) when not read."""
+    roles = [r for r in ("sort_comparator", "grouping_comparator") if r in spec.classes]
+    orders = []
+    for r in roles:
+        try:
+            orders.append(plain_key_order(spec.classes[r], index.get(spec.classes[r]), key_t))
+        except Unsupported as u:
+            reason = u.reason
+        else:
+            continue
+        name = spec.classes[r].rsplit(".", 1)[-1]
+        add("secondary-sort", at(*_COMPARATOR_CALLS[r]), f"{r.replace('_', ' ')} {name}: {reason}",
+            "sort by the key with orderBy(F.col('key').desc()) if a reverse order is meant", "P2",
+            _sloc_of(index, spec.classes[r]))
+        return None
+    ascending = orders[0] if roles and roles[0] == "sort_comparator" else True
+    if not ascending and isinstance(reduce, (TopN, TopPerKey, Join)):
+        add("secondary-sort", at(*_COMPARATOR_CALLS["sort_comparator"]), "the sort comparator puts the keys in "
+            "reverse order; this reducer's output order under it is not reproduced",
+            "sort by the key with orderBy(F.col('key').desc())", "P2")
+        return None
+    return ascending
+
+
 def _secondary_sort(spec: JobSpec, index: ClassIndex, structs: dict, key_t: str, reduce: Step | None, add, at):
     """Sort and grouping comparators over a custom key (secondary sort): the order of the reduce
     input, or hand work saying why it was not read. Returns the sort order and the grouping
@@ -517,9 +549,7 @@ def _secondary_sort(spec: JobSpec, index: ClassIndex, structs: dict, key_t: str,
         add("secondary-sort", at(*_COMPARATOR_CALLS[role]), f"{role.replace('_', ' ')} {name}: {reason}", hint, "P2",
             _sloc_of(index, spec.classes[role]))
 
-    if not is_struct(key_t):
-        for r in roles:
-            decline(r, f"a comparator over {key_t} keys is not read (only comparators of a custom key are)")
+    if not is_struct(key_t):  # a standard key: _plain_key_order
         return None
     orders = {}
     for r in roles:

@@ -67,6 +67,7 @@ class FoldLifter:
         self.in_loop = False
         self.iterator: str | None = None  # `Iterator<V> it = values.iterator();` before the loop
         self.first_taken = False  # `it.next()` before the loop: the group's first value
+        self.first_at = self.stmt_at = None  # where it was taken; the statement being lifted
         self.emits_before_loop = 0  # how many of `emits` reduce() wrote before its loop
         self.loop_locals: dict[str, str] = {}  # locals declared in the loop body -> Java type
         self.emits: list[Emit] = []  # writes after the loop (or without one)
@@ -90,6 +91,12 @@ class FoldLifter:
             self._stmt(s, None)
         a, b = node_lines(self.method)
         span = Span(self.file, a, b)
+        if self.first_taken and not self.loop_emits and not self.sorted_values:
+            raise Unsupported(self.first_at or self.method, "reduce() uses the first of its values (`next()` before any loop): Hadoop "
+                                           "gives the values of a key in no defined order (no secondary sort here), "
+                                           "so the original's output was not deterministic",
+                              "if any value will do, F.first; if one is meant, sort the values (secondary sort)",
+                              category="value-order")
         if self.first_taken and not self.loop_emits:
             raise Unsupported(self.method, "reduce() takes the first value before its loop and does not write in the "
                                            "loop", category="value-order")
@@ -126,6 +133,11 @@ class FoldLifter:
         `set.size()` replaced by names the scope binds: inside the loop the value of the row, before
         it the group's first value (taken once)."""
         def name_of(n):
+            sel = n.selectors or []
+            if n.qualifier == self.values and n.member == "iterator" and sel and isinstance(sel[0], T.MethodInvocation) \
+                    and sel[0].member == "next" and not sel[0].arguments:  # `values.iterator().next()`
+                inner = name_of(T.MethodInvocation(qualifier=self.values, member="next", arguments=[], selectors=[]))
+                return (inner, 1) if inner else None
             if n.qualifier in (self.values, self.iterator) and n.member == "next":
                 if self.in_loop:
                     return "__next__"
@@ -133,6 +145,7 @@ class FoldLifter:
                     raise Unsupported(n, "reduce() takes a value outside its loop other than the first",
                                       category="value-order")
                 self.first_taken = True
+                self.first_at = n if node_lines(n)[0] else self.stmt_at
                 self.scope.env["__first__"] = Col(self.value_type, "first_value")
                 return "__first__"
             return f"__size_{n.qualifier}" if n.qualifier in self.sets and n.member == "size" and not n.selectors else None
@@ -153,6 +166,7 @@ class FoldLifter:
         return Emit(Span(self.file, a, b), self.cls.file.lines[a - 1].strip() if a else "", k, v, guard)
 
     def _stmt(self, s, guard) -> None:
+        self.stmt_at = s
         if self.collector is not None and self.seen_loop and self.collector.statement(s, guard, self):
             return
         if isinstance(s, T.LocalVariableDeclaration):

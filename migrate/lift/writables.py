@@ -593,6 +593,99 @@ def _side(n, ctx) -> tuple[str, bool] | None:
     return None
 
 
+# Comparators that ship with Hadoop for its own key types: True = the key's natural order.
+_LIBRARY_COMPARATORS = {"LongWritable.DecreasingComparator": False, "LongWritable.Comparator": True,
+                        "IntWritable.Comparator": True, "Text.Comparator": True}
+_KEY_WRITABLES = {"int": "IntWritable", "long": "LongWritable", "String": "Text"}
+
+
+def plain_key_order(fq: str, cls: ClassInfo | None, key_t: str) -> bool:
+    """A sort comparator over a Text, IntWritable or LongWritable key: True when it orders keys as
+    the key class does (Spark's order of the column), False when in reverse; Unsupported else.
+    Equal keys stay equal either way, so as a grouping comparator it changes nothing."""
+    writable = _KEY_WRITABLES.get(key_t)
+    short = ".".join(fq.split(".")[-2:])
+    if short in _LIBRARY_COMPARATORS:
+        if not short.startswith(f"{writable}."):
+            raise Unsupported(None, f"{short} compares {short.split('.')[0]} keys, the map output key is {key_t}")
+        return _LIBRARY_COMPARATORS[short]
+    if writable is None or cls is None:
+        raise Unsupported(None, f"a comparator over {key_t} keys is not read (only comparators of Text, IntWritable, "
+                                "LongWritable and custom keys are)")
+    supers = [n for _, n in cls.node.filter(T.SuperConstructorInvocation)]
+    keyed = [n for n in supers if n.arguments and isinstance(n.arguments[0], T.ClassReference)]
+    if not keyed or keyed[0].arguments[0].type.name != writable:
+        raise Unsupported(cls.node, f"{cls.name} is not constructed for {writable} keys (`super({writable}.class, "
+                                    "true)`)")
+    raw = [m for m in cls.methods("compare") if len(m.parameters) == 6]
+    objects = [m for m in cls.methods("compare") if len(m.parameters) == 2]
+    if raw and objects or len(raw) > 1 or len(objects) > 1 or not (raw or objects):
+        raise Unsupported(cls.node, f"{cls.name} does not override exactly one compare()")
+    m = (raw or objects)[0]
+    if objects and not (len(keyed[0].arguments) == 2 and getattr(keyed[0].arguments[1], "value", "") == "true"):
+        raise Unsupported(m, f"{cls.name} compares deserialised keys but is built without createInstances "
+                             f"(`super({writable}.class, true)`): the shuffle's byte comparison has no keys to fill")
+    params = [p.name for p in m.parameters]
+    first, second = (params[0], params[3]) if raw else (params[0], params[1])
+    alias = {first: 1, second: -1}
+    body = list(m.body or [])
+    for st in body[:-1]:  # `IntWritable x = (IntWritable) a;`
+        d = st.declarators[0] if isinstance(st, T.LocalVariableDeclaration) and len(st.declarators) == 1 else None
+        init = d.initializer if d is not None else None
+        if not (isinstance(init, T.Cast) and isinstance(init.expression, T.MemberReference)
+                and init.expression.member in alias and not getattr(init, "selectors", None)):
+            raise Unsupported(st, f"{cls.name}.compare() is not one comparison of the two keys")
+        alias[d.name] = alias[init.expression.member]
+    if not body or not isinstance(body[-1], T.ReturnStatement):
+        raise Unsupported(m, f"{cls.name}.compare() is not one comparison of the two keys")
+    sign = _key_comparison_sign(body[-1].expression, alias, raw, params)
+    if sign is None:
+        raise Unsupported(body[-1], f"{cls.name}.compare() is not one comparison of the two keys")
+    return sign > 0
+
+
+def _key_comparison_sign(e, alias: dict[str, int], raw: bool, params: list[str]) -> int | None:
+    """+1 when `e` compares the first key with the second as the key class does, -1 when reversed."""
+    flip = -1 if (getattr(e, "prefix_operators", None) or []).count("-") % 2 else 1
+    if isinstance(e, T.BinaryOperation) and e.operator == "*":
+        for lit, other in ((e.operandl, e.operandr), (e.operandr, e.operandl)):
+            if _int_literal(lit) in (1, -1):
+                inner = _key_comparison_sign(other, alias, raw, params)
+                return None if inner is None else inner * _int_literal(lit) * flip
+        return None
+
+    def who(n) -> int | None:  # which key a reference or a cast of one names
+        n = n.expression if isinstance(n, T.Cast) and not getattr(n, "selectors", None) else n
+        if isinstance(n, T.MemberReference) and not n.qualifier and not n.selectors:
+            return alias.get(n.member)
+        return None
+
+    if raw:
+        names = [getattr(a, "member", None) for a in (e.arguments or [])] \
+            if isinstance(e, T.SuperMethodInvocation) and e.member == "compare" else []
+        if names == params:
+            return flip
+        if names == params[3:] + params[:3]:
+            return -flip
+        return None
+    pair = None
+    if isinstance(e, T.SuperMethodInvocation) and e.member == "compare" and len(e.arguments) == 2:
+        pair = e.arguments
+    elif isinstance(e, T.MethodInvocation) and e.member == "compareTo" and len(e.arguments) == 1 and not e.selectors:
+        pair = [T.MemberReference(member=e.qualifier, qualifier="", selectors=[]), e.arguments[0]] \
+            if e.qualifier and "." not in e.qualifier else None
+    elif isinstance(e, T.Cast) and len(getattr(e, "selectors", None) or []) == 1:
+        sel = e.selectors[0]
+        if isinstance(sel, T.MethodInvocation) and sel.member == "compareTo" and len(sel.arguments) == 1:
+            pair = [e.expression, sel.arguments[0]]
+    if pair is None:
+        return None
+    a, b = who(pair[0]), who(pair[1])
+    if a is None or b is None or a == b:
+        return None
+    return a * flip
+
+
 def read_comparator(cls: ClassInfo, structs: dict, equality_only: bool = False
                     ) -> tuple[StructInfo, tuple[tuple[str, bool], ...]]:
     """A comparator over a custom key: the key it compares and its order. A grouping comparator

@@ -297,3 +297,19 @@ def test_an_if_with_the_same_branches_is_its_branch(tmp_path):
 def test_the_same_branches_agree_with_hadoop(tmp_path):
     check = verify_one_job(tmp_path, _source(SAME_BRANCHES), {"rides.txt": DOCKS})
     assert check.verdict == "agrees", f"{check.detail}\n{check.log[-3000:]}"
+
+
+def test_the_first_value_without_a_secondary_sort_is_declined_at_its_line(tmp_path):
+    """`values.iterator().next()` is whichever value Hadoop hands over first: no defined order
+    without a secondary sort (Reducer javadoc: the framework groups values by key, their order
+    within a key is not defined unless a secondary sort sets it)."""
+    body = "context.write(values.iterator().next(), key);"
+    src = job_source("context.write(new IntWritable(1), value);",
+                     "  public static class R extends Reducer<IntWritable, Text, Text, IntWritable> {\n"
+                     "    protected void reduce(IntWritable key, Iterable<Text> values, Context context)\n"
+                     "        throws IOException, InterruptedException {\n"
+                     f"      {body}\n    }}\n  }}",
+                     map_out=("IntWritable", "Text"), out=("Text", "IntWritable"))
+    (job,) = scan_text(tmp_path, {"Main.java": src}).jobs
+    (item,) = [h for h in job.plan.hand_work if h.category == "value-order"]
+    assert "no defined order" in item.reason and item.snippet == body, item
