@@ -261,6 +261,8 @@ class Group(Step):
     distinct: bool = False
     lets: tuple[Let, ...] = ()  # locals computed per value inside the loop: columns before the shuffle
     first_keys: int | None = None  # an instance counter caps the output: only each task's first N keys write
+    keys: Expr | None = None  # reduce() does its work only for keys where this test of the key holds
+    counts: tuple["Count", ...] = ()  # counters updated once per reduce() call: over the keys and aggregates
 
     def __post_init__(self) -> None:
         if not self.emits:
@@ -291,6 +293,7 @@ class EachValue(Step):
     # writes of reduce() before and after its loop: once per call (per group), around its values'
     before: tuple[Emit, ...] = ()
     after: tuple[Emit, ...] = ()
+    keys: Expr | None = None  # reduce() does its work only for keys where this test of the key holds
 
 
 @dataclass(frozen=True)
@@ -330,6 +333,7 @@ class TopPerKey(Step):
     descending: bool
     writes: tuple[Emit, ...]
     lets: tuple[Let, ...] = ()
+    keys: Expr | None = None  # reduce() does its work only for keys where this test of the key holds
 
 
 @dataclass(frozen=True)
@@ -368,6 +372,7 @@ class Join(Step):
     sides: tuple[JoinSide, ...]
     writes: tuple[JoinWrite, ...]
     lets: tuple[Let, ...] = ()
+    keys: Expr | None = None  # reduce() does its work only for keys where this test of the key holds
 
 
 @dataclass(frozen=True)
@@ -657,16 +662,19 @@ def _dump_step(s: Step) -> str:
         return "\n".join(lines)
     if isinstance(s, Group):
         lines = ["Group by key" + (" (distinct)" if s.distinct else "")
-                 + (f" (first {s.first_keys} keys of each task)" if s.first_keys is not None else "")]
+                 + (f" (first {s.first_keys} keys of each task)" if s.first_keys is not None else "")
+                 + (f" (keys where {dump_expr(s.keys)})" if s.keys is not None else "")]
         lines += [f"    {_dump_step(x)}" for x in s.lets]
         for a in s.aggs:
             lines.append(f"    Agg {a.name} = {a.fn}:{a.jtype}({dump_expr(a.arg)}) init={a.init!r}")
+        lines += [f"    Per call: {_dump_step(c)}" for c in s.counts]
         for e in s.emits:
             having = f" if {dump_expr(e.guard)}" if e.guard is not None else ""
             lines.append(f"    Out {dump_expr(e.key)} -> {dump_expr(e.value)}{having}")
         return "\n".join(lines)
     if isinstance(s, EachValue):
-        lines = ["For each value (sorted by key)"] + [f"    {_dump_step(x)}" for x in s.lets]
+        lines = ["For each value (sorted by key)" + (f" (keys where {dump_expr(s.keys)})" if s.keys is not None else "")]
+        lines += [f"    {_dump_step(x)}" for x in s.lets]
         if s.group:
             order = ", ".join(f"{dump_expr(e)}{'' if asc else ' desc'}" for e, asc in s.order)
             lines.append(f"    Call per group ({', '.join(dump_expr(e) for e in s.group)}) ordered by ({order})"
@@ -685,13 +693,15 @@ def _dump_step(s: Step) -> str:
             lines.append(f"    Write {dump_expr(e.key)} -> {dump_expr(e.value)}")
         return "\n".join(lines)
     if isinstance(s, TopPerKey):
-        lines = ["TopPerKey"] + [f"    {_dump_step(x)}" for x in s.lets]
+        lines = ["TopPerKey" + (f" (keys where {dump_expr(s.keys)})" if s.keys is not None else "")]
+        lines += [f"    {_dump_step(x)}" for x in s.lets]
         lines.append(f"    Keep {s.n} {'largest' if s.keep_largest else 'smallest'} distinct {dump_expr(s.elem)}, "
                      f"written {'descending' if s.descending else 'ascending'}")
         lines += [f"    Write {dump_expr(e.key)} -> {dump_expr(e.value)}" for e in s.writes]
         return "\n".join(lines)
     if isinstance(s, Join):
-        lines = ["Join by key"] + [f"    {_dump_step(x)}" for x in s.lets]
+        lines = ["Join by key" + (f" (keys where {dump_expr(s.keys)})" if s.keys is not None else "")]
+        lines += [f"    {_dump_step(x)}" for x in s.lets]
         for side in s.sides:
             kind = "list" if side.many else f"one value, default {side.default!r}"
             lines.append(f"    Side {side.name} ({kind}) = {dump_expr(side.elem)} where {dump_expr(side.when)}")

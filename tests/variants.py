@@ -488,6 +488,20 @@ def same_branches(tree, lines: list[str]) -> None:
                                  f"{indent}}}"]
 
 
+@_on_tree
+def key_guard(tree, lines: list[str]) -> None:
+    """A reducer as written vs the same starting with `if (key == null) { return; }` (Hadoop never
+    hands reduce() a null key), in reducers of classes without setup()/cleanup()."""
+    found = []
+    for c, m in _map_methods(tree):
+        if m.name == "reduce" and m.body and m.body[0].position and \
+                not any(x.name in ("setup", "cleanup", "configure", "close") for x in c.methods):
+            found.append((m.body[0].position.line - 1, m.parameters[0].name))
+    for at, key in sorted(found, reverse=True):
+        indent = re.match(r"\s*", lines[at])[0]
+        lines[at:at] = [f"{indent}if ({key} == null) {{", f"{indent}    return;", f"{indent}}}"]
+
+
 def compare_when_equal(text: str) -> str:
     """`if (c != 0) { return c; } return next;` vs `if (c == 0) { c = next; } return c;` in a comparison."""
     return re.sub(r"if \((\w+) != 0\) \{\s*return \1;\s*\}(\s*)return ([^;]+);",
@@ -546,6 +560,7 @@ AXES = (
          compare_when_equal),
     Axis("compare-relations", "Integer.compare(a, b) vs a < b / a == b tests returning -1, 0, 1", compare_relations),
     Axis("own-combiner", "no combiner vs a summing reducer set as its own combiner", own_combiner),
+    Axis("key-guard", "a reducer vs the same returning first when its key is null", key_guard),
 )
 
 

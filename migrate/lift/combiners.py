@@ -25,10 +25,18 @@ from __future__ import annotations
 import re
 from dataclasses import dataclass
 
-from migrate.plan import AggRef, Cast, Col, Emit, EachValue, Expr, Field, Group, Identity, Step, StructNew, rewrite, walk
+from migrate.plan import (AggRef, Cast, Col, Count, Emit, EachValue, Expr, Field, Group, Identity, Let, Step, StructNew,
+                          rewrite, walk)
 from migrate.plan import dump_expr
 
 _COMPOSABLE = ("sum", "min", "max")
+COMBINER_COUNTERS = "combiner-counters"  # the Finding naming counters a combiner updates
+
+
+def combiner_counters(combiner: Step | None) -> list[str]:
+    """`group:name` of each counter the lifted combiner updates (per value or per call)."""
+    counts = [c for c in getattr(combiner, "lets", ()) if isinstance(c, Count)] + list(getattr(combiner, "counts", ()))
+    return list(dict.fromkeys(f"{c.group}:{c.name}" for c in counts))
 
 
 @dataclass(frozen=True)
@@ -55,6 +63,9 @@ def judge(reducer: Step | None, combiner: Step | None, combiner_unread: str = ""
         return Verdict(False, f"the combiner's reduce() is not read ({combiner_unread or 'no rule lifts it'})")
     if not isinstance(combiner, Group):
         return Verdict(False, "the combiner is not an aggregate of the values")
+    if combiner.keys is not None and combiner.keys != reducer.keys:
+        return Verdict(False, f"the combiner drops the keys failing {_text(combiner.keys)}, which the reducer would "
+                              "aggregate")
     if reducer.distinct:
         ok = combiner.distinct and combiner.single is not None
         return Verdict(ok, "passes on each key once, as the reducer does" if ok else
@@ -131,7 +142,7 @@ def _inline_arg(g: Group, arg: Expr | None) -> Expr | None:
     """An aggregate's argument with the loop's per-value locals replaced by their expressions."""
     if arg is None:
         return None
-    lets = {l.name: l.expr for l in g.lets}
+    lets = {l.name: l.expr for l in g.lets if isinstance(l, Let)}
     for _ in range(len(lets) + 1):
         new = rewrite(arg, lambda e: lets.get(e.name) if isinstance(e, Col) and e.name in lets else None)
         if new == arg:

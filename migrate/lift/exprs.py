@@ -968,6 +968,9 @@ def _binary(node: T.BinaryOperation, scope: Scope) -> Expr:
                 and scope.on_error("div_or_null") == "null":  # `/ 0` throws ArithmeticException, caught here
             return Call(t, "div_or_null", (e,), "null")
         return e
+    if op in ("==", "!=") and "null" in (l.jtype, r.jtype) and \
+            any(isinstance(x, Col) and x.name in ("key", "value") for x in (l, r)):
+        return Lit("boolean", op == "!=")  # Hadoop never hands map() or reduce() a null key or value
     if op in ("<", ">", "<=", ">=", "==", "!="):
         if l.jtype == "String" or r.jtype == "String":
             if op in ("==", "!=") and "null" in (l.jtype, r.jtype):

@@ -11,7 +11,7 @@ from migrate.java.index import ClassIndex, ClassInfo, node_lines
 from migrate.java.source import logical_sloc
 from migrate.lift.builtin import IDENTITY_MAPPERS, IDENTITY_REDUCERS, SUM_REDUCERS, library_mapper, library_reducer
 from migrate.lift.collections import constant_fields
-from migrate.lift.combiners import judge
+from migrate.lift.combiners import COMBINER_COUNTERS, combiner_counters, judge
 from migrate.lift.combining import flushes_all_entries
 from migrate.lift.config import task_constants
 from migrate.lift.limits import explain
@@ -230,7 +230,7 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
                                         "keep --task-files if readers open part files by name"))
                 if isinstance(reduce, TopN):
                     reduce = replace(reduce, partition=partition, partitions=spec.reduces)
-        _check_combiner(spec, reduce, index, add, notes, at("setCombinerClass"), map_key_t, map_val_t)
+        _check_combiner(spec, reduce, index, add, notes, findings, at("setCombinerClass"), map_key_t, map_val_t)
         if combining:
             if judge(reduce, _summing(map_key_t, map_val_t)).sound:
                 notes.append(f"in-mapper combining ({', '.join(combining)}, flushed in cleanup()) is a partial sum; the "
@@ -922,8 +922,8 @@ def _lift_reducer(rcls: ClassInfo, key_t: str, val_t: str, hand: list[HandWork],
     return group
 
 
-def _check_combiner(spec: JobSpec, reduce: Step | None, index: ClassIndex, add, notes: list[str], where: Span,
-                    key_t: str, val_t: str) -> None:
+def _check_combiner(spec: JobSpec, reduce: Step | None, index: ClassIndex, add, notes: list[str],
+                    findings: list[Finding], where: Span, key_t: str, val_t: str) -> None:
     """A combiner is sound when the reducer gives the same answer on its partial results
     (lift.combiners); then Spark needs nothing for it."""
     comb = spec.classes.get("combiner")
@@ -945,6 +945,13 @@ def _check_combiner(spec: JobSpec, reduce: Step | None, index: ClassIndex, add, 
         else:
             g, items = FoldLifter(owner, m, key_t, val_t, index).run()
             step, unread = (g, "") if not items else (None, f"{items[0].reason}, line {items[0].origin.line_start}")
+    counted = combiner_counters(step)
+    if counted:
+        findings.append(Finding(COMBINER_COUNTERS, where, f"combiner {name} updates counters too ({', '.join(counted)}): "
+                                "Hadoop runs it zero or more times per map task, so the original's values of them "
+                                "depended on how the input was split and spilled; the script counts what the reducer "
+                                "counts, and mrlift verify does not compare them",
+                                "count in the reducer only (a combiner is an optimisation Hadoop may skip)"))
     verdict = judge(reduce, step, unread)
     if verdict.sound:
         notes.append(f"combiner {name} {verdict.why}{f' ({what})' if what else ''}; Spark's groupBy merges partial "

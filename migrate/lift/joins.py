@@ -45,15 +45,17 @@ class JoinLifter(FoldLifter):
         self.loops: list[str] = []  # the list sides the statement being read iterates, outermost first
 
     def lift_join(self) -> Join:
-        for s in self.method.body or []:
+        body, keys = self._key_tests(list(self.method.body or []))
+        for s in body:
             self._stmt(s, None)
         if not self.sides or not self.writes:
             raise Unsupported(self.method, "reduce() does not sort its values into sides and write them")
         if self.aggs or self.emits or self.loop_emits:
             raise Unsupported(self.method, "reduce() does more than sort its values into sides and write them")
         a, b = node_lines(self.method)
+        self._no_value_counters()
         return Join(Span(self.file, a, b), "reduce-side join", tuple(self.sides.values()), tuple(self.writes),
-                    tuple(self.lets))
+                    tuple(self.lets), keys)
 
     # ------------------------------------------------------------------ before the loop: the sides
     def _stmt(self, s, guard) -> None:

@@ -14,14 +14,17 @@ values, writes both inside and after the loop.
 """
 from __future__ import annotations
 
+from dataclasses import replace
+
 from javalang import tree as T
 
 from migrate.java.index import ClassInfo, node_lines
+from migrate.lift.counters import counter_update, is_counter_call
 from migrate.lift.writables import structs_seen_from
 from migrate.lift.exprs import (WRITABLE_OF, Opaque, Scope, Unsupported, Writable, calls_as_names, lift, promote, text_params, widen,
                                 widen_at, writable_creator, writable_set, write_argument)
 from migrate.lift.mapper import class_constants, helper_methods, repository_classes
-from migrate.plan import (NUMERIC, Agg, AggRef, BoolOp, Col, Compare, Cond, EachValue, Emit, Expr, Finding, Group,
+from migrate.plan import (NUMERIC, Agg, AggRef, BoolOp, Col, Compare, Cond, Count, EachValue, Emit, Expr, Finding, Group,
                           HandWork, Let, Lit, Span, TopPerKey, walk)
 
 _DECLARED = {"int": "int", "long": "long", "double": "double", "float": "float", "Integer": "int", "Long": "long",
@@ -36,7 +39,7 @@ class FoldLifter:
 
     def __init__(self, cls: ClassInfo, method: T.MethodDeclaration, key_type: str, value_type: str, index=None,
                  collector=None, sorted_values: bool = False):
-        self.cls, self.method = cls, method
+        self.cls, self.method, self.index = cls, method, index
         self.sorted_values = sorted_values  # the driver sets a sort or grouping comparator (secondary sort)
         self.collector = collector  # a rule for statements filling a field across keys (lift.topn)
         self.file = cls.file.path
@@ -72,7 +75,8 @@ class FoldLifter:
         self.loop_locals: dict[str, str] = {}  # locals declared in the loop body -> Java type
         self.emits: list[Emit] = []  # writes after the loop (or without one)
         self.loop_emits: list[Emit] = []  # writes inside the loop, once per value
-        self.lets: list[Let] = []  # locals of the loop body: per-value columns
+        self.lets: list[Let | Count] = []  # locals of the loop body: per-value columns (and counters)
+        self.call_counts: list[Count] = []  # counters updated once per reduce() call
         self.tree_sets: set[str] = set()
         self.set_trim: dict[str, tuple[int, bool]] = {}  # TreeSet -> (N, keeps the largest)
         self.set_walk: tuple[str, bool, tuple[Emit, ...]] | None = None  # (set, descending, writes)
@@ -87,7 +91,8 @@ class FoldLifter:
                                    u.suggestion or "express the fold with groupBy().agg(...) by hand", snippet, "P2")]
 
     def _lift(self) -> Group | EachValue:
-        for s in self.method.body or []:
+        body, keys = self._key_tests(list(self.method.body or []))
+        for s in body:
             self._stmt(s, None)
         a, b = node_lines(self.method)
         span = Span(self.file, a, b)
@@ -100,6 +105,10 @@ class FoldLifter:
         if self.first_taken and not self.loop_emits:
             raise Unsupported(self.method, "reduce() takes the first value before its loop and does not write in the "
                                            "loop", category="value-order")
+        if self.call_counts and (self.loop_emits or self.set_walk is not None or self.collector is not None):
+            raise Unsupported(self._node_at(self.call_counts[0]),
+                              "a counter updated once per reduce() call in a reducer that writes per value or keeps "
+                              "a collection: not converted")
         if self.loop_emits:
             used = {x.name for e in self.emits for side in (e.key, e.value, e.guard) for x in walk(side)
                     if isinstance(x, AggRef)}
@@ -108,9 +117,9 @@ class FoldLifter:
                                                f"of all the values (`{sorted(used)[0]}`)")
             return EachValue(span, "writes inside the loop over values", tuple(self.loop_emits), tuple(self.lets),
                              first_value=self.first_taken, before=tuple(self.emits[:self.emits_before_loop]),
-                             after=tuple(self.emits[self.emits_before_loop:]))
+                             after=tuple(self.emits[self.emits_before_loop:]), keys=keys)
         if self.set_walk is not None:
-            return self._top_per_key(span)
+            return replace(self._top_per_key(span), keys=keys)
         if self.collector is not None:
             self.emits = self.collector.finish(self)
         if not self.emits:
@@ -122,10 +131,65 @@ class FoldLifter:
             if refs:
                 raise Unsupported(self.method, "write depends on accumulators but there is no loop over values")
             return Group(span, "distinct keys", (), tuple(self.emits), distinct=True,
-                         first_keys=self.cap[1] if self.cap else None)
+                         first_keys=self.cap[1] if self.cap else None, keys=keys, counts=tuple(self.call_counts))
+        aggs = tuple(self.aggs[n] for n in self.aggs if n in refs)
+        refs |= {x.name for c in self.call_counts for side in (c.cond, c.amount) for x in walk(side)
+                 if isinstance(x, AggRef)}
         aggs = tuple(self.aggs[n] for n in self.aggs if n in refs)
         return Group(span, "fold over values", aggs, tuple(self.emits), lets=tuple(self.lets),
-                     first_keys=self.cap[1] if self.cap else None)
+                     first_keys=self.cap[1] if self.cap else None, keys=keys, counts=tuple(self.call_counts))
+
+    def _no_value_counters(self) -> None:
+        """Counters per value are converted for folds and per-value writes only."""
+        c = next((c for c in self.lets if isinstance(c, Count)), None)
+        if c is not None:
+            raise Unsupported(self._node_at(c), "a counter updated per value in this kind of reducer is not converted")
+
+    def _count(self, st, e, guard: Expr | None) -> Count:
+        """A counter update with constant names; `guard` is where it runs."""
+        cu = counter_update(e, self.scope, self.cls, self.index)
+        if not (isinstance(cu.group, str) and isinstance(cu.name, str)):
+            raise Unsupported(st, "a counter of reduce() named by the data is not converted")
+        a, b = node_lines(st)
+        return Count(Span(self.file, a, b), self.cls.file.lines[a - 1].strip() if a else "", cu.group, cu.name, guard,
+                     cu.amount)
+
+    def _node_at(self, c: Count):
+        return next((n for _, n in self.method if getattr(n, "position", None) and n.position.line ==
+                     c.origin.line_start), self.method)
+
+    def _key_tests(self, body: list) -> tuple[list, Expr | None]:
+        """Leading tests of the key alone: `if (t) return;` before the rest, or the whole body inside
+        `if (t) { ... }`. reduce() then does its work only for keys passing them, which is the same
+        as dropping the other keys' rows before the shuffle (the test reads nothing else)."""
+        keys = None
+        while body and isinstance(body[0], T.IfStatement) and body[0].else_statement is None:
+            s, then = body[0], _block(body[0].then_statement)
+            bare_return = [x for x in body[1:] if not (isinstance(x, T.ReturnStatement) and x.expression is None)]
+            if len(then) == 1 and isinstance(then[0], T.ReturnStatement) and then[0].expression is None:
+                test, rest = self._key_test(s.condition, negate=True), body[1:]
+            elif not bare_return:
+                test, rest = self._key_test(s.condition), list(then)
+            else:
+                break
+            if test is None:
+                break
+            keys, body = test if keys is None else BoolOp("boolean", "&&", (keys, test)), rest
+        return body, keys
+
+    def _key_test(self, cond, negate: bool = False) -> Expr | None:
+        """`cond` as a test of the key alone (constants allowed), else None."""
+        names = {self.values, self.iterator} - {None}
+        if any(getattr(n, "qualifier", None) in names or getattr(n, "member", None) in names for _, n in cond):
+            return None
+        try:
+            e = self._expr(cond)
+        except Unsupported:
+            return None
+        if e.jtype != "boolean" or any(isinstance(x, (Col, AggRef)) and not (isinstance(x, Col) and x.name == "key")
+                                       for x in walk(e)):
+            return None
+        return BoolOp("boolean", "!", (e,)) if negate else e
 
     # ------------------------------------------------------------------ statements outside the loop
     def _rewrite(self, node):
@@ -239,6 +303,9 @@ class FoldLifter:
                 self.emits_before_loop += not self.seen_loop
                 return
             e = s.expression
+            if is_counter_call(e):  # once per reduce() call
+                self.call_counts.append(self._count(s, e, guard))
+                return
             changed = _changed_name(e)
             if changed in self.state_fields:
                 raise Unsupported(s, f"`{changed}` is a field of the reducer: it carries state from one key to the "
@@ -254,7 +321,7 @@ class FoldLifter:
             raise Unsupported(s, "statement in reduce() is not lifted")
         elif isinstance(s, T.IfStatement) and guard is None and self._output_cap(s):
             return
-        elif isinstance(s, T.IfStatement) and self.seen_loop:
+        elif isinstance(s, T.IfStatement) and (self.seen_loop or not _has_loop(s)):
             c = self._expr(s.condition)
             for branch, cond in ((s.then_statement, c), (s.else_statement, BoolOp("boolean", "!", (c,)))):
                 for x in _block(branch):
@@ -354,6 +421,7 @@ class FoldLifter:
         if others or self.emits or self.loop_emits:
             raise Unsupported(self.method, "reduce() computes more than the trimmed TreeSet it writes", category="top-n")
         n, largest = self.set_trim[name]
+        self._no_value_counters()
         return TopPerKey(span, f"top {n} distinct values per key", self.aggs[name].arg, n, largest, down, writes,
                          tuple(self.lets))
 
@@ -403,6 +471,9 @@ class FoldLifter:
             return
         if isinstance(st, T.StatementExpression):
             e = st.expression
+            if is_counter_call(e):  # once per value: counted over the map output rows
+                self.lets.append(self._count(st, e, guard))
+                return
             if isinstance(e, T.MemberReference) and set((e.postfix_operators or []) + (e.prefix_operators or [])) == {"++"}:
                 return self._agg(st, e.member, "count", None, guard)
             if isinstance(e, T.MethodInvocation) and e.qualifier in self.sets and e.member == "add" and len(e.arguments) == 1:
@@ -435,7 +506,7 @@ class FoldLifter:
             self.scope.env[name] = e
             return
         col = name if name not in ("key", "value") and name not in self.accs else f"{name}_v"
-        taken = {x.name for x in self.lets}
+        taken = {x.name for x in self.lets if isinstance(x, Let)}
         base, n = col, 2
         while col in taken:  # a local set again in the same iteration: a new column, earlier reads keep theirs
             col, n = f"{base}_{n}", n + 1
@@ -598,6 +669,10 @@ class FoldLifter:
             "(JLS 15.26.2), so a sum past 2147483647 wraps around to a negative number; the script does the same",
             f"if the sum may be large, declare `{name}` a long in Java and drop the wrap in the script; that changes "
             "the output"))
+
+
+def _has_loop(st) -> bool:
+    return any(isinstance(n, (T.ForStatement, T.WhileStatement, T.DoStatement)) for _, n in st)
 
 
 def _block(st) -> list:

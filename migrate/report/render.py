@@ -165,13 +165,23 @@ def counters_of(job: JobResult) -> list[dict]:
     """What each Hadoop counter counted, from the plan's Count steps."""
     from migrate.plan import Count, dump_expr
 
+    from migrate.plan import EachValue, Group
+
+    r = job.plan.reduce
+    per_value = [s for s in getattr(r, "lets", ()) if isinstance(s, Count)] if isinstance(r, (Group, EachValue)) else []
+    per_call = list(r.counts) if isinstance(r, Group) else []
     out = []
-    for s in job.plan.map_steps:
+    for s in list(job.plan.map_steps) + per_value + per_call:
         if isinstance(s, Count):
-            rows = f"records where {dump_expr(s.cond)}" if s.cond is not None else "every record that reaches this line"
+            what = "reduce() calls (keys)" if s in per_call else "values reduce() reads" if s in per_value else "records"
+            rows = f"{what} where {dump_expr(s.cond)}" if s.cond is not None else \
+                f"every {'reduce() call' if s in per_call else 'value' if s in per_value else 'record'} that reaches this line"
             amount = "" if dump_expr(s.amount) == "1" else f", adding {dump_expr(s.amount)} each"
             group, name = (None if isinstance(v, str) else dump_expr(v) for v in (s.group, s.name))
+            shared = any(f.category == "combiner-counters" and f"{s.group}:{s.name}" in f.message
+                         for f in job.plan.findings) and s in per_value + per_call
             out.append({"group": s.group if group is None else None, "name": s.name if name is None else None,
+                        **({"combiner_too": True} if shared else {}),
                         **({"group_from": group} if group else {}), **({"name_from": name} if name else {}),
                         "file": s.origin.file, "line": s.origin.line_start, "counts": rows + amount})
     return out
@@ -339,9 +349,9 @@ LAYOUT_TEXT = {"reproduced": "reproduced ({n} part files: one file holding them 
 def _keys_per_call(r) -> bool:
     """Does every written key depend on the reduce key alone (or the call's first value), so that
     the lines of one reduce() call, in no defined order, share their written key?"""
-    from migrate.plan import Col, walk
+    from migrate.plan import Col, Let, walk
 
-    lets = {x.name: x.expr for x in r.lets}
+    lets = {x.name: x.expr for x in r.lets if isinstance(x, Let)}
 
     def per_call(e) -> bool:
         cols = {c.name for c in walk(e) if isinstance(c, Col)}

@@ -313,3 +313,84 @@ def test_the_first_value_without_a_secondary_sort_is_declined_at_its_line(tmp_pa
     (job,) = scan_text(tmp_path, {"Main.java": src}).jobs
     (item,) = [h for h in job.plan.hand_work if h.category == "value-order"]
     assert "no defined order" in item.reason and item.snippet == body, item
+
+
+KEY_TESTS = """
+  public static class R extends Reducer<Text, IntWritable, Text, IntWritable> {
+    protected void reduce(Text key, Iterable<IntWritable> values, Context context)
+        throws IOException, InterruptedException {
+      if (key.toString().startsWith("#")) {
+        return;
+      }
+      if (key.getLength() > 4) {
+        int rides = 0;
+        for (IntWritable v : values) {
+          rides += v.get();
+        }
+        context.write(key, new IntWritable(rides));
+      }
+    }
+  }"""
+
+
+def test_tests_of_the_key_before_the_work_keep_only_those_keys(tmp_path):
+    """`if (t) return;` first, or the whole body inside `if (t)`: reduce() does nothing for keys
+    failing a test that reads only the key, as if their rows never reached it (Hadoop parity)."""
+    src = job_source(MAP_DOCK_DAY, KEY_TESTS)
+    (job,) = scan_text(tmp_path / "scan", {"Main.java": src}).jobs
+    assert job.status == "converted", job.plan.hand_work
+    from migrate.plan import dump_expr
+
+    assert dump_expr(job.plan.reduce.keys).count("&&") == 1
+    data = DOCKS + b"#Quay North 2024-05-01,9\n#x,1\nMill,3\n"
+    assert verify_one_job(tmp_path / "verify", src, {"rides.txt": data}).verdict == "agrees"
+
+
+def test_a_test_that_reads_the_values_is_not_a_key_test(tmp_path):
+    body = KEY_TESTS.replace('key.toString().startsWith("#")', "values.iterator().hasNext()")
+    (job,) = scan_text(tmp_path, {"Main.java": job_source(MAP_DOCK_DAY, body)}).jobs
+    assert job.status != "converted"
+
+
+COUNTING = """
+  public static class R extends Reducer<Text, IntWritable, Text, IntWritable> {
+    protected void reduce(Text key, Iterable<IntWritable> values, Context context)
+        throws IOException, InterruptedException {
+      if (key.toString().startsWith("Old")) {
+        context.getCounter("docks", "old town").increment(1);
+      }
+      int rides = 0;
+      for (IntWritable v : values) {
+        rides += v.get();
+        if (v.get() > 3) {
+          context.getCounter("docks", "busy hours").increment(1);
+        }
+      }
+      if (rides > 5) {
+        context.getCounter("docks", "busy days").increment(rides);
+      }
+      context.write(key, new IntWritable(rides));
+    }
+  }"""
+
+
+def test_counters_of_reduce_agree_with_hadoops_job_log(tmp_path):
+    """Once per key before the loop, once per value in it, once per key after it on the total:
+    mrlift verify compares the script's counter report with the counters in Hadoop's job log."""
+    src = job_source(MAP_DOCK_DAY, COUNTING)
+    (job,) = scan_text(tmp_path / "scan", {"Main.java": src}).jobs
+    assert job.status == "converted", job.plan.hand_work
+    assert len(job.plan.reduce.counts) == 2
+    check = verify_one_job(tmp_path / "verify", src, {"rides.txt": DOCKS})
+    assert check.verdict == "agrees" and not check.counters, check
+
+
+def test_counters_a_combiner_updates_too_are_named_and_not_compared(tmp_path):
+    """The reducer as its own combiner: Hadoop's counts include the combiner's runs, whose number
+    is not defined; the job converts (its lines are the same) with a finding."""
+    src = job_source(MAP_DOCK_DAY, COUNTING, extra_driver="job.setCombinerClass(R.class);")
+    (job,) = scan_text(tmp_path / "scan", {"Main.java": src}).jobs
+    (f,) = [f for f in job.plan.findings if f.category == "combiner-counters"]
+    assert "docks:old town" in f.message and "docks:busy hours" in f.message
+    check = verify_one_job(tmp_path / "verify", src, {"rides.txt": DOCKS})
+    assert check.verdict == "agrees", check
