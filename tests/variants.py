@@ -502,6 +502,42 @@ def key_guard(tree, lines: list[str]) -> None:
         lines[at:at] = [f"{indent}if ({key} == null) {{", f"{indent}    return;", f"{indent}}}"]
 
 
+@_on_tree
+def values_helper(tree, lines: list[str]) -> None:
+    """A reducer's `T x = <literal>; for (V v : values) { <updates of x> }` vs `T x = fold(values);`
+    with the same lines in a private method `T fold(Iterable<V> values) { ...; return x; }`."""
+    edits = []
+    for c, m in _map_methods(tree):
+        if m.name != "reduce" or not isinstance(m.parameters[1].type, T.ReferenceType) \
+                or m.parameters[1].type.name != "Iterable":
+            continue
+        values, body = m.parameters[1].name, m.body
+        for decl, loop in zip(body, body[1:]):
+            if not (isinstance(decl, T.LocalVariableDeclaration) and len(decl.declarators) == 1
+                    and isinstance(decl.declarators[0].initializer, T.Literal) and isinstance(loop, T.ForStatement)
+                    and isinstance(loop.control, T.EnhancedForControl) and getattr(loop.control.iterable, "member", "")
+                    == values and decl.position and loop.position):
+                continue
+            x = decl.declarators[0].name
+            assigned = {getattr(getattr(n, "expressionl", n), "member", None) for _, n in loop.body
+                        if isinstance(n, T.Assignment) or set(getattr(n, "postfix_operators", None) or []) & {"++"}}
+            calls = {n.member for _, n in loop.body if isinstance(n, T.MethodInvocation)}
+            if assigned - {None} == {x} and not calls & {"write", "collect"} and \
+                    not any(isinstance(n, (T.ReturnStatement, T.BreakStatement)) for _, n in loop.body):
+                start, stop = decl.position.line - 1, _method_end(lines, loop.position.line) - 1
+                edits.append((_body_line(lines, c), start, stop, x, values, decl.type.name,
+                              loop.control.var.type.name))
+            break
+    for cls_line, start, stop, x, values, t, v in sorted(edits, key=lambda e: -e[1]):
+        indent = re.match(r"\s*", lines[start])[0]
+        moved = [ln[len(indent):] if ln.startswith(indent) else ln.lstrip() for ln in lines[start:stop + 1]]
+        lines[start:stop + 1] = [f"{indent}{t} {x} = fold{x[0].upper()}{x[1:]}({values});"]
+        inner = re.match(r"\s*", lines[cls_line + 1])[0] or "    "
+        lines[cls_line + 1:cls_line + 1] = [f"{inner}private {t} fold{x[0].upper()}{x[1:]}(Iterable<{v}> {values}) {{",
+                                             *(f"{inner}    {ln}" for ln in moved), f"{inner}    return {x};",
+                                             f"{inner}}}"]
+
+
 def compare_when_equal(text: str) -> str:
     """`if (c != 0) { return c; } return next;` vs `if (c == 0) { c = next; } return c;` in a comparison."""
     return re.sub(r"if \((\w+) != 0\) \{\s*return \1;\s*\}(\s*)return ([^;]+);",
@@ -561,6 +597,8 @@ AXES = (
     Axis("compare-relations", "Integer.compare(a, b) vs a < b / a == b tests returning -1, 0, 1", compare_relations),
     Axis("own-combiner", "no combiner vs a summing reducer set as its own combiner", own_combiner),
     Axis("key-guard", "a reducer vs the same returning first when its key is null", key_guard),
+    Axis("values-helper", "a fold over the values in reduce() vs the same loop in a helper handed the values",
+         values_helper),
 )
 
 

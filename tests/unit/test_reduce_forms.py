@@ -394,3 +394,45 @@ def test_counters_a_combiner_updates_too_are_named_and_not_compared(tmp_path):
     assert "docks:old town" in f.message and "docks:busy hours" in f.message
     check = verify_one_job(tmp_path / "verify", src, {"rides.txt": DOCKS})
     assert check.verdict == "agrees", check
+
+
+HELPERS = """
+  public static class R extends Reducer<Text, IntWritable, Text, Text> {
+    private int busy(Iterable<IntWritable> rides, int above) {
+      int n = 0;
+      Iterator<IntWritable> it = rides.iterator();
+      while (it.hasNext()) {
+        if (it.next().get() > above) {
+          n++;
+        }
+      }
+      return n;
+    }
+
+    protected void reduce(Text key, Iterable<IntWritable> values, Context context)
+        throws IOException, InterruptedException {
+      int n = 100;
+      int hours = busy(values, 3);
+      context.write(key, new Text(hours + "/" + n));
+    }
+  }"""
+
+
+def test_values_handed_to_a_helper_read_as_its_statements_in_reduce(tmp_path):
+    """The helper's loop is reduce()'s loop: its parameters bound to the call's arguments, its
+    local `n` renamed apart from reduce()'s own `n` (Hadoop parity)."""
+    src = job_source(MAP_DOCK_DAY, HELPERS, out=("Text", "Text"))
+    (job,) = scan_text(tmp_path / "scan", {"Main.java": src}).jobs
+    assert job.status == "converted", job.plan.hand_work
+    assert any("the values handed to busy()" in n for n in job.plan.notes)
+    assert verify_one_job(tmp_path / "verify", src, {"rides.txt": DOCKS}).verdict == "agrees"
+
+
+@pytest.mark.parametrize("call", ["key.getLength() > 0 ? busy(values, 3) : 0", "busy(values, n)"])
+def test_a_helper_call_that_may_not_run_or_reads_a_local_later_stays_as_written(tmp_path, call):
+    body = HELPERS.replace("int hours = busy(values, 3);", f"int hours = {call};")
+    if "values, n)" in call:  # an argument that is a local is fine; make the helper return early instead
+        body = body.replace("      return n;\n", "      if (n > 1) { return 1; }\n      return n;\n")
+    (job,) = scan_text(tmp_path, {"Main.java": job_source(MAP_DOCK_DAY, body, out=("Text", "Text"))}).jobs
+    assert job.status != "converted"
+    assert not any("the values handed to" in n for n in job.plan.notes)
