@@ -538,6 +538,14 @@ def values_helper(tree, lines: list[str]) -> None:
                                              f"{inner}}}"]
 
 
+def first_flag(text: str) -> str:
+    """`int max = Integer.MIN_VALUE; ... if (v > max) { max = v; }` vs `int max = 0; boolean first =
+    true; ... if (first || v > max) { max = v; first = false; }`."""
+    return re.sub(r"(?ms)^([ \t]*)int (\w+) = Integer\.MIN_VALUE;(.*?)if \((\w+) > \2\) \{(\s*)\2 = \4;",
+                  lambda m: f"{m[1]}int {m[2]} = 0;\n{m[1]}boolean first = true;{m[3]}if (first || {m[4]} > {m[2]}) "
+                            f"{{{m[5]}{m[2]} = {m[4]};{m[5]}first = false;", text)
+
+
 def compare_when_equal(text: str) -> str:
     """`if (c != 0) { return c; } return next;` vs `if (c == 0) { c = next; } return c;` in a comparison."""
     return re.sub(r"if \((\w+) != 0\) \{\s*return \1;\s*\}(\s*)return ([^;]+);",
@@ -597,6 +605,7 @@ AXES = (
     Axis("compare-relations", "Integer.compare(a, b) vs a < b / a == b tests returning -1, 0, 1", compare_relations),
     Axis("own-combiner", "no combiner vs a summing reducer set as its own combiner", own_combiner),
     Axis("key-guard", "a reducer vs the same returning first when its key is null", key_guard),
+    Axis("first-flag", "a max started at Integer.MIN_VALUE vs one started by a first-value flag", first_flag),
     Axis("values-helper", "a fold over the values in reduce() vs the same loop in a helper handed the values",
          values_helper),
 )

@@ -440,10 +440,10 @@ def agg_code(a: Agg, x: ExprWriter) -> str:
         if a.init == (a.fn == "any"):  # true || ... / false && ...: decided before the first value
             return f"F.lit({a.init!r})"
         return f"F.bool_or({bare(arg)})" if a.fn == "any" else f"F.bool_and({bare(arg)})"
-    if a.fn == "max":
-        return f"F.max({arg})" if neutral_min else f"F.greatest({init_code}, F.max({arg}))"
+    if a.fn == "max":  # no initial value: the first value started the running max
+        return f"F.max({arg})" if neutral_min or init is None else f"F.greatest({init_code}, F.max({arg}))"
     if a.fn == "min":
-        return f"F.min({arg})" if neutral_max else f"F.least({init_code}, F.min({arg}))"
+        return f"F.min({arg})" if neutral_max or init is None else f"F.least({init_code}, F.min({arg}))"
     if a.fn == "max_nonnan":
         return f"F.greatest({init_code}, F.max(F.when(~F.isnan({arg}), {arg})))"
     if a.fn == "min_nonnan":

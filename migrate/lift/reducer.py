@@ -491,6 +491,8 @@ class FoldLifter:
                 return
             if guard is None and st.else_statement is None and self._compare_and_keep(st, body):
                 return
+            if guard is None and st.else_statement is None and self._first_or_compare(st, body):
+                return
             c = self._expr(st.condition)  # Spark's & evaluates its right side only where the left holds
             for branch, cond in ((body, c), (_block(st.else_statement) if st.else_statement is not None else [],
                                              BoolOp("boolean", "!", (c,)))):
@@ -610,6 +612,37 @@ class FoldLifter:
         if self._expr(side) != val:
             return False
         self._agg(st, name, ("max" if op in (">", ">=") else "min") + "_if", val)
+        return True
+
+    def _first_or_compare(self, st, body) -> bool:
+        """`if (first || f(v) > acc) { acc = f(v); first = false; }` with `boolean first = true` read
+        nowhere else: the first value starts the running max (min for <), so acc's initial value
+        never counts (reduce() always has at least one value)."""
+        c = st.condition
+        if not (isinstance(c, T.BinaryOperation) and c.operator == "||" and len(body) == 2):
+            return False
+        flag = next((x for x in (c.operandl, c.operandr) if isinstance(x, T.MemberReference) and not x.qualifier
+                     and not x.selectors and not x.prefix_operators and x.member in self.accs
+                     and self.accs[x.member] == ("boolean", Lit("boolean", True))), None)
+        drop = next((b for b in body if isinstance(b, T.StatementExpression) and isinstance(b.expression, T.Assignment)
+                     and b.expression.type == "=" and flag is not None and _is_ref(b.expression.expressionl, flag.member)
+                     and isinstance(b.expression.value, T.Literal) and b.expression.value.value == "false"), None)
+        if flag is None or drop is None:
+            return False
+        uses = [n for _, n in self.method if isinstance(n, T.MemberReference) and n.member == flag.member
+                and not n.qualifier]
+        if len(uses) != 2:  # the test and `first = false` (the declaration is not a reference)
+            return False
+        test = T.IfStatement(condition=c.operandr if flag is c.operandl else c.operandl, then_statement=None)
+        keep = [b for b in body if b is not drop]
+        target = getattr(getattr(keep[0], "expression", None), "expressionl", None)
+        # a NaN first value would stay the answer of a double max: that depends on the value order
+        if self.accs.get(getattr(target, "member", None), ("?",))[0] not in ("int", "long") \
+                or not self._compare_and_keep(test, keep):
+            return False
+        name = target.member
+        self.aggs[name] = replace(self.aggs[name], init=None)
+        self.accs.pop(flag.member)
         return True
 
     def _agg(self, st, name: str, fn: str, arg: Expr | None, guard: Expr | None = None) -> None:

@@ -436,3 +436,36 @@ def test_a_helper_call_that_may_not_run_or_reads_a_local_later_stays_as_written(
     (job,) = scan_text(tmp_path, {"Main.java": job_source(MAP_DOCK_DAY, body, out=("Text", "Text"))}).jobs
     assert job.status != "converted"
     assert not any("the values handed to" in n for n in job.plan.notes)
+
+
+FIRST_FLAG = """
+  public static class R extends Reducer<Text, IntWritable, Text, IntWritable> {
+    protected void reduce(Text key, Iterable<IntWritable> values, Context context)
+        throws IOException, InterruptedException {
+      boolean first = true;
+      int fewest = 0;
+      for (IntWritable v : values) {
+        if (first || v.get() < fewest) {
+          fewest = v.get();
+          first = false;
+        }
+      }
+      context.write(key, new IntWritable(fewest));
+    }
+  }"""
+
+
+def test_a_first_value_flag_starts_the_running_min(tmp_path):
+    """`boolean first = true; ... if (first || v < min) { min = v; first = false; }`: the initial 0
+    never counts, so all-positive values give their own minimum (Hadoop parity)."""
+    src = job_source(MAP_DOCK_DAY, FIRST_FLAG)
+    (job,) = scan_text(tmp_path / "scan", {"Main.java": src}).jobs
+    assert job.status == "converted", job.plan.hand_work
+    (agg,) = job.plan.reduce.aggs
+    assert (agg.fn, agg.init) == ("min", None)
+    assert verify_one_job(tmp_path / "verify", src, {"rides.txt": DOCKS}).verdict == "agrees"
+    # read anywhere else, the flag is not just "the first value"
+    other = FIRST_FLAG.replace("context.write(key, new IntWritable(fewest));",
+                               "if (!first) context.write(key, new IntWritable(fewest));")
+    (job,) = scan_text(tmp_path / "other", {"Main.java": job_source(MAP_DOCK_DAY, other)}).jobs
+    assert job.status != "converted" or job.plan.reduce.aggs[0].init is not None
