@@ -546,6 +546,20 @@ def first_flag(text: str) -> str:
                             f"{{{m[5]}{m[2]} = {m[4]};{m[5]}first = false;", text)
 
 
+def map_updates(text: str) -> str:
+    """`m.merge(k, v, Integer::sum)` and a flush by entries vs `if (m.containsKey(k)) m.put(k, m.get(k) + v);
+    else m.put(k, v);` and a flush by keys (`for (String k : m.keySet()) ... m.get(k)`)."""
+    text = re.sub(r"(\w+)\.merge\(([\w\[\]]+), (\w+), Integer::sum\);",
+                  lambda m: f"if ({m[1]}.containsKey({m[2]})) {{ {m[1]}.put({m[2]}, {m[1]}.get({m[2]}) + {m[3]}); }} "
+                            f"else {{ {m[1]}.put({m[2]}, {m[3]}); }}", text)
+    loop = re.search(r"for \(Map\.Entry<(\w+), \w+> (\w+) : (\w+)\.entrySet\(\)\) \{", text)
+    if loop:
+        t, e, m = loop.groups()
+        rest = text[loop.end():].replace(f"{e}.getKey()", f"{e}Key").replace(f"{e}.getValue()", f"{m}.get({e}Key)")
+        text = text[:loop.start()] + f"for ({t} {e}Key : {m}.keySet()) {{" + rest
+    return text
+
+
 def compare_when_equal(text: str) -> str:
     """`if (c != 0) { return c; } return next;` vs `if (c == 0) { c = next; } return c;` in a comparison."""
     return re.sub(r"if \((\w+) != 0\) \{\s*return \1;\s*\}(\s*)return ([^;]+);",
@@ -606,6 +620,7 @@ AXES = (
     Axis("own-combiner", "no combiner vs a summing reducer set as its own combiner", own_combiner),
     Axis("key-guard", "a reducer vs the same returning first when its key is null", key_guard),
     Axis("first-flag", "a max started at Integer.MIN_VALUE vs one started by a first-value flag", first_flag),
+    Axis("map-updates", "Map.merge and a flush by entries vs containsKey/get/put and a flush by keys", map_updates),
     Axis("values-helper", "a fold over the values in reduce() vs the same loop in a helper handed the values",
          values_helper),
 )
