@@ -440,6 +440,10 @@ def agg_code(a: Agg, x: ExprWriter) -> str:
         if a.init == (a.fn == "any"):  # true || ... / false && ...: decided before the first value
             return f"F.lit({a.init!r})"
         return f"F.bool_or({bare(arg)})" if a.fn == "any" else f"F.bool_and({bare(arg)})"
+    if a.fn == "collect_list":  # only its size is read: the order does not matter
+        return f"F.collect_list({arg})"
+    if a.fn == "collect_sorted":  # Collections.sort: ascending, as Integer/Long compareTo
+        return f"F.array_sort(F.collect_list({arg}))"
     if a.fn == "max":  # no initial value: the first value started the running max
         return f"F.max({arg})" if neutral_min or init is None else f"F.greatest({init_code}, F.max({arg}))"
     if a.fn == "min":

@@ -124,6 +124,17 @@ class Opaque:
 
 
 @dataclass
+class GatheredList:
+    """A List a reducer filled with its values (`all.add(v.get())` in the loop), read after the loop:
+    `values` is the aggregated array; `sorted` once `Collections.sort(all)` ran (before that the
+    order is the values' arrival order, which Hadoop does not define)."""
+
+    name: str
+    values: Expr
+    sorted: bool = False
+
+
+@dataclass
 class Refused:
     """A field whose value the converter declined where it was made: any use says why."""
 
@@ -524,6 +535,8 @@ def _invocation(node: T.MethodInvocation, scope: Scope) -> Expr:
             return _selectors(_map_call(recv, node, scope), node.selectors or [], scope, node)
         if isinstance(recv, ConstCollection):
             return _selectors(_collection_call(recv, node, scope), node.selectors or [], scope, node)
+        if isinstance(recv, GatheredList):
+            return _selectors(_gathered_call(recv, node, scope), node.selectors or [], scope, node)
         if isinstance(recv, Tokenizer):
             if m == "nextToken" and recv.current is not None:
                 return _selectors(recv.current, node.selectors or [], scope, node)
@@ -640,6 +653,26 @@ def _collection_call(c, node: T.MethodInvocation, scope: Scope) -> Expr:
     if m == "isEmpty" and not args:
         return Lit("boolean", not c.values)
     raise Unsupported(node, f"{c.name}.{m}() of a constant collection is not lifted")
+
+
+def _gathered_call(g: GatheredList, node: T.MethodInvocation, scope: Scope) -> Expr:
+    """size() and isEmpty() of a list of the values; get(i) once it is sorted (List.get throws
+    IndexOutOfBoundsException outside 0..size()-1: the task fails, as `index` does here)."""
+    m, args = node.member, node.arguments or []
+    if m == "size" and not args:
+        return Call("int", "size", (g.values,))
+    if m == "isEmpty" and not args:
+        return Compare("boolean", "==", Call("int", "size", (g.values,)), Lit("int", 0))
+    if m == "get" and len(args) == 1 and g.sorted:
+        i = lift(args[0], scope)
+        if i.jtype != "int":
+            raise Unsupported(node, f"{g.name}.get() with a {i.jtype} index")
+        return Call(g.values.jtype[:-2], "index", (g.values, i))
+    if m == "get" and len(args) == 1:
+        raise Unsupported(node, f"`{g.name}` holds the values in the order they reached reduce(), which Hadoop does not "
+                                "define without a secondary sort, so the original's output was not deterministic",
+                          "sort the list first (Collections.sort) if any order will do", category="value-order")
+    raise Unsupported(node, f"{g.name}.{m}() of the list of values is not lifted")
 
 
 def _token_cursor(tok: Tokenizer, node: T.MethodInvocation, scope: Scope) -> Expr:

@@ -21,7 +21,7 @@ from javalang import tree as T
 from migrate.java.index import ClassInfo, node_lines
 from migrate.lift.counters import counter_update, is_counter_call
 from migrate.lift.writables import structs_seen_from
-from migrate.lift.exprs import (WRITABLE_OF, Opaque, Scope, Unsupported, Writable, calls_as_names, lift, promote, text_params, widen,
+from migrate.lift.exprs import (WRITABLE_OF, GatheredList, Opaque, Scope, Unsupported, Writable, calls_as_names, lift, promote, text_params, widen,
                                 widen_at, writable_creator, writable_set, write_argument)
 from migrate.lift.mapper import class_constants, helper_methods, repository_classes
 from migrate.plan import (NUMERIC, Agg, AggRef, BoolOp, Col, Compare, Cond, Count, EachValue, Emit, Expr, Finding, Group,
@@ -30,6 +30,8 @@ from migrate.plan import (NUMERIC, Agg, AggRef, BoolOp, Col, Compare, Cond, Coun
 _DECLARED = {"int": "int", "long": "long", "double": "double", "float": "float", "Integer": "int", "Long": "long",
              "Double": "double", "boolean": "boolean", "String": "String"}
 _SETS = {"Set", "HashSet", "TreeSet", "LinkedHashSet"}
+_LISTS = {"List", "ArrayList", "LinkedList"}
+_GATHERED = {"Integer": "int", "Long": "long"}  # element types whose natural order is Spark's (not String: UTF-16)
 _IN_ARRIVAL_ORDER = {"List", "ArrayList", "LinkedList", "StringBuilder", "StringBuffer", "Deque", "ArrayDeque"}
 _SET_ELEMENTS = {"String": "String", "Integer": "int", "Long": "long"}  # Double sets: -0.0/NaN equality differs
 
@@ -77,6 +79,7 @@ class FoldLifter:
         self.loop_emits: list[Emit] = []  # writes inside the loop, once per value
         self.lets: list[Let | Count] = []  # locals of the loop body: per-value columns (and counters)
         self.call_counts: list[Count] = []  # counters updated once per reduce() call
+        self.lists: dict[str, str] = {}  # Lists filled with the values in the loop -> element type
         self.tree_sets: set[str] = set()
         self.set_trim: dict[str, tuple[int, bool]] = {}  # TreeSet -> (N, keeps the largest)
         self.set_walk: tuple[str, bool, tuple[Emit, ...]] | None = None  # (set, descending, writes)
@@ -144,6 +147,19 @@ class FoldLifter:
         c = next((c for c in self.lets if isinstance(c, Count)), None)
         if c is not None:
             raise Unsupported(self._node_at(c), "a counter updated per value in this kind of reducer is not converted")
+
+    def _gather(self, st, name: str, e: Expr, guard: Expr | None) -> None:
+        """`list.add(x)` in the loop: the list of x over the values (collect_list skips NULLs, which
+        a Writable's get() never is)."""
+        t = self.lists[name]
+        if name in self.aggs:
+            raise Unsupported(st, f"`{name}` is filled twice per value")
+        if e.jtype != t:
+            raise Unsupported(st, f"a {e.jtype} added to a list of {t}")
+        a, b = node_lines(st)
+        arg = Cond(t, guard, e, Lit(t, None)) if guard is not None else e
+        self.aggs[name] = Agg(name, "collect_list", arg, f"{t}[]", None, Span(self.file, a, b),
+                              self.cls.file.lines[a - 1].strip() if a else "")
 
     def _count(self, st, e, guard: Expr | None) -> Count:
         """A counter update with constant names; `guard` is where it runs."""
@@ -254,6 +270,11 @@ class FoldLifter:
                 if tname in _SETS and isinstance(d.initializer, T.ClassCreator) and not self.seen_loop:
                     self._declare_set(s, d)
                     continue
+                if tname in _LISTS and not self.seen_loop and isinstance(init, T.ClassCreator) and not init.arguments \
+                        and _element(s.type) in _GATHERED:
+                    self.lists[d.name] = _GATHERED[_element(s.type)]
+                    self.scope.env[d.name] = Opaque(f"the list `{d.name}` (read only after the loop over values)")
+                    continue
                 if tname in _IN_ARRIVAL_ORDER and self.sorted_values:
                     raise Unsupported(s, f"`{d.name}` ({tname}) gathers the values in the order the job's sort "
                                          "comparator gives them; a collection built in sort order is not converted "
@@ -292,6 +313,10 @@ class FoldLifter:
             self.in_loop = False
             for name, (t, init) in self.accs.items():
                 self.scope.env[name] = AggRef(t, name) if name in self.aggs else init
+            for name, t in self.lists.items():
+                if name not in self.aggs:
+                    raise Unsupported(s, f"the list `{name}` is not filled in the loop over values")
+                self.scope.env[name] = GatheredList(name, AggRef(f"{t}[]", name))
             for name in self.sets:
                 self.scope.env.pop(name, None)
                 if name in self.aggs:
@@ -305,6 +330,14 @@ class FoldLifter:
             e = s.expression
             if is_counter_call(e):  # once per reduce() call
                 self.call_counts.append(self._count(s, e, guard))
+                return
+            if isinstance(e, T.MethodInvocation) and e.qualifier == "Collections" and e.member == "sort" \
+                    and len(e.arguments or []) == 1 and isinstance(self.scope.env.get(getattr(e.arguments[0], "member",
+                                                                                              None)), GatheredList) \
+                    and guard is None:
+                g = self.scope.env[e.arguments[0].member]  # natural order: Integer/Long compareTo
+                self.scope.env[g.name] = replace(g, sorted=True)
+                self.aggs[g.name] = replace(self.aggs[g.name], fn="collect_sorted")
                 return
             changed = _changed_name(e)
             if changed in self.state_fields:
@@ -474,6 +507,9 @@ class FoldLifter:
             if is_counter_call(e):  # once per value: counted over the map output rows
                 self.lets.append(self._count(st, e, guard))
                 return
+            if isinstance(e, T.MethodInvocation) and e.qualifier in self.lists and e.member == "add" \
+                    and len(e.arguments or []) == 1 and not e.selectors:
+                return self._gather(st, e.qualifier, self._expr(e.arguments[0]), guard)
             if isinstance(e, T.MemberReference) and set((e.postfix_operators or []) + (e.prefix_operators or [])) == {"++"}:
                 return self._agg(st, e.member, "count", None, guard)
             if isinstance(e, T.MethodInvocation) and e.qualifier in self.sets and e.member == "add" and len(e.arguments) == 1:
@@ -736,3 +772,9 @@ def _is_one(e: Expr) -> bool:
 
 def _is_ref(n, name: str) -> bool:
     return isinstance(n, T.MemberReference) and n.member == name and not n.qualifier and not n.selectors
+
+
+def _element(t) -> str:
+    """The element type name of `List<E>`."""
+    args = getattr(t, "arguments", None) or []
+    return getattr(getattr(args[0], "type", None), "name", "") if len(args) == 1 else ""

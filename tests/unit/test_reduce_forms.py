@@ -469,3 +469,36 @@ def test_a_first_value_flag_starts_the_running_min(tmp_path):
                                "if (!first) context.write(key, new IntWritable(fewest));")
     (job,) = scan_text(tmp_path / "other", {"Main.java": job_source(MAP_DOCK_DAY, other)}).jobs
     assert job.status != "converted" or job.plan.reduce.aggs[0].init is not None
+
+
+MEDIAN = """
+  public static class R extends Reducer<Text, IntWritable, Text, Text> {
+    protected void reduce(Text key, Iterable<IntWritable> values, Context context)
+        throws IOException, InterruptedException {
+      List<Integer> rides = new ArrayList<>();
+      for (IntWritable v : values) {
+        rides.add(v.get());
+      }
+      Collections.sort(rides);
+      int n = rides.size();
+      double median = n % 2 == 1 ? rides.get(n / 2) : (rides.get(n / 2 - 1) + rides.get(n / 2)) / 2.0;
+      context.write(key, new Text(n + " " + median + " " + rides.get(0) + ".." + rides.get(n - 1)));
+    }
+  }"""
+
+
+def test_values_gathered_in_a_list_then_sorted_give_a_median(tmp_path):
+    """A List of the values sorted with Collections.sort (Integer's natural order, Collections.sort
+    javadoc) is the sorted array of the values: size, get(i) and the median agree with Hadoop."""
+    src = job_source(MAP_DOCK_DAY, MEDIAN, out=("Text", "Text"))
+    (job,) = scan_text(tmp_path / "scan", {"Main.java": src}).jobs
+    assert job.status == "converted", job.plan.hand_work
+    assert [a.fn for a in job.plan.reduce.aggs] == ["collect_sorted"]
+    data = DOCKS + b"Old Mill 2024-05-02,-4\nOld Mill 2024-05-02,9\nQuay North 2024-05-01,2\n"
+    assert verify_one_job(tmp_path / "verify", src, {"rides.txt": data}).verdict == "agrees"
+
+
+def test_a_list_of_values_read_by_position_without_sorting_is_not_deterministic(tmp_path):
+    body = MEDIAN.replace("      Collections.sort(rides);\n", "")
+    (job,) = scan_text(tmp_path, {"Main.java": job_source(MAP_DOCK_DAY, body, out=("Text", "Text"))}).jobs
+    assert [h.category for h in job.plan.hand_work] == ["value-order"]
