@@ -79,7 +79,7 @@ class FoldLifter:
         self.loop_emits: list[Emit] = []  # writes inside the loop, once per value
         self.lets: list[Let | Count] = []  # locals of the loop body: per-value columns (and counters)
         self.call_counts: list[Count] = []  # counters updated once per reduce() call
-        self.lists: dict[str, str] = {}  # Lists filled with the values in the loop -> element type
+        self.gathered: dict[str, str] = {}  # Lists filled with the values in the loop -> element type (joins have their own lists)
         self.tree_sets: set[str] = set()
         self.set_trim: dict[str, tuple[int, bool]] = {}  # TreeSet -> (N, keeps the largest)
         self.set_walk: tuple[str, bool, tuple[Emit, ...]] | None = None  # (set, descending, writes)
@@ -151,7 +151,7 @@ class FoldLifter:
     def _gather(self, st, name: str, e: Expr, guard: Expr | None) -> None:
         """`list.add(x)` in the loop: the list of x over the values (collect_list skips NULLs, which
         a Writable's get() never is)."""
-        t = self.lists[name]
+        t = self.gathered[name]
         if name in self.aggs:
             raise Unsupported(st, f"`{name}` is filled twice per value")
         if e.jtype != t:
@@ -272,7 +272,7 @@ class FoldLifter:
                     continue
                 if tname in _LISTS and not self.seen_loop and isinstance(init, T.ClassCreator) and not init.arguments \
                         and _element(s.type) in _GATHERED:
-                    self.lists[d.name] = _GATHERED[_element(s.type)]
+                    self.gathered[d.name] = _GATHERED[_element(s.type)]
                     self.scope.env[d.name] = Opaque(f"the list `{d.name}` (read only after the loop over values)")
                     continue
                 if tname in _IN_ARRIVAL_ORDER and self.sorted_values:
@@ -313,7 +313,7 @@ class FoldLifter:
             self.in_loop = False
             for name, (t, init) in self.accs.items():
                 self.scope.env[name] = AggRef(t, name) if name in self.aggs else init
-            for name, t in self.lists.items():
+            for name, t in self.gathered.items():
                 if name not in self.aggs:
                     raise Unsupported(s, f"the list `{name}` is not filled in the loop over values")
                 self.scope.env[name] = GatheredList(name, AggRef(f"{t}[]", name))
@@ -507,7 +507,7 @@ class FoldLifter:
             if is_counter_call(e):  # once per value: counted over the map output rows
                 self.lets.append(self._count(st, e, guard))
                 return
-            if isinstance(e, T.MethodInvocation) and e.qualifier in self.lists and e.member == "add" \
+            if isinstance(e, T.MethodInvocation) and e.qualifier in self.gathered and e.member == "add" \
                     and len(e.arguments or []) == 1 and not e.selectors:
                 return self._gather(st, e.qualifier, self._expr(e.arguments[0]), guard)
             if isinstance(e, T.MemberReference) and set((e.postfix_operators or []) + (e.prefix_operators or [])) == {"++"}:
