@@ -11,8 +11,8 @@ import copy
 
 from javalang import tree as T
 
-from migrate.lower.walk import (assigned_names, line_of, mentions, name_ref, positioned, qualified, replace_nodes,
-                               statement_lists)
+from migrate.lower.walk import (assigned_names, is_name, line_of, mentions, name_ref, positioned, qualified,
+                               replace_nodes, statement_lists)
 
 
 def counting_loops(cls, index=None) -> list[tuple[int, str]]:
@@ -53,7 +53,7 @@ def _index_loop(s):
         return None
     i = init.declarators[0].name
     cond = c.condition
-    if not (isinstance(cond, T.BinaryOperation) and cond.operator == "<" and _is_name(cond.operandl, i)):
+    if not (isinstance(cond, T.BinaryOperation) and cond.operator == "<" and is_name(cond.operandl, i)):
         return None
     bound = cond.operandr
     if isinstance(bound, T.MemberReference) and bound.member == "length" and bound.qualifier \
@@ -69,10 +69,6 @@ def _index_loop(s):
     return i, bound.qualifier, kind
 
 
-def _is_name(n, name) -> bool:
-    return isinstance(n, T.MemberReference) and n.member == name and not n.qualifier and not n.selectors \
-        and not n.prefix_operators and not n.postfix_operators
-
 
 def _is_increment(update, i) -> bool:
     if not update or len(update) != 1:
@@ -81,11 +77,11 @@ def _is_increment(update, i) -> bool:
     if isinstance(u, T.MemberReference) and u.member == i and not u.qualifier and \
             ((u.postfix_operators or []) + (u.prefix_operators or [])) == ["++"]:
         return True
-    if isinstance(u, T.Assignment) and _is_name(u.expressionl, i):
+    if isinstance(u, T.Assignment) and is_name(u.expressionl, i):
         v = u.value
         if u.type == "+=" and isinstance(v, T.Literal) and v.value == "1":
             return True
-        return u.type == "=" and isinstance(v, T.BinaryOperation) and v.operator == "+" and _is_name(v.operandl, i) \
+        return u.type == "=" and isinstance(v, T.BinaryOperation) and v.operator == "+" and is_name(v.operandl, i) \
             and isinstance(v.operandr, T.Literal) and v.operandr.value == "1"
     return False
 
@@ -94,9 +90,9 @@ def _element_ref(n, arr: str, i: str) -> bool:
     """`arr[i]` or `arr.charAt(i)` and nothing more."""
     if isinstance(n, T.MethodInvocation):
         return n.qualifier == arr and n.member == "charAt" and len(n.arguments or []) == 1 and not n.selectors \
-            and _is_name(n.arguments[0], i) and not n.prefix_operators and not n.postfix_operators
+            and is_name(n.arguments[0], i) and not n.prefix_operators and not n.postfix_operators
     return isinstance(n, T.MemberReference) and n.member == arr and not n.qualifier and len(n.selectors or []) == 1 \
-        and isinstance(n.selectors[0], T.ArraySelector) and _is_name(n.selectors[0].index, i)
+        and isinstance(n.selectors[0], T.ArraySelector) and is_name(n.selectors[0].index, i)
 
 
 def _as_for_each(s, method, cls):
@@ -229,7 +225,7 @@ def _as_counting_for(decl, loop, after):
     i = decl.declarators[0].name
     cond = loop.condition
     body = loop.body.statements
-    if not (isinstance(cond, T.BinaryOperation) and cond.operator in ("<", "<=") and _is_name(cond.operandl, i)):
+    if not (isinstance(cond, T.BinaryOperation) and cond.operator in ("<", "<=") and is_name(cond.operandl, i)):
         return None
     at = [j for j, x in enumerate(body) if isinstance(x, T.StatementExpression) and _is_increment([x.expression], i)]
     if len(at) != 1:

@@ -22,7 +22,7 @@ import copy
 from javalang import tree as T
 
 from migrate.lower.branches import _same
-from migrate.lower.walk import line_of, mentions, positioned, replace_nodes, statement_lists
+from migrate.lower.walk import is_name, line_of, mentions, positioned, replace_nodes, statement_lists
 
 _SUMS = {"Integer": "Integer", "Long": "Long"}
 
@@ -159,14 +159,14 @@ def _added_to(e, c: str):
     """v for `c + v` or `v + c`."""
     if isinstance(e, T.BinaryOperation) and e.operator == "+":
         for ref, v in ((e.operandl, e.operandr), (e.operandr, e.operandl)):
-            if _is_name(ref, c) and _simple(v):
+            if is_name(ref, c) and _simple(v):
                 return v
     return None
 
 
 def _null_test(cond, c: str) -> bool | None:
     """True for `c == null`, False for `c != null`."""
-    if isinstance(cond, T.BinaryOperation) and cond.operator in ("==", "!=") and _is_name(cond.operandl, c) \
+    if isinstance(cond, T.BinaryOperation) and cond.operator in ("==", "!=") and is_name(cond.operandl, c) \
             and isinstance(cond.operandr, T.Literal) and cond.operandr.value == "null":
         return cond.operator == "=="
     return None
@@ -175,7 +175,7 @@ def _null_test(cond, c: str) -> bool | None:
 def _assigns_zero(s, c: str) -> bool:
     s = _single(s)
     e = s.expression if isinstance(s, T.StatementExpression) else None
-    return isinstance(e, T.Assignment) and e.type == "=" and _is_name(e.expressionl, c) \
+    return isinstance(e, T.Assignment) and e.type == "=" and is_name(e.expressionl, c) \
         and isinstance(e.value, T.Literal) and e.value.value.rstrip("lL") == "0"
 
 
@@ -203,19 +203,19 @@ def _flush_by_keys(s, maps: dict) -> bool:
         return False
     m, x = it.qualifier, s.control.var.declarators[0].name
     if any(isinstance(n, T.MethodInvocation) and n.qualifier == m and n.member not in ("get",) for _, n in s.body) \
-            or any(isinstance(n, T.Assignment) and _is_name(n.expressionl, x) for _, n in s.body):
+            or any(isinstance(n, T.Assignment) and is_name(n.expressionl, x) for _, n in s.body):
         return False
     entry = f"{x}Entry"
 
     def value(n):
-        if _is_get(n, {m: None}) and _is_name(n.arguments[0], x):
+        if _is_get(n, {m: None}) and is_name(n.arguments[0], x):
             return positioned(T.MethodInvocation(qualifier=entry, member="getValue", arguments=[], selectors=[],
                                                  prefix_operators=n.prefix_operators or [], postfix_operators=[],
                                                  type_arguments=None), n)
         return None
 
     def key(n):
-        if _is_name(n, x):
+        if is_name(n, x):
             return positioned(T.MethodInvocation(qualifier=entry, member="getKey", arguments=[], selectors=[],
                                                  prefix_operators=n.prefix_operators or [], postfix_operators=[],
                                                  type_arguments=None), n)
@@ -252,9 +252,5 @@ def _simple(e) -> bool:
     if isinstance(e, T.MemberReference) and not e.qualifier and not e.prefix_operators and not e.postfix_operators \
             and e.selectors and all(isinstance(x, T.ArraySelector) and _simple(x.index) for x in e.selectors):
         return True
-    return isinstance(e, T.Literal) and not e.prefix_operators or _is_name(e)
+    return isinstance(e, T.Literal) and not e.prefix_operators or is_name(e)
 
-
-def _is_name(node, name: str | None = None) -> bool:
-    return isinstance(node, T.MemberReference) and not node.qualifier and not node.selectors \
-        and not node.prefix_operators and not node.postfix_operators and (name is None or node.member == name)

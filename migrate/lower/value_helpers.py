@@ -15,7 +15,7 @@ import copy
 
 from javalang import tree as T
 
-from migrate.lower.walk import assigned_names, line_of, replace_nodes
+from migrate.lower.walk import assigned_names, is_name, line_of, replace_nodes
 
 _SHORT_CIRCUIT = ("&&", "||")
 
@@ -49,14 +49,14 @@ def _helper_call(stmt, values: str, helpers: dict):
     if not isinstance(stmt, (T.StatementExpression, T.LocalVariableDeclaration)):
         return None
     calls = [n for _, n in stmt if isinstance(n, T.MethodInvocation) and n.member in helpers
-             and not n.qualifier and any(_is_name(a, values) for a in n.arguments or [])]
+             and not n.qualifier and any(is_name(a, values) for a in n.arguments or [])]
     if len(calls) != 1:
         return None
     call, helper = calls[0], helpers[calls[0].member]
     if len(helper.parameters) != len(call.arguments) or not _returns_last(helper) or _guarded(stmt, call) \
             or any(n.member == helper.name for _, n in helper if isinstance(n, T.MethodInvocation)) \
             or assigned_names(helper) & {p.name for p in helper.parameters} \
-            or not all(isinstance(a, T.Literal) or _is_name(a) for a in call.arguments):
+            or not all(isinstance(a, T.Literal) or is_name(a) for a in call.arguments):
         return None
     return call, helper
 
@@ -83,7 +83,7 @@ def _inline(helper, call, values: str, taken: set[str]) -> tuple[list, object]:
             return arg
         if isinstance(n, T.MemberReference) and not n.qualifier and n.member in renamed:
             n.member = renamed[n.member]
-        if isinstance(n, T.MethodInvocation) and n.qualifier in bound and _is_name(bound[n.qualifier]):
+        if isinstance(n, T.MethodInvocation) and n.qualifier in bound and is_name(bound[n.qualifier]):
             n.qualifier = bound[n.qualifier].member
         elif isinstance(n, T.MethodInvocation) and n.qualifier in renamed:
             n.qualifier = renamed[n.qualifier]
@@ -110,10 +110,6 @@ def _guarded(stmt, call) -> bool:
                 return True
     return False
 
-
-def _is_name(node, name: str | None = None) -> bool:
-    return isinstance(node, T.MemberReference) and not node.qualifier and not node.selectors \
-        and not node.prefix_operators and not node.postfix_operators and (name is None or node.member == name)
 
 
 def _names(method) -> set[str]:

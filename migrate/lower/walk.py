@@ -44,6 +44,12 @@ def _inner(s, caught):
             yield from _lists(c.statements, caught)
 
 
+def is_name(node, name: str | None = None) -> bool:
+    """A bare simple name (`x`, no qualifier, selectors or operators), optionally that one."""
+    return isinstance(node, T.MemberReference) and not node.qualifier and not node.selectors \
+        and not node.prefix_operators and not node.postfix_operators and (name is None or node.member == name)
+
+
 def name_ref(name: str, like=None) -> T.MemberReference:
     ref = T.MemberReference(prefix_operators=[], postfix_operators=[], qualifier="", selectors=[], member=name)
     return positioned(ref, like)
