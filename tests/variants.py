@@ -560,6 +560,25 @@ def map_updates(text: str) -> str:
     return text
 
 
+def values_list(text: str) -> str:
+    """`long n = 0; for (LongWritable v : values) { n++; }` vs the values gathered in a List, sorted,
+    and counted: `List<Long> nAll = ...; nAll.add(v.get()); Collections.sort(nAll); long n = nAll.size();`."""
+    box = {"IntWritable": "Integer", "LongWritable": "Long"}
+
+    def gather(m: re.Match) -> str:
+        ind, t, n, loop_ind, w, v, values, body_ind = m[1], m[2], m[3], m[4], m[5], m[6], m[7], m[8]
+        return (f"{ind}List<{box[w]}> {n}All = new ArrayList<>();\n{loop_ind}for ({w} {v} : {values}) {{\n"
+                f"{body_ind}{n}All.add({v}.get());\n{loop_ind}}}\n{ind}Collections.sort({n}All);\n"
+                f"{ind}{t} {n} = {n}All.size();")
+
+    new = re.sub(r"(?m)^([ \t]*)(int|long) (\w+) = 0;\n([ \t]*)for \((IntWritable|LongWritable) (\w+) : (\w+)\) \{\n"
+                 r"([ \t]*)\3\+\+;\n[ \t]*\}", gather, text)
+    if new != text:
+        new = re.sub(r"(?m)^import ", "import java.util.ArrayList;\nimport java.util.Collections;\n"
+                                      "import java.util.List;\nimport ", new, count=1)
+    return new
+
+
 def compare_when_equal(text: str) -> str:
     """`if (c != 0) { return c; } return next;` vs `if (c == 0) { c = next; } return c;` in a comparison."""
     return re.sub(r"if \((\w+) != 0\) \{\s*return \1;\s*\}(\s*)return ([^;]+);",
@@ -621,6 +640,7 @@ AXES = (
     Axis("key-guard", "a reducer vs the same returning first when its key is null", key_guard),
     Axis("first-flag", "a max started at Integer.MIN_VALUE vs one started by a first-value flag", first_flag),
     Axis("map-updates", "Map.merge and a flush by entries vs containsKey/get/put and a flush by keys", map_updates),
+    Axis("values-list", "a count of the values vs the size of a sorted List of them", values_list),
     Axis("values-helper", "a fold over the values in reduce() vs the same loop in a helper handed the values",
          values_helper),
 )
