@@ -135,7 +135,6 @@ class FoldLifter:
                 raise Unsupported(self.method, "write depends on accumulators but there is no loop over values")
             return Group(span, "distinct keys", (), tuple(self.emits), distinct=True,
                          first_keys=self.cap[1] if self.cap else None, keys=keys, counts=tuple(self.call_counts))
-        aggs = tuple(self.aggs[n] for n in self.aggs if n in refs)
         refs |= {x.name for c in self.call_counts for side in (c.cond, c.amount) for x in walk(side)
                  if isinstance(x, AggRef)}
         aggs = tuple(self.aggs[n] for n in self.aggs if n in refs)
