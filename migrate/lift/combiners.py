@@ -30,6 +30,9 @@ from migrate.plan import (AggRef, Cast, Col, Count, Emit, EachValue, Expr, Field
 from migrate.plan import dump_expr
 
 _COMPOSABLE = ("sum", "min", "max")
+# starting values that never win a max / a min (Integer/Long MIN_VALUE and MAX_VALUE, infinities)
+_NEUTRAL = {"max": (-2147483648, -9223372036854775808, float("-inf")),
+            "min": (2147483647, 9223372036854775807, float("inf"))}
 COMBINER_COUNTERS = "combiner-counters"  # the Finding naming counters a combiner updates
 
 
@@ -97,12 +100,16 @@ def judge(reducer: Step | None, combiner: Step | None, combiner_unread: str = ""
             return Verdict(False, f"the combiner writes {_text(write.value)}, which is not a partial {fn} the "
                                   f"reducer's `{a.name}` can take the {fn} of (a {fn} of such results is not the "
                                   f"{fn} of the values)")
-        if partial.fn.split("_")[0] != fn or comb[partial.name] != read[a.name] and \
-                not _same_value(comb[partial.name], read[a.name]):
-            return Verdict(False, f"the reducer's `{a.name}` is the {fn} of {_text(read[a.name])}, but the combiner "
+        # the same aggregate (min_nan keeps NaN, min_nonnan drops it: not the same) of the same expression
+        if (partial.fn != a.fn and not (fn == "sum" and partial.fn.split("_")[0] == "sum")) or \
+                comb[partial.name] != read[a.name] and not _same_value(comb[partial.name], read[a.name]):
+            return Verdict(False, f"the reducer's `{a.name}` is the {a.fn} of {_text(read[a.name])}, but the combiner "
                                   f"writes the {partial.fn} of {_text(comb[partial.name])}")
         if fn == "sum" and partial.init not in (None, 0, 0.0):
             return Verdict(False, f"the combiner starts its sum at {partial.init}, added once per run")
+        if fn != "sum" and partial.init not in (None, a.init) and partial.init not in _NEUTRAL[fn]:
+            return Verdict(False, f"the combiner's {fn} starts at {partial.init}, the reducer's at {a.init}: the "
+                                  "combiner's start would count as a value")
         narrow = fn == "sum" and partial.jtype == "int" and a.jtype == "long"
         parts.append(f"a partial {fn}" + (" (added in int: a per-task sum past 2^31 would wrap in the original)"
                                           if narrow else ""))

@@ -119,3 +119,18 @@ def test_sum_and_count_carried_in_a_writable_combine_field_by_field(tmp_path):
     scan = scan_text(tmp_path / "avg", job_files(combiner_writes="new SumCount(s / n, 1)"))
     (item,) = [h for h in scan.jobs[0].plan.hand_work if h.category == "combiner"]
     assert "not a partial sum" in item.reason
+
+
+def test_min_and_max_combine_only_from_the_same_start(tmp_path):
+    """max(I, max(J, part)...) is max(I, all) only when J cannot win: J == I, or Integer.MIN_VALUE."""
+    bodies = dict(BODIES)
+    BODIES["max0"] = BODIES["max"].replace("Integer.MIN_VALUE", "0")
+    BODIES["max5"] = BODIES["max"].replace("Integer.MIN_VALUE", "5")
+    try:
+        assert _job(tmp_path / "a", "max0", "max").status == "converted"  # the combiner's start never wins
+        assert _job(tmp_path / "b", "max0", "max0").status == "converted"
+        (item,) = [h for h in _job(tmp_path / "c", "max0", "max5").plan.hand_work if h.category == "combiner"]
+        assert "starts at 5, the reducer's at 0" in item.reason
+    finally:
+        BODIES.clear()
+        BODIES.update(bodies)
