@@ -517,7 +517,7 @@ def build_body(plan: Plan, x: ExprWriter) -> ScriptParts:
         out.append("result = (")
         out.append("    map_output")
         if r.distinct:
-            out.extend(_key_test_code(r, x))
+            out.extend("    " + c for c in _key_test_code(r, x))
             out.append("    .select(\"key\")")
             out.append("    .distinct()  # the reducer ignores its values: one row per key")
         else:
@@ -540,7 +540,7 @@ def build_body(plan: Plan, x: ExprWriter) -> ScriptParts:
             parts.uses_window = True
         out.append("result = (")
         out.append("    map_output")
-        out.extend(_key_test_code(r, x))
+        out.extend("    " + c for c in _key_test_code(r, x))
         if calls:
             out.extend("    " + c for c in _call_position_code(r))
         out.extend("    " + c for s in r.lets for c in _step_code(s, x))
@@ -670,7 +670,7 @@ def _join_code(r: Join, plan: Plan, x: ExprWriter) -> list[str]:
            "# each write below runs once per combination of the lists it loops over, as in Java."]
     values = "map_output"
     if r.lets or r.keys is not None:
-        out += ["values = (", "    map_output", *_key_test_code(r, x),
+        out += ["values = (", "    map_output", *("    " + c for c in _key_test_code(r, x)),
                 *("    " + c for s in r.lets for c in _step_code(s, x)), ")"]
         values = "values"
     read = {c.name for w in r.writes for e in (w.emit.key, w.emit.value, w.emit.guard) for c in walk(e)
@@ -720,7 +720,7 @@ def _join_code(r: Join, plan: Plan, x: ExprWriter) -> list[str]:
 
 def _fold_code(g: Group, x: ExprWriter) -> list[str]:
     """`.groupBy("key").agg(...)` for a fold, with the per-value columns computed before it."""
-    lines = [line.removeprefix("    ") for line in _key_test_code(g, x)]
+    lines = _key_test_code(g, x)
     lines += [c for s in g.lets for c in _step_code(s, x)]
     lines += ['.groupBy("key")', ".agg("]
     for a in g.aggs:
@@ -795,7 +795,7 @@ def _top_per_key_code(r: TopPerKey, x: ExprWriter, partition: Expr | None) -> li
     cols = [f'{x(w.key)}.alias("key")', f'{x(w.value)}.alias("value")', *extra, f'{walk}.alias("_write")']
     lines = ["", f"# Reduce side: wide — rows are shuffled so all values of a key meet ({_where(r.origin)})",
              "# a TreeSet keeps each distinct value once, in sorted order",
-             "entries = (", "    map_output", *_key_test_code(r, x)]
+             "entries = (", "    map_output", *("    " + c for c in _key_test_code(r, x))]
     lines += ["    " + c for s in r.lets for c in _step_code(s, x)]
     lines += [f'    .select("key", {x(r.elem)}.alias("tm_key"))', "    .distinct()", ")",
               f"# trimmed after every add: the {r.n} {'largest' if r.keep_largest else 'smallest'} distinct values "
@@ -812,7 +812,7 @@ def _key_test_code(r: Group | EachValue | TopPerKey | Join, x: ExprWriter) -> li
     """reduce() works only for keys passing a test of the key: the other keys' rows are dropped."""
     if r.keys is None:
         return []
-    return [f"    .where({x(r.keys)})  # reduce() does nothing for the other keys"]
+    return [f".where({x(r.keys)})  # reduce() does nothing for the other keys"]
 
 
 def _first_keys_code(r: Group, plan: Plan, x: ExprWriter) -> list[str]:

@@ -78,8 +78,7 @@ def judge(reducer: Step | None, combiner: Step | None, combiner_unread: str = ""
     write, why = _one_write(combiner, reducer)
     if write is None:
         return Verdict(False, why)
-    read = _inline_lets(reducer)
-    comb = {a.name: _inline_arg(combiner, a.arg) for a in combiner.aggs}
+    read, comb = _aggregate_args(reducer), _aggregate_args(combiner)
     parts = []
     for a in reducer.aggs:
         fn = a.fn.split("_")[0]
@@ -141,7 +140,8 @@ def _conjuncts(g: Expr | None) -> list[Expr]:
     return [g]
 
 
-def _inline_lets(g: Group) -> dict[str, Expr]:
+def _aggregate_args(g: Group) -> dict[str, Expr]:
+    """Each aggregate's argument, in terms of the value itself."""
     return {a.name: _inline_arg(g, a.arg) for a in g.aggs}
 
 
