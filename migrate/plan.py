@@ -239,7 +239,7 @@ class Agg:
     """One aggregate over the values of a key: sum, count, min, max, …"""
 
     name: str
-    fn: str  # sum, count, min, max, min_nonnan, max_nonnan, min_nan, any, all, collect_set
+    fn: str  # sum, count, min, max, min_nonnan, max_nonnan, min_nan, any, all, count_distinct, only, ...
     arg: Expr | None
     jtype: str  # Java type of the accumulator (decides overflow wrap)
     init: Any = None  # the accumulator's initial value, folded in when it can matter
@@ -310,12 +310,13 @@ class TopN(Step):
     """
 
     fold: Group
-    n: int
+    n: int  # the N the original runs with (the driver's setting, where N is one)
     keep_largest: bool
     descending: bool
     writes: tuple[Emit, ...]
     partition: Expr | None = None
     partitions: int = 1
+    n_setting: Expr | None = None  # N read from the job's configuration in setup(): a script parameter
 
 
 @dataclass(frozen=True)

@@ -608,6 +608,25 @@ def own_combiner(text: str) -> str:
     return text[:m.end()] + f"\n{m[1]}{m[2]}.setCombinerClass({m[3]}.class);" + text[m.end():]
 
 
+def setup_setting(text: str) -> str:
+    """A reducer's constant N (`static final int TOP = 4;` read as `size() > TOP`) vs the same N set by
+    the driver in the job's Configuration and read in the reducer's setup()."""
+    const = re.search(r"static final int (\w+) = (\d+);", text)
+    use = const and re.search(rf"\.size\(\) > {const[1]}\)", text)
+    job = re.search(r"(?m)^([ \t]*)Job (\w+) = Job\.getInstance\([^;]*\);\n", text)
+    if not use or not job:
+        return text
+    reducers = list(re.finditer(r"(?m)^([ \t]*)public static class \w+ extends Reducer<[^{]*\{\n", text[:use.start()]))
+    if not reducers or "setup(" in text[reducers[-1].end():]:
+        return text
+    head, ind, field = reducers[-1], reducers[-1][1] + "    ", f"{const[1].lower()}Setting"
+    added = (f"{ind}private int {field};\n\n{ind}@Override\n{ind}protected void setup(Context context) {{\n"
+             f"{ind}    {field} = Integer.parseInt(context.getConfiguration().get(\"variant.top\"));\n{ind}}}\n\n")
+    setting = f'{job[1]}{job[2]}.getConfiguration().set("variant.top", "{const[2]}");\n'
+    return (text[:head.end()] + added + text[head.end():use.start()] + f".size() > {field})"
+            + text[use.end():job.end()] + setting + text[job.end():])
+
+
 AXES = (
     Axis("catch-logs", "empty catch vs logging then skipping", catch_logs),
     Axis("field-scratch", "array local vs scratch field", field_scratch),
@@ -643,6 +662,7 @@ AXES = (
     Axis("values-list", "a count of the values vs the size of a sorted List of them", values_list),
     Axis("values-helper", "a fold over the values in reduce() vs the same loop in a helper handed the values",
          values_helper),
+    Axis("setup-setting", "a reducer's constant N vs N set by the driver and read in setup()", setup_setting),
 )
 
 

@@ -97,6 +97,16 @@ def java_parse_double(s: Column, *, skip_bad_record: bool = False) -> Column:
     return value if skip_bad_record else fail_where_java_throws(value, s, "NumberFormatException")
 ''', ("fail_where_java_throws",))
 
+_h("last_value_assigned", '''
+def last_value_assigned(value: Column, where: str) -> Column:
+    """The aggregate for `x = f(value)` in a loop over a key's values: Java keeps the last value,
+    and Hadoop gives the values in no defined order, so the answer is defined only where every
+    value agrees. Stop the job where a key's values differ."""
+    differ = F.lit(f"{where}: takes different values under one key; Java keeps the last one, and Hadoop "
+                   "does not define which that is")
+    return F.when(F.count_distinct(value) > 1, F.raise_error(differ)).otherwise(F.max(value))
+''')
+
 _h("wrap_int", '''
 def wrap_int(c: Column) -> Column:
     """Java int overflow wraps around (keeps the low 32 bits); Spark widens or raises instead."""

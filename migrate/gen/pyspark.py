@@ -440,6 +440,9 @@ def agg_code(a: Agg, x: ExprWriter) -> str:
         if a.init == (a.fn == "any"):  # true || ... / false && ...: decided before the first value
             return f"F.lit({a.init!r})"
         return f"F.bool_or({bare(arg)})" if a.fn == "any" else f"F.bool_and({bare(arg)})"
+    if a.fn == "only":  # Java keeps the last value assigned; it is defined only when all agree
+        x.helpers.add("last_value_assigned")
+        return f"last_value_assigned({arg}, {f'{_where(a.origin)} `{a.name}`'!r})"
     if a.fn == "collect_list":  # only its size is read: the order does not matter
         return f"F.collect_list({arg})"
     if a.fn == "collect_sorted":  # Collections.sort: ascending, as Integer/Long compareTo
@@ -732,7 +735,7 @@ def _fold_code(g: Group, x: ExprWriter) -> list[str]:
 def _walk_order(r: TopN | TopPerKey) -> str:
     """The write order of kept entries from their rank `_kept` (1 = the first one the trim keeps):
     the same when the loop walks from the kept end, reversed otherwise."""
-    return 'F.col("_kept")' if r.keep_largest == r.descending else f'F.lit({r.n} + 1) - F.col("_kept")'
+    return 'F.col("_kept")' if r.keep_largest == r.descending else f'(F.lit({r.n} + 1) - F.col("_kept"))'
 
 
 def _call_windows(r: EachValue, x: ExprWriter) -> list[str]:
@@ -826,6 +829,11 @@ def _first_keys_code(r: Group, plan: Plan, x: ExprWriter) -> list[str]:
             f'.where(F.col("_key_number") <= {r.first_keys})']
 
 
+def _top_n_limit(r: TopN, x: ExprWriter) -> str:
+    """N: a number, or the job setting it is read from (a script parameter)."""
+    return str(r.n) if r.n_setting is None else x(r.n_setting)
+
+
 def _top_n_code(r: TopN, x: ExprWriter) -> list[str]:
     """Per-key fold → one entry per map key (the last put wins) → the N kept entries → cleanup()'s writes."""
     put = r.fold.emits[0]
@@ -851,7 +859,7 @@ def _top_n_code(r: TopN, x: ExprWriter) -> list[str]:
     walk = _walk_order(r)
     (w,) = r.writes
     lines += [f"kept = {window}", "result = (", "    entries",
-              f'    .withColumn("_kept", {rank})', f'    .where(F.col("_kept") <= {r.n})',
+              f'    .withColumn("_kept", {rank})', f'    .where(F.col("_kept") <= {_top_n_limit(r, x)})',
               f"    # {_where(w.origin)}  {w.note}",
               f'    .select({x(w.key)}.alias("key"), {x(w.value)}.alias("value"), '
               + ('"_partition", ' if part else "") + f'{walk}.alias("_write"))', ")", "return result"]

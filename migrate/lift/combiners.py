@@ -85,6 +85,9 @@ def judge(reducer: Step | None, combiner: Step | None, combiner_unread: str = ""
         if fn == "count":
             return Verdict(False, f"the reducer counts the values it receives (`{a.name}`): after the combiner those "
                                   "are partial results, so it would count them, not the values")
+        if fn == "only":
+            return Verdict(False, f"the reducer keeps the last value it receives (`{a.name}`), which after the "
+                                  "combiner is a partial result, not one of the values")
         if fn not in _COMPOSABLE:
             return Verdict(False, f"the reducer takes the {a.fn} of the values (`{a.name}`), which partial results "
                                   "do not compose into")

@@ -188,7 +188,7 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
     else:
         rcls = index.get(reducer_fq)
         if rcls is not None and "reducer" in rcls.roles:
-            reduce = _lift_reducer(rcls, map_key_t, map_val_t, hand, index, findings, spec.reduces,
+            reduce = _lift_reducer(rcls, map_key_t, map_val_t, hand, index, findings, spec.reduces, spec.conf,
                                    sorted_values=bool(_SECONDARY_SORT_ROLES & spec.classes.keys()))
             if isinstance(reduce, Join):
                 shapes.append(_join_shape(reduce))
@@ -870,7 +870,8 @@ def not_an_override(cls: ClassInfo, m, base: str) -> str | None:
 
 
 def _lift_reducer(rcls: ClassInfo, key_t: str, val_t: str, hand: list[HandWork], index: ClassIndex,
-                  findings: list[Finding], reduces: int, sorted_values: bool = False) -> Step | None:
+                  findings: list[Finding], reduces: int, driver_conf: dict[str, str],
+                  sorted_values: bool = False) -> Step | None:
     owner, m = _find_method(rcls, index, "reduce", (3, 4))
     if m is None:
         return Identity(rcls.span, "reducer without reduce(): identity")
@@ -885,8 +886,13 @@ def _lift_reducer(rcls: ClassInfo, key_t: str, val_t: str, hand: list[HandWork],
         return Identity(owner.span, "reduce() is never called: identity")
     a, b = node_lines(m)
     sloc = logical_sloc(owner.file.lines[(m.position.line if m.position else a) - 1 : b])
+    settings, problems = task_constants(owner, driver_conf, class_constants(owner, index))
+    for line, reason in sorted(problems):
+        hand.append(HandWork("task-lifecycle", Span(owner.file.path, line, line), reason,
+                             "settings become script parameters (-D name=value); other per-task work needs a rewrite",
+                             owner.file.lines[line - 1].strip() if line else "", "P1", 1))
     try:
-        top = lift_top_n(owner, m, key_t, val_t, index, FoldLifter)
+        top = lift_top_n(owner, m, key_t, val_t, index, FoldLifter, settings)
     except Unsupported as u:
         line = u.line or a
         hand.append(HandWork("top-n", Span(owner.file.path, line, line), u.reason,
@@ -895,17 +901,17 @@ def _lift_reducer(rcls: ClassInfo, key_t: str, val_t: str, hand: list[HandWork],
         return None
     hand.extend(_lifecycle(owner, "of the reducer is not converted in this version",
                            "per-task state (top-N in cleanup, side outputs) needs a rewrite", "P2",
-                           skip=("cleanup",) if top is not None else ()))
+                           skip=("setup", "configure") + (("cleanup",) if top is not None else ())))
     if top is not None:
         findings.extend(top_n_findings(top, top.fold.emits[0].origin, reduces))
         return top
-    fold = FoldLifter(owner, m, key_t, val_t, index, sorted_values=sorted_values)
+    fold = FoldLifter(owner, m, key_t, val_t, index, sorted_values=sorted_values, settings=settings)
     group, items = fold.run()
     if group is not None:
         findings.extend(f for f in dict.fromkeys(fold.scope.findings) if f not in findings)
     if items:  # not a fold: perhaps a join of tagged values
         try:
-            return JoinLifter(owner, m, key_t, val_t, index).lift_join()
+            return JoinLifter(owner, m, key_t, val_t, index, settings=settings).lift_join()
         except Unsupported as u:
             if u.category in ("object-reuse", "join"):  # a join, declined for a precise reason
                 line = u.line or a

@@ -40,14 +40,15 @@ class FoldLifter:
     """Turns one reduce() method into a Group or EachValue step (or hand work)."""
 
     def __init__(self, cls: ClassInfo, method: T.MethodDeclaration, key_type: str, value_type: str, index=None,
-                 collector=None, sorted_values: bool = False):
+                 collector=None, sorted_values: bool = False, settings: dict | None = None):
         self.cls, self.method, self.index = cls, method, index
         self.sorted_values = sorted_values  # the driver sets a sort or grouping comparator (secondary sort)
         self.collector = collector  # a rule for statements filling a field across keys (lift.topn)
         self.file = cls.file.path
         self.key_type, self.value_type = key_type, value_type
         params = [p.name for p in method.parameters]
-        env: dict[str, object] = dict(class_constants(cls, index))
+        # setup()'s settings (lift.config) are constants of the task, like the class's constants
+        env: dict[str, object] = {**class_constants(cls, index), **(settings or {})}
         fields = dict(env)  # what a helper method of the class reads
         # fields that change are state carried from one key to the next (and per reduce task)
         self.state_fields = {d.name: d for f in cls.fields() for d in f.declarators
@@ -596,13 +597,25 @@ class FoldLifter:
                                       "converted yet", "F.max_by(value, F.struct(sort fields...))",
                                   category="value-order")
             if not any(_is_ref(n, name) for _, n in v):
-                raise Unsupported(st, f"`{name}` keeps the last value assigned in the loop; Hadoop gives the values "
-                                      "of a key in no defined order (no secondary sort here), so the original "
-                                      "output was not deterministic", "if any value will do, use F.max or F.min; "
-                                      "if the order matters, sort the values (secondary sort) and use F.max_by",
-                                  category="value-order")
+                return self._last_value(st, name, self._expr(v), guard)
         raise Unsupported(st, f"update of `{name}` is not a recognised accumulator update",
                           "write the aggregation by hand: groupBy('key').agg(...)")
+
+    def _last_value(self, st, name: str, arg: Expr, guard: Expr | None) -> None:
+        """`x = f(value)` in the loop keeps the last value, and Hadoop does not define which value is
+        last: the answer is the original's only where every value gives the same x, which the
+        script checks at run time (as a join's one-value side)."""
+        why = (f"`{name}` keeps the last value assigned in the loop; Hadoop gives the values of a key in no "
+               "defined order (no secondary sort here), so the original output was not deterministic")
+        if guard is not None:
+            raise Unsupported(st, why + " (and the assignment is under a condition)",
+                              "if any value will do, use F.max or F.min; if the order matters, sort the values "
+                              "(secondary sort) and use F.max_by", category="value-order")
+        if arg.jtype in ("double", "float"):  # Spark counts -0.0 and 0.0 (and NaNs) as one distinct value
+            raise Unsupported(st, why + f" (a {arg.jtype}: the run-time check that all values agree would take "
+                                        "-0.0 and 0.0 for one value)", "if any value will do, use F.max or F.min",
+                              category="value-order")
+        self._agg(st, name, "only", arg)
 
     def _flag(self, st, name: str, e: T.Assignment, guard: Expr | None) -> None:
         """Boolean accumulators: any (`f = true` under a guard, `f |= c`, `f = f || c`) and all."""
@@ -688,6 +701,10 @@ class FoldLifter:
         t, init = self.accs.get(name) or ("int", Lit("int", 0))
         if fn in ("any", "all"):
             pass
+        elif fn == "only":
+            if arg.jtype != t and not (arg.jtype in NUMERIC and t in NUMERIC and promote(arg.jtype, t) == t):
+                raise Unsupported(st, f"`{name}` ({t}) is given a {arg.jtype}")
+            arg = widen(arg, t) if arg.jtype != t else arg
         elif fn == "count_distinct":
             if arg.jtype != self.sets[name]:
                 raise Unsupported(st, f"a {arg.jtype} added to a set of {self.sets[name]}")

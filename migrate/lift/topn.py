@@ -15,12 +15,14 @@ on the heap's history).
 """
 from __future__ import annotations
 
+import re
+
 from javalang import tree as T
 
 from migrate.java.index import ClassInfo, node_lines
 from migrate.lift.exprs import Scope, Unsupported, calls_as_names, lift, widen, write_argument
 from migrate.lift.mapper import class_constants
-from migrate.plan import Col, Emit, Finding, Group, Lit, Span, TopN
+from migrate.plan import Call, Col, ConfValue, Emit, Expr, Finding, Group, Lit, Span, TopN
 
 _MAP_KEYS = {"Integer": "int", "Long": "long"}
 _MAP_VALUES = {"String": "String", "Integer": "int", "Long": "long"}
@@ -61,6 +63,7 @@ class TreeMapCollector:
         self.name, self.key_t, self.value_t = name, key_t, value_t
         self.put: Emit | None = None
         self.trim: tuple[int, bool] | None = None  # (N, keeps the largest)
+        self.n_setting: Expr | None = None  # N as a job setting, when it is one
         self.put_node = self.trim_node = None
 
     def _touches(self, node) -> bool:
@@ -103,10 +106,12 @@ class TreeMapCollector:
             inner = arg.member if isinstance(arg, T.MethodInvocation) and arg.qualifier == self.name else None
             largest = _TRIM.get((call.member, inner)) if call.qualifier == self.name else None
             n = lift(c.operandr, lifter.scope)
-            if largest is not None and isinstance(n, Lit) and n.jtype == "int" and n.value >= 0:
-                return n.value, largest
+            value = n.value if isinstance(n, Lit) and n.jtype == "int" else setting_int(n)
+            if largest is not None and value is not None and value >= 0:
+                self.n_setting = None if isinstance(n, Lit) else n
+                return value, largest
         raise Unsupported(s, f"the trim of `{self.name}` is not `if (size() > N) remove(firstKey() or lastKey())` "
-                             "with a constant N")
+                             "with N a constant or a job setting")
 
     def finish(self, lifter) -> list[Emit]:
         if lifter.emits:
@@ -115,6 +120,18 @@ class TreeMapCollector:
             raise Unsupported(self.put_node or lifter.method, f"the TreeMap `{self.name}` is not filled and trimmed "
                                                               "in reduce()")
         return [self.put]
+
+
+def setting_int(e: Expr) -> int | None:
+    """The value an int job setting has in the original run (`Integer.parseInt(conf.get("N"))`
+    with the driver's conf.set value, or conf.getInt's); None when it is not one or would throw."""
+    if isinstance(e, ConfValue) and e.jtype == "int" and isinstance(e.default, int):
+        return e.default
+    if isinstance(e, Call) and e.op == "parse_int" and len(e.args) == 1 and isinstance(e.args[0], ConfValue) \
+            and isinstance(e.args[0].default, str) and re.fullmatch(r"[+-]?[0-9]+", e.args[0].default):
+        v = int(e.args[0].default)  # Integer.parseInt: a sign and ASCII digits, no spaces
+        return v if -2**31 <= v < 2**31 else None
+    return None
 
 
 def cleanup_writes(cls: ClassInfo, name: str, key_t: str, value_t: str, index) -> tuple[tuple[Emit, ...], bool]:
@@ -184,17 +201,19 @@ def top_n_findings(step: TopN, put_origin: Span, reduces: int) -> list[Finding]:
     return out
 
 
-def lift_top_n(rcls: ClassInfo, reduce_m, key_t: str, value_t: str, index, fold_lifter) -> TopN | None:
+def lift_top_n(rcls: ClassInfo, reduce_m, key_t: str, value_t: str, index, fold_lifter,
+               settings: dict | None = None) -> TopN | None:
     """A TopN step when the reducer has the pattern; None when it has no TreeMap field at all."""
     field = tree_map_field(rcls)
     if field is None:
         return None
     name, mk, mv = field
     collector = TreeMapCollector(name, mk, mv)
-    lifter = fold_lifter(rcls, reduce_m, key_t, value_t, index, collector=collector)
+    lifter = fold_lifter(rcls, reduce_m, key_t, value_t, index, collector=collector, settings=settings)
     fold = lifter._lift()
     if not isinstance(fold, Group):
         raise Unsupported(reduce_m, "reduce() writes inside its loop as well as filling the TreeMap")
     writes, descending = cleanup_writes(rcls, name, mk, mv, index)
     n, largest = collector.trim
-    return TopN(fold.origin, f"top {n} by {collector.put.note}", fold, n, largest, descending, writes)
+    return TopN(fold.origin, f"top {n} by {collector.put.note}", fold, n, largest, descending, writes,
+                n_setting=collector.n_setting)

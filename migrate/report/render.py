@@ -145,7 +145,8 @@ AGGREGATE_WORDS = {"sum": "F.sum", "count": "F.count", "count_if": "F.count_if (
                    "min": "F.min", "max": "F.max", "min_nan": "F.min, NaN if any value is NaN (Math.min)",
                    "min_nonnan": "F.min over non-NaN values (`<` comparison)",
                    "max_nonnan": "F.max over non-NaN values (`>` comparison)", "any": "F.bool_or",
-                   "all": "F.bool_and", "count_distinct": "F.count_distinct (set size)"}
+                   "all": "F.bool_and", "count_distinct": "F.count_distinct (set size)",
+                   "only": "the one value of the key (the script stops if values differ: the last is not defined)"}
 
 
 def aggregates_of(job: JobResult) -> list[dict]:

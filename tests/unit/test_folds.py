@@ -143,10 +143,21 @@ def test_reading_an_accumulator_inside_the_loop_is_declined(tmp_path):
     assert "running value of `sum`" in _declined(job).reason
 
 
-def test_last_value_is_declined_as_order_dependent(tmp_path):
-    job, _ = _plan(tmp_path, """
+def test_last_value_is_the_one_value_of_the_key_checked_at_run_time(tmp_path):
+    """Java keeps the last value assigned; with no defined order that is defined only where every
+    value agrees, which the script checks (tests/unit/test_reduce_forms.py runs both sides)."""
+    job, dump = _plan(tmp_path, """
       int last = 0;
       for (IntWritable v : values) { last = v.get(); }
+      context.write(key, new IntWritable(last));""")
+    assert job.status == "converted", job.plan.hand_work
+    assert [(a.name, a.fn) for a in job.plan.reduce.aggs] == [("last", "only")]
+
+
+def test_last_value_under_a_condition_is_declined_as_order_dependent(tmp_path):
+    job, _ = _plan(tmp_path, """
+      int last = 0;
+      for (IntWritable v : values) { if (v.get() > 1) { last = v.get(); } }
       context.write(key, new IntWritable(last));""")
     item = _declined(job, "value-order")
     assert "no defined order" in item.reason and item.blocking

@@ -502,3 +502,42 @@ def test_a_list_of_values_read_by_position_without_sorting_is_not_deterministic(
     body = MEDIAN.replace("      Collections.sort(rides);\n", "")
     (job,) = scan_text(tmp_path, {"Main.java": job_source(MAP_DOCK_DAY, body, out=("Text", "Text"))}).jobs
     assert [h.category for h in job.plan.hand_work] == ["value-order"]
+
+
+# ---------------------------------------------------------------- the last value assigned in the loop
+LAST_VALUE = """
+  public static class R extends Reducer<Text, IntWritable, Text, IntWritable> {
+    protected void reduce(Text key, Iterable<IntWritable> values, Context context)
+        throws IOException, InterruptedException {
+      int rides = -1;
+      for (IntWritable v : values) {
+        rides = v.get();
+      }
+      context.write(key, new IntWritable(rides * 10));
+    }
+  }"""
+
+
+def test_the_last_value_assigned_is_the_keys_one_value_checked_at_run_time(tmp_path):
+    """`x = v.get()` keeps the last value, and Hadoop defines no order of a key's values (Reducer
+    javadoc: values are sorted only with a secondary sort): the script takes the value where all
+    of a key's values agree, and stops where they differ. Hadoop's local runner agrees on the first."""
+    src = job_source(MAP_DOCK_DAY, LAST_VALUE)
+    (job,) = scan_text(tmp_path / "scan", {"Main.java": src}).jobs
+    assert job.status == "converted", job.plan.hand_work
+    assert [a.fn for a in job.plan.reduce.aggs] == ["only"]
+    one_each = b"Quay North 2024-05-01,4\nOld Mill 2024-05-02,7\nQuay North 2024-05-01,4\nbad\nLantern,x\n"
+    assert verify_one_job(tmp_path / "agree", src, {"rides.txt": one_each}).verdict == "agrees"
+    check = verify_one_job(tmp_path / "differ", src, {"rides.txt": DOCKS})  # Old Mill: 7 and 2
+    assert (check.verdict, check.detail) == ("error", "the script failed (exit 1)"), check.detail
+    assert "Main.java:" in check.log and "Main.java:34 `rides`: takes different values under one key" in check.log
+
+
+@pytest.mark.parametrize("change", ["if (v.get() > 0) { rides = v.get(); }", "rides = v.get() / 2.0;"])
+def test_a_last_value_under_a_condition_or_of_a_double_stays_declined(tmp_path, change):
+    body = LAST_VALUE.replace("rides = v.get();", change)
+    if "2.0" in change:
+        body = body.replace("int rides = -1;", "double rides = -1;").replace("rides * 10", "(int) rides")
+    (job,) = scan_text(tmp_path, {"Main.java": job_source(MAP_DOCK_DAY, body)}).jobs
+    assert [h.category for h in job.plan.hand_work] == ["value-order"], job.plan.hand_work
+    assert "keeps the last value" in job.plan.hand_work[0].reason
