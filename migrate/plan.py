@@ -235,6 +235,21 @@ class Project(Step):
 
 
 @dataclass(frozen=True)
+class TaskTopN(Project):
+    """A map task's TreeMap top-N: map() puts `put.key` -> `put.value` (where `put.guard` holds) and
+    trims the map to its `n` largest (smallest) map keys after every put; cleanup() writes the
+    kept entries (`emits`, over the columns `tm_key` and `tm_value`). As in TopN, that leaves the
+    n largest distinct map keys, each with the value of the task's last line that put it. One
+    map per map task: rows carry `_task` and their order in it, `_line` (Source.task_order)."""
+
+    put: Emit = None
+    n: int = 0
+    keep_largest: bool = True
+    descending: bool = False
+    n_setting: Expr | None = None  # N read from the job's configuration: a script parameter
+
+
+@dataclass(frozen=True)
 class Agg:
     """One aggregate over the values of a key: sum, count, min, max, …"""
 
@@ -461,6 +476,9 @@ class Source:
     kv_separator: str = "\t"  # KeyValueTextInputFormat: the line is split at its first occurrence
     upstream: int | None = None  # a chained job: reads the lines of Plan.upstream[i] (params is empty)
     offsets: bool = False  # the mapper reads TextInputFormat's key: each line's byte offset in its file
+    # the mapper keeps state per map task: rows carry `_task` and `_line`; these settings (minsize,
+    # maxsize, block size) say how long a file may be and still be one task
+    split: tuple[Expr, ...] = ()
 
 
 @dataclass(frozen=True)
@@ -655,6 +673,13 @@ def _dump_step(s: Step) -> str:
     if isinstance(s, Count):
         group, name = (x if isinstance(x, str) else f"[{dump_expr(x)}]" for x in (s.group, s.name))
         return f"Count {group}:{name} += {dump_expr(s.amount)} where {dump_expr(s.cond)}"
+    if isinstance(s, TaskTopN):
+        g = f" if {dump_expr(s.put.guard)}" if s.put.guard is not None else ""
+        lines = [f"Per map task: TreeMap put {dump_expr(s.put.key)} -> {dump_expr(s.put.value)}{g}",
+                 f"    Keep {s.n} {'largest' if s.keep_largest else 'smallest'} map keys, "
+                 f"written {'descending' if s.descending else 'ascending'}"]
+        lines += [f"    Write {dump_expr(e.key)} -> {dump_expr(e.value)}" for e in s.emits]
+        return "\n".join(lines)
     if isinstance(s, Project):
         lines = ["Project"]
         for e in s.emits:

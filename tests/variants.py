@@ -292,12 +292,12 @@ def _top_level_pluses(expr: str) -> list[str]:
     return parts + [expr[start:].strip()]
 
 
-def _closing(text: str, open_at: int) -> int:
-    """The index of the `)` matching the `(` at open_at (strings and chars skipped)."""
+def _closing(text: str, open_at: int, pair: str = "()") -> int:
+    """The index of the `)` matching the `(` at open_at (or another pair; strings and chars skipped)."""
     depth = 0
     for i, c in _code_chars(text, open_at):
-        depth += (c == "(") - (c == ")")
-        if c == ")" and depth == 0:
+        depth += (c == pair[0]) - (c == pair[1])
+        if c == pair[1] and depth == 0:
             return i
     return -1
 
@@ -552,11 +552,11 @@ def map_updates(text: str) -> str:
     text = re.sub(r"(\w+)\.merge\(([\w\[\]]+), (\w+), Integer::sum\);",
                   lambda m: f"if ({m[1]}.containsKey({m[2]})) {{ {m[1]}.put({m[2]}, {m[1]}.get({m[2]}) + {m[3]}); }} "
                             f"else {{ {m[1]}.put({m[2]}, {m[3]}); }}", text)
-    loop = re.search(r"for \(Map\.Entry<(\w+), \w+> (\w+) : (\w+)\.entrySet\(\)\) \{", text)
-    if loop:
+    for loop in reversed(list(re.finditer(r"for \(Map\.Entry<(\w+), \w+> (\w+) : (\w+)\.entrySet\(\)\) \{", text))):
         t, e, m = loop.groups()
-        rest = text[loop.end():].replace(f"{e}.getKey()", f"{e}Key").replace(f"{e}.getValue()", f"{m}.get({e}Key)")
-        text = text[:loop.start()] + f"for ({t} {e}Key : {m}.keySet()) {{" + rest
+        end = _closing(text, loop.end() - 1, "{}")  # only the loop's own body names its entry
+        body = text[loop.end():end].replace(f"{e}.getKey()", f"{e}Key").replace(f"{e}.getValue()", f"{m}.get({e}Key)")
+        text = text[:loop.start()] + f"for ({t} {e}Key : {m}.keySet()) {{" + body + text[end:]
     return text
 
 
@@ -627,6 +627,13 @@ def setup_setting(text: str) -> str:
             + text[use.end():job.end()] + setting + text[job.end():])
 
 
+def tree_map_trim(text: str) -> str:
+    """A TreeMap trimmed with `m.remove(m.firstKey())` vs `m.pollFirstEntry()` (and lastKey / pollLastEntry):
+    both remove the entry with the smallest (largest) key (java.util.TreeMap)."""
+    return re.sub(r"(\w+)\.remove\(\1\.(first|last)Key\(\)\);",
+                  lambda m: f"{m[1]}.poll{m[2].capitalize()}Entry();", text)
+
+
 AXES = (
     Axis("catch-logs", "empty catch vs logging then skipping", catch_logs),
     Axis("field-scratch", "array local vs scratch field", field_scratch),
@@ -663,6 +670,7 @@ AXES = (
     Axis("values-helper", "a fold over the values in reduce() vs the same loop in a helper handed the values",
          values_helper),
     Axis("setup-setting", "a reducer's constant N vs N set by the driver and read in setup()", setup_setting),
+    Axis("tree-map-trim", "remove(firstKey()) vs pollFirstEntry() on a TreeMap", tree_map_trim),
 )
 
 

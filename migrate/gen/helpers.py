@@ -175,29 +175,58 @@ def java_length(s: Column) -> Column:
 ''')
 
 _h("text_lines_with_offsets", '''
-def text_lines_with_offsets(spark, paths, *, file_name: bool = False) -> DataFrame:
+def text_lines_with_offsets(spark, paths, *, file_name: bool = False, keep_file: bool = False) -> DataFrame:
     """TextInputFormat's records with their keys: `byte_offset` = the byte offset of the line in its file,
     `value` = the line. As Hadoop's LineRecordReader: a line ends at LF, CR or CRLF, an empty file
     has no records, a UTF-8 byte order mark is left out of the first line (its bytes still count).
     Each file is read whole (one row per file), so a file must fit in a task's memory; compressed
-    files are refused (Hadoop counts offsets in the decompressed stream)."""
+    files are refused (Hadoop counts offsets in the decompressed stream). `keep_file`: also the
+    file's path (`_task`) and length in bytes (`_file_length`)."""
     files = spark.read.format("binaryFile").load(paths)
     compressed = F.col("path").rlike(r"\\.(gz|bz2|deflate|lz4|snappy|zst)$")
     latin = F.decode(F.col("content"), "ISO-8859-1")  # one char per byte: char positions are byte offsets
     chunks = F.when(~compressed, F.regexp_extract_all(latin, F.lit(r"[^\\r\\n]*(?:\\r\\n|\\r|\\n)|[^\\r\\n]+\\z"), 0)) \\
         .otherwise(F.raise_error(F.lit("byte offsets of a compressed file are not read: decompress it first")))
-    rows = files.select("path", F.posexplode(chunks).alias("_pos", "_chunk"))
+    rows = files.select("path", "length", F.posexplode(chunks).alias("_pos", "_chunk"))
     before = Window.partitionBy("path").orderBy("_pos").rowsBetween(Window.unboundedPreceding, -1)
     line = F.regexp_replace("_chunk", r"(?:\\r\\n|\\r|\\n)\\z", "")
     line = F.when(F.col("_pos") == 0, F.regexp_replace(line, "^\\u00ef\\u00bb\\u00bf", "")).otherwise(line)
     out = rows.select(
         "path",
+        F.col("path").alias("_task"),
+        F.col("length").alias("_file_length"),
         F.coalesce(F.sum(F.length("_chunk")).over(before), F.lit(0)).cast("long").alias("byte_offset"),
         F.encode(line, "ISO-8859-1").cast("string").alias("value"),  # the line's own bytes, as Text holds them
     )
     if file_name:
         out = out.withColumn("input_file_name", F.url_decode(F.element_at(F.split("path", "/"), -1)))
-    return out.drop("path")
+    return out.drop("path") if keep_file else out.drop("path", "_task", "_file_length")
+''')
+
+_h("lines_by_map_task", '''
+def lines_by_map_task(spark, paths, split_size: Column) -> DataFrame:
+    """TextInputFormat's lines with the map task that reads them: `_task` (the file) and `_line` (the
+    line's byte offset: its order in the task). Hadoop makes one split of a file up to 1.1 times
+    the split size (FileInputFormat's SPLIT_SLOP) and cuts a longer one into several tasks, whose
+    state the script does not reproduce: such a file stops the job."""
+    lines = text_lines_with_offsets(spark, paths, keep_file=True)
+    split = F.col("_file_length") / split_size > 1.1
+    cut = F.concat(F.lit("a file Hadoop would read in several map tasks (the script reproduces one task per "
+                         "file): "), F.col("_task"))
+    return lines.withColumn("_line", F.when(split, F.raise_error(cut)).otherwise(F.col("byte_offset"))).drop(
+        "_file_length")
+''', ("text_lines_with_offsets",))
+
+_h("one_map_task", '''
+def one_map_task(lines: DataFrame, split_size: Column) -> DataFrame:
+    """The lines one file holds, in its order (they arrive in one partition, sorted), as the one map
+    task Hadoop reads it with: `_task` and `_line`. A file longer than 1.1 times the split size would
+    be cut into several tasks (FileInputFormat's SPLIT_SLOP): the job stops instead."""
+    ordered = lines.select("*", F.lit(0).alias("_task"), F.monotonically_increasing_id().alias("_line"))
+    size = F.sum(F.octet_length("value") + 1).over(Window.partitionBy("_task"))  # TextOutputFormat's bytes
+    cut = F.lit("the folder the job before wrote is long enough for Hadoop to read it in several map tasks; "
+                "the script reproduces one")
+    return ordered.withColumn("_line", F.when(size / split_size > 1.1, F.raise_error(cut)).otherwise(F.col("_line")))
 ''')
 
 _h("java_abs", '''

@@ -12,7 +12,7 @@ from pathlib import Path
 import black
 import jinja2
 
-from migrate.plan import (walk, INTEGRAL, Agg, AggRef, Arith, BoolOp, Call, Cast, Col, Compare, Cond, ConfValue, Count, EachValue, Emit, Explode, Expr, Filter, Group, HandWork, Identity, Join, Let, Lit, Lookup, Plan, Project, SideTable, Source, Stage, Step, StructNew, TopN, TopPerKey, Field)
+from migrate.plan import (walk, INTEGRAL, Agg, AggRef, Arith, BoolOp, Call, Cast, Col, Compare, Cond, ConfValue, Count, EachValue, Emit, Explode, Expr, Filter, Group, HandWork, Identity, Join, Let, Lit, Lookup, Plan, Project, SideTable, Source, Stage, Step, StructNew, TaskTopN, TopN, TopPerKey, Field)
 
 SPARK_TYPES = {"int": "int", "long": "bigint", "double": "double", "float": "float", "boolean": "boolean",
                "String": "string"}
@@ -590,6 +590,20 @@ def _read_code(src: Source, var: str, x: ExprWriter, parts: ScriptParts) -> list
     if src.upstream is not None:
         read = f"job_{src.upstream + 1}_lines"
         out.append(f"# the lines job {src.upstream + 1} wrote to the folder this job read (passed on, not re-read)")
+    if src.split:
+        parts.uses_window = True
+        low, high, block = (x(e) for e in src.split)
+        out.append("# The mapper keeps state per map task: Hadoop makes one task of each input split, and the")
+        out.append("# split size is max(minsize, min(maxsize, the file's block size)) (FileInputFormat)")
+        out.append(f"split_size = F.greatest({low}, F.least({high}, {block}))")
+        if src.upstream is not None:
+            x.helpers.add("one_map_task")
+            out.append(f"{var} = one_map_task({read}, split_size)  # the one file that job wrote, in its order")
+        else:
+            x.helpers.add("lines_by_map_task")
+            items = read[len("spark.read.text("):-1]
+            out.append(f"{var} = lines_by_map_task(spark, {items}, split_size)  # one task per file, in line order")
+        return out
     if src.fmt == "keyvalue":
         sep = src.kv_separator
         shown = "TAB" if sep == "\t" else repr(sep)
@@ -965,6 +979,8 @@ def _step_code(s: Step, x: ExprWriter) -> list[str]:
         return _lookup_code(s, x, where)
     if isinstance(s, Explode):
         return [where + "  (one row per element)", f".withColumn(\"{s.name}\", F.explode({x(s.array)}))"]
+    if isinstance(s, TaskTopN):
+        return _task_top_n_code(s, x)
     if isinstance(s, Project):
         return _project_code(s, x)
     if isinstance(s, Count):
@@ -990,6 +1006,24 @@ def _time_zone(writers) -> str | None:
     if len(zones) > 1:  # the lift declines this (migrate.lift.exprs._in_zone)
         raise ValueError(f"dates in several time zones reached the generator: {zones}")
     return next(iter(zones)) if zones else None
+
+
+def _task_top_n_code(s: TaskTopN, x: ExprWriter) -> list[str]:
+    """Each map task's TreeMap: its last put per map key, trimmed to N map keys, then cleanup()'s writes."""
+    put = s.put
+    order = 'F.col("tm_key").desc()' if s.keep_largest else 'F.col("tm_key")'
+    limit = str(s.n) if s.n_setting is None else x(s.n_setting)
+    lines = [f"# {_where(put.origin)}  {put.note}  (into this map task's TreeMap)"]
+    if put.guard is not None:
+        lines.append(f".where({bare(x(put.guard))})")
+    lines += [f'.select("_task", "_line", {x(put.key)}.alias("tm_key"), {x(put.value)}.alias("tm_value"))',
+              "# a TreeMap keeps one entry per map key and a later put replaces it: the task's last line wins",
+              '.groupBy("_task", "tm_key").agg(F.max_by("tm_value", "_line").alias("tm_value"))',
+              f"# trimmed after every put: each task keeps its {s.n} {'largest' if s.keep_largest else 'smallest'} "
+              "map keys, and cleanup() writes them (the shuffle sorts them again)",
+              f'.withColumn("_kept", F.row_number().over(Window.partitionBy("_task").orderBy({order})))',
+              f'.where(F.col("_kept") <= {limit})']
+    return lines + _project_code(Project(s.origin, s.note, s.emits), x)
 
 
 def _project_code(p: Project, x: ExprWriter) -> list[str]:
@@ -1162,7 +1196,8 @@ def _stage(st: Stage, i: int, reader: Plan) -> dict:
         if sink.sorted_by_key else "result"
     return {"n": i + 1, "plan": st.plan, "body": parts.body, "x": x, "uses_window": parts.uses_window,
             "build_args": args, "build_call": call, "output": st.output.name, "sink": sink, "order": order,
-            "where": _where(st.origin), "in_order": not reader.sink.sorted_by_key}
+            # a map-only reader writes lines in input order; a mapper with per-task state reads them in order
+            "where": _where(st.origin), "in_order": not reader.sink.sorted_by_key or bool(reader.source.split)}
 
 
 def _tasks(plan: Plan) -> int:

@@ -65,6 +65,9 @@ def why_not_chained(group: list[JobResult]) -> str | None:
             return f"job {k + 1} does not read exactly the folder job {k} writes"
         if src.file_name or src.skip_first_line or src.offsets:
             return f"job {k + 1} reads its input's file names or byte offsets, which only files have"
+        if src.split and prev.spec.reduces != 1:  # one map task per part file the job before wrote
+            return f"job {k + 1}'s mapper keeps state per map task (one per file), and job {k} writes one file " \
+                   f"per {'reduce' if prev.spec.reduces else 'map'} task"
         if prev.plan.sink.compression:
             return f"job {k} compresses the folder job {k + 1} reads"
         later = [g for g in group[k + 1:] if any(_same_path(p, prev.spec.output) for p in g.spec.inputs)]

@@ -23,8 +23,8 @@ from migrate.lift.partitioning import custom_partition, hash_partition
 from migrate.lift.topn import lift_top_n, top_n_findings
 from migrate.lift.joins import JoinLifter
 from migrate.lift.sidefiles import read_side_files
-from migrate.plan import (ADVISORY_CATEGORIES, Agg, AggRef, BoolOp, Branch, Cast, Col, EachValue, Join, Emit, Explode, Expr, Filter, Finding, Group, HandWork, Identity, Param, Plan,
-                          Project, SideTable, Sink, Source, Span, Step, TopN, TopPerKey)
+from migrate.plan import (ADVISORY_CATEGORIES, Agg, AggRef, BoolOp, Branch, Cast, Col, ConfValue, EachValue, Join, Emit, Explode, Expr, Filter, Finding, Group, HandWork, Identity, Param, Plan,
+                          Project, SideTable, Sink, Source, Span, Step, TaskTopN, TopN, TopPerKey)
 
 
 
@@ -174,6 +174,7 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
         add("missing-source", spec.origin, f"mapper {mapper_fq} is neither in the repository nor a Hadoop library class",
             "add its source to the scanned folder", "P2")
     _check_map_output_types(steps, map_key_t, map_val_t, mcls, add)
+    task_order = _check_task_state(spec, steps, branches, map_fmt, add, findings)
     # ---- reduce side
     reduce: Step | None = None
     partition: Expr | None = None  # with several reduce tasks: the task of each key
@@ -322,7 +323,8 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
                 sort_terms=sort_terms, compression=compression)
     splits = tuple(ref.split_commas for ref in spec.inputs) or (False,)
     source = Source(tuple(input_params), fmt, skip_first, splits, _reads_file_name(steps), spec.origin, kv_sep,
-                    offsets=_reads_offsets(steps, fmt) and not branches)
+                    offsets=_reads_offsets(steps, fmt) and not branches,
+                    split=split_settings(spec.conf) if task_order else ())
     plan = Plan(spec.name, source, tuple(steps), reduce, sink, tuple(params), tuple(hand), tuple(dict.fromkeys(shapes)),
                 tuple(notes), tuple(findings), tuple(branches), tuple(tables))
     sloc = sum(c.sloc for c in {index.get(fq) for fq in classes.values()} if c is not None)
@@ -691,6 +693,52 @@ def _reads_file_name(steps: list[Step]) -> bool:
     return _reads_column(steps, INPUT_FILE_NAME)
 
 
+# FileInputFormat's split size is max(minsize, min(maxsize, the file's block size)); the script takes
+# the block size as dfs.blocksize (HDFS's default, hdfs-default.xml), the others as the job sets them.
+SPLIT_SETTINGS = (("mapreduce.input.fileinputformat.split.minsize", 1), ("mapreduce.input.fileinputformat.split.maxsize",
+                  2**63 - 1), ("dfs.blocksize", 134217728))
+
+
+def split_settings(driver_conf: dict[str, str]) -> tuple[ConfValue, ...]:
+    """The settings that decide how Hadoop splits an input file into map tasks (script parameters)."""
+    out = []
+    for name, default in SPLIT_SETTINGS:
+        given = driver_conf.get(name, "")
+        value = int(given) if given.strip().lstrip("-").isdigit() else default
+        out.append(ConfValue("long", name, "getLong", max(value, 1),
+                             name.rsplit(".", 1)[-1].replace("blocksize", "block_size") + "_setting"))
+    return tuple(out)
+
+
+def _check_task_state(spec: JobSpec, steps: list[Step], branches: list[Branch], fmt: str, add,
+                      findings: list[Finding]) -> bool:
+    """A mapper whose cleanup() writes state kept over its task (a TreeMap top-N) is reproduced per
+    map task where the tasks are known: a plain mapper over text files, one task per file (the
+    script checks that no file is long enough for Hadoop to split it), feeding a reduce."""
+    per_task = [s for s in list(steps) + [t for b in branches for t in b.steps] if isinstance(s, TaskTopN)]
+    if not per_task:
+        return False
+    why = ("the job is map-only: each task's entries go straight to a part file of its own" if spec.reduces == 0
+           else "the mapper is one of several (MultipleInputs or ChainMapper)"
+           if branches or sum(isinstance(s, Project) for s in steps) > 1 else f"the input format reads {fmt} records, not a text file's lines" if fmt != "text" else None)
+    if why is not None:
+        add("task-state", per_task[0].origin, f"the TreeMap lives in one map task and cleanup() writes it, and {why}: "
+            "the tasks are not reproduced", "Window.partitionBy(input file).orderBy(...) with row_number() <= N", "P2")
+        return False
+    step = per_task[0]
+    findings.append(Finding("per-task-state", step.origin,
+                            f"the mapper's TreeMap lives in one map task: the original keeps a top {step.n} per input "
+                            "split, which is one per file for files up to 1.1 times the split size; the script does "
+                            "the same and stops on a longer file (its split size is the job's settings, with the block "
+                            "size taken as dfs.blocksize)",
+                            "if one top-N over all the input was meant, keep it in the reducer only"))
+    findings.append(Finding("ties-dropped", step.put.origin,
+                            "the TreeMap keeps one entry per map key: lines whose map keys tie overwrite each other, "
+                            "so each task keeps only its last line of each tie; the script does the same",
+                            "if ties should all be kept, rank with F.dense_rank() over a Window instead"))
+    return True
+
+
 def _reads_offsets(steps: list[Step], fmt: str) -> bool:
     """Does the map side read TextInputFormat's key (the line's byte offset)?"""
     from migrate.lift.exprs import BYTE_OFFSET
@@ -798,9 +846,10 @@ def _lift_mapper(mcls: ClassInfo, fmt: str, hand: list[HandWork], notes: list[st
     flushed = bool(res.combining) and all(flushes_all_entries(cleanup, f) for f in res.combining)
     if flushed:
         combining_fields.extend(res.combining)
+    per_task = bool(res.steps) and isinstance(res.steps[-1], TaskTopN)  # cleanup() writes the task's TreeMap
     hand.extend(_lifecycle(owner, "of the mapper runs once per task; its logic is not converted in this version",
                            "settings become script parameters; per-task state needs a rewrite", "P1",
-                           skip=("setup", "configure") + (("cleanup", "close") if flushed else ())))
+                           skip=("setup", "configure") + (("cleanup", "close") if flushed or per_task else ())))
     read_only = set(side.filled) | constant_fields(owner)
     for h in res.hand_work:
         sloc = logical_sloc(owner.file.lines[h.origin.line_start - 1 : node_lines(m)[1]])

@@ -164,6 +164,14 @@ class MapBodyLifter:
         self.guard_now: Expr | None = None  # the guard of the statement being lifted
         self.lookups: dict[tuple[str, Expr], Col] = {}
         self.tables: dict[str, SideTable] = {}
+        self.tree_map = None  # a TreeMap field filled per map task (lift.topn), read when map() touches it
+        if any(getattr(f.type, "name", "") in ("TreeMap", "SortedMap", "NavigableMap") for f in cls.fields()):
+            from migrate.lift.topn import task_tree_map  # topn reads class constants from here
+
+            try:
+                self.tree_map = task_tree_map(cls)
+            except Unsupported:
+                pass  # its uses in map() are declined as any other call
 
     # ------------------------------------------------------------------ driving
     def run(self, body=None, where=None) -> MapResult:
@@ -176,7 +184,15 @@ class MapBodyLifter:
         except Unsupported as u:
             self._hand("map-logic", u.line or self._line(where), u.reason, u.suggestion or
                        "express this step with pyspark.sql.functions by hand")
-        if not self.hand:
+        if not self.hand and self.tree_map is not None and self.tree_map.put is not None and body is None:
+            from migrate.lift.topn import lift_task_top_n
+
+            try:
+                self.steps.append(lift_task_top_n(self.cls, self.tree_map, self.emit_list, self.index))
+            except Unsupported as u:
+                self._hand("task-state", u.line or self._line(where), u.reason, u.suggestion or
+                           "Window.partitionBy(task).orderBy(...) with row_number() <= N")
+        elif not self.hand:
             if not self.emit_list and body is None and not self.method.body:
                 self._hand("map-logic", self._line(where), "map() is empty: the original writes no map output, so "
                            "the job's output is empty; the code looks unfinished",
@@ -239,7 +255,17 @@ class MapBodyLifter:
             if v.how is not None and not v.guarded:
                 v.matched, v.guarded = (_and(g, v.matched) if g is not None else v.matched), True
 
+    def _expr(self, node) -> Expr:
+        return lift(node, self.scope)
+
     def _statement(self, s, guard: Expr | None) -> None:
+        if self.tree_map is not None and (isinstance(s, T.StatementExpression) and self.tree_map._touches(s) or
+                                          isinstance(s, T.IfStatement) and self.tree_map._touches(s.condition)):
+            if self.loop_locals:
+                raise Unsupported(s, f"the TreeMap `{self.tree_map.name}` is filled inside a loop",
+                                  "Window.partitionBy(task).orderBy(...) with row_number() <= N")
+            self.tree_map.statement(s, self._eff(guard), self)
+            return
         if isinstance(s, T.BlockStatement):
             self._scoped(s.statements, guard)
         elif isinstance(s, T.LocalVariableDeclaration):

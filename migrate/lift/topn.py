@@ -22,7 +22,7 @@ from javalang import tree as T
 from migrate.java.index import ClassInfo, node_lines
 from migrate.lift.exprs import Scope, Unsupported, calls_as_names, lift, widen, write_argument
 from migrate.lift.mapper import class_constants
-from migrate.plan import Call, Col, ConfValue, Emit, Expr, Finding, Group, Lit, Span, TopN
+from migrate.plan import Call, Col, ConfValue, Emit, Expr, Finding, Group, Lit, Span, TaskTopN, TopN
 
 _MAP_KEYS = {"Integer": "int", "Long": "long"}
 _MAP_VALUES = {"String": "String", "Integer": "int", "Long": "long"}
@@ -57,10 +57,12 @@ def tree_map_field(cls: ClassInfo) -> tuple[str, str, str] | None:
 
 
 class TreeMapCollector:
-    """The FoldLifter hook: reads `put` and the trim of the map after the loop over values."""
+    """The FoldLifter hook: reads `put` and the trim of the map after the loop over values. In a
+    mapper (`per_row`) the put may run under a condition (a record that puts nothing), and the
+    trim must run where the put does."""
 
-    def __init__(self, name: str, key_t: str, value_t: str):
-        self.name, self.key_t, self.value_t = name, key_t, value_t
+    def __init__(self, name: str, key_t: str, value_t: str, per_row: bool = False):
+        self.name, self.key_t, self.value_t, self.per_row = name, key_t, value_t, per_row
         self.put: Emit | None = None
         self.trim: tuple[int, bool] | None = None  # (N, keeps the largest)
         self.n_setting: Expr | None = None  # N as a job setting, when it is one
@@ -73,7 +75,7 @@ class TreeMapCollector:
     def statement(self, s, guard, lifter) -> bool:
         if not self._touches(s):
             return False
-        if guard is not None:
+        if guard is not None and not (self.per_row and (self.put is None or guard == self.put.guard)):
             raise Unsupported(s, f"the TreeMap `{self.name}` is changed under a condition")
         e = s.expression if isinstance(s, T.StatementExpression) else None
         if isinstance(e, T.MethodInvocation) and e.qualifier == self.name and e.member == "put" and self.put is None:
@@ -83,7 +85,8 @@ class TreeMapCollector:
             if v.jtype != self.value_t:
                 raise Unsupported(s, f"a {v.jtype} put as the TreeMap's {self.value_t} value")
             a, b = node_lines(s)
-            self.put = Emit(Span(lifter.file, a, b), lifter.cls.file.lines[a - 1].strip(), widen(k, self.key_t), v)
+            self.put = Emit(Span(lifter.file, a, b), lifter.cls.file.lines[a - 1].strip(), widen(k, self.key_t), v,
+                            guard)
             self.put_node = s
             return True
         if isinstance(s, T.IfStatement) and s.else_statement is None and self.put is not None and self.trim is None:
@@ -132,6 +135,26 @@ def setting_int(e: Expr) -> int | None:
         v = int(e.args[0].default)  # Integer.parseInt: a sign and ASCII digits, no spaces
         return v if -2**31 <= v < 2**31 else None
     return None
+
+
+def lift_task_top_n(cls: ClassInfo, collector: TreeMapCollector, emits: list[Emit], index) -> TaskTopN:
+    """The mapper's per-task top-N, once map() has been read with `collector` (see task_tree_map)."""
+    if emits:
+        raise Unsupported(collector.put_node, "map() writes as well as filling the TreeMap")
+    if collector.trim is None:
+        raise Unsupported(collector.put_node, f"the TreeMap `{collector.name}` is filled but never trimmed to N "
+                                              "entries in map()")
+    writes, descending = cleanup_writes(cls, collector.name, collector.key_t, collector.value_t, index)
+    n, largest = collector.trim
+    put = collector.put
+    return TaskTopN(put.origin, f"each map task's top {n} by {put.note}", writes, put=put, n=n,
+                    keep_largest=largest, descending=descending, n_setting=collector.n_setting)
+
+
+def task_tree_map(cls: ClassInfo) -> TreeMapCollector | None:
+    """The per-row collector for a mapper's TreeMap field, or None when it has none."""
+    field = tree_map_field(cls)
+    return TreeMapCollector(*field, per_row=True) if field is not None else None
 
 
 def cleanup_writes(cls: ClassInfo, name: str, key_t: str, value_t: str, index) -> tuple[tuple[Emit, ...], bool]:

@@ -8,6 +8,7 @@ form.
     Integer c = m.get(k); m.put(k, c == null ? v : c + v);
     m.put(k, m.containsKey(k) ? m.get(k) + v : v);
     for (K x : m.keySet()) { write(f(x), g(m.get(x))); }  ->  for (Map.Entry<K, V> e : m.entrySet()) ...
+                                                             (for a Map field of any value type)
 
 All are `merge` when the map never holds null (only these updates put into it) and `k` and `v`
 are names, literals or array elements at such indexes (evaluating them twice is evaluating them once): Map.merge javadoc, "If
@@ -28,8 +29,8 @@ _SUMS = {"Integer": "Integer", "Long": "Long"}
 
 
 def map_updates(cls, index=None) -> list[tuple[int, str]]:
-    maps = _counting_maps(cls)
-    if not maps:
+    maps, every = _counting_maps(cls), _map_fields(cls)
+    if not every:
         return []
     done = []
     for method in cls.node.methods:
@@ -42,7 +43,7 @@ def map_updates(cls, index=None) -> list[tuple[int, str]]:
                     line = line_of(stmts[i])
                     stmts[i:i + used] = [positioned(merge, stmts[i])]
                     done.append((line, "a count added to a Map field: Map.merge(k, v, Integer::sum)"))
-                elif _flush_by_keys(stmts[i], maps):
+                elif _flush_by_keys(stmts[i], every):
                     done.append((line_of(stmts[i]), "a Map flushed by its keys: by its entries"))
                 i += 1
     return done
@@ -58,6 +59,20 @@ def _counting_maps(cls) -> dict[str, tuple]:
                 and getattr(args[1].type, "name", "") in _SUMS:
             for d in f.declarators:
                 out[d.name] = (args[0].type, args[1].type.name)
+    return out
+
+
+def _map_fields(cls) -> dict[str, tuple]:
+    """Every Map field with its type arguments: name -> (key type node, value type node). A flush by
+    keys reads the same entries in the same order as a flush by entries for any of them (keySet()
+    and entrySet() are views of one map, java.util.Map)."""
+    out = {}
+    for f in cls.fields():
+        args = getattr(f.type, "arguments", None) or []
+        if getattr(f.type, "name", "") in ("Map", "HashMap", "TreeMap", "LinkedHashMap", "SortedMap", "NavigableMap") \
+                and len(args) == 2 and all(getattr(a, "type", None) is not None for a in args):
+            for d in f.declarators:
+                out[d.name] = (args[0].type, args[1].type)
     return out
 
 
@@ -229,8 +244,7 @@ def _flush_by_keys(s, maps: dict) -> bool:
     key_t, value_t = maps[m]
     entry_t = T.ReferenceType(name="Map", dimensions=[], arguments=None, sub_type=T.ReferenceType(
         name="Entry", dimensions=[], sub_type=None,
-        arguments=[T.TypeArgument(type=copy.deepcopy(key_t)),
-                   T.TypeArgument(type=T.ReferenceType(name=value_t, dimensions=[], arguments=None, sub_type=None))]))
+        arguments=[T.TypeArgument(type=copy.deepcopy(key_t)), T.TypeArgument(type=copy.deepcopy(value_t))]))
     s.body = holder.statements[0]
     s.control.var = T.VariableDeclaration(type=entry_t, modifiers=set(), annotations=[],
                                           declarators=[T.VariableDeclarator(name=entry, dimensions=[], initializer=None)])

@@ -18,8 +18,9 @@ import org.apache.hadoop.mapreduce.lib.output.FileOutputFormat;
 /**
  * The words the workshop's mechanics write most often, in two chained jobs: the first counts the
  * words of the notes (word TAB count), the second reads those lines and keeps the top words by
- * count in a TreeMap trimmed to N entries and written in cleanup(), fewest first. N is the
- * setting notes.top. Words with the same count share one entry: the later word replaces it.
+ * count in a TreeMap trimmed to N entries and written in cleanup(): each map task keeps its own
+ * top N, and the one reducer the top N of those, fewest first. N is the setting notes.top. Words
+ * with the same count share one entry: the later word replaces it.
  */
 public class TopNoteWords {
 
@@ -49,10 +50,29 @@ public class TopNoteWords {
     }
 
     public static class CountLineMapper extends Mapper<LongWritable, Text, Text, IntWritable> {
+        private int top;
+        private TreeMap<Integer, String> byCount;
+
         @Override
-        protected void map(LongWritable offset, Text value, Context context) throws IOException, InterruptedException {
+        protected void setup(Context context) {
+            top = Integer.parseInt(context.getConfiguration().get("notes.top"));
+            byCount = new TreeMap<Integer, String>();
+        }
+
+        @Override
+        protected void map(LongWritable offset, Text value, Context context) {
             String[] f = value.toString().split("\t");
-            context.write(new Text(f[0]), new IntWritable(Integer.parseInt(f[1])));
+            byCount.put(Integer.parseInt(f[1]), f[0]);
+            if (byCount.size() > top) {
+                byCount.remove(byCount.firstKey());
+            }
+        }
+
+        @Override
+        protected void cleanup(Context context) throws IOException, InterruptedException {
+            for (Map.Entry<Integer, String> e : byCount.entrySet()) {
+                context.write(new Text(e.getValue()), new IntWritable(e.getKey()));
+            }
         }
     }
 

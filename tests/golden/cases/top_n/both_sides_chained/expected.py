@@ -4,11 +4,11 @@ PySpark DataFrame version of the 2 chained Hadoop MapReduce jobs note word count
 words, written by mrlift.
 
 Original classes:
-    driver         net.brindleharbour.notes.TopNoteWords  (TopNoteWords.java:24-117)
-    job 1 mapper   net.brindleharbour.notes.TopNoteWords.WordMapper  (TopNoteWords.java:26-37)
-    job 1 reducer  net.brindleharbour.notes.TopNoteWords.CountReducer  (TopNoteWords.java:39-49)
-    job 2 mapper   net.brindleharbour.notes.TopNoteWords.CountLineMapper  (TopNoteWords.java:51-57)
-    job 2 reducer  net.brindleharbour.notes.TopNoteWords.TopWordsReducer  (TopNoteWords.java:59-87)
+    driver         net.brindleharbour.notes.TopNoteWords  (TopNoteWords.java:25-137)
+    job 1 mapper   net.brindleharbour.notes.TopNoteWords.WordMapper  (TopNoteWords.java:27-38)
+    job 1 reducer  net.brindleharbour.notes.TopNoteWords.CountReducer  (TopNoteWords.java:40-50)
+    job 2 mapper   net.brindleharbour.notes.TopNoteWords.CountLineMapper  (TopNoteWords.java:52-77)
+    job 2 reducer  net.brindleharbour.notes.TopNoteWords.TopWordsReducer  (TopNoteWords.java:79-107)
 
 What it computes: 2 jobs in a chain, each reading the output of the one before — job 1: per key:
 sum of the mapper's values, sorted by key; job 2: the entries of a TreeMap kept to the 3 largest
@@ -20,11 +20,20 @@ Usage (the same positional arguments as the original driver):
 
 Semantics kept from Java/Hadoop: see the helper docstrings. Java int/long overflow in
 row arithmetic raises an error here (ANSI mode) instead of wrapping silently.
-Note: TopNoteWords.java:33 toLowerCase() uses the JVM's default locale; the script assumes it was not Turkish or Azeri (where I/i map differently)
-Note: TopNoteWords.java:66 `byCount` is set once in setup() from constants: a constant of the task, as if set at its declaration
+Note: TopNoteWords.java:34 toLowerCase() uses the JVM's default locale; the script assumes it was not Turkish or Azeri (where I/i map differently)
+Note: TopNoteWords.java:59 `byCount` is set once in setup() from constants: a constant of the task, as if set at its declaration
+Note: TopNoteWords.java:86 `byCount` is set once in setup() from constants: a constant of the task, as if set at its declaration
 
 Findings (the original does this and so does this script; decide whether to keep it):
-    TopNoteWords.java:75  [ties-dropped]
+    TopNoteWords.java:65  [per-task-state]
+        the mapper's TreeMap lives in one map task: the original keeps a top 3 per input split,
+        which is one per file for files up to 1.1 times the split size; the script does the same
+        and stops on a longer file (its split size is the job's settings, with the block size
+        taken as dfs.blocksize)
+    TopNoteWords.java:65  [ties-dropped]
+        the TreeMap keeps one entry per map key: lines whose map keys tie overwrite each other,
+        so each task keeps only its last line of each tie; the script does the same
+    TopNoteWords.java:95  [ties-dropped]
         the TreeMap keeps one entry per map key: keys whose map keys tie overwrite each other,
         so the original keeps only the greatest key of each tie and may write fewer than 3
         distinct keys; the script does the same
@@ -88,6 +97,25 @@ def wrap_int(c: Column) -> Column:
     return F.when(low >= 2147483648, low - 4294967296).otherwise(low).cast("int")
 
 
+def one_map_task(lines: DataFrame, split_size: Column) -> DataFrame:
+    """The lines one file holds, in its order (they arrive in one partition, sorted), as the one map
+    task Hadoop reads it with: `_task` and `_line`. A file longer than 1.1 times the split size would
+    be cut into several tasks (FileInputFormat's SPLIT_SLOP): the job stops instead."""
+    ordered = lines.select(
+        "*", F.lit(0).alias("_task"), F.monotonically_increasing_id().alias("_line")
+    )
+    size = F.sum(F.octet_length("value") + 1).over(
+        Window.partitionBy("_task")
+    )  # TextOutputFormat's bytes
+    cut = F.lit(
+        "the folder the job before wrote is long enough for Hadoop to read it in several map tasks; "
+        "the script reproduces one"
+    )
+    return ordered.withColumn(
+        "_line", F.when(size / split_size > 1.1, F.raise_error(cut)).otherwise(F.col("_line"))
+    )
+
+
 def hadoop_setting(conf: dict[str, str] | None, name: str, default, getter: str = "get"):
     """Configuration.get*(name, default) as Hadoop reads it: trimmed numbers, 0x hex, true/false."""
     raw = (conf or {}).get(name)
@@ -126,21 +154,21 @@ def build_job_1(spark: SparkSession, input_path: str) -> DataFrame:
     # Map side: narrow, row by row (no shuffle) — TopNoteWords.java
     map_output = (
         lines
-        # TopNoteWords.java:31  for (String word : value.toString().split("[^A-Za-z]+")) {  (one row per element)
+        # TopNoteWords.java:32  for (String word : value.toString().split("[^A-Za-z]+")) {  (one row per element)
         .withColumn("word", F.explode(java_split(F.col("value"), "[^A-Za-z]+")))
-        # TopNoteWords.java:33  context.write(new Text(word.toLowerCase()), ONE);  (map output: key, value)
+        # TopNoteWords.java:34  context.write(new Text(word.toLowerCase()), ONE);  (map output: key, value)
         .where(~(F.length(F.col("word")) == 0)).select(
             F.lower(F.col("word")).alias("key"), F.lit(1).alias("value")
         )
     )
 
-    # Reduce side: wide — rows are shuffled so all values of a key meet (TopNoteWords.java:40)
+    # Reduce side: wide — rows are shuffled so all values of a key meet (TopNoteWords.java:41)
     result = (
         map_output.groupBy("key").agg(
-            # TopNoteWords.java:45  n += one.get();
+            # TopNoteWords.java:46  n += one.get();
             wrap_int(F.sum(F.col("value"))).alias("n"),
         )
-        # TopNoteWords.java:47  context.write(word, new IntWritable(n));
+        # TopNoteWords.java:48  context.write(word, new IntWritable(n));
         .select(F.col("key"), F.col("n").alias("value"))
     )
     return result
@@ -160,28 +188,56 @@ def build(
 ) -> DataFrame:
     """The last job's output rows as columns `key` and `value`, before the text layout."""
     # Job settings (Hadoop Configuration): `-D name=value` on the command line overrides the default
+    block_size_setting = hadoop_setting(conf, "dfs.blocksize", 134217728, "getLong")
+    maxsize_setting = hadoop_setting(
+        conf, "mapreduce.input.fileinputformat.split.maxsize", 9223372036854775807, "getLong"
+    )
+    minsize_setting = hadoop_setting(
+        conf, "mapreduce.input.fileinputformat.split.minsize", 1, "getLong"
+    )
     top = hadoop_setting(conf, "notes.top", "3", "get")
 
     # the lines job 1 wrote to the folder this job read (passed on, not re-read)
-    # TextInputFormat: one row per line, column `value` (LF, CRLF and CR end a line)
-    lines = job_1_lines
+    # The mapper keeps state per map task: Hadoop makes one task of each input split, and the
+    # split size is max(minsize, min(maxsize, the file's block size)) (FileInputFormat)
+    split_size = F.greatest(
+        F.lit(minsize_setting).cast("bigint"),
+        F.least(F.lit(maxsize_setting).cast("bigint"), F.lit(block_size_setting).cast("bigint")),
+    )
+    lines = one_map_task(job_1_lines, split_size)  # the one file that job wrote, in its order
 
     # Map side: narrow, row by row (no shuffle) — TopNoteWords.java
     map_output = (
         lines
-        # TopNoteWords.java:54  String[] f = value.toString().split("\t");
+        # TopNoteWords.java:64  String[] f = value.toString().split("\t");
         .withColumn("f", java_split(F.col("value"), "\t"))
-        # TopNoteWords.java:55  context.write(new Text(f[0]), new IntWritable(Integer.parseInt(f[1])));  (map output: key, value)
-        .select(F.col("f")[0].alias("key"), java_parse_int(F.col("f")[1]).alias("value"))
+        # TopNoteWords.java:65  byCount.put(Integer.parseInt(f[1]), f[0]);  (into this map task's TreeMap)
+        .select(
+            "_task",
+            "_line",
+            java_parse_int(F.col("f")[1]).alias("tm_key"),
+            F.col("f")[0].alias("tm_value"),
+        )
+        # a TreeMap keeps one entry per map key and a later put replaces it: the task's last line wins
+        .groupBy("_task", "tm_key")
+        .agg(F.max_by("tm_value", "_line").alias("tm_value"))
+        # trimmed after every put: each task keeps its 3 largest map keys, and cleanup() writes them (the shuffle sorts them again)
+        .withColumn(
+            "_kept",
+            F.row_number().over(Window.partitionBy("_task").orderBy(F.col("tm_key").desc())),
+        )
+        .where(F.col("_kept") <= java_parse_int(F.lit(top)))
+        # TopNoteWords.java:74  context.write(new Text(e.getValue()), new IntWritable(e.getKey()));  (map output: key, value)
+        .select(F.col("tm_value").alias("key"), F.col("tm_key").alias("value"))
     )
 
-    # Reduce side: wide — rows are shuffled so all values of a key meet (TopNoteWords.java:69)
+    # Reduce side: wide — rows are shuffled so all values of a key meet (TopNoteWords.java:89)
     per_key = (
         map_output.groupBy("key").agg(
-            # TopNoteWords.java:73  count = c.get(); // one line per word: the count the first job wrote
-            last_value_assigned(F.col("value"), "TopNoteWords.java:73 `count`").alias("count"),
+            # TopNoteWords.java:93  count = c.get(); // one line per word: the count the first job wrote
+            last_value_assigned(F.col("value"), "TopNoteWords.java:93 `count`").alias("count"),
         )
-        # TopNoteWords.java:75  byCount.put(count, word.toString());  (the TreeMap entry of this key)
+        # TopNoteWords.java:95  byCount.put(count, word.toString());  (the TreeMap entry of this key)
         .select("key", F.col("count").alias("tm_key"), F.col("key").alias("tm_value"))
     )
     # A TreeMap keeps one entry per map key and a later put replaces it. reduce() meets the keys
@@ -193,7 +249,7 @@ def build(
         entries.withColumn("_kept", F.row_number().over(kept)).where(
             F.col("_kept") <= java_parse_int(F.lit(top))
         )
-        # TopNoteWords.java:84  context.write(new IntWritable(e.getKey()), new Text(e.getValue()));
+        # TopNoteWords.java:104  context.write(new IntWritable(e.getKey()), new Text(e.getValue()));
         .select(
             F.col("tm_key").alias("key"),
             F.col("tm_value").alias("value"),
@@ -255,10 +311,8 @@ def main(argv: list[str] | None = None) -> int:
         .config("spark.sql.ansi.enabled", "true")  # errors where Java throws, never silent NULLs
         .getOrCreate()
     )
-    # Job 1 (TopNoteWords.java:101): the next job read its output folder; here the lines pass on as a DataFrame
-    job_1_lines = job_1_text(
-        build_job_1(spark, args.input_path), in_file_order=args.keep_intermediates
-    )
+    # Job 1 (TopNoteWords.java:121): the next job read its output folder; here the lines pass on as a DataFrame
+    job_1_lines = job_1_text(build_job_1(spark, args.input_path), in_file_order=True)
     if args.keep_intermediates:
         job_1_lines = job_1_lines.cache()  # written here and read again by job 2: computed once
         if not args.dry_run:
