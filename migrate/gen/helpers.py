@@ -204,12 +204,12 @@ def text_lines_with_offsets(spark, paths, *, file_name: bool = False, keep_file:
 ''')
 
 _h("lines_by_map_task", '''
-def lines_by_map_task(spark, paths, split_size: Column) -> DataFrame:
+def lines_by_map_task(spark, paths, split_size: Column, *, file_name: bool = False) -> DataFrame:
     """TextInputFormat's lines with the map task that reads them: `_task` (the file) and `_line` (the
     line's byte offset: its order in the task). Hadoop makes one split of a file up to 1.1 times
     the split size (FileInputFormat's SPLIT_SLOP) and cuts a longer one into several tasks, whose
     state the script does not reproduce: such a file stops the job."""
-    lines = text_lines_with_offsets(spark, paths, keep_file=True)
+    lines = text_lines_with_offsets(spark, paths, file_name=file_name, keep_file=True)
     split = F.col("_file_length") / split_size > 1.1
     cut = F.concat(F.lit("a file Hadoop would read in several map tasks (the script reproduces one task per "
                          "file): "), F.col("_task"))

@@ -601,10 +601,9 @@ def _read_code(src: Source, var: str, x: ExprWriter, parts: ScriptParts) -> list
             out.append(f"{var} = one_map_task({read}, split_size)  # the one file that job wrote, in its order")
         else:
             x.helpers.add("lines_by_map_task")
-            items = read[len("spark.read.text("):-1]
+            items = read[len("spark.read.text("):-1] + (", file_name=True" if src.file_name else "")
             out.append(f"{var} = lines_by_map_task(spark, {items}, split_size)  # one task per file, in line order")
-        return out
-    if src.fmt == "keyvalue":
+    elif src.fmt == "keyvalue":
         sep = src.kv_separator
         shown = "TAB" if sep == "\t" else repr(sep)
         regex = sep if sep.isalnum() or sep == "\t" else "\\" + sep  # a Java regex matching the one character
@@ -621,10 +620,10 @@ def _read_code(src: Source, var: str, x: ExprWriter, parts: ScriptParts) -> list
     else:
         out.append("# TextInputFormat: one row per line, column `value` (LF, CRLF and CR end a line)")
         out.append(f"{var} = {read}")
-    if src.file_name and not src.offsets:
+    if src.file_name and not src.offsets and not src.split:
         out.append("# the mapper reads its input split's file name: Spark's file metadata holds it")
         out.append(f'{var} = {var}.withColumn("input_file_name", F.col("_metadata.file_name"))')
-    if src.skip_first_line and src.offsets:
+    if src.skip_first_line and (src.offsets or src.split):
         out.append(f'{var} = {var}.where(F.col("byte_offset") != 0)  # the mapper skipped byte offset 0 of each file')
     elif src.skip_first_line:
         x.helpers.add("drop_first_line_per_file")

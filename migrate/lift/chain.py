@@ -15,7 +15,7 @@ from dataclasses import replace
 
 from migrate.java.driver import PathRef
 from migrate.lift.job import JobResult
-from migrate.plan import Param, Span, Stage
+from migrate.plan import Group, Param, Span, Stage, TopN, TopPerKey
 
 CHAINED = "chained-jobs"
 
@@ -68,6 +68,9 @@ def why_not_chained(group: list[JobResult]) -> str | None:
         if src.split and prev.spec.reduces != 1:  # one map task per part file the job before wrote
             return f"job {k + 1}'s mapper keeps state per map task (one per file), and job {k} writes one file " \
                    f"per {'reduce' if prev.spec.reduces else 'map'} task"
+        if src.split and not isinstance(prev.plan.reduce, (Group, TopN, TopPerKey)):
+            return f"job {k + 1}'s mapper keeps state over the lines in file order, and job {k} writes the lines " \
+                   "of one key in an order Hadoop does not define"
         if prev.plan.sink.compression:
             return f"job {k} compresses the folder job {k + 1} reads"
         later = [g for g in group[k + 1:] if any(_same_path(p, prev.spec.output) for p in g.spec.inputs)]

@@ -23,6 +23,7 @@ from migrate.lift.partitioning import custom_partition, hash_partition
 from migrate.lift.topn import lift_top_n, top_n_findings
 from migrate.lift.joins import JoinLifter
 from migrate.lift.sidefiles import read_side_files
+from migrate.lower.walk import assigned_names
 from migrate.plan import (ADVISORY_CATEGORIES, Agg, AggRef, BoolOp, Branch, Cast, Col, ConfValue, EachValue, Join, Emit, Explode, Expr, Filter, Finding, Group, HandWork, Identity, Param, Plan,
                           Project, SideTable, Sink, Source, Span, Step, TaskTopN, TopN, TopPerKey)
 
@@ -718,9 +719,15 @@ def _check_task_state(spec: JobSpec, steps: list[Step], branches: list[Branch], 
     per_task = [s for s in list(steps) + [t for b in branches for t in b.steps] if isinstance(s, TaskTopN)]
     if not per_task:
         return False
-    why = ("the job is map-only: each task's entries go straight to a part file of its own" if spec.reduces == 0
-           else "the mapper is one of several (MultipleInputs or ChainMapper)"
-           if branches or sum(isinstance(s, Project) for s in steps) > 1 else f"the input format reads {fmt} records, not a text file's lines" if fmt != "text" else None)
+    why = None
+    if spec.reduces == 0:
+        why = "the job is map-only: each task's entries go straight to a part file of its own"
+    elif branches or sum(isinstance(s, Project) for s in steps) > 1:
+        why = "the mapper is one of several (MultipleInputs or ChainMapper)"
+    elif fmt != "text":
+        why = f"the input format reads {fmt} records, not a text file's lines"
+    elif (spec.input_format or "").endswith("NLineInputFormat"):
+        why = "NLineInputFormat gives each map task N lines, not a file"
     if why is not None:
         add("task-state", per_task[0].origin, f"the TreeMap lives in one map task and cleanup() writes it, and {why}: "
             "the tasks are not reproduced", "Window.partitionBy(input file).orderBy(...) with row_number() <= N", "P2")
@@ -830,11 +837,7 @@ def _lift_mapper(mcls: ClassInfo, fmt: str, hand: list[HandWork], notes: list[st
         return [], False
     side = read_side_files(owner, index, class_constants(owner, index))
     settings, problems = task_constants(owner, driver_conf, class_constants(owner, index), side.handled)
-    problems = sorted(problems + side.problems)
-    for line, reason in problems:
-        hand.append(HandWork("task-lifecycle", Span(owner.file.path, line, line), reason,
-                             "settings become script parameters (-D name=value); other per-task work needs a rewrite",
-                             owner.file.lines[line - 1].strip() if line else "", "P1", 1))
+    hand.extend(_setup_hand_work(owner, problems + side.problems))
     unread = {f: Opaque(f"the side table filled in setup(), whose read was not lifted (line {side.problems[0][0]})")
               for f in side.filled - set(side.tables)} if side.problems else {}
     key_t, val_t = in_types or ({"keyvalue": "String", "other": "unknown"}.get(fmt, "offset"), "String")
@@ -858,6 +861,13 @@ def _lift_mapper(mcls: ClassInfo, fmt: str, hand: list[HandWork], notes: list[st
     if findings is not None:
         findings.extend(f for f in res.findings if f not in findings)
     return res.steps, res.skip_first_line
+
+
+def _setup_hand_work(owner: ClassInfo, problems: list[tuple[int, str]]) -> list[HandWork]:
+    """What setup()/configure() does besides reading settings (lift.config): one item per line."""
+    return [HandWork("task-lifecycle", Span(owner.file.path, line, line), reason,
+                     "settings become script parameters (-D name=value); other per-task work needs a rewrite",
+                     owner.file.lines[line - 1].strip() if line else "", "P1", 1) for line, reason in sorted(problems)]
 
 
 def _named(owner: ClassInfo, h: HandWork, sloc: int, tables: set[str]) -> HandWork:
@@ -936,10 +946,9 @@ def _lift_reducer(rcls: ClassInfo, key_t: str, val_t: str, hand: list[HandWork],
     a, b = node_lines(m)
     sloc = logical_sloc(owner.file.lines[(m.position.line if m.position else a) - 1 : b])
     settings, problems = task_constants(owner, driver_conf, class_constants(owner, index))
-    for line, reason in sorted(problems):
-        hand.append(HandWork("task-lifecycle", Span(owner.file.path, line, line), reason,
-                             "settings become script parameters (-D name=value); other per-task work needs a rewrite",
-                             owner.file.lines[line - 1].strip() if line else "", "P1", 1))
+    hand.extend(_setup_hand_work(owner, problems))
+    changed = {n for meth in owner.node.methods if meth.name not in ("setup", "configure") for n in assigned_names(meth)}
+    settings = {k: v for k, v in settings.items() if k not in changed}  # state kept across keys, not a setting
     try:
         top = lift_top_n(owner, m, key_t, val_t, index, FoldLifter, settings)
     except Unsupported as u:

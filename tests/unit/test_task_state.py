@@ -60,7 +60,11 @@ GUARDED = TASK_TOP.replace("longest.put(", "if (!f[0].equals(\"B3\")) {\n      l
     "longest.firstKey());\n      }", "longest.firstKey());\n      }\n      }")
 
 
-@pytest.mark.parametrize("body", [TASK_TOP, GUARDED], ids=["every-line", "guarded"])
+# the first line of each file (byte offset 0) skipped, as a header
+NO_HEADER = "\n      if (key.get() == 0) {\n        return;\n      }" + TASK_TOP
+
+
+@pytest.mark.parametrize("body", [TASK_TOP, GUARDED, NO_HEADER], ids=["every-line", "guarded", "no-header"])
 def test_a_task_tree_map_is_one_top_n_per_input_file(tmp_path, body):
     (job,) = scan_text(tmp_path / "scan", {"Main.java": _source(body)}).jobs
     assert job.status == "converted", job.plan.hand_work
@@ -113,3 +117,22 @@ def test_a_task_tree_map_in_a_map_only_job_is_declined(tmp_path):
     (job,) = scan_text(tmp_path, {"Main.java": src}).jobs
     items = [h for h in job.plan.hand_work if h.category == "task-state"]
     assert items and "map-only" in items[0].reason, job.plan.hand_work
+
+
+def test_a_chain_passes_lines_to_a_task_tree_map_only_from_one_ordered_file(tmp_path):
+    """Job 2 of the sample reads job 1's folder: one part file when job 1 has one reduce task, which
+    is one map task of job 2. With two reduce tasks the folder holds two files (two tasks of job 2),
+    so the jobs stay one script each, job 2 reading the folder's files one task each."""
+    from pathlib import Path
+
+    sample = Path(__file__).resolve().parents[2] / "samples/bikeshare/src/net/brindleharbour/notes/TopNoteWords.java"
+    text = sample.read_text(encoding="utf-8")
+    (chained,) = scan_text(tmp_path / "one", {"TopNoteWords.java": text}).jobs
+    assert chained.status == "converted" and len(chained.plan.upstream) == 1
+    two = text.replace("counts.setJarByClass(TopNoteWords.class);",
+                       "counts.setJarByClass(TopNoteWords.class);\n        counts.setNumReduceTasks(2);")
+    jobs = scan_text(tmp_path / "two", {"TopNoteWords.java": two}).jobs
+    assert len(jobs) == 2
+    reasons = [h.reason for j in jobs for h in j.plan.hand_work if h.category == "chained-jobs"]
+    assert reasons and all("keeps state per map task" in r for r in reasons), reasons
+    assert jobs[1].plan.source.split and not jobs[1].plan.source.upstream
