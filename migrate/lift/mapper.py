@@ -25,7 +25,7 @@ from migrate.lift import regex as rx
 from migrate.lift.collections import ConstMap
 from migrate.lift.combining import combining_update, map_fields
 from migrate.lift.counters import counter_update, is_counter_call
-from migrate.lower.walk import assigned_names
+from migrate.lower.walk import assigned_names, mentions
 from migrate.plan import (NUMERIC, BoolOp, Call, Col, Compare, Count, Emit, Explode, Expr, Filter, Finding, HandWork,
                           Let, Lit, Lookup, Project, SideTable, Span, Step, StructNew, rewrite, walk)
 
@@ -165,13 +165,17 @@ class MapBodyLifter:
         self.lookups: dict[tuple[str, Expr], Col] = {}
         self.tables: dict[str, SideTable] = {}
         self.tree_map = None  # a TreeMap field filled per map task (lift.topn), read when map() touches it
-        if any(getattr(f.type, "name", "") in ("TreeMap", "SortedMap", "NavigableMap") for f in cls.fields()):
+        self.tree_map_refused: tuple[set[str], Unsupported] | None = None  # why a TreeMap field is not one
+        sorted_maps = {d.name for f in cls.fields() if getattr(f.type, "name", "") in ("TreeMap", "SortedMap",
+                                                                                      "NavigableMap")
+                       for d in f.declarators}
+        if sorted_maps:
             from migrate.lift.topn import task_tree_map  # topn reads class constants from here
 
             try:
                 self.tree_map = task_tree_map(cls)
-            except Unsupported:
-                pass  # its uses in map() are declined as any other call
+            except Unsupported as u:
+                self.tree_map_refused = sorted_maps, u
 
     # ------------------------------------------------------------------ driving
     def run(self, body=None, where=None) -> MapResult:
@@ -266,6 +270,8 @@ class MapBodyLifter:
                                   "Window.partitionBy(task).orderBy(...) with row_number() <= N")
             self.tree_map.statement(s, self._eff(guard), self)
             return
+        if self.tree_map_refused is not None and any(mentions(s, name) for name in self.tree_map_refused[0]):
+            raise self.tree_map_refused[1]
         if isinstance(s, T.BlockStatement):
             self._scoped(s.statements, guard)
         elif isinstance(s, T.LocalVariableDeclaration):

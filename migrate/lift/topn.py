@@ -45,6 +45,10 @@ def tree_map_field(cls: ClassInfo) -> tuple[str, str, str] | None:
     if len(found) != 1:
         return None
     name, k, v, init, f = found[0]
+    if "static" in (f.modifiers or set()):
+        raise Unsupported(f, "a static TreeMap is shared by every task one JVM runs (Hadoop's local runner runs them "
+                             "all in one), so what each task writes depends on where the tasks ran",
+                          "make the field an instance field: one map per task")
     if init.arguments:
         raise Unsupported(f, "the TreeMap is built with a comparator; its order is not read",
                           "Window.orderBy the comparator's fields, then row_number() <= N")

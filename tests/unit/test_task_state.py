@@ -136,3 +136,11 @@ def test_a_chain_passes_lines_to_a_task_tree_map_only_from_one_ordered_file(tmp_
     reasons = [h.reason for j in jobs for h in j.plan.hand_work if h.category == "chained-jobs"]
     assert reasons and all("keeps state per map task" in r for r in reasons), reasons
     assert jobs[1].plan.source.split and not jobs[1].plan.source.upstream
+
+
+def test_a_static_tree_map_is_declined(tmp_path):
+    """A static field outlives the task: the local runner runs every map task in one JVM."""
+    src = job_source(TASK_TOP, reducer=COUNT, fields="static " + FIELDS.replace("private final ", "") + CLEANUP)
+    (job,) = scan_text(tmp_path, {"Main.java": src}).jobs
+    assert job.status != "converted"
+    assert any("static TreeMap" in h.reason for h in job.plan.hand_work), [h.reason for h in job.plan.hand_work]
