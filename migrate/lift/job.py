@@ -1050,7 +1050,7 @@ def _check_map_output_types(steps: list[Step], key_t: str, val_t: str, mcls: Cla
 
 
 _FOLD_SHAPES = {"count_if": "conditional count", "count_distinct": "distinct count per key", "any": "any/all per key",
-                "all": "any/all per key"}
+                "all": "any/all per key", "only": "the one value per key"}
 
 
 def _label(jtype: str) -> str:
@@ -1064,7 +1064,9 @@ def _shapes(steps: list[Step], reduce: Step | None) -> list[str]:
     if any(isinstance(s, Filter) for s in steps):
         out.append("filter")
     proj = [s for s in steps if isinstance(s, Project)]
-    if proj and not any(isinstance(s, Explode) for s in steps):
+    if any(isinstance(s, TaskTopN) for s in proj):
+        out.append("top-N per map task")
+    elif proj and not any(isinstance(s, Explode) for s in steps):
         out.append("parse and emit")
     if isinstance(reduce, Group):
         if reduce.distinct:

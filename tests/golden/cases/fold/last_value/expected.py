@@ -8,7 +8,7 @@ Original classes:
     reducer      Main.R  (Main.java:29-38)
 
 What it computes: per key: only of the mapper's values, sorted by key. Shapes: filter, parse and
-emit, only per key.
+emit, the one value per key.
 Status: converted.
 
 Usage (the same positional arguments as the original driver):

@@ -7,8 +7,8 @@ Original classes:
     mapper       net.brindleharbour.rides.LongRideBikesPerDay.DayTopMapper  (LongRideBikesPerDay.java:27-49)
     reducer      net.brindleharbour.rides.LongRideBikesPerDay.DaysReducer  (LongRideBikesPerDay.java:51-61)
 
-What it computes: per key: sum of the mapper's values, sorted by key. Shapes: filter, parse and
-emit, sum per key.
+What it computes: per key: sum of the mapper's values, sorted by key. Shapes: filter, top-N per
+map task, sum per key.
 Status: converted.
 
 Usage (the same positional arguments as the original driver):
