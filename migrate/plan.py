@@ -240,7 +240,7 @@ class TaskTopN(Project):
     trims the map to its `n` largest (smallest) map keys after every put; cleanup() writes the
     kept entries (`emits`, over the columns `tm_key` and `tm_value`). As in TopN, that leaves the
     n largest distinct map keys, each with the value of the task's last line that put it. One
-    map per map task: rows carry `_task` and their order in it, `_line` (Source.task_order)."""
+    map per map task: rows carry `_task` and their order in it, `_line` (see Source.split)."""
 
     put: Emit = None
     n: int = 0
