@@ -634,6 +634,59 @@ def tree_map_trim(text: str) -> str:
                   lambda m: f"{m[1]}.poll{m[2].capitalize()}Entry();", text)
 
 
+_BOOK = """
+    static class {rec} {{
+        final {k} name;
+        int seen;
+
+        {rec}({k} name) {{
+            this.name = name;
+        }}
+    }}
+
+    static class {rec}Book {{
+        private final Map<{k}, {rec}> byName = new HashMap<>();
+
+        void add({k} name, int n) {{
+            {rec} r = byName.get(name);
+            if (r == null) {{
+                r = new {rec}(name);
+                byName.put(name, r);
+            }}
+            r.seen += n;
+        }}
+
+        Collection<{rec}> records() {{
+            return byName.values();
+        }}
+    }}
+"""
+
+
+def counter_book(text: str) -> str:
+    """A count per key in a `Map<String, Integer>` field (`m.merge(k, v, Integer::sum)`, flushed by its
+    entries) vs the same counts kept through helper classes: a book of records made with their key,
+    whose count add() steps, flushed over the records."""
+    field = re.search(r"(?m)^([ \t]*)private final Map<String, Integer> (\w+) = new HashMap<>\(\);\n", text)
+    if not field:
+        return text
+    m = field[2]
+    rec = m[0].upper() + m[1:] + "Record"
+    text = re.sub(rf"\b{m}\.merge\(([^,]+), ([^,]+), Integer::sum\);", lambda x: f"{m}.add({x[1]}, {x[2]});", text)
+    loop = re.search(rf"for \(Map\.Entry<String, Integer> (\w+) : {m}\.entrySet\(\)\) \{{", text)
+    if not loop or ".merge(" in text:
+        return text
+    e = loop[1]
+    end = _closing(text, loop.end() - 1, "{}")
+    body = text[loop.end():end].replace(f"{e}.getKey()", f"{e}.name").replace(f"{e}.getValue()", f"{e}.seen")
+    text = text[:loop.start()] + f"for ({rec} {e} : {m}.records()) {{" + body + text[end:]
+    text = text.replace(field[0], f"{field[1]}private final {rec}Book {m} = new {rec}Book();\n")
+    cls = re.search(r"(?m)^public class \w+ \{\n", text)
+    text = text[:cls.end()] + _BOOK.format(rec=rec, k="String") + text[cls.end():]
+    return re.sub(r"(?m)^import java\.util\.HashMap;", "import java.util.Collection;\nimport java.util.HashMap;", text,
+                  count=1)
+
+
 AXES = (
     Axis("catch-logs", "empty catch vs logging then skipping", catch_logs),
     Axis("field-scratch", "array local vs scratch field", field_scratch),
@@ -671,6 +724,8 @@ AXES = (
          values_helper),
     Axis("setup-setting", "a reducer's constant N vs N set by the driver and read in setup()", setup_setting),
     Axis("tree-map-trim", "remove(firstKey()) vs pollFirstEntry() on a TreeMap", tree_map_trim),
+    Axis("counter-book", "a Map counted with merge vs the counts kept through a helper book of records",
+         counter_book),
 )
 
 

@@ -52,6 +52,10 @@ def flushes_all_entries(cleanup: T.MethodDeclaration | None, field: str) -> bool
         return False
     body = [s for s in cleanup.body or [] if not (isinstance(s, T.StatementExpression)
                                                  and isinstance(s.expression, T.SuperMethodInvocation))]
+    scratch = set()  # `Text word = new Text();` before the loop: a Writable set then written in it
+    while body and isinstance(body[0], T.LocalVariableDeclaration) and len(body[0].declarators) == 1 \
+            and _empty_writable(body[0].declarators[0].initializer):
+        scratch.add(body.pop(0).declarators[0].name)
     if len(body) != 1 or not isinstance(body[0], T.ForStatement):
         return False
     ctl = body[0].control
@@ -62,12 +66,25 @@ def flushes_all_entries(cleanup: T.MethodDeclaration | None, field: str) -> bool
         return False
     var = ctl.var.declarators[0].name
     loop = body[0].body.statements if isinstance(body[0].body, T.BlockStatement) else [body[0].body]
-    if len(loop) != 1 or not isinstance(loop[0], T.StatementExpression):
+    if not loop or not all(isinstance(x, T.StatementExpression) for x in loop):
         return False
-    w = loop[0].expression
+    *sets, w = [x.expression for x in loop]
+    held = {}  # scratch Writable -> what this pass of the loop set it to
+    for c in sets:
+        if not (isinstance(c, T.MethodInvocation) and c.qualifier in scratch and c.member == "set"
+                and len(c.arguments or []) == 1 and not c.selectors and c.qualifier not in held):
+            return False
+        held[c.qualifier] = c.arguments[0]
     if not (isinstance(w, T.MethodInvocation) and w.member in ("write", "collect") and len(w.arguments) == 2):
         return False
-    return _reads(w.arguments[0], var, "getKey") and _reads(w.arguments[1], var, "getValue")
+    k, v = (held.get(a.member, a) if isinstance(a, T.MemberReference) and not a.qualifier and not a.selectors else a
+            for a in w.arguments)
+    return _reads(k, var, "getKey") and _reads(v, var, "getValue")
+
+
+def _empty_writable(e) -> bool:
+    return isinstance(e, T.ClassCreator) and e.type.name in ("Text", "IntWritable", "LongWritable") \
+        and not e.arguments and not e.body
 
 
 def _reads(arg, var: str, getter: str) -> bool:
