@@ -73,7 +73,8 @@ def _book(helper, index) -> _Book | None:
         return None
     f = fields[0]
     args = getattr(f.type, "arguments", None) or []
-    if f.type.name not in _MAPS or len(args) != 2 or getattr(args[1].type, "arguments", None):
+    if helper.node.extends is not None or getattr(f.type, "name", "") not in _MAPS or len(args) != 2 \
+            or any(getattr(a, "type", None) is None for a in args) or getattr(args[1].type, "arguments", None):
         return None
     m = f.declarators[0].name
     if not _made_empty(helper, m, f.declarators[0].initializer):
@@ -120,7 +121,8 @@ def _field_target(e, name: str) -> bool:
 def _record(record, key_type) -> tuple[str, str, str] | None:
     """(key field, count field, count type) of a record made from its key, with a count from 0."""
     fields = _instance_fields(record)
-    if record.node.methods or len(fields) != 2 or any(len(f.declarators) != 1 for f in fields):
+    if record.node.extends is not None or record.node.methods or len(fields) != 2 \
+            or any(len(f.declarators) != 1 for f in fields):
         return None
     keys = [f for f in fields if _same_type(f.type, key_type)]
     counts = [f for f in fields if isinstance(f.type, T.BasicType) and f.type.name in _COUNTS and not f.type.dimensions]
@@ -224,8 +226,8 @@ def _uses(cls, name: str, field, book: _Book):
                     return None
                 adds.append(n)
             elif isinstance(n, T.ForStatement) and isinstance(n.control, T.EnhancedForControl) \
-                    and _call(n.control.iterable, name, n.control.iterable.member, 0) \
-                    and n.control.iterable.member in book.lists:
+                    and getattr(n.control.iterable, "member", None) in book.lists \
+                    and _call(n.control.iterable, name, n.control.iterable.member, 0):
                 loops.append(n)
     if len(created) + (init is not None) != 1:
         return None
