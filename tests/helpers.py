@@ -17,6 +17,18 @@ import org.apache.hadoop.mapreduce.lib.output.FileOutputFormat;
 """
 
 
+# main() of a job whose mapper class is M and whose reducer is Hadoop's IntSumReducer (in-mapper combining tests)
+SUM_WORDS_MAIN = """  public static void main(String[] args) throws Exception {
+    Job job = Job.getInstance(new Configuration(), "words");
+    job.setMapperClass(M.class);
+    job.setReducerClass(org.apache.hadoop.mapreduce.lib.reduce.IntSumReducer.class);
+    job.setOutputKeyClass(Text.class); job.setOutputValueClass(IntWritable.class);
+    FileInputFormat.addInputPath(job, new Path(args[0])); FileOutputFormat.setOutputPath(job, new Path(args[1]));
+    System.exit(job.waitForCompletion(true) ? 0 : 1);
+  }
+"""
+
+
 def scan_text(tmp_path: Path, files: dict[str, str | bytes]) -> RepoScan:
     for name, text in files.items():
         p = tmp_path / name

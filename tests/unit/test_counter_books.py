@@ -7,7 +7,7 @@ from __future__ import annotations
 
 import pytest
 
-from tests.helpers import HEADER, scan_text, verify_one_job
+from tests.helpers import HEADER, SUM_WORDS_MAIN, scan_text, verify_one_job
 
 JOB = HEADER + """
 public class Main {
@@ -51,15 +51,7 @@ public class Main {
       }
     }
   }
-  public static void main(String[] args) throws Exception {
-    Job job = Job.getInstance(new Configuration(), "words");
-    job.setMapperClass(M.class);
-    job.setReducerClass(org.apache.hadoop.mapreduce.lib.reduce.IntSumReducer.class);
-    job.setOutputKeyClass(Text.class); job.setOutputValueClass(IntWritable.class);
-    FileInputFormat.addInputPath(job, new Path(args[0])); FileOutputFormat.setOutputPath(job, new Path(args[1]));
-    System.exit(job.waitForCompletion(true) ? 0 : 1);
-  }
-}
+""" + SUM_WORDS_MAIN + """}
 """
 WORDS = {"a.txt": b"pump chain pump\nbell  chain\n", "b.txt": b"pump\nsaddle bell pump\n"}
 
