@@ -842,7 +842,7 @@ def _first_keys_code(r: Group, plan: Plan, x: ExprWriter) -> list[str]:
             f'.where(F.col("_key_number") <= {r.first_keys})']
 
 
-def _top_n_limit(r: TopN, x: ExprWriter) -> str:
+def _top_n_limit(r: TopN | TaskTopN, x: ExprWriter) -> str:
     """N: a number, or the job setting it is read from (a script parameter)."""
     return str(r.n) if r.n_setting is None else x(r.n_setting)
 
@@ -1011,7 +1011,6 @@ def _task_top_n_code(s: TaskTopN, x: ExprWriter) -> list[str]:
     """Each map task's TreeMap: its last put per map key, trimmed to N map keys, then cleanup()'s writes."""
     put = s.put
     order = 'F.col("tm_key").desc()' if s.keep_largest else 'F.col("tm_key")'
-    limit = str(s.n) if s.n_setting is None else x(s.n_setting)
     lines = [f"# {_where(put.origin)}  {put.note}  (into this map task's TreeMap)"]
     if put.guard is not None:
         lines.append(f".where({bare(x(put.guard))})")
@@ -1021,7 +1020,7 @@ def _task_top_n_code(s: TaskTopN, x: ExprWriter) -> list[str]:
               f"# trimmed after every put: each task keeps its {s.n} {'largest' if s.keep_largest else 'smallest'} "
               "map keys, and cleanup() writes them (the shuffle sorts them again)",
               f'.withColumn("_kept", F.row_number().over(Window.partitionBy("_task").orderBy({order})))',
-              f'.where(F.col("_kept") <= {limit})']
+              f'.where(F.col("_kept") <= {_top_n_limit(s, x)})']
     return lines + _project_code(Project(s.origin, s.note, s.emits), x)
 
 

@@ -696,18 +696,18 @@ def _reads_file_name(steps: list[Step]) -> bool:
 
 # FileInputFormat's split size is max(minsize, min(maxsize, the file's block size)); the script takes
 # the block size as dfs.blocksize (HDFS's default, hdfs-default.xml), the others as the job sets them.
-SPLIT_SETTINGS = (("mapreduce.input.fileinputformat.split.minsize", 1), ("mapreduce.input.fileinputformat.split.maxsize",
-                  2**63 - 1), ("dfs.blocksize", 134217728))
+SPLIT_SETTINGS = (("mapreduce.input.fileinputformat.split.minsize", 1, "minsize_setting"),
+                  ("mapreduce.input.fileinputformat.split.maxsize", 2**63 - 1, "maxsize_setting"),
+                  ("dfs.blocksize", 134217728, "block_size_setting"))
 
 
 def split_settings(driver_conf: dict[str, str]) -> tuple[ConfValue, ...]:
     """The settings that decide how Hadoop splits an input file into map tasks (script parameters)."""
     out = []
-    for name, default in SPLIT_SETTINGS:
+    for name, default, var in SPLIT_SETTINGS:
         given = driver_conf.get(name, "")
         value = int(given) if given.strip().lstrip("-").isdigit() else default
-        out.append(ConfValue("long", name, "getLong", max(value, 1),
-                             name.rsplit(".", 1)[-1].replace("blocksize", "block_size") + "_setting"))
+        out.append(ConfValue("long", name, "getLong", max(value, 1), var))
     return tuple(out)
 
 

@@ -166,11 +166,10 @@ class MapBodyLifter:
         self.tables: dict[str, SideTable] = {}
         self.tree_map = None  # a TreeMap field filled per map task (lift.topn), read when map() touches it
         self.tree_map_refused: tuple[set[str], Unsupported] | None = None  # why a TreeMap field is not one
-        sorted_maps = {d.name for f in cls.fields() if getattr(f.type, "name", "") in ("TreeMap", "SortedMap",
-                                                                                      "NavigableMap")
-                       for d in f.declarators}
+        from migrate.lift.topn import SORTED_MAPS, task_tree_map  # topn reads class constants from here
+
+        sorted_maps = {d.name for f in cls.fields() if getattr(f.type, "name", "") in SORTED_MAPS for d in f.declarators}
         if sorted_maps:
-            from migrate.lift.topn import task_tree_map  # topn reads class constants from here
 
             try:
                 self.tree_map = task_tree_map(cls)

@@ -24,6 +24,7 @@ from migrate.lift.exprs import Scope, Unsupported, calls_as_names, lift, widen, 
 from migrate.lift.mapper import class_constants
 from migrate.plan import Call, Col, ConfValue, Emit, Expr, Finding, Group, Lit, Span, TaskTopN, TopN
 
+SORTED_MAPS = ("TreeMap", "SortedMap", "NavigableMap")  # field types a top-N map is declared with
 _MAP_KEYS = {"Integer": "int", "Long": "long"}
 _MAP_VALUES = {"String": "String", "Integer": "int", "Long": "long"}
 _TRIM = {("remove", "firstKey"): True, ("pollFirstEntry", None): True,
@@ -34,7 +35,7 @@ def tree_map_field(cls: ClassInfo) -> tuple[str, str, str] | None:
     """(name, key type, value type) of the class's one TreeMap field made with `new TreeMap<>()`."""
     found = []
     for f in cls.fields():
-        if getattr(f.type, "name", "") not in ("TreeMap", "SortedMap", "NavigableMap"):
+        if getattr(f.type, "name", "") not in SORTED_MAPS:
             continue
         args = f.type.arguments or []
         names = [getattr(getattr(a, "type", None), "name", "") for a in args]

@@ -151,7 +151,7 @@ def _lists(meth, m: str) -> bool:
     """`Collection<R> values() { return m.values(); }`"""
     body = meth.body or []
     return not meth.parameters and len(body) == 1 and isinstance(body[0], T.ReturnStatement) \
-        and isinstance(body[0].expression, T.MethodInvocation) and body[0].expression.qualifier in (m, f"this.{m}") \
+        and isinstance(body[0].expression, T.MethodInvocation) and body[0].expression.qualifier == m \
         and body[0].expression.member == "values" and not body[0].expression.arguments \
         and not body[0].expression.selectors
 
@@ -192,7 +192,7 @@ def _adds(meth, m: str, book: _Book) -> tuple[int, int | None] | None:
 
 
 def _call(e, q: str, member: str, n: int) -> bool:
-    return isinstance(e, T.MethodInvocation) and e.qualifier in (q, f"this.{q}") and e.member == member \
+    return isinstance(e, T.MethodInvocation) and e.qualifier == q and e.member == member \
         and len(e.arguments or []) == n and not e.selectors
 
 
@@ -235,11 +235,11 @@ def _uses(cls, name: str, field, book: _Book):
     for meth in cls.node.methods:  # nothing else reads or writes the book
         for _, n in meth:
             if id(n) not in counted and isinstance(n, (T.MemberReference, T.MethodInvocation)) and \
-                    (n.qualifier in (name, f"this.{name}") or isinstance(n, T.MemberReference) and n.member == name
+                    (n.qualifier == name or isinstance(n, T.MemberReference) and n.member == name
                      and n.qualifier in ("", None, "this")):
                 return None
     for loop in loops:
-        if _record_reads(loop, book) is None:
+        if not _reads_record_only(loop, book):
             return None
     return created, adds, loops
 
@@ -248,21 +248,21 @@ def _new_book(e) -> bool:
     return isinstance(e, T.ClassCreator) and not e.arguments and not e.body
 
 
-def _record_reads(loop, book: _Book):
-    """The loop variable's reads (`c.key`, `c.count`); None when it is used any other way."""
+def _reads_record_only(loop, book: _Book) -> bool:
+    """Does the loop only read the record's key and count (`c.key`, `c.count`)?"""
     c = loop.control.var.declarators[0].name
     if getattr(loop.control.var.type, "name", "") != book.record or mentions(loop.body, f"{c}Entry"):
-        return None
-    reads = [n for _, n in loop.body if isinstance(n, T.MemberReference) and n.qualifier == c]
-    if any(r.member not in (book.key_field, book.count_field) or r.selectors or r.prefix_operators
-           or r.postfix_operators for r in reads):
-        return None
-    if any(isinstance(n, T.Assignment) and isinstance(n.expressionl, T.MemberReference) and n.expressionl.qualifier == c
-           for _, n in loop.body):
-        return None
-    bare = [n for _, n in loop.body if isinstance(n, (T.MemberReference, T.MethodInvocation))
-            and (n.qualifier == c and isinstance(n, T.MethodInvocation) or is_name(n, c))]
-    return None if bare else reads
+        return False
+    for _, n in loop.body:
+        if isinstance(n, T.MemberReference) and n.qualifier == c and (
+                n.member not in (book.key_field, book.count_field) or n.selectors or n.prefix_operators
+                or n.postfix_operators):
+            return False  # another field, or a step
+        if isinstance(n, T.Assignment) and isinstance(n.expressionl, T.MemberReference) and n.expressionl.qualifier == c:
+            return False  # a record changed
+        if isinstance(n, T.MethodInvocation) and n.qualifier == c or is_name(n, c):
+            return False  # the record itself handed on, or a method of it
+    return True
 
 
 def _rewrite(field, name: str, book: _Book, uses) -> None:
