@@ -519,6 +519,18 @@ class Param:
 
 
 @dataclass(frozen=True)
+class ModeCheck:
+    """The driver picks its job by one argument: this script is the branch for `value` (None: a
+    value none of the tests accepts), and refuses an argument that the driver's tests would send
+    to another branch."""
+
+    param: str  # the script parameter holding that argument
+    value: str | None
+    tests: tuple[tuple[str, bool], ...]  # (literal, ignore_case), every test of the argument in the driver
+    origin: Span
+
+
+@dataclass(frozen=True)
 class Stage:
     """An earlier job of a chain in one driver: its plan, and the folder the driver wrote its
     output to and the next job read (the script passes the lines on; it writes the folder only
@@ -547,6 +559,7 @@ class Plan:
     branches: tuple[Branch, ...] = ()  # MultipleInputs: each input with its own mapper (map_steps is empty)
     tables: tuple[SideTable, ...] = ()  # side files the mappers look rows up in
     upstream: tuple["Stage", ...] = ()  # chained jobs: the earlier jobs of the driver, in order
+    mode: ModeCheck | None = None  # a driver that picks its job by an argument: the branch this job is
 
     def __post_init__(self) -> None:
         if not self.map_steps or not isinstance(self.map_steps[-1], Project):

@@ -198,6 +198,8 @@ def script_name(job: JobResult, taken: set[str]) -> str:
     base = snake(job.spec.driver.name) or "job"
     if base[0].isdigit():
         base = "job_" + base
+    if job.spec.mode is not None:  # one script per branch of a driver that picks its job by an argument
+        base = f"{base}_{snake(job.spec.mode.label) or 'mode'}"
     if base + ".py" in taken and job.spec.name and snake(job.spec.name):  # a driver that runs several jobs
         base = f"{base}_{snake(job.spec.name)}"
     name, i = base + ".py", 2

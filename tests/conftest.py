@@ -59,6 +59,23 @@ def sample_runs() -> list[dict]:
     return json.loads((SAMPLES / "runs.json").read_text(encoding="utf-8"))["runs"]
 
 
+def sample_path(arg: str) -> str:
+    """A runs.json argument made absolute where it names sample files (each part of a comma list);
+    another word (a mode a driver picks its job by) as it is."""
+    parts = arg.split(",")
+    if not all((SAMPLES / p).exists() for p in parts):
+        return arg
+    return ",".join(str(SAMPLES / p) for p in parts)
+
+
+def run_id(run: dict) -> str:
+    """A test id for a sample run: the driver's simple name, and the first argument where one
+    driver has several runs (a driver that picks its job by that argument)."""
+    name = run["driver"].rsplit(".", 1)[-1]
+    several = sum(r["driver"] == run["driver"] for r in sample_runs()) > 1
+    return f"{name}[{run['args'][0]}]" if several else name
+
+
 def load_script(path: Path):
     """Import a generated script as a module (each under its own name)."""
     name = "generated_" + path.stem

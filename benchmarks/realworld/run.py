@@ -35,7 +35,7 @@ sys.path.insert(0, str(ROOT))
 from benchmarks.realworld.common import (EXPECTED, HERE, WORK, Job, lay_out, load_manifest, prepared_sources,  # noqa: E402
                                          source_files)
 from migrate.verify.compare import compare_folders, part_files  # noqa: E402
-from migrate.verify.runner import runnable  # noqa: E402
+from migrate.verify.runner import branch_taken, runnable  # noqa: E402
 
 RESULTS = HERE / "RESULTS.md"
 HISTORY = HERE / "history.json"  # one entry per full run that rewrote RESULTS.md: the before/after record
@@ -111,7 +111,7 @@ def _run(job: Job, status: dict, timeout: float, work: Path, o: Outcome) -> None
     if report is None:
         o.status, o.crash = "crash", problem
         return
-    entries = [j for j in report["jobs"] if j.get("driver") == job.main]
+    entries = [j for j in report["jobs"] if j.get("driver") == job.main and branch_taken(j.get("mode"), job.args)]
     if not entries:
         o.detail = f"no job with driver {job.main} in the report ({len(report['jobs'])} jobs listed)"
         return

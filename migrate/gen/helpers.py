@@ -5,10 +5,15 @@ real JVM in tests/semantics (values from ../shared/SEMANTICS.md, re-run here).
 """
 from __future__ import annotations
 
+import inspect
+
+from migrate.java.literals import argument_equals_ignore_case, argument_test, same_driver_branch
+
 HELPERS: dict[str, tuple[tuple[str, ...], str]] = {}
 
 
 def _h(name: str, source: str, needs: tuple[str, ...] = ()) -> None:
+    assert name not in HELPERS, f"helper {name} is defined twice"
     HELPERS[name] = (needs, source.strip("\n") + "\n")
 
 
@@ -702,6 +707,12 @@ def checked_partition(task: Column, reduce_tasks: int) -> Column:
     return F.when(bad, F.raise_error(F.concat(F.lit("Illegal partition ("), task.cast("string"), F.lit(")")))) \\
         .otherwise(task)
 ''')
+
+
+# Plain Python (not Column code): the check of the argument a driver picks its job by.
+_h("argument_equals_ignore_case", inspect.getsource(argument_equals_ignore_case))
+_h("argument_test", inspect.getsource(argument_test), ("argument_equals_ignore_case",))
+_h("same_driver_branch", inspect.getsource(same_driver_branch), ("argument_test",))
 
 
 def helper_source(names: set[str]) -> str:

@@ -1097,7 +1097,7 @@ def render_script(plan: Plan, header: dict, hand_work: list[HandWork]) -> str:
     stages = [_stage(st, i, plan.upstream[i].plan if i + 1 < len(plan.upstream) else plan)
               for i, st in enumerate(plan.upstream)]
     writers = [x, *(st["x"] for st in stages)]
-    used = set().union(*(w.helpers for w in writers))
+    used = set().union(*(w.helpers for w in writers), {"same_driver_branch"} if plan.mode else set())
     helpers = helper_source(used) if used else ""
     regexes = _script_names_of(writers, "regexes", "regexes")
     task_rules = _script_names_of(writers, "task_rules", "partitioner functions")
@@ -1112,7 +1112,7 @@ def render_script(plan: Plan, header: dict, hand_work: list[HandWork]) -> str:
         doc_end=doc_end, plan=plan, header=header, body=parts.body, helpers=helpers,
         regexes=[(k, raw_string(v)) for k, v in regexes.items()], task_rules=sorted(task_rules.items()),
         uses_window=parts.uses_window or any(st["uses_window"] for st in stages),
-        slots=slots, options=[p for p in plan.params if p.position is None], sink=plan.sink,
+        slots=slots, options=[p for p in plan.params if p.position is None], sink=plan.sink, mode=_mode(plan),
         build_args=build_args, build_call=build_call, hand_work=hand_work, stages=stages,
         counters=any(w.counters for w in writers), dates=any(w.dates for w in writers),
         named_counters=any(w.named_counters for w in writers), time_zone=_time_zone(writers),
@@ -1196,6 +1196,20 @@ def _stage(st: Stage, i: int, reader: Plan) -> dict:
             "build_args": args, "build_call": call, "output": st.output.name, "sink": sink, "order": order,
             # a map-only reader writes lines in input order; a mapper with per-task state reads them in order
             "where": _where(st.origin), "in_order": not reader.sink.sorted_by_key or bool(reader.source.split)}
+
+
+def _mode(plan: Plan) -> dict | None:
+    """The check that the argument a driver picks its job by selects this script's branch."""
+    m = plan.mode
+    if m is None:
+        return None
+    out = {"param": m.param, "value": repr(m.value), "tests": repr(m.tests), "where": _where(m.origin),
+            "index": next(p.position for p in plan.params if p.name == m.param),
+            "shown": repr(m.value) if m.value is not None else "none of " + ", ".join(
+                dict.fromkeys(repr(lit) for lit, _ in m.tests))}
+    out["refusal"] = repr(f": this script runs only the original driver's branch for {out['shown']}; "
+                          "mrlift wrote one script per branch")
+    return out
 
 
 def _tasks(plan: Plan) -> int:

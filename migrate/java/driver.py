@@ -8,7 +8,7 @@ from dataclasses import dataclass, field
 from javalang import tree as T
 
 from migrate.java.index import ClassIndex, ClassInfo, node_lines
-from migrate.java.literals import string_value
+from migrate.java.literals import argument_test, string_value
 from migrate.plan import Span
 
 
@@ -43,6 +43,23 @@ class ChainLink:
     own_conf: bool  # the link gets a Configuration with settings of its own
 
 
+@dataclass(frozen=True)
+class Mode:
+    """A driver that configures different jobs by the value of one argument (`if
+    (args[0].equals("combiner")) ... else if ...`, or a `switch`): this job is the branch the driver
+    takes when args[index] is `value` (None: a value that none of the tests accepts). Any argument
+    that gives the same answer to every one of the driver's tests takes the same branch."""
+
+    index: int
+    value: str | None
+    tests: tuple[tuple[str, bool], ...]  # (literal, ignore_case) of every test of args[index], in order
+    line: int  # the first test
+
+    @property
+    def label(self) -> str:
+        return self.value if self.value is not None else "other"
+
+
 @dataclass
 class JobSpec:
     """What a driver configures for one MapReduce job."""
@@ -71,6 +88,7 @@ class JobSpec:
     chain: list[ChainLink] = field(default_factory=list)
     # job.addCacheFile / DistributedCache.addCacheFile, in order: what getCacheFiles()[i] is in a task
     cache_files: list[CacheFile] = field(default_factory=list)
+    mode: Mode | None = None  # the branch of a driver that picks its job by an argument
 
     @property
     def reduces(self) -> int:
@@ -123,16 +141,41 @@ def read_drivers(index: ClassIndex) -> tuple[list[JobSpec], list[tuple[ClassInfo
         if method is None:
             problems.append((cls, cls.line_start, "driver has no main(String[]) or run(String[]) that could be read"))
             continue
-        reader = _DriverReader(cls, index)
         try:
-            reader.run(method)
+            specs.extend(_read_driver(cls, index, method))
         except (AttributeError, TypeError, ValueError, KeyError, IndexError, RecursionError) as exc:
             # an unforeseen driver shape must not stop the batch: it is reported with its line
             problems.append((cls, method.position.line if method.position else cls.line_start,
                              f"driver could not be read ({type(exc).__name__}: {exc})"))
-            continue
-        specs.extend(reader.jobs())
     return specs, problems
+
+
+MAX_MODES = 16  # more branches on one argument than this is not a mode switch mrlift splits
+
+
+def _read_driver(cls: ClassInfo, index: ClassIndex, method) -> list[JobSpec]:
+    """The driver's jobs. Where it picks what to configure by testing one argument against string
+    literals, each branch is read on its own (the value fixed) and becomes its own job: reading every
+    branch into one job would mix the classes of all of them."""
+    reader = _DriverReader(cls, index)
+    reader.run(method)
+    indexes = {t[0] for t in reader.arg_tests}
+    if len(indexes) != 1:
+        return reader.jobs()
+    (at,) = indexes
+    tests = tuple(dict.fromkeys((lit, ic) for _, lit, ic, _ in reader.arg_tests))
+    values = list(dict.fromkeys(lit for lit, _ in tests))
+    if len(values) > MAX_MODES:
+        return reader.jobs()
+    specs = []
+    for value in [*values, None]:
+        branch = _DriverReader(cls, index, fixed=(at, value))
+        branch.run(method)
+        mode = Mode(at, value, tests, min(line for _, _, _, line in reader.arg_tests))
+        for spec in branch.jobs():
+            spec.mode = mode
+            specs.append(spec)
+    return specs
 
 
 def _entry_method(cls: ClassInfo, index: ClassIndex):
@@ -150,8 +193,12 @@ COMPRESS_CODEC = "mapreduce.output.fileoutputformat.compress.codec"
 class _DriverReader:
     """Interprets driver statements symbolically; values are small tuples (kind, payload)."""
 
-    def __init__(self, cls: ClassInfo, index: ClassIndex):
+    def __init__(self, cls: ClassInfo, index: ClassIndex, fixed: tuple[int, str | None] | None = None):
         self.cls, self.index = cls, index
+        self.fixed = fixed  # (i, value): args[i] is this value (None: one no test accepts); walk its branch only
+        self.arg_tests: list[tuple[int, str, bool, int]] = []  # (i, literal, ignore_case, line) of branch tests
+        self.skipped: list = []  # branches not taken under `fixed`
+        self.stopped = False  # under `fixed`, the branch taken printed usage and left
         self.env: dict[str, tuple] = {}
         self.specs: dict[str, JobSpec] = {}
         self.order: list[str] = []
@@ -171,7 +218,7 @@ class _DriverReader:
 
     def jobs(self) -> list[JobSpec]:
         ids = [j for j in self.order if j in self.submitted] or self.order
-        out = [self.specs[j] for j in ids]
+        out = [self.specs[j] for j in ids] if not self.stopped else []
         outputs = {s.output for s in self.specs.values() if s.output is not None}
         changes = sorted(self.file_io + [(line, "a delete of " + (p.text or p.literal or "a path" if p is not None
                                                                   else "a file or folder"))
@@ -184,7 +231,8 @@ class _DriverReader:
             for line, what in changes:
                 s.extra.append(("io-outside-output", line, f"the driver changes files outside the job's output: "
                                                            f"{what}"))
-        created = _job_creations(self.cls)
+        skipped = {line for node in self.skipped for line in _job_creations(node)}
+        created = [line for line in _job_creations(self.cls) if line not in skipped]
         if len(created) > len(self.specs):
             unread = created[len(self.specs):] if self.specs else created
             for s in out:
@@ -200,6 +248,8 @@ class _DriverReader:
 
     def _block(self, stmts) -> None:
         for s in stmts or []:
+            if self.stopped:
+                return
             self._stmt(s)
 
     def _stmt(self, s) -> None:
@@ -213,6 +263,10 @@ class _DriverReader:
                 self.env[e.expressionl.member] = self._value(e.value, e.expressionl.member)
             else:
                 self._value(e, None)
+        elif isinstance(s, T.IfStatement) and self._branch_on_argument(s):
+            return
+        elif isinstance(s, T.SwitchStatement) and self._switch_on_argument(s):
+            return
         elif isinstance(s, T.IfStatement):
             self._value(s.condition, None)  # `if (!job.waitForCompletion(true))` submits the job
             if not _exits(s.then_statement):
@@ -225,6 +279,91 @@ class _DriverReader:
             self._block(s.block)
         elif isinstance(s, T.ReturnStatement) and s.expression is not None:
             self._value(s.expression, None)
+
+    # -- branches on an argument (modes)
+    def _branch_on_argument(self, s: T.IfStatement) -> bool:
+        """`if (args[i].equals("v")) ... else ...` whose branches configure a job: record the test;
+        when args[i] is fixed, walk only the branch taken. False: not such a test."""
+        test = self._arg_test(s.condition)
+        if test is None or not _configures(s):
+            return False
+        i, lit, ignore_case, negated = test
+        self.arg_tests.append((i, lit, ignore_case, _line(s)))
+        if self.fixed is None or self.fixed[0] != i:
+            return False
+        taken = argument_test(self.fixed[1], lit, ignore_case) != negated
+        chosen, other = (s.then_statement, s.else_statement) if taken else (s.else_statement, s.then_statement)
+        if other is not None:
+            self.skipped.append(other)
+        if chosen is not None:
+            if _exits(chosen):
+                self.stopped = True
+            else:
+                self._stmt(chosen)
+        return True
+
+    def _switch_on_argument(self, s: T.SwitchStatement) -> bool:
+        """`switch (args[i]) { case "v": ... }`: each case label is a test (String.equals); when args[i]
+        is fixed, walk from the case taken (or default) to the first break, as Java does."""
+        v = self._value(s.expression, None)
+        labels = [c.case for c in s.cases]
+        literals = [[string_value(x.value) for x in lab if isinstance(x, T.Literal) and x.value.startswith('"')]
+                    for lab in labels]
+        if v[0] != "arg" or any(len(lits) != len(lab) for lits, lab in zip(literals, labels)) \
+                or not any(_configures(st) for c in s.cases for st in c.statements):
+            return False
+        for lits in literals:
+            self.arg_tests += [(v[1], lit, False, _line(s)) for lit in lits]
+        if self.fixed is None or self.fixed[0] != v[1]:
+            for c in s.cases:  # as before: every case read (the first pass only collects the tests)
+                self._block([st for st in c.statements if not isinstance(st, T.BreakStatement)])
+            return True
+        value = self.fixed[1]
+        start = next((k for k, lits in enumerate(literals) if value in lits), None)
+        if start is None:
+            start = next((k for k, lab in enumerate(labels) if not lab), None)  # `default:`
+        if start is None:
+            self.skipped.extend(s.cases)
+            return True
+        self.skipped.extend(s.cases[:start])
+        for k, c in enumerate(s.cases[start:], start):
+            stmts = list(c.statements)
+            cut = next((j for j, st in enumerate(stmts) if isinstance(st, T.BreakStatement)), None)
+            if _exits(T.BlockStatement(statements=stmts[:cut] if cut is not None else stmts)) and stmts:
+                self.stopped = True
+                return True
+            self._block(stmts[:cut] if cut is not None else stmts)
+            if cut is not None or self.stopped:
+                self.skipped.extend(s.cases[k + 1:])
+                break
+        return True
+
+    def _arg_test(self, e) -> tuple[int, str, bool, bool] | None:
+        """(i, literal, ignore_case, negated) of `args[i].equals("v")`, `"v".equalsIgnoreCase(args[i])`,
+        `mode.equals("v")` after `String mode = args[i]`, or `!` before any of them."""
+        negated = (getattr(e, "prefix_operators", None) or []).count("!") % 2 == 1
+        sels = list(getattr(e, "selectors", None) or [])
+        if sels and isinstance(sels[-1], T.MethodInvocation):
+            call = sels[-1]
+            if isinstance(e, T.MemberReference):
+                recv = self._value(T.MemberReference(member=e.member, qualifier=e.qualifier, selectors=sels[:-1],
+                                                     prefix_operators=[], postfix_operators=[]), None)
+            elif isinstance(e, T.Literal) and len(sels) == 1:
+                recv = self._value(T.Literal(value=e.value, selectors=[], prefix_operators=[], postfix_operators=[]),
+                                   None)
+            else:
+                return None
+        elif isinstance(e, T.MethodInvocation) and e.qualifier and not sels:
+            call, recv = e, self.env.get(e.qualifier, ("unknown", e.qualifier))
+        else:
+            return None
+        if call.member not in ("equals", "equalsIgnoreCase") or len(call.arguments or []) != 1:
+            return None
+        other = self._value(call.arguments[0], None)
+        pair = {recv[0]: recv, other[0]: other}
+        if set(pair) != {"arg", "str"}:
+            return None
+        return pair["arg"][1], pair["str"][1], call.member == "equalsIgnoreCase", negated
 
     # -- expressions
     def _value(self, e, target: str | None) -> tuple:
@@ -558,6 +697,21 @@ class _DriverReader:
         return PathRef("unknown", text=str(v[1]))
 
 
+# Calls that make a branch of the driver part of configuring or running a job.
+_CONFIGURING = {*_JOB_CALLS, *_TYPE_CALLS, *_CONF_SETTERS, "setNumReduceTasks", "setInputFormatClass",
+                "setOutputFormatClass", "setInputFormat", "setOutputFormat", "addInputPath", "setInputPaths",
+                "setOutputPath", "waitForCompletion", "submit", "runJob"}
+
+
+def _configures(node) -> bool:
+    """Whether a statement configures, creates or runs a job anywhere inside it."""
+    for _, n in node:
+        if isinstance(n, T.MethodInvocation) and n.member in _CONFIGURING or \
+                isinstance(n, T.ClassCreator) and n.type.name in ("Job", "JobConf"):
+            return True
+    return False
+
+
 def _empty_conf(e) -> bool:
     """`null`, `new Configuration(false)`, `new JobConf(false)`: the link adds no settings of its own."""
     if isinstance(e, T.Literal) and e.value == "null":
@@ -566,15 +720,16 @@ def _empty_conf(e) -> bool:
         [getattr(a, "value", None) for a in e.arguments or []] == ["false"]
 
 
-def _job_creations(cls: ClassInfo) -> list[int]:
+def _job_creations(where) -> list[int]:
     """Lines of every `Job.getInstance(...)`, `new Job(...)` and `new JobConf(...)` in the driver class
-    (`new JobConf(false)`, a chain link's own empty settings, is not a job)."""
+    (or a statement of it); `new JobConf(false)`, a chain link's own empty settings, is not a job."""
     lines = []
-    for _, node in cls.node:
+    cls = where if isinstance(where, ClassInfo) else None
+    for _, node in (where.node if cls is not None else where):
         if isinstance(node, T.MethodInvocation) and node.member == "getInstance" and \
                 (node.qualifier or "").split(".")[-1] == "Job" or \
                 isinstance(node, T.ClassCreator) and node.type.name in ("Job", "JobConf") and not _empty_conf(node):
-            lines.append(_line(node) or cls.line_start)
+            lines.append(_line(node) or (cls.line_start if cls is not None else 0))
     return sorted(lines)
 
 

@@ -63,3 +63,33 @@ def _wrap(v: int, bits: int) -> int:
     if v >= 1 << (bits - 1):
         v -= 1 << bits
     return v
+
+
+def argument_equals_ignore_case(a: str, b: str) -> bool:
+    """String.equalsIgnoreCase (Java SE 17 API docs): the same length, and each pair of chars equal,
+    or equal after Character.toUpperCase, or after Character.toLowerCase of that. Character's
+    mappings are one char to one char; where Python's maps to several, the one-char mapping is the
+    title case (`ᾳ` → `ᾼ`), the first char (`İ` → `i`), or none (`ß` stays `ß`)."""
+    def upper(c: str) -> str:
+        u = c.upper()
+        if len(u) == 1:
+            return u
+        return c.title() if len(c.title()) == 1 else c
+
+    def lower(c: str) -> str:
+        return c.lower()[0]
+    return len(a) == len(b) and all(x == y or upper(x) == upper(y) or lower(upper(x)) == lower(upper(y))
+                                    for x, y in zip(a, b))
+
+
+def argument_test(value: str | None, literal: str, ignore_case: bool) -> bool:
+    """`value.equals(literal)`, or equalsIgnoreCase where the flag is set; None is a value no test accepts."""
+    if value is None:
+        return False
+    return argument_equals_ignore_case(value, literal) if ignore_case else value == literal
+
+
+def same_driver_branch(arg: str, value: str | None, tests: tuple[tuple[str, bool], ...]) -> bool:
+    """Whether the original driver's tests of this argument (literal, ignore_case) all answer as they
+    do for `value`, the value this script's branch was converted from (None: one no test accepts)."""
+    return all(argument_test(arg, lit, ic) == argument_test(value, lit, ic) for lit, ic in tests)

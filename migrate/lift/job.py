@@ -24,7 +24,7 @@ from migrate.lift.topn import lift_top_n, top_n_findings
 from migrate.lift.joins import JoinLifter
 from migrate.lift.sidefiles import read_side_files
 from migrate.lower.walk import assigned_names
-from migrate.plan import (ADVISORY_CATEGORIES, Agg, AggRef, BoolOp, Branch, Cast, Col, ConfValue, EachValue, Join, Emit, Explode, Expr, Filter, Finding, Group, HandWork, Identity, Param, Plan,
+from migrate.plan import (ADVISORY_CATEGORIES, Agg, AggRef, BoolOp, Branch, Cast, Col, ConfValue, EachValue, Join, Emit, Explode, Expr, Filter, Finding, Group, HandWork, Identity, ModeCheck, Param, Plan,
                           Project, SideTable, Sink, Source, Span, Step, TaskTopN, TopN, TopPerKey)
 
 
@@ -94,6 +94,7 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
         input_params.append("input_path")
     out_ref = spec.output or PathRef("unknown", text="not set")
     params.append(_param("output_path", out_ref, "output folder"))
+    mode = _mode_check(spec, params)
     if out_ref.kind == "unknown":
         add("driver", spec.origin, "the driver's output path could not be read", "pass the output folder by hand")
     # ---- formats
@@ -327,7 +328,7 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
                     offsets=_reads_offsets(steps, fmt) and not branches,
                     split=split_settings(spec.conf) if task_order else ())
     plan = Plan(spec.name, source, tuple(steps), reduce, sink, tuple(params), tuple(hand), tuple(dict.fromkeys(shapes)),
-                tuple(notes), tuple(findings), tuple(branches), tuple(tables))
+                tuple(notes), tuple(findings), tuple(branches), tuple(tables), mode=mode)
     sloc = sum(c.sloc for c in {index.get(fq) for fq in classes.values()} if c is not None)
     return JobResult(spec, plan, classes, files, sloc, notes)
 
@@ -766,6 +767,23 @@ def _reads_column(steps: list[Step], name: str) -> bool:
         return False
 
     return walk(steps)
+
+
+def _mode_check(spec: JobSpec, params: list[Param]) -> ModeCheck | None:
+    """The argument that picks this branch of the driver: a script parameter (a new one, `mode`,
+    unless a path already takes that argument) that the script checks."""
+    m = spec.mode
+    if m is None:
+        return None
+    holder = next((p for p in params if p.position == m.index), None)
+    if holder is None:
+        shown = ", ".join(dict.fromkeys(lit for lit, _ in m.tests))
+        picks = f"must be {m.value}" if m.value is not None else f"must be none of {shown}"
+        holder = Param("mode", f"args[{m.index}] of the original driver, which picks the job to run ({shown}); this "
+                               f"script runs one branch, so it {picks}", m.index, None)
+        params.append(holder)
+    line = m.line
+    return ModeCheck(holder.name, m.value, m.tests, Span(spec.driver.file.path, line, line))
 
 
 def _param(name: str, ref: PathRef, what: str) -> Param:

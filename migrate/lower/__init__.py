@@ -14,18 +14,18 @@ from __future__ import annotations
 import copy
 
 from migrate.java.index import ClassIndex, ClassInfo
-from migrate.lower import (branches, builders, configured, counter_books, fields, logging, loops, map_updates, names,
+from migrate.lower import (boxing, branches, builders, configured, counter_books, fields, logging, loops, map_updates, names,
                            side_outputs, value_helpers)
 
 TASK_ROLES = {"mapper", "reducer", "combiner", "partitioner"}
 
-# Order matters: names first (`this.x` is x for the rules after), logging (it hides reads of
+# Order matters: boxing and names first (`this.x` is x for the rules after), logging (it hides reads of
 # fields), helpers handed the values (their loops are reduce()'s loops for the rules after), counts
 # kept through a helper object as a Map, counts added to a Map in one spelling, unused side outputs (their setup() and cleanup() lines), branches that are the same
 # (logging no longer tells them apart), then objects configured where made (a configured format
 # is still a constant), then fields, then loops, then builders (a builder appended in a loop
 # stays a builder).
-RULES = (names.this_fields, names.var_types, logging.drop_logging, value_helpers.value_helpers,
+RULES = (boxing.boxing_constructors, names.this_fields, names.var_types, logging.drop_logging, value_helpers.value_helpers,
          counter_books.counter_books, map_updates.map_updates,
          side_outputs.unused_side_outputs,
          branches.same_branches, fields.fields_used_as_locals, configured.configured_objects, fields.setup_constants,
@@ -37,6 +37,9 @@ def lower_task_classes(index: ClassIndex) -> None:
     for cls in index:
         if cls.roles & TASK_ROLES:
             lower_class(cls, index)
+        elif "writable" in cls.roles:  # its fields' starting values are read too
+            cls.node = copy.deepcopy(cls.node)
+            cls.lowered = boxing.boxing_constructors(cls, index)
 
 
 def lower_class(cls: ClassInfo, index: ClassIndex | None = None) -> list[tuple[int, str]]:

@@ -79,9 +79,14 @@ def build_report(jobs: list[tuple[JobResult, str]], errors: list[ParseFailure], 
     est = repository_hours(efforts + unread_efforts, model)
     out_jobs = []
     for (job, script), eff in zip(jobs, efforts):
+        mode = job.spec.mode
         out_jobs.append({
-            "name": job.spec.name,
+            "name": job.spec.name + (f" (args[{mode.index}] {mode.label if mode.value is None else repr(mode.value)})"
+                                     if mode is not None else ""),
             "driver": job.spec.driver.fqcn,
+            # a driver that picks its job by an argument: the value of that argument this job runs for
+            "mode": {"argument": mode.index, "value": mode.value, "line": mode.line,
+                     "tests": [{"literal": lit, "ignore_case": ic} for lit, ic in mode.tests]} if mode is not None else None,
             "script": script,
             "status": job.status,
             "classes": {role: fq for role, fq in sorted(job.classes.items())},

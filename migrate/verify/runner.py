@@ -24,6 +24,7 @@ from dataclasses import asdict, dataclass, field
 from datetime import datetime, timezone
 from pathlib import Path
 
+from migrate.java.literals import same_driver_branch
 from migrate.plan import ADVISORY_CATEGORIES
 from migrate.verify.classpath import HadoopClasspath, find_classpath, repository_jars
 from migrate.verify.compare import MODES, Verdict, compare_folders, counter_differences, parse_counters
@@ -89,7 +90,7 @@ def load_runs(path: Path) -> dict[str, JobRun]:
     if not isinstance(runs, list):
         raise VerifyError(f"{path}: expected an object with a \"runs\" list")
     root = (path.resolve().parent / str(data.get("data", "."))).resolve()
-    out = {}
+    out: dict[str, JobRun] = {}
     for i, r in enumerate(runs, 1):
         if not isinstance(r, dict) or not isinstance(r.get("driver"), str) or not isinstance(r.get("args"), list):
             raise VerifyError(f"{path}: run {i} needs \"driver\" (a class name) and \"args\" (a list)")
@@ -97,9 +98,25 @@ def load_runs(path: Path) -> dict[str, JobRun]:
             ("within-key" if r.get("values_order") == "undefined" else None)
         args, inputs = _place_arguments([str(a) for a in r["args"]], path.resolve().parent, root,
                                         f"{path}: run {i} ({r['driver']})")
-        out[r["driver"]] = JobRun(r["driver"], args, mode, tuple(r.get("intermediates", [])), str(path), str(root),
-                                  inputs)
+        # a driver may have several runs (one per branch of a driver that picks its job by an argument)
+        key = r["driver"] if r["driver"] not in out else f"{r['driver']}#{i}"
+        out[key] = JobRun(r["driver"], args, mode, tuple(r.get("intermediates", [])), str(path), str(root), inputs)
     return out
+
+
+def branch_taken(mode: dict | None, args: tuple[str, ...]) -> bool:
+    """Whether a driver given these arguments takes this job's branch (report.json's `mode`: the
+    driver picks its job by testing one argument); True for a job of no such driver."""
+    if mode is None:
+        return True
+    tests = tuple((t["literal"], t["ignore_case"]) for t in mode["tests"])
+    return mode["argument"] < len(args) and same_driver_branch(args[mode["argument"]], mode["value"], tests)
+
+
+def run_for(job: dict, runs: dict[str, JobRun]) -> JobRun | None:
+    """The first run of the job's driver whose arguments take the job's branch."""
+    return next((r for r in runs.values() if r.driver == job["driver"] and branch_taken(job.get("mode"), r.args)),
+                None)
 
 
 def _place_arguments(raw: list[str], base: Path, root: Path, where: str) -> tuple[tuple[str, ...], tuple[int, ...]]:
@@ -139,6 +156,8 @@ def runs_from_folder(report: dict, data: Path) -> tuple[dict[str, JobRun], dict[
                 slots[a["position"]] = str(folder.resolve())
             elif a["name"] == "output_path":
                 slots[a["position"]] = "@out"
+            elif a["name"] == "mode" and (job.get("mode") or {}).get("value") is not None:
+                slots[a["position"]] = job["mode"]["value"]  # the value that picks this job's branch
             elif re.fullmatch(r"job_\d+_output", a["name"]):
                 slots[a["position"]] = "@tmp" + a["name"].split("_")[1]
             else:
@@ -149,7 +168,7 @@ def runs_from_folder(report: dict, data: Path) -> tuple[dict[str, JobRun], dict[
             why[job["driver"]] = problem
             continue
         args = tuple(slots[i] for i in sorted(slots))
-        runs[job["driver"]] = JobRun(job["driver"], args, None, (), str(folder), str(data.resolve()),
+        runs[job["driver"] if not job.get("mode") else f"{job['driver']}#{job['script']}"] = JobRun(job["driver"], args, None, (), str(folder), str(data.resolve()),
                                      tuple(i for i, a in enumerate(args) if not a.startswith("@")))
     return runs, why
 
@@ -398,7 +417,7 @@ def verify(out_dir: Path, runs: dict[str, JobRun], *, why_missing: dict[str, str
         for job in v.report["jobs"]:
             if only and job["name"] not in only and job["script"] not in only and Path(job["script"]).stem not in only:
                 continue
-            checks.append(v.check(job, runs.get(job["driver"]), (why_missing or {}).get(job["driver"])))
+            checks.append(v.check(job, run_for(job, runs), (why_missing or {}).get(job["driver"])))
             if progress:
                 progress(checks[-1])
     finally:

@@ -4,9 +4,10 @@ from __future__ import annotations
 
 import pytest
 
-from tests.conftest import SAMPLES, load_script, sample_runs
+from tests.conftest import SAMPLES, load_script, sample_path, run_id, sample_runs
 from migrate.verify.compare import compare_bytes, compare_outputs, counter_differences, output_bytes, parse_counters
 from migrate.verify.hadoop import run_job
+from migrate.verify.runner import branch_taken
 from migrate.plan import ADVISORY_CATEGORIES
 
 pytestmark = pytest.mark.parity
@@ -14,16 +15,16 @@ pytestmark = pytest.mark.parity
 RUNS = sample_runs()
 
 
-def _job(report: dict, driver: str) -> dict:
-    found = [j for j in report["jobs"] if j["driver"] == driver]
-    assert found, f"mrlift found no job for driver {driver}"
+def _job(report: dict, run: dict) -> dict:
+    found = [j for j in report["jobs"] if j["driver"] == run["driver"] and branch_taken(j.get("mode"), run["args"])]
+    assert found, f"mrlift found no job for driver {run['driver']} given {run['args']}"
     return found[0]
 
 
-@pytest.mark.parametrize("run", RUNS, ids=[r["driver"].rsplit(".", 1)[-1] for r in RUNS])
+@pytest.mark.parametrize("run", RUNS, ids=[run_id(r) for r in RUNS])
 def test_converted_job_matches_hadoop_output(run, converted_samples, hadoop_classes, spark, tmp_path, capsys):
     out_dir, report = converted_samples
-    job = _job(report, run["driver"])
+    job = _job(report, run)
     keys_only = run.get("compare") == "keys"  # runs.json says why the values cannot be compared
     lines_only = run.get("compare") == "lines"  # ... or why the order of the lines cannot
     if job["status"] != "converted" and not (keys_only or lines_only):
@@ -37,7 +38,7 @@ def test_converted_job_matches_hadoop_output(run, converted_samples, hadoop_clas
     script = load_script(out_dir / job["script"])
     # the same arguments as the Hadoop run, made absolute (Spark's JVM keeps its own working folder)
     spark_args = [str(spark_out) if a == "@out" else str(tmp_path / f"spark_{a[1:]}") if a.startswith("@tmp")
-                  else ",".join(str(SAMPLES / p) for p in a.split(",")) for a in run["args"]]
+                  else sample_path(a) for a in run["args"]]
     assert script.main(spark_args) == 0
     for folder in run.get("intermediates", []):  # chained jobs: the script passes them on unwritten...
         assert not (tmp_path / f"spark_{folder[1:]}").exists()

@@ -19,12 +19,18 @@ from migrate.convert import write_outputs
 from migrate.scan import scan_repo
 from migrate.verify.compare import compare_outputs, output_bytes
 from migrate.verify.hadoop import compile_sources, run_job
-from tests.conftest import SAMPLES, load_script, sample_runs
+from migrate.verify.runner import branch_taken
+from tests.conftest import SAMPLES, load_script, sample_path, sample_runs
 from tests.variants import AXES, write_variant
 
 pytestmark = pytest.mark.parity
 
-RUNS = {r["driver"]: r for r in sample_runs()}
+RUNS = sample_runs()
+
+
+def _run_of(job: dict) -> dict | None:
+    """The sample run of the job's driver that takes the job's branch."""
+    return next((r for r in RUNS if r["driver"] == job["driver"] and branch_taken(job.get("mode"), r["args"])), None)
 # Jobs whose drivers name fixed cluster paths: Hadoop cannot run them on the sample data, but their
 # scripts take the paths as options, so a variant's script is compared with the unvaried one's.
 SPARK_ONLY_RUNS = {
@@ -53,7 +59,7 @@ def _spark_output(script_path, run, tmp, tag) -> bytes:
     out = tmp / f"spark_{tag}"
     args = [str(out) if a == "@out" else str(tmp / f"{tag}_{a[1:]}") if a.startswith("@tmp")
             else a if a.startswith("-") or not (SAMPLES / a.split(",")[0]).exists()
-            else ",".join(str(SAMPLES / p) for p in a.split(",")) for a in run["args"]]
+            else sample_path(a) for a in run["args"]]
     assert load_script(script_path).main(args) == 0
     return output_bytes(out)
 
@@ -70,10 +76,10 @@ def test_variant_converts_the_same(axis, converted_samples, spark, tmp_path):
     assert changed, f"axis {axis.name} changed no sample file: it tests nothing"
     out = tmp_path / "out"
     variant = write_outputs(scan_repo(tree), out, "bikeshare").report
-    by_driver = {j["driver"]: j for j in variant["jobs"]}
+    by_script = {j["script"]: j for j in variant["jobs"]}
     touched = []
     for job in base["jobs"]:
-        v = by_driver.get(job["driver"])
+        v = by_script.get(job["script"])
         assert v is not None, f"{axis.name}: the variant lost job {job['name']}"
         assert (v["status"], _categories(v)) == (job["status"], _categories(job)), (
             f"{axis.name}: {job['name']} was {job['status']} {_categories(job)}, the variant is "
@@ -85,18 +91,17 @@ def test_variant_converts_the_same(axis, converted_samples, spark, tmp_path):
     for job, v in touched:
         if code_only(base_out / job["script"]) == code_only(out / v["script"]):
             continue
-        run = RUNS.get(job["driver"]) or SPARK_ONLY_RUNS.get(job["driver"])
+        run = _run_of(job) or SPARK_ONLY_RUNS.get(job["driver"])
         assert run is not None, f"{job['name']}: its code differs under {axis.name} and runs.json has no run for it"
         a = _spark_output(base_out / job["script"], run, tmp_path, f"base{compared}")
         b = _spark_output(out / v["script"], run, tmp_path, f"variant{compared}")
         assert a and a == b, f"{axis.name}: {job['name']} writes other bytes than the unvaried script"
         compared += 1
     # one touched job with a sample run goes through Hadoop itself, as the variant's author wrote it
-    job, v = next(((j, v) for j, v in touched if j["driver"] in RUNS and "intermediates" not in RUNS[j["driver"]]),
-                  (None, None))
+    job, v = next(((j, v) for j, v in touched if _run_of(j) and "intermediates" not in _run_of(j)), (None, None))
     if job is None:
         return
-    run = RUNS[job["driver"]]
+    run = _run_of(job)
     classes = tmp_path / "classes"
     built = compile_sources(sorted(tree.joinpath("src").rglob("*.java")), classes)
     assert built.ok, built.log
@@ -104,7 +109,7 @@ def test_variant_converts_the_same(axis, converted_samples, spark, tmp_path):
     ran = run_job(classes, job["driver"], [str(hadoop_out) if a == "@out" else a for a in run["args"]], cwd=SAMPLES)
     assert ran.returncode == 0, ran.log[-3000:]
     spark_out = tmp_path / "spark_check"
-    args = [str(spark_out) if a == "@out" else ",".join(str(SAMPLES / p) for p in a.split(",")) for a in run["args"]]
+    args = [str(spark_out) if a == "@out" else sample_path(a) for a in run["args"]]
     assert load_script(out / v["script"]).main(args) == 0
     cmp = compare_outputs(hadoop_out, spark_out, within_key_any_order=run.get("values_order") == "undefined")
     assert cmp.original_lines > 0 and cmp.same, f"{axis.name}: {job['name']} on Hadoop: {cmp.first_difference}"
