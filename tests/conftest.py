@@ -60,10 +60,10 @@ def sample_runs() -> list[dict]:
 
 
 def sample_path(arg: str) -> str:
-    """A runs.json argument made absolute where it names sample files (each part of a comma list);
-    another word (a mode a driver picks its job by) as it is."""
+    """A runs.json argument made absolute where it names sample files (each part of a comma list,
+    a glob included); another word (a mode a driver picks its job by) as it is."""
     parts = arg.split(",")
-    if not all((SAMPLES / p).exists() for p in parts):
+    if not all((SAMPLES / p).exists() or any(SAMPLES.glob(p)) for p in parts):
         return arg
     return ",".join(str(SAMPLES / p) for p in parts)
 

@@ -185,6 +185,14 @@ def boxed_parse(text: str) -> str:
                   lambda m: m.group(1).split(".")[0] + ".valueOf(", text)
 
 
+def boxed_zero(text: str) -> str:
+    """A local started at `0` / `0L` / `0.0` vs at `new Integer(0)` / `new Long(0)` / `new Double(0)`
+    (the deprecated boxing constructors, unboxed into the primitive local)."""
+    boxes = {"int": "Integer", "long": "Long", "double": "Double"}
+    return re.sub(r"\b(int|long|double) (\w+) = (0|0L|0\.0);",
+                  lambda m: f"{m[1]} {m[2]} = new {boxes[m[1]]}(0);", text)
+
+
 @_on_tree
 def this_fields(tree, lines: list[str]) -> None:
     """A field named bare vs through `this.` in map()/reduce()."""
@@ -696,6 +704,7 @@ AXES = (
     Axis("literal-receiver", "x.equals(\"lit\") vs \"lit\".equals(x)", literal_receiver),
     Axis("objects-equals", "a.equals(b) vs Objects.equals(a, b)", objects_equals),
     Axis("boxed-parse", "Integer.parseInt vs Integer.valueOf", boxed_parse),
+    Axis("boxed-zero", "a local started at 0 vs at new Integer(0) (and Long, Double)", boxed_zero),
     Axis("this-fields", "field vs this.field", this_fields),
     Axis("increments", "n++ vs n += 1", increments),
     Axis("final-locals", "plain locals vs final locals", final_locals),

@@ -622,3 +622,21 @@ def test_an_if_with_the_same_branches_is_merged_only_when_its_test_cannot_throw(
       }}""")
     notes = [n for n in job.plan.notes if "branches are the same" in n]
     assert bool(notes) == merged, (notes, _reasons(job))
+
+
+def test_boxing_constructors_are_value_of_except_where_compared_by_reference(tmp_path):
+    """`new Integer(x)` gives the value Integer.valueOf(x) gives (Java SE 17 API docs: "in exactly
+    the manner used by the parseInt method" for a String); only its identity is new, so an operand of
+    `==` keeps its form (and the job is not called converted on it)."""
+    body = ('      int n = new Integer(0);\n      double d = new Double(value.toString().length());\n'
+            '      n += new Integer("7");\n      context.write(new Text("k" + d), new IntWritable(n));')
+    (job,) = scan_text(tmp_path / "a", {"Main.java": job_source(body, reducer_class=None)}).jobs
+    assert job.status == "converted", job.plan.hand_work
+    for k, body in enumerate([
+            '      Integer n = new Integer(value.getLength());\n      if (n == new Integer(3)) return;\n'
+            '      context.write(value, new IntWritable(n));',
+            # two new objects are never ==, whatever their values (Integer.valueOf's may be the same object)
+            '      Integer a = new Integer(value.getLength());\n      Integer b = new Integer(value.getLength());\n'
+            '      if (a == b) return;\n      context.write(value, new IntWritable(a));']):
+        (job,) = scan_text(tmp_path / f"b{k}", {"Main.java": job_source(body, reducer_class=None)}).jobs
+        assert job.status != "converted"
