@@ -635,6 +635,43 @@ def setup_setting(text: str) -> str:
             + text[use.end():job.end()] + setting + text[job.end():])
 
 
+def record_methods(text: str) -> str:
+    """Two long sums folded into locals and written as `new Tally(a, b)` vs a Tally made empty, added
+    to by a method of its own (`t.add(v)`) and written as it is; the value class gains the `add`
+    method (a Writable of two long fields, each with a getter, and a constructor taking both)."""
+    cls = re.search(r"public class (\w+) implements Writable \{\n\s*private long (\w+);\n\s*private long (\w+);\n", text)
+    if cls and f"public {cls[1]}(long {cls[2]}, long {cls[3]})" in text and "void add(" not in text:
+        end = text.rindex("}")
+        return (text[:end] + f"\n    public void add({cls[1]} other) {{\n        {cls[2]} += other.{cls[2]};\n"
+                f"        {cls[3]} += other.{cls[3]};\n    }}\n" + text[end:])
+    fold = re.compile(r"(?m)^([ \t]*)long (\w+) = 0;\n\1long (\w+) = 0;\n\1for \((\w+) (\w+) : (\w+)\) \{\n"
+                      r"\s*\2 \+= \5\.get\w+\(\);\n\s*\3 \+= \5\.get\w+\(\);\n\1\}\n")
+
+    def folded(m: re.Match) -> str:
+        ind, a, b, t, v, vs = m.groups()
+        return f"{ind}{t} sum = new {t}();\n{ind}for ({t} {v} : {vs}) {{\n{ind}    sum.add({v});\n{ind}}}\n"
+
+    out, pos = [], 0
+    for m in fold.finditer(text):
+        getters = re.findall(rf"{m[5]}\.(get\w+)\(\)", m[0])
+        rest_end = text.find("\n    }\n", m.end())
+        rest = text[m.end():rest_end]
+        rest = re.sub(rf"new {m[4]}\({m[2]}, {m[3]}\)", "sum", rest)
+        rest = re.sub(rf"\b{m[2]}\b", f"sum.{getters[0]}()", rest)
+        rest = re.sub(rf"\b{m[3]}\b", f"sum.{getters[1]}()", rest)
+        out += [text[pos:m.start()], folded(m), rest]
+        pos = rest_end
+    return "".join(out) + text[pos:]
+
+
+def presence_test(text: str) -> str:
+    """`m.putIfAbsent(k, new R());` vs `if (!m.containsKey(k)) { m.put(k, new R()); }` (java.util.Map:
+    both put a new R only where k has no entry)."""
+    return re.sub(r"(?m)^([ \t]*)(\w+)\.putIfAbsent\((\w+), (new \w+\(\))\);",
+                  lambda m: f"{m[1]}if (!{m[2]}.containsKey({m[3]})) {{\n{m[1]}    {m[2]}.put({m[3]}, {m[4]});\n{m[1]}}}",
+                  text)
+
+
 def tree_map_trim(text: str) -> str:
     """A TreeMap trimmed with `m.remove(m.firstKey())` vs `m.pollFirstEntry()` (and lastKey / pollLastEntry):
     both remove the entry with the smallest (largest) key (java.util.TreeMap)."""
@@ -732,6 +769,9 @@ AXES = (
     Axis("values-helper", "a fold over the values in reduce() vs the same loop in a helper handed the values",
          values_helper),
     Axis("setup-setting", "a reducer's constant N vs N set by the driver and read in setup()", setup_setting),
+    Axis("record-methods", "sums in locals written as a new Writable vs a Writable added to by its own method",
+         record_methods),
+    Axis("presence-test", "putIfAbsent(k, new R()) vs a containsKey test then put", presence_test),
     Axis("tree-map-trim", "remove(firstKey()) vs pollFirstEntry() on a TreeMap", tree_map_trim),
     Axis("counter-book", "a Map counted with merge vs the counts kept through a helper book of records",
          counter_book),

@@ -25,6 +25,8 @@ class ClassInfo:
     roles: set[str] = field(default_factory=set)
     api: str | None = None  # "mapreduce" | "mapred"
     lowered: list[tuple[int, str]] = field(default_factory=list)  # (line, what) rewrites of migrate.lower
+    # (Map field, record class) of in-mapper combining into records, lowered to a write per update
+    combined_records: list[tuple[str, str]] = field(default_factory=list)
 
     @property
     def span(self) -> Span:

@@ -24,8 +24,8 @@ from migrate.lift.topn import lift_top_n, top_n_findings
 from migrate.lift.joins import JoinLifter
 from migrate.lift.sidefiles import read_side_files
 from migrate.lower.walk import assigned_names
-from migrate.plan import (ADVISORY_CATEGORIES, Agg, AggRef, BoolOp, Branch, Cast, Col, ConfValue, EachValue, Join, Emit, Explode, Expr, Filter, Finding, Group, HandWork, Identity, ModeCheck, Param, Plan,
-                          Project, SideTable, Sink, Source, Span, Step, TaskTopN, TopN, TopPerKey)
+from migrate.plan import (ADVISORY_CATEGORIES, Agg, AggRef, BoolOp, Branch, Cast, Col, ConfValue, EachValue, Join, Emit, Explode, Expr, Field, Filter, Finding, Group, HandWork, Identity, ModeCheck, Param, Plan,
+                          Project, SideTable, Sink, Source, Span, Step, StructNew, TaskTopN, TopN, TopPerKey)
 
 
 
@@ -185,7 +185,7 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
     reducer_fq = spec.classes.get("reducer")
     if spec.reduces == 0:
         shapes.append("map only")
-        if combining:
+        if combining or mcls is not None and mcls.combined_records:
             add("task-state", mcls.span, "in-mapper combining in a map-only job: one partial sum per input split",
                 "decide whether per-file sums (groupBy file name) are what readers expect", "P2")
     else:
@@ -241,6 +241,18 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
             else:
                 add("task-state", mcls.span, "in-mapper combining feeds a reducer that does not just sum: the output "
                     "would depend on how Hadoop split the input into tasks", "check what the job should compute", "P2")
+        for field_name, record in mcls.combined_records if mcls is not None else []:
+            partial = _summing_fields(map_key_t, map_val_t, structs, record)
+            verdict = judge(reduce, partial) if partial is not None else None
+            if verdict is not None and verdict.sound:
+                notes.append(f"in-mapper combining into {field_name} (records summed field by field, written in "
+                             "cleanup()) is a partial sum; the reducer sums every field again, so the script writes "
+                             "a record per update and lets the reducer sum them")
+            else:
+                why = verdict.why if verdict is not None else "the map output is not that record"
+                add("task-state", mcls.span, f"in-mapper combining into {field_name} writes per-task sums of each "
+                    f"record field, and the reducer does not just sum them ({why}): the output would depend on how "
+                    "Hadoop split the input into tasks", "check what the job should compute", "P2")
         if "partitioner" in spec.classes and partition is None:
             name = spec.classes["partitioner"].rsplit(".", 1)[-1]
             if _one_reduce_task(spec):
@@ -1052,6 +1064,17 @@ def _summing(key_t: str, val_t: str) -> Group:
     where = Span("<in-mapper combining>", 0, 0)
     agg = Agg("sum", "sum", Col(val_t, "value"), val_t, 0, where)
     return Group(where, "partial sums", (agg,), (Emit(where, "", Col(key_t, "key"), AggRef(val_t, "sum")),))
+
+
+def _summing_fields(key_t: str, val_t: str, structs: dict, record: str) -> Group | None:
+    """What in-mapper combining into records does to the map output: per-task sums of each field."""
+    info = structs.get(record)
+    if info is None or val_t != _jtype(record, structs):
+        return None
+    where = Span("<in-mapper combining>", 0, 0)
+    aggs = tuple(Agg(f"sum_{f}", "sum", Field(t, Col(val_t, "value"), f), t, 0, where) for f, t in info.fields.items())
+    made = StructNew(val_t, tuple((f, AggRef(t, f"sum_{f}")) for f, t in info.fields.items()))
+    return Group(where, "partial sums", aggs, (Emit(where, "", Col(key_t, "key"), made),))
 
 
 def _check_map_output_types(steps: list[Step], key_t: str, val_t: str, mcls: ClassInfo | None, add) -> None:

@@ -640,3 +640,19 @@ def test_boxing_constructors_are_value_of_except_where_compared_by_reference(tmp
             '      if (a == b) return;\n      context.write(value, new IntWritable(a));']):
         (job,) = scan_text(tmp_path / f"b{k}", {"Main.java": job_source(body, reducer_class=None)}).jobs
         assert job.status != "converted"
+
+
+def test_a_lowering_rule_that_fails_leaves_the_class_as_written(tmp_path, monkeypatch):
+    """A rule meeting a shape it was not written for must not stop the batch or half-rewrite a class."""
+    import migrate.lower as lower
+
+    def broken(cls, index=None):
+        cls.node.methods[0].body = None  # a half-done rewrite, then a failure
+        raise KeyError("unforeseen")
+
+    monkeypatch.setattr(lower, "RULES", (lower.RULES[0], broken, *lower.RULES[1:]))
+    body = "      context.write(new Text(value.toString().trim()), new IntWritable(1));"
+    scan = scan_text(tmp_path, {"Main.java": job_source(body, reducer_class=None)})
+    (mapper,) = [c for c in scan.index if c.name == "M"]
+    assert mapper.lowered == [(mapper.line_start, "not lowered (test_lowering: KeyError)")]
+    assert mapper.node.methods[0].body and scan.jobs[0].status == "converted"
