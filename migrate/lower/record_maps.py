@@ -124,6 +124,25 @@ def _only_updates(cls, f, name: str, rec: _Record, mapper, cleanup) -> bool:
                     continue  # its own statements are lists of their own
                 if mentions(s, name) and _ensures(s, name, rec) is None and _update(s, name, rec) is None:
                     return False
+        if not _present_before_updates(m, name, rec):
+            return False
+    return True
+
+
+def _present_before_updates(mapper, name: str, rec: _Record) -> bool:
+    """Every update comes after the key was made present, on every path: a statement making it
+    present stands in a list before the statement holding the update (else Java's get() gives null
+    and the task fails, which a write per update would not)."""
+    updates = [n for _, n in mapper if isinstance(n, T.StatementExpression) and _update(n, name, rec)]
+    for u in updates:
+        key = _update(u, name, rec)[0]
+        ok = False
+        for stmts, _ in statement_lists(mapper):
+            for i, s in enumerate(stmts):
+                if _ensures(s, name, rec) == key and any(u is n for later in stmts[i + 1:] for _, n in later):
+                    ok = True
+        if not ok:
+            return False
     return True
 
 

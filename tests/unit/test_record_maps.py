@@ -109,3 +109,14 @@ def test_other_uses_of_the_map_are_left_as_written(tmp_path, old, new):
 def test_map_only_combining_into_records_is_per_task_hand_work(tmp_path):
     status, reasons = _status(tmp_path, _job(MAPPER, SUMS, reduces=0))
     assert status != "converted" and any("map-only" in r for r in reasons)
+
+
+def test_an_update_that_may_come_before_the_key_is_present_is_left_as_written(tmp_path):
+    """Java's get() gives null there and the task fails; a write per update would give output."""
+    mapper = MAPPER.replace("      if (!byDock.containsKey(dock)) {\n        byDock.put(dock, new DockFlow());\n      }\n", "")
+    mapper = mapper.replace("      } else if (f[1].equals(\"out\")) {",
+                            "        byDock.putIfAbsent(dock, new DockFlow());\n      } else if (f[1].equals(\"out\")) {")
+    assert mapper.count("putIfAbsent") == 1 and "containsKey" not in mapper
+    scan = scan_text(tmp_path, {"Main.java": _job(mapper, SUMS), "DockFlow.java": RECORD})
+    (m,) = [c for c in scan.index if c.name == "M"]
+    assert m.combined_records == [] and scan.jobs[0].status != "converted"
