@@ -199,6 +199,7 @@ class _DriverReader:
         self.arg_tests: list[tuple[int, str, bool, int]] = []  # (i, literal, ignore_case, line) of branch tests
         self.skipped: list = []  # branches not taken under `fixed`
         self.stopped = False  # under `fixed`, the branch taken printed usage and left
+        self.conditional: list[tuple[int, str]] = []  # (line, test) of job settings made under a test not read
         self.env: dict[str, tuple] = {}
         self.specs: dict[str, JobSpec] = {}
         self.order: list[str] = []
@@ -240,6 +241,11 @@ class _DriverReader:
                                 f"the driver creates {len(created)} jobs and {len(self.specs)} of them could be read "
                                 f"(not read: line {', '.join(map(str, unread))}): the driver's output may come from a "
                                 "job the script does not run"))
+        for line, test in self.conditional:
+            for s in out:
+                s.extra.append(("conditional-settings", line, f"the driver configures the job under `if ({test})`, a "
+                                "test mrlift does not evaluate: which settings the original used depends on it, so "
+                                "the script cannot follow one branch"))
         if len(out) > 1:
             for s in out:
                 s.extra.append(("chained-jobs", s.origin.line_start,
@@ -268,6 +274,10 @@ class _DriverReader:
         elif isinstance(s, T.SwitchStatement) and self._switch_on_argument(s):
             return
         elif isinstance(s, T.IfStatement):
+            submits = any(isinstance(n, T.MethodInvocation) and n.member in _SUBMITS for _, n in s.condition)
+            branches = [b for b in (s.then_statement, s.else_statement) if b is not None and not _exits(b)]
+            if not submits and any(_sets_job(b) for b in branches):
+                self.conditional.append((_line(s), _text(s.condition)))
             self._value(s.condition, None)  # `if (!job.waitForCompletion(true))` submits the job
             if not _exits(s.then_statement):
                 self._stmt(s.then_statement)
@@ -701,6 +711,30 @@ class _DriverReader:
 _CONFIGURING = {*_JOB_CALLS, *_TYPE_CALLS, *_CONF_SETTERS, "setNumReduceTasks", "setInputFormatClass",
                 "setOutputFormatClass", "setInputFormat", "setOutputFormat", "addInputPath", "setInputPaths",
                 "setOutputPath", "waitForCompletion", "submit", "runJob"}
+
+
+_SUBMITS = {"waitForCompletion", "submit", "runJob", "isSuccessful"}
+# Calls that change what a job computes or where it reads and writes (not its name or jar).
+_JOB_SETTINGS = _CONFIGURING - _SUBMITS
+
+
+def _sets_job(node) -> bool:
+    """Whether a statement changes a job's classes, types, formats, paths, reduce count or settings."""
+    return any(isinstance(n, T.MethodInvocation) and n.member in _JOB_SETTINGS for _, n in node)
+
+
+def _text(e) -> str:
+    """A short Java-like text of an expression, for a message."""
+    if isinstance(e, T.MemberReference):
+        return ".".join(p for p in (e.qualifier, e.member) if p) + "".join(
+            "[…]" if isinstance(x, T.ArraySelector) else f".{getattr(x, 'member', '…')}(…)" for x in e.selectors or [])
+    if isinstance(e, T.BinaryOperation):
+        return f"{_text(e.operandl)} {e.operator} {_text(e.operandr)}"
+    if isinstance(e, T.MethodInvocation):
+        return ".".join(p for p in (e.qualifier, e.member) if p) + "(…)"
+    if isinstance(e, T.Literal):
+        return e.value
+    return "…"
 
 
 def _configures(node) -> bool:

@@ -346,9 +346,11 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
 
 
 # Driver items whose text is the whole reason (not "… is not converted in this version").
-WHOLE_REASONS = {"not-submitted", "io-outside-output", "unread-jobs"}
+WHOLE_REASONS = {"not-submitted", "io-outside-output", "unread-jobs", "conditional-settings"}
 # What to write by hand for the driver features this version does not convert (common practice).
 EXTRA_ADVICE = {
+    "conditional-settings": "convert the job once per branch (make the test a fixed value), or give the script an "
+                            "option that picks the same settings the test picks",
     "unread-jobs": "convert the other job too (its mapper, reducer and paths), then chain the two in one script: "
                    "the later job reads the earlier one's output",
     "not-submitted": "find out how the job really runs (a scheduler, another class) before converting it; if it never "

@@ -147,3 +147,13 @@ def test_equals_ignore_case_answers_as_the_jvm_does(tmp_path):
     subprocess.run(["javac", "-encoding", "UTF-8", "-d", str(tmp_path), str(tmp_path / "Eq.java")], check=True)
     out = subprocess.run(["java", "-cp", str(tmp_path), "Eq"], check=True, capture_output=True, text=True).stdout
     assert out.split() == [str(argument_equals_ignore_case(a, b)).lower() for a, b in JAVA_CASES]
+
+
+@pytest.mark.parametrize("test", ["args.length > 3", 'job.getConfiguration().getBoolean("counting", false)'])
+def test_settings_under_a_test_that_is_not_read_block_the_claim(tmp_path, test):
+    """Both branches cannot run; following either would be a guess (before: the last class set won,
+    with a finding, and the job was called converted)."""
+    (job,) = _report(tmp_path, _driver(f"if ({test}) {{ {COUNT} }} else {{ {SUM} }}"))
+    assert job["status"] != "converted"
+    (item,) = [h for h in job["hand_work"] if h["category"] == "conditional-settings"]
+    assert "does not evaluate" in item["reason"]
