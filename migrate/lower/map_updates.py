@@ -7,6 +7,9 @@ form.
     Integer c = m.get(k); if (c == null) { c = 0; } m.put(k, c + v);
     Integer c = m.get(k); m.put(k, c == null ? v : c + v);
     m.put(k, m.containsKey(k) ? m.get(k) + v : v);
+    m.merge(k, v, (a, b) -> a + b);                   (a lambda for Integer::sum)
+    m.compute(k, (key, c) -> c == null ? v : c + v);  (Map.compute javadoc: the function's value is
+                                                       put; it is never null here, so nothing is removed)
     for (K x : m.keySet()) { write(f(x), g(m.get(x))); }  ->  for (Map.Entry<K, V> e : m.entrySet()) ...
                                                              (for a Map field of any value type)
 
@@ -81,6 +84,9 @@ def _update_at(stmts: list, i: int, maps: dict, method):
     s = stmts[i]
     if isinstance(s, T.IfStatement) and s.else_statement is not None:
         return _if_update(s, maps)
+    lam = _lambda_update(s, maps)
+    if lam is not None:
+        return 1, _merge(*lam, maps, s)
     put = _put(s, maps)
     if put is not None:  # m.put(k, m.containsKey(k) ? m.get(k) + v : v)
         m, k, value = put
@@ -114,6 +120,40 @@ def _update_at(stmts: list, i: int, maps: dict, method):
             v = _added_to(present, c)
             if v is not None and _same(v, absent) and _used_only(method, c, 3):
                 return 2, _merge(m, k, v, maps, s)
+    return None
+
+
+def _lambda_update(s, maps: dict):
+    """(map, key, amount) of `m.merge(k, v, (a, b) -> a + b)` or `m.compute(k, (x, c) -> c == null ?
+    v : c + v)` (either order of the ternary and of the sum)."""
+    e = s.expression if isinstance(s, T.StatementExpression) else None
+    if not (isinstance(e, T.MethodInvocation) and e.qualifier in maps and not e.selectors and e.arguments
+            and isinstance(e.arguments[-1], T.LambdaExpression) and _simple(e.arguments[0])):
+        return None
+    lam = e.arguments[-1]
+    params = [getattr(p, "name", None) for p in lam.parameters or []]
+    body = lam.body
+    if isinstance(body, list):  # `{ return ...; }`
+        body = body[0].expression if len(body) == 1 and isinstance(body[0], T.ReturnStatement) else None
+    if body is None or len(params) != 2 or None in params:
+        return None
+    k = e.arguments[0]
+    if e.member == "merge" and len(e.arguments) == 3 and _simple(e.arguments[1]):
+        v = e.arguments[1]
+        a, b = params
+        if isinstance(body, T.BinaryOperation) and body.operator == "+" and not getattr(body, "prefix_operators", None) \
+                and {getattr(body.operandl, "member", None), getattr(body.operandr, "member", None)} == {a, b} \
+                and is_name(body.operandl) and is_name(body.operandr) and a != b:
+            return e.qualifier, k, v
+    if e.member == "compute" and len(e.arguments) == 2 and isinstance(body, T.TernaryExpression):
+        c = params[1]
+        absent_first = _null_test(body.condition, c)
+        if absent_first is None:
+            return None
+        absent, present = (body.if_true, body.if_false) if absent_first else (body.if_false, body.if_true)
+        v = _added_to(present, c)
+        if v is not None and _same(v, absent) and _simple(v) and not mentions(v, params[0]) and not mentions(v, c):
+            return e.qualifier, k, v
     return None
 
 

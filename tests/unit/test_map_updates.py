@@ -29,6 +29,9 @@ UPDATES = {
     "null-to-zero": "Integer c = counts.get(w); if (c == null) { c = 0; } counts.put(w, c + 1);",
     "ternary": "Integer c = counts.get(w); counts.put(w, c != null ? c + 1 : 1);",
     "put-ternary": "counts.put(w, !counts.containsKey(w) ? 1 : counts.get(w) + 1);",
+    "merge-lambda": "counts.merge(w, 1, (a, b) -> b + a);",
+    "compute": "counts.compute(w, (k, c) -> c == null ? 1 : c + 1);",
+    "compute-block": "counts.compute(w, (k, c) -> { return c != null ? 1 + c : 1; });",
 }
 BY_ENTRIES = ("for (Map.Entry<String, Integer> e : counts.entrySet()) "
               "{ context.write(new Text(e.getKey()), new IntWritable(e.getValue())); }")
@@ -43,6 +46,16 @@ def test_each_spelling_of_a_count_update_is_in_mapper_combining(tmp_path, spelli
     assert any("flushed by its keys" in n for n in job.plan.notes)
 
 
+@pytest.mark.parametrize("update", [
+    "counts.merge(w, 1, (a, b) -> a * b);",  # not a sum
+    "counts.compute(w, (k, c) -> c == null ? 1 : c + k.length());",  # the amount reads the key parameter
+    "counts.compute(w, (k, c) -> c == null ? 0 : c + 1);",  # a first count that is not the amount
+])
+def test_other_lambdas_are_not_read_as_a_sum(tmp_path, update):
+    (job,) = scan_text(tmp_path, {"Main.java": JOB % (update, BY_ENTRIES)}).jobs
+    assert job.status != "converted" and not any("Map.merge" in n for n in job.plan.notes)
+
+
 def test_a_key_computed_twice_is_not_rewritten(tmp_path):
     """`w.trim()` evaluated in the test and again in the put: left as written (declined)."""
     update = UPDATES["contains-key"].replace("(w", "(w.trim()").replace(", w", ", w.trim()")
@@ -51,7 +64,8 @@ def test_a_key_computed_twice_is_not_rewritten(tmp_path):
     assert not any("Map.merge" in n for n in job.plan.notes)
 
 
-def test_in_mapper_combining_by_keys_agrees_with_hadoop_over_two_map_tasks(tmp_path):
-    src = JOB % (UPDATES["null-to-zero"], BY_KEYS)
+@pytest.mark.parametrize("spelling", ["null-to-zero", "compute"])
+def test_in_mapper_combining_by_keys_agrees_with_hadoop_over_two_map_tasks(tmp_path, spelling):
+    src = JOB % (UPDATES[spelling], BY_KEYS)
     data = {"a.txt": b"quay mill quay\nbell quay\n", "b.txt": b"mill mill lantern\nquay\n"}
     assert verify_one_job(tmp_path, src, data).verdict == "agrees"
