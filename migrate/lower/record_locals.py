@@ -109,9 +109,9 @@ class _Record:
             elif m.return_type is None and body and all(_updates(st, fields, m, info.name) for st in body):
                 key = (m.name, len(m.parameters))
                 rec.updaters[key] = m if key not in rec.updaters else None
-        same_arity = {(m.name, len(m.parameters)) for m in node.methods}
+        # an overload of the same arity (updater or not) leaves the call to javac's choice by type: not read
         rec.updaters = {k: m for k, m in rec.updaters.items() if m is not None and
-                        sum((x.name, len(x.parameters)) == k for x in node.methods) == 1 and k in same_arity}
+                        sum((x.name, len(x.parameters)) == k for x in node.methods) == 1}
         return rec
 
 
@@ -176,6 +176,8 @@ def _rewrite(method, stmts: list, decl, name: str, rec: _Record) -> bool:
         return False  # another method, a chained call, or an updater whose (void) value is used
     if not all(_can_inline(u.expression, rec) for u in updates):
         return False
+    if any(isinstance(n, T.MemberReference) and (n.qualifier or "").split(".")[0] == name for n in nodes):
+        return False  # a field of the record read or set directly
     bare = [n for n in nodes if isinstance(n, T.MemberReference) and n.member == name and not n.qualifier]
     written = {id(a) for n in nodes if isinstance(n, T.MethodInvocation) and n.member in _WRITES
                for a in n.arguments or [] if is_name(a, name)}

@@ -30,11 +30,13 @@ def _lowered(tmp_path, main: str, record: str = RECORD) -> dict[str, list]:
 @pytest.mark.parametrize("change, where", [
     # the record handed to another method: it may keep or change it
     (("for (DockFlow v : vs) all.add(v);\n      c.write(k, all);",
-      "for (DockFlow v : vs) all.add(v);\n      System.out.println(all);\n      c.write(k, all);"), "C"),
+      "for (DockFlow v : vs) all.add(v);\n      java.util.Objects.requireNonNull(all);\n      c.write(k, all);"), "C"),
     # an updater's value used in an expression (javac refuses a void there; never rewritten)
     (("flow.addDocked(Long.parseLong(f[2]), 1);", "flow.addDocked(Long.parseLong(f[2]), 1); flow = null;"), "M"),
     # a method that is neither a getter nor an updater of fields
     (("all.getUndocked()", "all.toString()"), "R"),
+    # a field of the record set directly (the classes share a package)
+    (("flow.addDocked(Long.parseLong(f[2]), 1);", "flow.addDocked(Long.parseLong(f[2]), 1); flow.docked = 2;"), "M"),
 ])
 def test_other_uses_of_the_record_leave_it_as_written(tmp_path, change, where):
     old, new = change
