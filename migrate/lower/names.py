@@ -53,7 +53,9 @@ def var_types(cls, index=None) -> list[tuple[int, str]]:
             if not isinstance(n, T.LocalVariableDeclaration) or getattr(n.type, "name", "") != "var" \
                     or len(n.declarators) != 1:
                 continue
-            t = _type_of(n.declarators[0].initializer)
+            init = n.declarators[0].initializer
+            # in source order: `var f = s.split(",")` is typed before `var x = f[1]` reads it
+            t = _type_of(init) or _element_type(init, _array_locals(method))
             if t is not None:
                 n.type = t
                 done.append((line_of(n), f"`var {n.declarators[0].name}` is a {_shown(t)}"))
@@ -98,6 +100,29 @@ def _type_of(e):
         if e.member == "toString" and not e.arguments:
             return _ref("String")
     return None
+
+
+def _array_locals(method) -> dict:
+    """Locals and parameters declared once with an array type (`String[] f`), by name; a name declared
+    twice in the method is left out (which one a use means is not read here)."""
+    seen: dict = {}
+    for _, n in method:
+        pairs = [(d.name, n.type) for d in n.declarators] if isinstance(n, T.LocalVariableDeclaration) else \
+            [(n.name, n.type)] if isinstance(n, T.FormalParameter) else []
+        for name, t in pairs:
+            seen[name] = None if name in seen else t
+    return {k: t for k, t in seen.items() if t is not None and getattr(t, "dimensions", None)
+            and getattr(t, "name", "") != "var"}
+
+
+def _element_type(e, arrays: dict):
+    """`f[1]` of a local declared `String[] f`: String (JLS 15.10.3: the array's component type)."""
+    if not (isinstance(e, T.MemberReference) and not e.qualifier and e.member in arrays and e.selectors
+            and all(isinstance(x, T.ArraySelector) for x in e.selectors)):
+        return None
+    t = arrays[e.member]
+    dims = len(t.dimensions) - len(e.selectors)
+    return _ref(t.name, dims) if dims >= 0 else None
 
 
 def _diamond(t) -> bool:

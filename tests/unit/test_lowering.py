@@ -109,6 +109,17 @@ def test_this_qualified_fields_and_var_locals(tmp_path):
     assert not _reasons(job)
 
 
+def test_a_var_read_from_an_array_local_has_its_element_type(tmp_path):
+    """`var f = s.split(","); var x = f[1];`: x is a String (JLS 15.10.3, an array access has the
+    array's component type), so the rules that need the declared type read it."""
+    job = _job(tmp_path, """
+      var f = value.toString().split(",");
+      var x = f[1];
+      context.write(new Text(x.trim()), new IntWritable(1));""")
+    assert not _reasons(job)
+    assert any("`var x` is a String" in n for n in job.plan.notes), job.plan.notes
+
+
 def test_a_turkish_locale_is_declined(tmp_path):
     job = _job(tmp_path, """
       context.write(new Text(value.toString().toLowerCase(new java.util.Locale("tr"))), new IntWritable(1));""")
