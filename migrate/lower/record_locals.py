@@ -43,14 +43,14 @@ def record_locals(cls, index=None) -> list[tuple[int, str]]:
                         and not init.selectors and init.type.name == s.type.name):
                     continue
                 info = index.get(index.resolve(s.type.name, cls))
-                rec = _Record.of(info) if info is not None and info is not cls else None
+                rec = RecordClass.of(info) if info is not None and info is not cls else None
                 if rec is None or not _rewrite(method, stmts, s, d.name, rec):
                     continue
                 done.append((line_of(s), f"`{d.name}` ({s.type.name}) is a local per field"))
     return done
 
 
-class _Record:
+class RecordClass:
     """A record class: its fields (name → type) in order, their starting values, getters, updaters
     and the constructor that takes every field (parameter order → field)."""
 
@@ -62,7 +62,7 @@ class _Record:
         self.full_ctor: list[str] | None = None
 
     @classmethod
-    def of(cls, info) -> _Record | None:
+    def of(cls, info) -> RecordClass | None:
         node = info.node
         if not isinstance(node, T.ClassDeclaration) or node.extends is not None:
             return None
@@ -158,7 +158,7 @@ def _updates(stmt, fields, m, record: str) -> bool:
     return True
 
 
-def _rewrite(method, stmts: list, decl, name: str, rec: _Record) -> bool:
+def _rewrite(method, stmts: list, decl, name: str, rec: RecordClass) -> bool:
     """Replace the local `name` by a local per field, or change nothing when a use is not understood."""
     at = next(i for i, s in enumerate(stmts) if s is decl)
     scope = stmts[at + 1:]
@@ -223,13 +223,13 @@ def _all_at(node, like):
     return node
 
 
-def _updater_call(stmt, name: str, rec: _Record) -> bool:
+def _updater_call(stmt, name: str, rec: RecordClass) -> bool:
     e = stmt.expression
     return isinstance(e, T.MethodInvocation) and e.qualifier == name \
         and (e.member, len(e.arguments or [])) in rec.updaters and not e.selectors and not e.prefix_operators
 
 
-def _can_inline(call, rec: _Record) -> bool:
+def _can_inline(call, rec: RecordClass) -> bool:
     """Arguments the inlined body may read in their place: a name or literal for a number (reading it
     again gives the same value), a name for a record whose every field read has a getter."""
     m = rec.updaters[(call.member, len(call.arguments))]
@@ -244,7 +244,7 @@ def _can_inline(call, rec: _Record) -> bool:
     return True
 
 
-def _inlined(stmt, rec: _Record, locals_: dict[str, str], taken: set[str]):
+def _inlined(stmt, rec: RecordClass, locals_: dict[str, str], taken: set[str]):
     """The updater's body with its fields as the locals and its parameters as the arguments (a
     record parameter's fields read through its getters). An argument that is not a name or a
     literal is computed once, first, into a local of the parameter's type, as Java does."""

@@ -17,7 +17,7 @@ from __future__ import annotations
 from javalang import tree as T
 
 from migrate.lift.combining import flushes_all_entries
-from migrate.lower.record_locals import _Record
+from migrate.lower.record_locals import RecordClass
 from migrate.lower.walk import is_name, line_of, mentions, name_ref, positioned, statement_lists
 
 _MAPS = {"Map", "HashMap", "LinkedHashMap", "TreeMap"}
@@ -38,7 +38,7 @@ def record_maps(cls, index=None) -> list[tuple[int, str]]:
             continue
         name = f.declarators[0].name
         info = index.get(index.resolve(args[1].type.name, cls))
-        rec = _Record.of(info) if info is not None and not args[1].type.arguments else None
+        rec = RecordClass.of(info) if info is not None and not args[1].type.arguments else None
         key_type = args[0].type.name
         if rec is None or key_type not in ("Text", "String") or not flushes_all_entries(cleanups[0], name) \
                 or not _writes_records_whole(cleanups[0], key_type):
@@ -64,7 +64,7 @@ def _writes_records_whole(cleanup, key_type: str) -> bool:
     return wrapped == (key_type == "String") and (not wrapped or len(k.arguments) == 1)
 
 
-def _ensures(s, name: str, rec: _Record):
+def _ensures(s, name: str, rec: RecordClass):
     """The key of `if (!m.containsKey(k)) { m.put(k, new R()); }` or `m.putIfAbsent(k, new R());`."""
     if isinstance(s, T.IfStatement) and s.else_statement is None:
         c = s.condition
@@ -77,7 +77,7 @@ def _ensures(s, name: str, rec: _Record):
     return _put_new(s, name, rec, "putIfAbsent")
 
 
-def _put_new(s, name: str, rec: _Record, method: str) -> str | None:
+def _put_new(s, name: str, rec: RecordClass, method: str) -> str | None:
     e = s.expression if isinstance(s, T.StatementExpression) else None
     if isinstance(e, T.MethodInvocation) and e.qualifier == name and e.member == method and not e.selectors \
             and len(e.arguments) == 2 and is_name(e.arguments[0]) and isinstance(e.arguments[1], T.ClassCreator) \
@@ -86,7 +86,7 @@ def _put_new(s, name: str, rec: _Record, method: str) -> str | None:
     return None
 
 
-def _update(s, name: str, rec: _Record):
+def _update(s, name: str, rec: RecordClass):
     """(key name, updater call) of `m.get(k).upd(args);`."""
     e = s.expression if isinstance(s, T.StatementExpression) else None
     if isinstance(e, T.MethodInvocation) and e.qualifier == name and e.member == "get" and len(e.arguments) == 1 \
@@ -97,7 +97,7 @@ def _update(s, name: str, rec: _Record):
     return None
 
 
-def _only_updates(cls, f, name: str, rec: _Record, mapper, cleanup) -> bool:
+def _only_updates(cls, f, name: str, rec: RecordClass, mapper, cleanup) -> bool:
     """The Map starts empty and serves nothing but presence, updates and the flush."""
     init = f.declarators[0].initializer
     if init is not None and not _new_empty_map(init):
@@ -129,21 +129,16 @@ def _only_updates(cls, f, name: str, rec: _Record, mapper, cleanup) -> bool:
     return True
 
 
-def _present_before_updates(mapper, name: str, rec: _Record) -> bool:
+def _present_before_updates(mapper, name: str, rec: RecordClass) -> bool:
     """Every update comes after the key was made present, on every path: a statement making it
     present stands in a list before the statement holding the update (else Java's get() gives null
     and the task fails, which a write per update would not)."""
-    updates = [n for _, n in mapper if isinstance(n, T.StatementExpression) and _update(n, name, rec)]
-    for u in updates:
+    def present_before(u) -> bool:
         key = _update(u, name, rec)[0]
-        ok = False
-        for stmts, _ in statement_lists(mapper):
-            for i, s in enumerate(stmts):
-                if _ensures(s, name, rec) == key and any(u is n for later in stmts[i + 1:] for _, n in later):
-                    ok = True
-        if not ok:
-            return False
-    return True
+        return any(_ensures(s, name, rec) == key and any(u is n for later in stmts[i + 1:] for _, n in later)
+                   for stmts, _ in statement_lists(mapper) for i, s in enumerate(stmts))
+
+    return all(present_before(n) for _, n in mapper if isinstance(n, T.StatementExpression) and _update(n, name, rec))
 
 
 def _fresh_keys(mapper, name: str, key_type: str) -> bool:
@@ -178,7 +173,7 @@ def _made_empty(s, name: str) -> bool:
         and is_name(e.expressionl.selectors[0], name))
 
 
-def _rewrite(cls, f, name: str, rec: _Record, mapper, cleanup, key_type: str) -> None:
+def _rewrite(cls, f, name: str, rec: RecordClass, mapper, cleanup, key_type: str) -> None:
     context = mapper.parameters[2].name
     record_type = T.ReferenceType(name=rec.name, dimensions=[], arguments=None, sub_type=None)
 
