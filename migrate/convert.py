@@ -12,7 +12,7 @@ import black
 from migrate.gen.pyspark import render_script
 from migrate.java.source import ParseFailure
 from migrate.lift.job import JobResult
-from migrate.plan import EachValue, Group, Identity, Join, TopN, TopPerKey
+from migrate.plan import EachValue, Group, Identity, Join, Runs, TopN, TopPerKey
 from migrate.report.render import build_report, to_csv, to_json, to_markdown
 from migrate.scan import RepoScan, Unread, script_name
 
@@ -154,6 +154,9 @@ def _what(p, map_only: bool) -> str:
                 "TreeSet, written in set order, sorted by key")
     elif isinstance(r, EachValue):
         what = "the mapper's values, each written (or filtered) by the reducer as it meets them, sorted by key"
+    elif isinstance(r, Runs):
+        what = ("per group of the grouping comparator, a fold of each run of one key (a control break), the runs "
+                "collected in the sort order and written once per group")
     elif isinstance(r, Identity):
         what = "the mapper's pairs sorted by key"
     elif isinstance(r, Join):

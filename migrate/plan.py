@@ -312,6 +312,31 @@ class EachValue(Step):
 
 
 @dataclass(frozen=True)
+class Runs(Step):
+    """A control break: one reduce() call reads a group of several keys (a grouping comparator)
+    with its values in the sort order, and its loop starts its accumulators over whenever the
+    last sort field changes, so each run of one key is folded on its own and flushed into a list.
+
+    `fold` is one run's fold, grouped by the full key; its one write is the run's flush (key ->
+    the item added to the list) under the test the original flushes with, which reads the run's
+    field as the column `marker`. `writes` are reduce()'s writes after its loop, over the group's
+    fields of `key` and AggRef(`items`): the flushed items in run order. `test` is what the break
+    test compares with the marker, per value; the job rule proves it is the key's `field` and
+    fills `group` (the grouping comparator's fields) and `order` (the field's sort term and
+    direction: the order of the runs).
+    """
+
+    fold: Group
+    marker: str
+    items: str
+    writes: tuple[Emit, ...]
+    test: Expr
+    group: tuple[Expr, ...] = ()
+    field: Expr | None = None
+    order: tuple[Expr, bool] | None = None
+
+
+@dataclass(frozen=True)
 class TopN(Step):
     """Top-N across keys: a TreeMap field filled in reduce() and written in cleanup().
 
@@ -565,8 +590,9 @@ class Plan:
         if not self.map_steps or not isinstance(self.map_steps[-1], Project):
             if not self.hand_work and not self.branches:
                 raise ValueError("map steps must end in a Project unless hand work stands in for them")
-        if self.reduce is not None and not isinstance(self.reduce, (Group, Identity, EachValue, TopN, TopPerKey, Join)):
-            raise ValueError("reduce must be a Group, EachValue, TopN, TopPerKey, Join or Identity step")
+        if self.reduce is not None and not isinstance(self.reduce, (Group, Identity, EachValue, Runs, TopN, TopPerKey,
+                                                                    Join)):
+            raise ValueError("reduce must be a Group, EachValue, Runs, TopN, TopPerKey, Join or Identity step")
 
 
 # ----------------------------------------------------------------------------- text dump
@@ -589,6 +615,17 @@ def rewrite(e: Expr, swap) -> Expr:
                                                  for x in v):
             changes[f.name] = tuple((k, rewrite(x, swap)) for k, x in v)
     return dataclasses.replace(e, **changes) if changes else e
+
+
+def resolve_fields(e: Expr) -> Expr:
+    """`e` with each field read of a Writable made in place (`{a: x, b: y}.b`) replaced by that field's value."""
+    def swap(x):
+        if isinstance(x, Field):
+            base = resolve_fields(x.base)
+            if isinstance(base, StructNew):
+                return dict(base.items).get(x.name)
+        return None
+    return rewrite(e, swap)
 
 
 def walk(e: Expr | None, inner=None):
@@ -722,6 +759,13 @@ def _dump_step(s: Step) -> str:
             for e in emits:
                 g = f" if {dump_expr(e.guard)}" if e.guard is not None else ""
                 lines.append(f"    {label} {dump_expr(e.key)} -> {dump_expr(e.value)}{g}")
+        return "\n".join(lines)
+    if isinstance(s, Runs):
+        run = f"{dump_expr(s.run[0])}{'' if s.run[1] else ' desc'}" if s.run is not None else "?"
+        lines = [f"Runs per group ({', '.join(dump_expr(e) for e in s.group)}), a run per {run} ({s.marker})",
+                 *("    " + x for x in _dump_step(s.fold).replace("Group by key", "Fold of one run").splitlines()),
+                 f"    Flushed into {s.items}, in run order"]
+        lines += [f"    Write {dump_expr(e.key)} -> {dump_expr(e.value)}" for e in s.writes]
         return "\n".join(lines)
     if isinstance(s, TopN):
         part = f" per reduce task ({s.partitions}, by {dump_expr(s.partition)})" if s.partition is not None else ""

@@ -12,7 +12,7 @@ from pathlib import Path
 import black
 import jinja2
 
-from migrate.plan import (walk, INTEGRAL, Agg, AggRef, Arith, BoolOp, Call, Cast, Col, Compare, Cond, ConfValue, Count, EachValue, Emit, Explode, Expr, Filter, Group, HandWork, Identity, Join, Let, Lit, Lookup, Plan, Project, SideTable, Source, Stage, Step, StructNew, TaskTopN, TopN, TopPerKey, Field)
+from migrate.plan import (walk, INTEGRAL, Agg, AggRef, Arith, BoolOp, Call, Cast, Col, Compare, Cond, ConfValue, Count, EachValue, Emit, Explode, Expr, Filter, Group, HandWork, Identity, Join, Let, Lit, Lookup, Plan, Project, Runs, SideTable, Source, Stage, Step, StructNew, TaskTopN, TopN, TopPerKey, Field)
 
 SPARK_TYPES = {"int": "int", "long": "bigint", "double": "double", "float": "float", "boolean": "boolean",
                "String": "string"}
@@ -550,6 +550,8 @@ def build_body(plan: Plan, x: ExprWriter) -> ScriptParts:
         out.extend("    " + c for c in _reduce_writes(call_writes(r), x, plan.sink.partition, plan.sink.sort_terms))
         out.append(")")
         out.append("return result")
+    elif isinstance(r, Runs):
+        out.extend(_runs_code(r, plan, x))
     elif isinstance(r, TopN):
         out.extend(_top_n_code(r, x))
         parts.uses_window = True
@@ -743,6 +745,47 @@ def _fold_code(g: Group, x: ExprWriter) -> list[str]:
         lines.append(f"    # {_where(a.origin)}  {a.note}")
         lines.append(f"    {agg_code(a, x)}.alias(\"{agg_column(a.name)}\"),")
     return lines + [")"]
+
+
+def _runs_code(r: Runs, plan: Plan, x: ExprWriter) -> list[str]:
+    """A control break: a fold per key (each run of the group is one key), its flush under the
+    flush's test, then per group the flushed items in the sort order and reduce()'s writes."""
+    flush = r.fold.emits[0]
+    term, asc = r.order
+    group = ", ".join(f"{x(e)}.alias(\"_group_{i}\")" for i, e in enumerate(r.group, 1))
+    run = f'F.col("{r.marker}")' if term == r.field else x(term)
+    item = f'F.struct({run}.alias("_run"), {x(flush.value)}.alias("item"))'
+    lines = _fold_code(r.fold, x)
+    if not r.fold.aggs:  # nothing is summed: the run is only its key
+        lines[-1:] = ['    F.count(F.lit(1)).alias("_values"),', ")"]
+    out = ["",
+           f"# Reduce side: one reduce() call per group of the grouping comparator, its values in the sort order "
+           f"({_where(r.origin)});",
+           f"# it starts its sums over whenever `{r.marker}` changes (a control break), so each run is one key of the "
+           "group:",
+           "# a fold per key, then per group the runs it flushed, in the sort order",
+           "runs = (",
+           "    map_output",
+           *("    " + c for c in lines),
+           f'    .withColumn("{r.marker}", {x(r.field)})  # the run\'s {r.marker}',
+           f"    # {_where(flush.origin)}  {flush.note}  (a run is flushed where the test holds)",
+           f'    .select("key", F.when({bare(x(flush.guard))}, {item}).alias("_flushed"))'
+           if flush.guard is not None else f'    .select("key", {item}.alias("_flushed"))',
+           ")",
+           "result = (",
+           "    runs",
+           f"    .groupBy({group})",
+           "    .agg(",
+           '        # any key of the group: what reduce() writes reads only the fields they share',
+           '        F.first("key").alias("key"),',
+           "        # the flushed runs in the sort order (collect_list leaves out the runs not flushed)",
+           f'        F.sort_array(F.collect_list("_flushed"){"" if asc else ", asc=False"}).alias("_runs"),',
+           "    )",
+           f'    .withColumn("{agg_column(r.items)}", F.transform("_runs", lambda run: run["item"]))',
+           *("    " + c for c in _reduce_writes(r.writes, x, plan.sink.partition, plan.sink.sort_terms)),
+           ")",
+           "return result"]
+    return out
 
 
 def _walk_order(r: TopN | TopPerKey) -> str:
@@ -946,7 +989,8 @@ def sort_columns(plan: Plan) -> list[str]:
     if isinstance(r, TopPerKey):  # reduce() writes its kept values in set order, key after key
         cols = [f'"{n}"' for n, _ in _hidden_sort(r.writes, ())] + ['"_write"']
         return (['"_partition"'] if plan.sink.partition is not None else []) + cols
-    emits = r.emits if isinstance(r, Group) else call_writes(r) if isinstance(r, EachValue) else ()
+    emits = r.emits if isinstance(r, Group) else call_writes(r) if isinstance(r, EachValue) else \
+        r.writes if isinstance(r, Runs) else ()
     cols = [f'"{n}"' if asc else f'F.col("{n}").desc()' for n, asc in _hidden_sort(emits, plan.sink.sort_terms)] \
         if emits else ['"key"']
     if not emits and plan.sink.sort_terms and all(isinstance(e, Col) and e.name == "key" for e, _ in plan.sink.sort_terms):

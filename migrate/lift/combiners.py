@@ -25,8 +25,8 @@ from __future__ import annotations
 import re
 from dataclasses import dataclass
 
-from migrate.plan import (AggRef, Cast, Col, Count, Emit, EachValue, Expr, Field, Group, Identity, Let, Step, StructNew,
-                          rewrite, walk)
+from migrate.plan import (AggRef, Cast, Col, Count, Emit, EachValue, Expr, Group, Identity, Let, Step,
+                          resolve_fields, rewrite, walk)
 from migrate.plan import dump_expr
 
 _COMPOSABLE = ("sum", "min", "max")
@@ -94,7 +94,7 @@ def judge(reducer: Step | None, combiner: Step | None, combiner_unread: str = ""
         if fn == "sum" and a.init not in (None, 0, 0.0):
             return Verdict(False, f"the reducer starts its sum `{a.name}` at {a.init}, which a combiner would add "
                                   "once per run")
-        seen = _simplify(rewrite(read[a.name], lambda e: write.value if isinstance(e, Col) and e.name == "value"
+        seen = resolve_fields(rewrite(read[a.name], lambda e: write.value if isinstance(e, Col) and e.name == "value"
                                  else None))
         inner = seen.arg if isinstance(seen, Cast) else seen
         partial = next((c for c in combiner.aggs if isinstance(inner, AggRef) and c.name == inner.name), None)
@@ -159,17 +159,6 @@ def _inline_arg(g: Group, arg: Expr | None) -> Expr | None:
             break
         arg = new
     return arg
-
-
-def _simplify(e: Expr) -> Expr:
-    """Reads of what the combiner built: a field of a Writable it made is that field's value."""
-    def swap(x):
-        if isinstance(x, Field):
-            base = _simplify(x.base)
-            if isinstance(base, StructNew):
-                return dict(base.items).get(x.name)
-        return None
-    return rewrite(e, swap)
 
 
 def _same_value(a: Expr | None, b: Expr | None) -> bool:

@@ -451,6 +451,14 @@ def _invocation(node: T.MethodInvocation, scope: Scope) -> Expr:
             raise Unsupported(node, f"Character.{m} of a {c.jtype} (a code point) is not lifted")
         return _selectors(Call("boolean", "char_is", (c, Lit("String", CHAR_CLASSES[m]))), node.selectors or [],
                           scope, node)
+    if (q, m) == ("String", "join") and len(args) == 2 and isinstance(args[1], T.MemberReference) \
+            and isinstance(scope.env.get(args[1].member), GatheredList) and not args[1].qualifier:
+        g = scope.env[args[1].member]  # String.join(sep, list): the list's elements in its order
+        sep = lift(args[0], scope)
+        if not g.sorted or g.values.jtype != "String[]" or not (isinstance(sep, Lit) and sep.jtype == "String"):
+            raise Unsupported(node, f"String.join of `{g.name}`: its order is not defined, its elements are not "
+                                    "Strings or the separator is computed")
+        return _selectors(Call("String", "join_array", (g.values, sep)), node.selectors or [], scope, node)
     if (q, m) == ("String", "join") and len(args) >= 2:
         sep, *parts = (lift(x, scope) for x in args)
         if not (isinstance(sep, Lit) and sep.jtype == "String"):

@@ -19,13 +19,15 @@ from migrate.lift.mapper import MapBodyLifter, class_constants
 from migrate.lift.exprs import Opaque, Scope, Unsupported, to_string
 from migrate.lift.writables import is_struct, plain_key_order, read_comparator, structs_of
 from migrate.lift.reducer import FoldLifter
+from migrate.lift.control_break import lift_runs, reads_only
 from migrate.lift.partitioning import custom_partition, hash_partition
 from migrate.lift.topn import lift_top_n, top_n_findings
 from migrate.lift.joins import JoinLifter
 from migrate.lift.sidefiles import read_side_files
 from migrate.lower.walk import assigned_names
 from migrate.plan import (ADVISORY_CATEGORIES, Agg, AggRef, BoolOp, Branch, Cast, Col, ConfValue, EachValue, Join, Emit, Explode, Expr, Field, Filter, Finding, Group, HandWork, Identity, ModeCheck, Param, Plan,
-                          Project, SideTable, Sink, Source, Span, Step, StructNew, TaskTopN, TopN, TopPerKey)
+                          Project, Runs, SideTable, Sink, Source, Span, Step, StructNew, TaskTopN, TopN, TopPerKey, dump_expr,
+                          resolve_fields, rewrite)
 
 
 
@@ -273,6 +275,8 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
                              "output holds them, largest first; the script sorts the same way")
         if isinstance(reduce, EachValue) and (reduce.first_value or reduce.before or reduce.after):
             reduce = _reduce_calls(spec, structs, map_key_t, reduce, key_order, key_group, add)
+        if isinstance(reduce, Runs):
+            reduce = _control_break(spec, structs, map_key_t, reduce, key_order, key_group, steps, partition, add)
         if key_order is not None:
             shapes.append("secondary sort")
             notes.append("the values reach reduce() in the sort comparator's order; the script sorts its output by "
@@ -317,6 +321,8 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
     if is_struct(map_key_t) and reduce is not None and not isinstance(reduce, TopN):
         try:
             sort_terms = structs[map_key_t].sort_terms(Col(map_key_t, "key"), spec.driver.node, key_order)
+            if isinstance(reduce, Runs):  # one row per group: its fields order the output
+                sort_terms = sort_terms[:len(reduce.group)]
         except Unsupported as u:
             add("custom-writable", spec.origin, f"the output is sorted by {map_key_t.split('.')[-1]}.compareTo: "
                 f"{u.reason}", u.suggestion or "sort by the compared fields by hand", "P1")
@@ -508,6 +514,8 @@ def _struct_output_text(steps: list[Step], reduce: Step | None, structs: dict, a
                              before=tuple(text(e) for e in reduce.before), after=tuple(text(e) for e in reduce.after))
         elif isinstance(reduce, TopN):
             reduce = replace(reduce, writes=tuple(text(e) for e in reduce.writes))
+        elif isinstance(reduce, Runs):
+            reduce = replace(reduce, writes=tuple(text(e) for e in reduce.writes))
         elif reduce is None and map_only:
             steps = [replace(s, emits=tuple(text(e) for e in s.emits)) if isinstance(s, Project) else s for s in steps]
         elif isinstance(reduce, Identity) and any(is_struct(e.key.jtype) or is_struct(e.value.jtype)
@@ -593,7 +601,12 @@ def _secondary_sort(spec: JobSpec, index: ClassIndex, structs: dict, key_t: str,
                            "Hadoop's groups would not be contiguous")
         return None
     spans_keys = len(group) < len(info.fields)  # one reduce() call sees several distinct keys
-    if spans_keys and not isinstance(reduce, (EachValue, Identity)):
+    if isinstance(reduce, Runs) and not (spans_keys and len(sort) == len(group) + 1 == len(info.fields)):
+        decline(roles[-1], "reduce() starts its sums over when a field changes (a control break); that is one run "
+                           "per key only where the grouping comparator compares every sort field but the last, and "
+                           "the sort compares every field of the key")
+        return None
+    if spans_keys and not isinstance(reduce, (EachValue, Identity, Runs)):
         decline(roles[-1], f"reduce() folds a group that spans several keys (it compares only "
                            f"{', '.join(n for n, _ in group)}): the key it sees changes as the values are read, and "
                            "which values come first follows the sort order; only reducers that write inside their "
@@ -622,6 +635,51 @@ def _reduce_calls(spec: JobSpec, structs: dict, key_t: str, reduce: EachValue, k
             "sort the values (a secondary sort) and take F.first over Window.partitionBy(key).orderBy(...)", "P2")
         return reduce
     return replace(reduce, group=group or (k,), order=order)
+
+
+def _control_break(spec: JobSpec, structs: dict, key_t: str, reduce: Runs, key_order, key_group, steps: list[Step],
+                   partition: Expr | None, add) -> Runs | None:
+    """A control break is one run per key where the value's field it tests is the key's last sort
+    field in every map output pair, and what is written reads of the key only the fields a whole
+    group shares (the key object moves on as the values are read: at a break it is the next
+    run's). Fills in the group, the run's field and its order; None (and hand work) otherwise."""
+    def decline(why: str, at: Step | Emit | None = None) -> None:
+        add("secondary-sort", (at or reduce).origin, f"reduce() starts its sums over when `{reduce.marker}` "
+            f"changes (a control break): {why}", "fold each run with groupBy(the full key), then collect the runs "
+            "per group with F.sort_array(F.collect_list(...))", "P2")
+
+    if key_order is None:
+        return None  # the sort was not read: _secondary_sort said why
+    info, k = structs[key_t], Col(key_t, "key")
+    shared = {n for n, _ in key_group}
+    last, asc = key_order[-1]
+    field = info.field_of(k, last)
+    if spec.branches or "combiner" in spec.classes:
+        decline("with several inputs or a combiner, what reaches the reducer is not the mapper's output")
+        return None
+    emits = [e for s in steps if isinstance(s, Project) for e in s.emits]
+    if reduce.test != field and not emits:
+        decline(f"the field it tests ({dump_expr(reduce.test)}) is not the key's {last}, and no map output shows it")
+        return None
+    for e in emits if reduce.test != field else ():  # the value's field is the key's, pair by pair
+        pair = {"key": e.key, "value": e.value}
+        tested = resolve_fields(rewrite(reduce.test, lambda x: pair.get(x.name) if isinstance(x, Col) else None))
+        if e.key is None or e.value is None or tested != resolve_fields(rewrite(field, lambda x: e.key if x == k else None)):
+            decline(f"the field it tests ({dump_expr(reduce.test)}) is not shown to be the key's {last} in the map "
+                    f"output written at {e.origin}")
+            return None
+    if partition is not None and not reads_only(partition, shared):
+        decline("the partitioner reads more of the key than the grouping comparator, so a group's keys go to "
+                "different reduce tasks")
+        return None
+    for e in (*reduce.fold.emits, *reduce.writes):
+        if not (reads_only(e.key if e not in reduce.fold.emits else None, shared) and reads_only(e.value, shared)
+                and reads_only(e.guard, shared)):
+            decline(f"a write reads the key beyond the fields a group shares ({', '.join(sorted(shared))}); the key "
+                    "changes as the values are read", e)
+            return None
+    order = info.sort_terms(k, spec.origin, key_order)[-1]
+    return replace(reduce, group=tuple(info.field_of(k, n) for n, _ in key_group), field=field, order=order)
 
 
 # Hadoop codec class -> the Spark text writer's `compression` name for the same codec (Spark's
@@ -995,6 +1053,18 @@ def _lift_reducer(rcls: ClassInfo, key_t: str, val_t: str, hand: list[HandWork],
     if top is not None:
         findings.extend(top_n_findings(top, top.fold.emits[0].origin, reduces))
         return top
+    if sorted_values:  # one call may read several keys in the sort order: a control break?
+        try:
+            runs, items = lift_runs(owner, m, key_t, val_t, index, settings)
+        except Unsupported as u:
+            line = u.line or a
+            runs, items = None, [HandWork(u.category or "secondary-sort", Span(owner.file.path, line, line), u.reason,
+                                          u.suggestion or "fold each run with groupBy(the full key), then collect the "
+                                          "runs per group with F.sort_array(F.collect_list(...))",
+                                          owner.file.lines[line - 1].strip(), "P2")]
+        if runs is not None or items:
+            hand.extend(_named(owner, h, sloc, constant_fields(owner)) for h in items)
+            return runs
     fold = FoldLifter(owner, m, key_t, val_t, index, sorted_values=sorted_values, settings=settings)
     group, items = fold.run()
     if group is not None:
@@ -1124,6 +1194,8 @@ def _shapes(steps: list[Step], reduce: Step | None) -> list[str]:
             out.append("several writes per key")
     if isinstance(reduce, EachValue):
         out.append("per-value writes in the reducer")
+    if isinstance(reduce, Runs):
+        out.append("control break (a fold per run of one key, collected per group)")
     if isinstance(reduce, TopN):
         out.append("top-N" + (" per reduce task" if reduce.partition is not None else ""))
     if isinstance(reduce, TopPerKey):
@@ -1136,7 +1208,7 @@ def _shapes(steps: list[Step], reduce: Step | None) -> list[str]:
 def _sink_types(steps: list[Step], reduce: Step | None, spec: JobSpec) -> tuple[str | None, str | None]:
     if isinstance(reduce, Join):
         ems = [w.emit for w in reduce.writes]
-    elif isinstance(reduce, (TopN, TopPerKey)):
+    elif isinstance(reduce, (TopN, TopPerKey, Runs)):
         ems = list(reduce.writes)
     else:
         ems = reduce.emits if isinstance(reduce, (Group, EachValue)) else [e for s in steps if isinstance(s, Project)

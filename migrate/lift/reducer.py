@@ -142,6 +142,21 @@ class FoldLifter:
         return Group(span, "fold over values", aggs, tuple(self.emits), lets=tuple(self.lets),
                      first_keys=self.cap[1] if self.cap else None, keys=keys, counts=tuple(self.call_counts))
 
+    def lift_in_loop(self, node) -> Expr:
+        """An expression of the loop's value alone (after run()): what it is for each value."""
+        e = self._expr(node)
+        if any(isinstance(x, Col) and x.name not in ("value", "key") for x in walk(e)):
+            raise Unsupported(node, "the expression reads a local of the loop, not only its value")
+        return e
+
+    def lift_after_loop(self, statements: list, bindings: dict) -> list[Emit]:
+        """`statements` as if they came after the loop over values, with `bindings` in scope: their writes."""
+        self.seen_loop = True
+        self.scope.env.update(bindings)
+        for s in statements:
+            self._stmt(s, None)
+        return self.emits
+
     def _no_value_counters(self) -> None:
         """Counters per value are converted for folds and per-value writes only."""
         c = next((c for c in self.lets if isinstance(c, Count)), None)

@@ -6,7 +6,7 @@ from __future__ import annotations
 
 from javalang import tree as T
 
-from migrate.lower.walk import line_of, statement_lists
+from migrate.lower.walk import line_of, same_code, statement_lists
 
 # String / Text / Writable methods that only read and cannot throw on a non-null receiver
 _SAFE_CALLS = {"equals", "equalsIgnoreCase", "contains", "startsWith", "endsWith", "isEmpty", "length", "toString",
@@ -20,7 +20,7 @@ def same_branches(cls, index=None) -> list[tuple[int, str]]:
         for stmts, _ in statement_lists(method):
             for i, s in reversed(list(enumerate(stmts))):
                 if isinstance(s, T.IfStatement) and s.else_statement is not None \
-                        and _same(s.then_statement, s.else_statement) and _harmless(s.condition, params):
+                        and same_code(s.then_statement, s.else_statement) and _harmless(s.condition, params):
                     then = s.then_statement
                     stmts[i:i + 1] = list(then.statements or []) if isinstance(then, T.BlockStatement) else [then]
                     done.append((line_of(s), "an if whose two branches are the same: its test cannot matter"))
@@ -44,12 +44,3 @@ def _harmless(e, params: set[str]) -> bool:
     return False
 
 
-def _same(a, b) -> bool:
-    """The same code, wherever it is written (positions and comments aside)."""
-    if isinstance(a, T.Node) and isinstance(b, T.Node):
-        return type(a) is type(b) and all(_same(getattr(a, k), getattr(b, k)) for k in a.attrs if k != "documentation")
-    if isinstance(a, (list, tuple)) and isinstance(b, (list, tuple)):
-        return len(a) == len(b) and all(_same(x, y) for x, y in zip(a, b))
-    if isinstance(a, set) and isinstance(b, set):
-        return a == b
-    return a == b

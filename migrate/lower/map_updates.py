@@ -25,8 +25,7 @@ import copy
 
 from javalang import tree as T
 
-from migrate.lower.branches import _same
-from migrate.lower.walk import is_name, line_of, mentions, positioned, replace_nodes, statement_lists
+from migrate.lower.walk import is_name, line_of, mentions, positioned, replace_nodes, same_code, statement_lists
 
 _SUMS = {"Integer": "Integer", "Long": "Long"}
 
@@ -95,7 +94,7 @@ def _update_at(stmts: list, i: int, maps: dict, method):
             if has is not None:
                 present, absent = (value.if_true, value.if_false) if has else (value.if_false, value.if_true)
                 v = _added_to_get(present, m, k)
-                if v is not None and _same(v, absent):
+                if v is not None and same_code(v, absent):
                     return 1, _merge(m, k, v, maps, s)
         return None
     d = s.declarators[0] if isinstance(s, T.LocalVariableDeclaration) and len(s.declarators) == 1 else None
@@ -107,18 +106,18 @@ def _update_at(stmts: list, i: int, maps: dict, method):
     if len(rest) == 2 and isinstance(rest[0], T.IfStatement) and rest[0].else_statement is None \
             and _null_test(rest[0].condition, c) is True and _assigns_zero(rest[0].then_statement, c):
         put = _put(rest[1], maps)
-        if put is not None and put[0] == m and _same(put[1], k):
+        if put is not None and put[0] == m and same_code(put[1], k):
             v = _added_to(put[2], c)
             if v is not None and _used_only(method, c, 3):
                 return 3, _merge(m, k, v, maps, s)
     # Integer c = m.get(k); m.put(k, c == null ? v : c + v);
     put = _put(rest[0], maps) if rest else None
-    if put is not None and put[0] == m and _same(put[1], k) and isinstance(put[2], T.TernaryExpression):
+    if put is not None and put[0] == m and same_code(put[1], k) and isinstance(put[2], T.TernaryExpression):
         absent_first = _null_test(put[2].condition, c)
         if absent_first is not None:
             absent, present = (put[2].if_true, put[2].if_false) if absent_first else (put[2].if_false, put[2].if_true)
             v = _added_to(present, c)
-            if v is not None and _same(v, absent) and _used_only(method, c, 3):
+            if v is not None and same_code(v, absent) and _used_only(method, c, 3):
                 return 2, _merge(m, k, v, maps, s)
     return None
 
@@ -152,7 +151,7 @@ def _lambda_update(s, maps: dict):
             return None
         absent, present = (body.if_true, body.if_false) if absent_first else (body.if_false, body.if_true)
         v = _added_to(present, c)
-        if v is not None and _same(v, absent) and _simple(v) and not mentions(v, params[0]) and not mentions(v, c):
+        if v is not None and same_code(v, absent) and _simple(v) and not mentions(v, params[0]) and not mentions(v, c):
             return e.qualifier, k, v
     return None
 
@@ -161,7 +160,7 @@ def _if_update(s: T.IfStatement, maps: dict):
     """if (m.containsKey(k)) { m.put(k, m.get(k) + v); } else { m.put(k, v); } and its negations."""
     then, other = _single(s.then_statement), _single(s.else_statement)
     a, b = _put(then, maps), _put(other, maps)
-    if a is None or b is None or a[0] != b[0] or not _same(a[1], b[1]):
+    if a is None or b is None or a[0] != b[0] or not same_code(a[1], b[1]):
         return None
     m, k = a[0], a[1]
     has = _has(s.condition, m, k)
@@ -169,7 +168,7 @@ def _if_update(s: T.IfStatement, maps: dict):
         return None
     present, absent = (a[2], b[2]) if has else (b[2], a[2])
     v = _added_to_get(present, m, k)
-    if v is None or not _same(v, absent):
+    if v is None or not same_code(v, absent):
         return None
     return 1, _merge(m, k, v, maps, s)
 
@@ -178,11 +177,11 @@ def _has(cond, m: str, k) -> bool | None:
     """True for `m.containsKey(k)` / `m.get(k) != null`, False for their negations, else None."""
     neg = "!" in (getattr(cond, "prefix_operators", None) or [])
     if isinstance(cond, T.MethodInvocation) and cond.qualifier == m and cond.member == "containsKey" \
-            and len(cond.arguments) == 1 and _same(cond.arguments[0], k) and not cond.selectors:
+            and len(cond.arguments) == 1 and same_code(cond.arguments[0], k) and not cond.selectors:
         return not neg
     if isinstance(cond, T.BinaryOperation) and cond.operator in ("==", "!=") and not neg \
             and isinstance(cond.operandr, T.Literal) and cond.operandr.value == "null" \
-            and _is_get(cond.operandl, {m: None}) and _same(cond.operandl.arguments[0], k):
+            and _is_get(cond.operandl, {m: None}) and same_code(cond.operandl.arguments[0], k):
         return cond.operator == "!="
     return None
 
@@ -205,7 +204,7 @@ def _added_to_get(e, m: str, k):
     """v for `m.get(k) + v` or `v + m.get(k)`."""
     if isinstance(e, T.BinaryOperation) and e.operator == "+":
         for get, v in ((e.operandl, e.operandr), (e.operandr, e.operandl)):
-            if _is_get(get, {m: None}) and _same(get.arguments[0], k) and _simple(v):
+            if _is_get(get, {m: None}) and same_code(get.arguments[0], k) and _simple(v):
                 return v
     return None
 

@@ -128,3 +128,15 @@ def qualified(t) -> tuple[str, list]:
         parts.append(t.name)
         last, t = t, t.sub_type
     return (".".join(parts), list(last.arguments or [])) if parts else ("", [])
+
+
+def same_code(a, b) -> bool:
+    """The same code, wherever it is written (positions and comments aside)."""
+    if isinstance(a, T.Node) and isinstance(b, T.Node):
+        return type(a) is type(b) and all(same_code(getattr(a, k), getattr(b, k)) for k in a.attrs if k != "documentation")
+    if isinstance(a, (list, tuple)) and isinstance(b, (list, tuple)):
+        return len(a) == len(b) and all(same_code(x, y) for x, y in zip(a, b))
+    if isinstance(a, set) and isinstance(b, set):
+        return a == b
+    return a == b
+

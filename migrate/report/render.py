@@ -156,10 +156,10 @@ AGGREGATE_WORDS = {"sum": "F.sum", "count": "F.count", "count_if": "F.count_if (
 
 def aggregates_of(job: JobResult) -> list[dict]:
     """Each reducer accumulator and the aggregate it became, with its Java line."""
-    from migrate.plan import Group, TopN, dump_expr
+    from migrate.plan import Group, Runs, TopN, dump_expr
 
     r = job.plan.reduce
-    fold = r.fold if isinstance(r, TopN) else r
+    fold = r.fold if isinstance(r, (TopN, Runs)) else r
     if not isinstance(fold, Group):
         return []
     return [{"accumulator": a.name, "java_type": a.jtype, "aggregate": AGGREGATE_WORDS.get(a.fn, a.fn),
