@@ -761,8 +761,9 @@ def _dump_step(s: Step) -> str:
                 lines.append(f"    {label} {dump_expr(e.key)} -> {dump_expr(e.value)}{g}")
         return "\n".join(lines)
     if isinstance(s, Runs):
-        run = f"{dump_expr(s.run[0])}{'' if s.run[1] else ' desc'}" if s.run is not None else "?"
-        lines = [f"Runs per group ({', '.join(dump_expr(e) for e in s.group)}), a run per {run} ({s.marker})",
+        order = f"{dump_expr(s.order[0])}{'' if s.order[1] else ' desc'}" if s.order is not None else "?"
+        lines = [f"Runs per group ({', '.join(dump_expr(e) for e in s.group)}), a run per {dump_expr(s.field)} "
+                 f"({s.marker}, tested as {dump_expr(s.test)}), runs in the order of {order}",
                  *("    " + x for x in _dump_step(s.fold).replace("Group by key", "Fold of one run").splitlines()),
                  f"    Flushed into {s.items}, in run order"]
         lines += [f"    Write {dump_expr(e.key)} -> {dump_expr(e.value)}" for e in s.writes]

@@ -635,6 +635,39 @@ def setup_setting(text: str) -> str:
             + text[use.end():job.end()] + setting + text[job.end():])
 
 
+@_on_tree
+def run_marker(tree, lines: list[str]) -> None:
+    """A control break tested as `v.getF() != m` with `m = v.getF();` first in its block vs tested as
+    `m != key.getF()` with `m = key.getF();` after the resets. Hadoop moves the key with the values
+    (ReduceContext deserializes each value's key before handing the value over), and the samples'
+    mappers write the same F into key and value, so both read the same number."""
+    for _, m in _map_methods(tree):
+        if m.name != "reduce":
+            continue
+        key = m.parameters[0].name
+        for _, loop in m.filter(T.ForStatement):
+            if not isinstance(loop.control, T.EnhancedForControl) or not isinstance(loop.body, T.BlockStatement):
+                continue
+            var = loop.control.var.declarators[0].name
+            brk = loop.body.statements[0] if loop.body.statements else None
+            cond = getattr(brk, "condition", None)
+            if not (isinstance(cond, T.BinaryOperation) and cond.operator == "!="
+                    and isinstance(cond.operandl, T.MethodInvocation) and cond.operandl.qualifier == var
+                    and isinstance(cond.operandr, T.MemberReference)):
+                continue
+            getter, marker = cond.operandl.member, cond.operandr.member
+            block = brk.then_statement.statements
+            sets = [x for x in block if isinstance(x, T.StatementExpression) and isinstance(x.expression, T.Assignment)]
+            mark = next((x for x in sets if getattr(x.expression.expressionl, "member", None) == marker), None)
+            if mark is None or mark is sets[-1]:
+                continue
+            at, last = mark.position.line - 1, sets[-1].position.line - 1
+            test = brk.position.line - 1
+            lines[test] = lines[test].replace(f"{var}.{getter}() != {marker}", f"{marker} != {key}.{getter}()", 1)
+            moved = lines[at].replace(f"{var}.{getter}()", f"{key}.{getter}()")
+            lines[at:last + 1] = lines[at + 1:last + 1] + [moved]
+
+
 def record_methods(text: str) -> str:
     """Two long sums folded into locals and written as `new Tally(a, b)` vs a Tally made empty, added
     to by a method of its own (`t.add(v)`) and written as it is; the value class gains the `add`
@@ -773,6 +806,8 @@ AXES = (
          record_methods),
     Axis("presence-test", "putIfAbsent(k, new R()) vs a containsKey test then put", presence_test),
     Axis("tree-map-trim", "remove(firstKey()) vs pollFirstEntry() on a TreeMap", tree_map_trim),
+    Axis("run-marker", "a control break testing the value's field, marker set first vs the key's field, set last",
+         run_marker),
     Axis("counter-book", "a Map counted with merge vs the counts kept through a helper book of records",
          counter_book),
 )

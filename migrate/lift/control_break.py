@@ -59,6 +59,7 @@ class Shape:
     items: str
     item_type: str
     after: list  # what reduce() does after the last flush: its writes of the list
+    guards: list  # leading `if (test) return;` statements: tests of the key
 
 
 def find(method: T.MethodDeclaration) -> Shape | None:
@@ -70,6 +71,10 @@ def find(method: T.MethodDeclaration) -> Shape | None:
     if at is None or len(params) < 3 or at + 1 >= len(body):
         return None
     loop, pre, last, after = body[at], body[:at], body[at + 1], body[at + 2:]
+    guards = []  # `if (test of the key) return;` first: the fold's key tests (the job rule checks what they read)
+    while pre and isinstance(pre[0], T.IfStatement) and pre[0].else_statement is None and \
+            [type(x) for x in _block(pre[0].then_statement)] == [T.ReturnStatement] and not mentions(pre[0], params[1]):
+        guards.append(pre.pop(0))
     ctl = getattr(loop, "control", None)
     if not (isinstance(ctl, T.EnhancedForControl) and is_name(ctl.iterable, params[1])):
         return None
@@ -156,7 +161,7 @@ def find(method: T.MethodDeclaration) -> Shape | None:
         raise Unsupported(then[0], "the flush does more than compute the item it adds", category="secondary-sort")
     if assigned_names(loop) & {marker} != {marker} or any(marker in assigned_names(s) for s in rest + after + flushed):
         raise Unsupported(where, f"`{marker}` is set outside the break block", category="secondary-sort")
-    return Shape(marker, marker_type, sentinel, run, loop, rest, kept, guard, flushed, items, item_type, after)
+    return Shape(marker, marker_type, sentinel, run, loop, rest, kept, guard, flushed, items, item_type, after, guards)
 
 
 def lift_runs(cls: ClassInfo, method: T.MethodDeclaration, key_t: str, val_t: str, index,
@@ -175,13 +180,13 @@ def lift_runs(cls: ClassInfo, method: T.MethodDeclaration, key_t: str, val_t: st
     positioned(flush, shape.guard)
     loop = T.ForStatement(control=shape.loop.control, body=T.BlockStatement(statements=shape.rest))
     positioned(loop, shape.loop)
-    one_run = _method_like(method, shape.kept + [loop, flush])
+    one_run = _method_like(method, shape.guards + shape.kept + [loop, flush])
     fold = FoldLifter(cls, one_run, key_t, val_t, index, settings=settings)
     fold.scope.env[shape.marker] = Col(shape.marker_type, shape.marker)
     group, items = fold.run()
     if items:
         return None, items
-    if not isinstance(group, Group) or group.distinct or group.keys is not None or group.counts \
+    if not isinstance(group, Group) or group.distinct or group.counts \
             or group.first_keys is not None or any(isinstance(s, Count) for s in group.lets) or len(group.emits) != 1:
         raise Unsupported(shape.loop, "the fold of one run is not a plain fold over its values", category="secondary-sort")
     run_value = fold.lift_in_loop(shape.run)

@@ -606,6 +606,8 @@ def _secondary_sort(spec: JobSpec, index: ClassIndex, structs: dict, key_t: str,
                            "per key only where the grouping comparator compares every sort field but the last, and "
                            "the sort compares every field of the key")
         return None
+    if spans_keys and reduce is None:
+        return None  # the reducer is hand work already
     if spans_keys and not isinstance(reduce, (EachValue, Identity, Runs)):
         decline(roles[-1], f"reduce() folds a group that spans several keys (it compares only "
                            f"{', '.join(n for n, _ in group)}): the key it sees changes as the values are read, and "
@@ -668,9 +670,12 @@ def _control_break(spec: JobSpec, structs: dict, key_t: str, reduce: Runs, key_o
             decline(f"the field it tests ({dump_expr(reduce.test)}) is not shown to be the key's {last} in the map "
                     f"output written at {e.origin}")
             return None
-    if partition is not None and not reads_only(partition, shared):
-        decline("the partitioner reads more of the key than the grouping comparator, so a group's keys go to "
-                "different reduce tasks")
+    if not _one_reduce_task(spec) and (partition is None or not reads_only(partition, shared)):
+        decline("with several reduce tasks, the partitioner reads more of the key than the grouping comparator "
+                "(or is not read), so one group's keys may go to different reduce tasks")
+        return None
+    if not reads_only(reduce.fold.keys, shared):
+        decline("it returns early on a test of the key beyond the fields a group shares (the group's first key)")
         return None
     for e in (*reduce.fold.emits, *reduce.writes):
         if not (reads_only(e.key if e not in reduce.fold.emits else None, shared) and reads_only(e.value, shared)
