@@ -9,7 +9,7 @@ from pathlib import Path
 
 import black
 
-from migrate.gen.pyspark import render_script
+from migrate.gen.pyspark import argument_slots, render_script
 from migrate.java.source import ParseFailure
 from migrate.lift.job import JobResult
 from migrate.plan import EachValue, Group, Identity, Join, Runs, TopN, TopPerKey
@@ -180,8 +180,8 @@ def header_for(job: JobResult, script: str) -> dict:
         if fq:
             span = job.files.get(role)
             classes.append((role, fq, str(span) if span else "ships with Hadoop"))
-    slots = sorted([p for p in job.plan.params if p.position is not None], key=lambda p: p.position)
-    usage = " ".join(f"<{p.name}>" for p in slots) or "[options]"
+    usage = " ".join(f"<{s.name}>" + ("..." if s.nargs else "") for s in argument_slots(job.plan.params)
+                     if s.read) or "[options]"
     return {"title": f"{job.spec.driver.name}: {job.spec.name}", "classes": classes, "summary": summary(job),
             "status": job.status, "script_name": script, "usage": usage}
 

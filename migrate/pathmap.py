@@ -54,7 +54,7 @@ def map_job_paths(job, pm: PathMap):
     """The job with its hard-coded path defaults mapped; notes say what changed and what did not."""
     params, notes = [], []
     for p in job.plan.params:
-        if p.default is None or p.position is not None:
+        if p.default is None or p.positional:
             params.append(p)
             continue
         new = pm.apply(p.default)

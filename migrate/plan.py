@@ -504,6 +504,7 @@ class Source:
     # the mapper keeps state per map task: rows carry `_task` and `_line`; these settings (minsize,
     # maxsize, block size) say how long a file may be and still be one task
     split: tuple[Expr, ...] = ()
+    lists: tuple[bool, ...] = ()  # per param: it holds several paths (a loop over the driver's arguments)
 
 
 @dataclass(frozen=True)
@@ -541,6 +542,13 @@ class Param:
     help: str
     position: int | None = None  # index in the original driver's args
     default: str | None = None
+    many: bool = False  # a run of arguments (a loop over them): args[position .. length - 1 - from_end]
+    from_end: int | None = None  # with `many` the run's end, else args[length - from_end] (position None)
+
+    @property
+    def positional(self) -> bool:
+        """Taken from the command line in the driver's order (not an option)."""
+        return self.position is not None or self.from_end is not None
 
 
 @dataclass(frozen=True)

@@ -72,9 +72,10 @@ public class Main {{
 
 
 def verify_one_job(tmp_path: Path, source: str, data: dict[str, bytes], driver: str = "Main",
-                   more: dict[str, str] | None = None, status: str = "converted"):
+                   more: dict[str, str] | None = None, status: str = "converted", args: list[str] | None = None):
     """Convert a one-job repository (checking its status), then `mrlift verify` it: the original on
-    Hadoop's local runner and the script on local Spark over `data`. Returns verify's check."""
+    Hadoop's local runner and the script on local Spark over `data` (file names may hold a folder),
+    with the driver's arguments `args` (default: the data folder, then the output). Returns verify's check."""
     import json
 
     from migrate.convert import write_outputs
@@ -86,7 +87,9 @@ def verify_one_job(tmp_path: Path, source: str, data: dict[str, bytes], driver: 
     assert job["status"] == status, job["hand_work"]
     (tmp_path / "data").mkdir()
     for name, content in data.items():
+        (tmp_path / "data" / name).parent.mkdir(parents=True, exist_ok=True)
         (tmp_path / "data" / name).write_bytes(content)
-    (tmp_path / "runs.json").write_text(json.dumps({"runs": [{"driver": job["driver"], "args": ["data", "@out"]}]}))
+    run = {"driver": job["driver"], "args": args or ["data", "@out"]}
+    (tmp_path / "runs.json").write_text(json.dumps({"runs": [run]}))
     (check,), _ = verify(tmp_path / "out", load_runs(tmp_path / "runs.json"), timeout=180)
     return check

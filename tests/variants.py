@@ -635,6 +635,24 @@ def setup_setting(text: str) -> str:
             + text[use.end():job.end()] + setting + text[job.end():])
 
 
+def argument_loop(text: str) -> str:
+    """A driver reading `args[0]` as its input and `args[1]` as its output vs one adding every argument
+    but the last as an input in a loop and taking the last as the output (Hadoop's WordCount example):
+    the same job for the two arguments the samples pass."""
+    add = re.search(r"(?m)^([ \t]*)FileInputFormat\.addInputPath\((\w+), new Path\((\w+)\[0\]\)\);$", text)
+    if add is None:
+        return text
+    indent, job, args = add.groups()
+    out = f"FileOutputFormat.setOutputPath({job}, new Path({args}[1]));"
+    if text.count(out) != 1 or re.search(rf"\b{args}\[(?![01]\])", text) or text.count(f"{args}[0]") != 1 \
+            or text.count(f"{args}[1]") != 1:
+        return text
+    loop = (f"{indent}for (int i = 0; i < {args}.length - 1; i++) {{\n"
+            f"{indent}    FileInputFormat.addInputPath({job}, new Path({args}[i]));\n{indent}}}")
+    text = text[:add.start()] + loop + text[add.end():]
+    return text.replace(out, f"FileOutputFormat.setOutputPath({job}, new Path({args}[{args}.length - 1]));")
+
+
 @_on_tree
 def run_marker(tree, lines: list[str]) -> None:
     """A control break tested as `v.getF() != m` with `m = v.getF();` first in its block vs tested as
@@ -806,6 +824,8 @@ AXES = (
          record_methods),
     Axis("presence-test", "putIfAbsent(k, new R()) vs a containsKey test then put", presence_test),
     Axis("tree-map-trim", "remove(firstKey()) vs pollFirstEntry() on a TreeMap", tree_map_trim),
+    Axis("argument-loop", "input args[0] and output args[1] vs a loop over every argument but the last, then the "
+         "last", argument_loop),
     Axis("run-marker", "a control break testing the value's field, marker set first vs the key's field, set last",
          run_marker),
     Axis("counter-book", "a Map counted with merge vs the counts kept through a helper book of records",

@@ -123,7 +123,8 @@ def _run(job: Job, status: dict, timeout: float, work: Path, o: Outcome) -> None
     o.reasons = sorted({_reason(h, own) for e in entries for h in e.get("hand_work", [])})
     if runnable(entry) is not None:
         return
-    unset = [a["name"] for a in entry.get("arguments", []) if a["position"] is None and a["default"] is None]
+    unset = [a["name"] for a in entry.get("arguments", []) if a["position"] is None and a.get("from_end") is None
+             and a["default"] is None]
     if unset:  # the driver's own arguments are not enough: the script asks for these by name
         o.detail = "the script needs " + ", ".join("--" + n.replace("_", "-") for n in unset)
         return

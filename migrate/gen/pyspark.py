@@ -582,10 +582,17 @@ def build_body(plan: Plan, x: ExprWriter) -> ScriptParts:
 def _read_code(src: Source, var: str, x: ExprWriter, parts: ScriptParts) -> list[str]:
     """Read one input as its InputFormat gives records: `var` with a `value` column (and `key`)."""
     out = []
+    lists = src.lists or (False,) * len(src.params)
     if any(src.split_commas):
-        items = [f"*{p}.split(\",\")" if split else p for p, split in zip(src.params, src.split_commas)]
+        items = [(f"*(path for arg in {p} for path in arg.split(\",\"))" if many else f"*{p}.split(\",\")")
+                 if split else f"*{p}" if many else p for p, split, many in zip(src.params, src.split_commas, lists)]
         out.append(f"paths = [{', '.join(items)}]  # the driver passed a String: Hadoop reads \"a,b\" as two paths")
         read = "spark.read.text(paths)"
+    elif any(lists) and len(src.params) > 1:
+        read = f"spark.read.text([{', '.join(f'*{p}' if many else p for p, many in zip(src.params, lists))}])"
+    elif any(lists):
+        out.append("# every path the driver's loop over its arguments added")
+        read = f"spark.read.text({src.params[0]})"
     else:
         paths = ", ".join(src.params)
         read = f"spark.read.text([{paths}])" if len(src.params) > 1 else f"spark.read.text({paths})"
@@ -1145,18 +1152,14 @@ def render_script(plan: Plan, header: dict, hand_work: list[HandWork]) -> str:
     helpers = helper_source(used) if used else ""
     regexes = _script_names_of(writers, "regexes", "regexes")
     task_rules = _script_names_of(writers, "task_rules", "partitioner functions")
-    positional = sorted([p for p in plan.params if p.position is not None], key=lambda p: p.position)
-    slots = []
-    for i in range(max([p.position for p in positional], default=-1) + 1):
-        found = [p for p in positional if p.position == i]
-        slots.append(found[0] if found else None)
+    slots = argument_slots(plan.params)
     build_args, build_call = _signature(plan, x)
     doc_end = f"<mrlift-docstring-end-{uuid.uuid4().hex}>"  # unguessable: Java text cannot fake the end
     text = _ENV.get_template("job.py.j2").render(
         doc_end=doc_end, plan=plan, header=header, body=parts.body, helpers=helpers,
         regexes=[(k, raw_string(v)) for k, v in regexes.items()], task_rules=sorted(task_rules.items()),
         uses_window=parts.uses_window or any(st["uses_window"] for st in stages),
-        slots=slots, options=[p for p in plan.params if p.position is None], sink=plan.sink, mode=_mode(plan),
+        slots=slots, options=[p for p in plan.params if not p.positional], sink=plan.sink, mode=_mode(plan),
         build_args=build_args, build_call=build_call, hand_work=hand_work, stages=stages,
         counters=any(w.counters for w in writers), dates=any(w.dates for w in writers),
         named_counters=any(w.named_counters for w in writers), time_zone=_time_zone(writers),
@@ -1168,6 +1171,40 @@ def render_script(plan: Plan, header: dict, hand_work: list[HandWork]) -> str:
     doc, _, code = text.partition(doc_end)
     check_size(code)
     return format_code('"""' + docstring_text(doc[3:]) + code)
+
+
+@dataclass(frozen=True)
+class Slot:
+    """One positional argument of the script: the driver's args[i] (or a run of them) it stands for."""
+
+    name: str
+    help: str
+    nargs: str | None = None  # "+": a run of arguments; "*": arguments the job does not read
+    read: bool = True  # the job reads it
+
+
+def argument_slots(params) -> list[Slot]:
+    """The script's positional arguments in the driver's order: args[0], args[1], ..., then a run of
+    arguments a loop reads (or, where only arguments counted from the end follow, those between,
+    unread), then the arguments counted from the end (args[args.length - k] ... args[args.length - 1])."""
+    head = {p.position: p for p in params if p.position is not None and not p.many}
+    run = next((p for p in params if p.many), None)
+    tail = {p.from_end: p for p in params if p.from_end is not None and not p.many}
+
+    def unused(label: str, name: str) -> Slot:
+        return Slot(name, f"{label} of the original driver (not used by this job)", read=False)
+
+    slots = [Slot(p.name, p.help) if p is not None else unused(f"args[{i}]", f"arg{i}")
+             for i, p in ((i, head.get(i)) for i in range(run.position if run else max(head, default=-1) + 1))]
+    if run is not None:
+        slots.append(Slot(run.name, run.help, "+"))
+    elif tail:
+        slots.append(Slot("middle_args", "the arguments between those read by position and those counted from the "
+                                         "end (not used by this job)", "*", read=False))
+    for k in range((run.from_end if run else max(tail, default=0)), 0, -1):
+        p = tail.get(k)
+        slots.append(Slot(p.name, p.help) if p is not None else unused(f"args[args.length - {k}]", f"arg_end_{k}"))
+    return slots
 
 
 MAX_NESTING = 40  # brackets inside brackets: the samples' deepest script has 15
@@ -1219,7 +1256,9 @@ def _signature(plan: Plan, x: ExprWriter) -> tuple[str, str]:
     side files, settings, counters."""
     paths = (*plan.source.params, *(t.param for t in plan.tables))
     upstream = [f"job_{plan.source.upstream + 1}_lines"] if plan.source.upstream is not None else []
-    args = ", ".join([*(f"{u}: DataFrame" for u in upstream), *(f"{p}: str" for p in paths)])
+    many = dict(zip(plan.source.params, plan.source.lists))
+    args = ", ".join([*(f"{u}: DataFrame" for u in upstream),
+                      *(f"{p}: list[str]" if many.get(p) else f"{p}: str" for p in paths)])
     call = ", ".join([*upstream, *(f"args.{p}" for p in paths)])
     if x.settings:
         args, call = args + ", conf: dict[str, str] | None = None", call + ", conf=settings(args.defines)"

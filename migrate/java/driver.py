@@ -3,7 +3,7 @@ from __future__ import annotations
 
 import re
 
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 
 from javalang import tree as T
 
@@ -16,11 +16,24 @@ from migrate.plan import Span
 class PathRef:
     """Where a job path comes from: `args[i]` of the driver, a literal, or something unreadable."""
 
-    kind: str  # "arg" | "literal" | "unknown"
-    index: int | None = None
+    kind: str  # "arg" | "args" (a run of arguments, from a loop over them) | "literal" | "unknown"
+    index: int | None = None  # "arg": args[index]; "args": the run's first argument
     literal: str | None = None
     text: str = ""
     split_commas: bool = False  # FileInputFormat's String overloads read "a,b" as two paths
+    # "arg": args[args.length - from_end] (index None); "args": the run stops from_end before the end
+    from_end: int | None = None
+
+    @property
+    def shown(self) -> str:
+        """How the driver names the argument(s): `args[1]`, `args[args.length - 1]`, `args[0 .. length - 2]`."""
+        if self.kind == "arg" and self.from_end is not None:
+            return f"args[args.length - {self.from_end}]"
+        if self.kind == "arg":
+            return f"args[{self.index}]"
+        if self.kind == "args":
+            return f"args[{self.index} .. args.length - {self.from_end + 1}]"
+        return self.literal if self.kind == "literal" else self.text
 
 
 @dataclass(frozen=True)
@@ -142,7 +155,13 @@ def read_drivers(index: ClassIndex) -> tuple[list[JobSpec], list[tuple[ClassInfo
             problems.append((cls, cls.line_start, "driver has no main(String[]) or run(String[]) that could be read"))
             continue
         try:
-            specs.extend(_read_driver(cls, index, method))
+            found = _read_driver(cls, index, method)
+            specs.extend(found)
+            submits = _submissions(cls)
+            if submits and not found:  # never silence: a job that runs is a job in the report
+                problems.append((cls, submits[0], "the driver submits a job (line "
+                                 f"{', '.join(map(str, submits))}) that mrlift could not read: which Job or JobConf "
+                                 "it runs was not found"))
         except (AttributeError, TypeError, ValueError, KeyError, IndexError, RecursionError) as exc:
             # an unforeseen driver shape must not stop the batch: it is reported with its line
             problems.append((cls, method.position.line if method.position else cls.line_start,
@@ -176,6 +195,17 @@ def _read_driver(cls: ClassInfo, index: ClassIndex, method) -> list[JobSpec]:
             spec.mode = mode
             specs.append(spec)
     return specs
+
+
+def _submissions(cls: ClassInfo) -> list[int]:
+    """Lines of the class that submit a job: waitForCompletion, submit, JobClient.runJob/submitJob,
+    JobControl.run."""
+    lines = []
+    for _, n in cls.node:
+        if isinstance(n, T.MethodInvocation) and (n.member in ("waitForCompletion", "runJob", "submitJob")
+                                                  or n.member == "run" and n.qualifier and "control" in n.qualifier.lower()):
+            lines.append(_line(n) or cls.line_start)
+    return sorted(set(lines))
 
 
 def _entry_method(cls: ClassInfo, index: ClassIndex):
@@ -283,12 +313,58 @@ class _DriverReader:
                 self._stmt(s.then_statement)
             if s.else_statement is not None:
                 self._stmt(s.else_statement)
+        elif isinstance(s, T.ForStatement) and self._argument_loop(s):
+            return
         elif isinstance(s, T.BlockStatement):
             self._block(s.statements)
         elif isinstance(s, T.TryStatement):
             self._block(s.block)
         elif isinstance(s, T.ReturnStatement) and s.expression is not None:
             self._value(s.expression, None)
+
+    def _argument_loop(self, s: T.ForStatement) -> bool:
+        """`for (int i = a; i < args.length - k; i++)` (also `<=`, `++i`, `i += 1`): the body once, with
+        args[i] standing for the run of arguments a .. length - k - 1 (Hadoop's WordCount takes every
+        argument but the last as an input this way). False: not such a loop."""
+        c = s.control
+        if not isinstance(c, T.ForControl) or not isinstance(c.init, T.VariableDeclaration) or \
+                len(c.init.declarators) != 1 or not isinstance(c.condition, T.BinaryOperation):
+            return False
+        i = c.init.declarators[0].name
+        start = self._value(c.init.declarators[0].initializer, None)
+        end = self._value(c.condition.operandr, None)
+        left = c.condition.operandl
+        steps = c.update or []
+        step = steps[0] if len(steps) == 1 else None
+        unit = isinstance(step, T.MemberReference) and step.member == i and not step.qualifier and \
+            (step.postfix_operators or step.prefix_operators or []) == ["++"] or \
+            isinstance(step, T.Assignment) and step.type == "+=" and getattr(step.expressionl, "member", None) == i \
+            and getattr(step.value, "value", None) == "1"
+        if not (unit and start[0] == "int" and start[1] >= 0 and end[0] in ("arglen", "int")
+                and isinstance(left, T.MemberReference) and left.member == i and not left.qualifier
+                and c.condition.operator in ("<", "<=")):
+            return False
+        if end[0] == "int":  # known bounds (an array of literals): the body once per index, in order
+            stop = end[1] + (c.condition.operator == "<=")
+            if stop - start[1] > MAX_ARGUMENTS:
+                return False
+            saved = self.env.get(i)
+            for k in range(start[1], stop):
+                self.env[i] = ("int", k)
+                self._stmt(s.body)
+            self.env.pop(i, None) if saved is None else self.env.__setitem__(i, saved)
+            return True
+        stop = -end[1] - (c.condition.operator == "<=")  # the run ends this many arguments before the end
+        if stop < 0:
+            return False
+        saved = self.env.get(i)
+        self.env[i] = ("argloop", start[1], stop)
+        self._stmt(s.body)
+        if saved is None:
+            self.env.pop(i, None)
+        else:
+            self.env[i] = saved
+        return True
 
     # -- branches on an argument (modes)
     def _branch_on_argument(self, s: T.IfStatement) -> bool:
@@ -382,16 +458,37 @@ class _DriverReader:
             if v.startswith('"'):
                 return ("str", string_value(v))
             if v.lstrip("-").isdigit():
-                return ("int", int(v))
+                return ("int", -int(v) if (e.prefix_operators or []) == ["-"] else int(v))
             return ("lit", v)
         if isinstance(e, T.MemberReference) and (e.qualifier, e.member) in LIBRARY_CONSTANTS:
             return ("str", LIBRARY_CONSTANTS[(e.qualifier, e.member)])
+        if isinstance(e, T.MemberReference) and e.member == "length" and self.env.get(e.qualifier) == ("args",) \
+                and not e.selectors:
+            return ("arglen", 0)  # args.length (+ an offset once arithmetic is done on it)
+        if isinstance(e, T.MemberReference) and e.member == "length" and not e.selectors and \
+                self.env.get(e.qualifier, ("",))[0] == "strs":
+            return ("int", len(self.env[e.qualifier][1]))
+        if isinstance(e, (T.ArrayInitializer, T.ArrayCreator)):  # `{"in", "out"}`, `new String[] {"in", "out"}`
+            items = e.initializers if isinstance(e, T.ArrayInitializer) else \
+                (e.initializer.initializers if e.initializer is not None else None)
+            values = [self._value(x, None) for x in items or []] if items is not None else None
+            if values is not None and all(v[0] == "str" for v in values):
+                return ("strs", tuple(v[1] for v in values))
+            return ("unknown", "array")
         if isinstance(e, T.MemberReference):
             base = self.env.get(e.member, ("unknown", e.member)) if not e.qualifier else ("unknown", f"{e.qualifier}.{e.member}")
             for sel in e.selectors or []:
-                if isinstance(sel, T.ArraySelector) and base[0] == "args" and isinstance(sel.index, T.Literal) \
-                        and re.fullmatch(r"\d{1,3}", sel.index.value) and int(sel.index.value) <= MAX_ARGUMENTS:
-                    base = ("arg", int(sel.index.value))
+                at = self._value(sel.index, None) if isinstance(sel, T.ArraySelector) and base[0] == "args" else None
+                if at is not None and at[0] == "int" and 0 <= at[1] <= MAX_ARGUMENTS:
+                    base = ("arg", at[1])
+                elif at is not None and at[0] == "arglen" and -MAX_ARGUMENTS <= at[1] < 0:
+                    base = ("arg_end", -at[1])  # args[args.length - k]
+                elif at is not None and at[0] == "argloop":
+                    base = ("arg_run", at[1], at[2])  # args[i] for every i of a loop over the arguments
+                elif isinstance(sel, T.ArraySelector) and base[0] == "strs":  # an array of literals
+                    at = self._value(sel.index, None)
+                    base = ("str", base[1][at[1]]) if at[0] == "int" and 0 <= at[1] < len(base[1]) \
+                        else ("unknown", "array element")
                 elif isinstance(sel, T.ArraySelector):
                     base = ("unknown", "array element")
             return base
@@ -428,6 +525,11 @@ class _DriverReader:
             l, r = self._value(e.operandl, None), self._value(e.operandr, None)
             if e.operator == "+" and l[0] == "str" and r[0] == "str":
                 return ("str", l[1] + r[1])
+            if e.operator in ("+", "-") and {l[0], r[0]} == {"int", "arglen"} and not (e.operator == "-" and r[0] == "arglen"):
+                step = r[1] if e.operator == "+" else -r[1]
+                return ("arglen", l[1] + step) if l[0] == "arglen" else ("arglen", r[1] + l[1])
+            if e.operator in ("+", "-") and l[0] == r[0] == "int":
+                return ("int", l[1] + r[1] if e.operator == "+" else l[1] - r[1])
             return ("unknown", "expression")
         if isinstance(e, T.TernaryExpression):
             self._value(e.condition, None)  # `job.waitForCompletion(true) ? 0 : 1` submits the job
@@ -494,6 +596,8 @@ class _DriverReader:
             self.deletes.append((None, line))
             return ("unknown", "bool")
         static = recv[1].split(".")[-1] if recv[0] == "static" else None
+        if static == "ValueAggregatorJob" and m in ("createValueAggregatorJob", "createValueAggregatorJobs"):
+            return self._aggregate_job(recv[1], where, args, line)
         if m in ("get", "getLocal", "newInstance") and static == "FileSystem" or m == "getFileSystem":
             for a in args:
                 self._value(a, None)
@@ -580,6 +684,25 @@ class _DriverReader:
         self.order.append(jid)
         return ("job", jid)
 
+    def _aggregate_job(self, builder: str, where, args, line: int) -> tuple:
+        """Hadoop's aggregate framework builds the job itself (ValueAggregatorJob): its own mapper,
+        combiner and reducer, driven by descriptor classes; input args[0] (a String: commas split
+        it), output args[1], per ValueAggregatorJob.createValueAggregatorJob."""
+        job = self._new_job(where, None, [])
+        spec = self.specs[job[1]]
+        fq = self.index.resolve(builder, self.cls) or builder
+        package = "org.apache.hadoop.mapred.lib.aggregate" if ".mapred." in fq else "org.apache.hadoop.mapreduce.lib.aggregate"
+        spec.api = "mapred" if ".mapred." in fq else "mapreduce"
+        for role in ("mapper", "combiner", "reducer"):
+            spec.classes[role] = f"{package}.ValueAggregator{role.capitalize()}"
+        if args and self._value(args[0], None) == ("args",):
+            spec.inputs.append(PathRef("arg", index=0, split_commas=True))
+            spec.output = PathRef("arg", index=1)
+        spec.extra.append(("job-builder", line, "Hadoop's aggregate framework (ValueAggregatorJob) builds this job: "
+                                                "its own mapper, combiner and reducer run the aggregations that the "
+                                                "descriptor classes' generateKeyValPairs() names"))
+        return job
+
     def _submit(self, jid: str) -> None:
         if jid not in self.submitted:
             self.submitted.append(jid)
@@ -646,8 +769,8 @@ class _DriverReader:
             for a in args[1:]:
                 v = self._value(a, None)
                 ref = self._path_ref(v, a)
-                if v[0] in ("str", "arg"):  # the String overloads split on commas; a Path does not
-                    ref = PathRef(ref.kind, ref.index, ref.literal, ref.text, split_commas=True)
+                if v[0] in ("str", "arg", "arg_end", "arg_run"):  # the String overloads split on commas; a Path does not
+                    ref = replace(ref, split_commas=True)
                 spec.inputs.append(ref)
         elif m == "setOutputPath" and len(args) > 1:
             spec.output = self._path_ref(self._value(args[1], None), args[1])
@@ -702,6 +825,10 @@ class _DriverReader:
             return v[1]
         if v[0] == "arg":
             return PathRef("arg", index=v[1])
+        if v[0] == "arg_end":
+            return PathRef("arg", from_end=v[1])
+        if v[0] == "arg_run":
+            return PathRef("args", index=v[1], from_end=v[2])
         if v[0] == "str":
             return PathRef("literal", literal=v[1])
         return PathRef("unknown", text=str(v[1]))

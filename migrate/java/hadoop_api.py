@@ -38,6 +38,9 @@ KNOWN_CLASSES: dict[str, str] = {
     f"{MAPRED}.lib.IdentityMapper": "lib-mapper",
     f"{MAPRED}.lib.IdentityReducer": "lib-reducer",
     f"{MAPRED}.lib.LongSumReducer": "lib-reducer",
+    # the aggregate framework's own classes (ValueAggregatorJob sets them): known, not converted
+    **{f"{api}.lib.aggregate.ValueAggregator{role}": f"lib-{role.lower()}"
+       for api in (MAPREDUCE, MAPRED) for role in ("Mapper", "Reducer", "Combiner")},
 }
 
 # Writable classes -> the Java value type they hold (None = NullWritable).

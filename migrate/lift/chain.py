@@ -53,7 +53,7 @@ def _same_driver(a: JobResult, b: JobResult) -> bool:
 
 def _same_path(a: PathRef | None, b: PathRef | None) -> bool:
     return a is not None and b is not None and a.kind in ("arg", "literal") and \
-        (a.kind, a.index, a.literal) == (b.kind, b.index, b.literal)
+        (a.kind, a.index, a.literal, a.from_end) == (b.kind, b.index, b.literal, b.from_end)
 
 
 def why_not_chained(group: list[JobResult]) -> str | None:
@@ -120,7 +120,7 @@ def _pipeline(group: list[JobResult]) -> JobResult:
         stages.append(Stage(replace(plan, hand_work=tuple(h for h in plan.hand_work if h.category != CHAINED)),
                             folder, Span(job.spec.driver.file.path, line, line)))
     final = _reads_previous(last.plan, len(group))
-    plan = replace(final, params=tuple(sorted(params, key=lambda q: (q.position is None, q.position or 0))),
+    plan = replace(final, params=tuple(sorted(params, key=lambda q: (not q.positional, q.position or 0))),
                    hand_work=tuple(hand), notes=tuple(notes), findings=tuple(findings), shapes=tuple(
                        [f"{len(group)} chained jobs"] + shapes), upstream=tuple(stages))
     spec = replace(last.spec, name=" → ".join(j.spec.name for j in group))

@@ -96,6 +96,7 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
         input_params.append("input_path")
     out_ref = spec.output or PathRef("unknown", text="not set")
     params.append(_param("output_path", out_ref, "output folder"))
+    params = _argument_layout(params, add, spec.origin)
     mode = _mode_check(spec, params)
     if out_ref.kind == "unknown":
         add("driver", spec.origin, "the driver's output path could not be read", "pass the output folder by hand")
@@ -343,6 +344,7 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
                 sort_terms=sort_terms, compression=compression)
     splits = tuple(ref.split_commas for ref in spec.inputs) or (False,)
     source = Source(tuple(input_params), fmt, skip_first, splits, _reads_file_name(steps), spec.origin, kv_sep,
+                    lists=tuple(ref.kind == "args" for ref in spec.inputs) or (False,),
                     offsets=_reads_offsets(steps, fmt) and not branches,
                     split=split_settings(spec.conf) if task_order else ())
     plan = Plan(spec.name, source, tuple(steps), reduce, sink, tuple(params), tuple(hand), tuple(dict.fromkeys(shapes)),
@@ -352,9 +354,11 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
 
 
 # Driver items whose text is the whole reason (not "… is not converted in this version").
-WHOLE_REASONS = {"not-submitted", "io-outside-output", "unread-jobs", "conditional-settings"}
+WHOLE_REASONS = {"not-submitted", "io-outside-output", "unread-jobs", "conditional-settings", "job-builder"}
 # What to write by hand for the driver features this version does not convert (common practice).
 EXTRA_ADVICE = {
+    "job-builder": "write each aggregation the descriptors name (LongValueSum, ValueHistogram, ...) as a groupBy "
+                   "with the matching F function; the descriptor's generateKeyValPairs() is the map step",
     "conditional-settings": "convert the job once per branch (make the test a fixed value), or give the script an "
                             "option that picks the same settings the test picks",
     "unread-jobs": "convert the other job too (its mapper, reducer and paths), then chain the two in one script: "
@@ -864,11 +868,35 @@ def _mode_check(spec: JobSpec, params: list[Param]) -> ModeCheck | None:
 
 
 def _param(name: str, ref: PathRef, what: str) -> Param:
+    if ref.kind == "arg" and ref.from_end is not None:
+        return Param(name, f"{what} ({ref.shown} of the original driver)", None, None, from_end=ref.from_end)
+    if ref.kind == "args":
+        return Param(name, f"{what}s ({ref.shown} of the original driver, read by a loop)", ref.index, None,
+                     many=True, from_end=ref.from_end)
     if ref.kind == "arg":
         return Param(name, f"{what} (args[{ref.index}] of the original driver)", ref.index, None)
     if ref.kind == "literal":
         return Param(name, f"{what} (hard-coded in the original driver)", None, ref.literal)
     return Param(name, f"{what} (the driver computed it: {ref.text})", None, None)
+
+
+def _argument_layout(params: list[Param], add, where: Span) -> list[Param]:
+    """The arguments read by position, a run read by a loop, and those counted from the end must
+    follow each other in that order on the command line; where they overlap (a loop from args[1]
+    and args[2] read too) the script takes the arguments of the run and after it as options."""
+    runs = [p for p in params if p.many]
+    run = runs[0] if runs else None
+    head = [p.position for p in params if p.position is not None and not p.many]
+    tail = [p.from_end for p in params if p.from_end is not None and not p.many]
+    clash = len(runs) > 1 or run is not None and (any(i >= run.position for i in head)
+                                                  or any(k > run.from_end for k in tail))
+    if not clash:
+        return params
+    add("driver", where, "the driver reads arguments by position, in a loop and counted from the end in an order "
+        "the script cannot take them in: the arguments of the loop and after it are options", "pass them by name",
+        "P1")
+    return [replace(p, position=None, from_end=None, many=False) if p.many or p.from_end is not None else p
+            for p in params]
 
 
 def _jtype(fq: str, structs: dict | None = None) -> str:

@@ -148,26 +148,31 @@ def runs_from_folder(report: dict, data: Path) -> tuple[dict[str, JobRun], dict[
         if not folder.is_dir():
             continue
         slots: dict[int, str] = {}
+        tail: dict[int, str] = {}  # arguments counted from the end: args[length - k]
+        ends = [a["from_end"] for a in job["arguments"] if a.get("many")]  # a run stops k before the end
         problem = None
         for a in job["arguments"]:
-            if a["position"] is None:
+            if a["position"] is None and a.get("from_end") is None:
                 continue
+            at = tail if a["position"] is None else slots
+            where = a["from_end"] if a["position"] is None else a["position"]
             if a["name"] in ("input_path",):
-                slots[a["position"]] = str(folder.resolve())
+                at[where] = str(folder.resolve())
             elif a["name"] == "output_path":
-                slots[a["position"]] = "@out"
+                at[where] = "@out"
             elif a["name"] == "mode" and (job.get("mode") or {}).get("value") is not None:
-                slots[a["position"]] = job["mode"]["value"]  # the value that picks this job's branch
+                at[where] = job["mode"]["value"]  # the value that picks this job's branch
             elif re.fullmatch(r"job_\d+_output", a["name"]):
-                slots[a["position"]] = "@tmp" + a["name"].split("_")[1]
+                at[where] = "@tmp" + a["name"].split("_")[1]
             else:
                 problem = f"argument {a['name']} needs a value: give this job a line in a runs file (--runs)"
-        if problem is None and sorted(slots) != list(range(len(slots))):
+        if problem is None and (sorted(slots) != list(range(len(slots)))
+                                or sorted(tail) != list(range(1, len(tail) + 1)) or ends and ends != [len(tail)]):
             problem = "the driver's arguments are not all known: use a runs file (--runs)"
         if problem:
             why[job["driver"]] = problem
             continue
-        args = tuple(slots[i] for i in sorted(slots))
+        args = tuple(slots[i] for i in sorted(slots)) + tuple(tail[k] for k in sorted(tail, reverse=True))
         runs[job["driver"] if not job.get("mode") else f"{job['driver']}#{job['script']}"] = JobRun(job["driver"], args, None, (), str(folder), str(data.resolve()),
                                      tuple(i for i, a in enumerate(args) if not a.startswith("@")))
     return runs, why

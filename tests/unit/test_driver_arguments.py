@@ -1,0 +1,106 @@
+"""A driver's arguments as a small program reads them (java.driver): every argument but the last
+added as an input by a loop (`for (int i = 0; i < args.length - 1; ++i)`, the form of Hadoop's own
+WordCount example), the output as `args[args.length - 1]`, arrays of literal paths walked by a loop
+with known bounds. The script takes the same command line: a run of inputs, then the output."""
+from __future__ import annotations
+
+import pytest
+
+from migrate.gen.pyspark import argument_slots
+from tests.helpers import HEADER, scan_text, verify_one_job
+
+MAPPER = """
+  public static class M extends Mapper<LongWritable, Text, Text, IntWritable> {
+    private final IntWritable one = new IntWritable(1);
+    protected void map(LongWritable k, Text v, Context c) throws IOException, InterruptedException {
+      for (String w : v.toString().split(" ")) {
+        if (!w.isEmpty()) c.write(new Text(w), one);
+      }
+    }
+  }
+  public static class R extends Reducer<Text, IntWritable, Text, IntWritable> {
+    protected void reduce(Text k, Iterable<IntWritable> vs, Context c) throws IOException, InterruptedException {
+      int n = 0;
+      for (IntWritable v : vs) n += v.get();
+      c.write(k, new IntWritable(n));
+    }
+  }
+"""
+
+LOOP = """    for (int i = 0; i < otherArgs.length - 1; ++i) {
+      FileInputFormat.addInputPath(job, new Path(otherArgs[i]));
+    }
+    FileOutputFormat.setOutputPath(job, new Path(otherArgs[otherArgs.length - 1]));"""
+
+
+def _job(paths: str, args: str = "new GenericOptionsParser(conf, args).getRemainingArgs()") -> str:
+    return HEADER + "import org.apache.hadoop.util.GenericOptionsParser;\npublic class Main {\n" + MAPPER + f"""
+  public static void main(String[] args) throws Exception {{
+    Configuration conf = new Configuration();
+    String[] otherArgs = {args};
+    if (otherArgs.length < 2) {{
+      System.err.println("Usage: wordcount <in> [<in>...] <out>");
+      System.exit(2);
+    }}
+    Job job = Job.getInstance(conf, "word count");
+    job.setMapperClass(M.class); job.setReducerClass(R.class);
+    job.setOutputKeyClass(Text.class); job.setOutputValueClass(IntWritable.class);
+{paths}
+    System.exit(job.waitForCompletion(true) ? 0 : 1);
+  }}
+}}
+"""
+
+
+def test_every_argument_but_the_last_as_inputs_matches_hadoop(tmp_path):
+    """Three input folders, the output last: Hadoop's local runner and the script given the same arguments."""
+    data = {"a/1.txt": b"the quay the mill\n", "b/2.txt": b"mill ferry\n\nthe\n", "c/3.txt": b"bell the\n"}
+    check = verify_one_job(tmp_path, _job(LOOP), data, args=["data/a", "data/b", "data/c", "@out"])
+    assert check.verdict == "agrees", check.detail
+
+
+def _plan(tmp_path, source: str):
+    (job,) = scan_text(tmp_path, {"Main.java": source}).jobs
+    return job
+
+
+@pytest.mark.parametrize("loop", [
+    LOOP,
+    LOOP.replace("i < otherArgs.length - 1", "i <= otherArgs.length - 2").replace("++i", "i += 1"),
+    LOOP.replace("otherArgs.length - 1;", "-1 + otherArgs.length;").replace("++i", "i++"),
+])
+def test_the_script_takes_a_run_of_inputs_then_the_output(tmp_path, loop):
+    job = _plan(tmp_path, _job(loop))
+    assert job.status == "converted", [h.reason for h in job.plan.hand_work]
+    slots = [(s.name, s.nargs) for s in argument_slots(job.plan.params)]
+    assert slots == [("input_path", "+"), ("output_path", None)]
+    assert job.plan.source.lists == (True,)
+
+
+def test_a_loop_from_the_second_argument_keeps_the_first_by_position(tmp_path):
+    loop = LOOP.replace("int i = 0", "int i = 1") + '\n    job.getConfiguration().set("label", otherArgs[0]);'
+    slots = [(s.name, s.nargs, s.read) for s in argument_slots(_plan(tmp_path, _job(loop)).plan.params)]
+    assert slots == [("arg0", None, False), ("input_path", "+", True), ("output_path", None, True)]
+
+
+def test_the_output_counted_from_the_end_with_one_input_by_position(tmp_path):
+    paths = ("    FileInputFormat.addInputPath(job, new Path(otherArgs[0]));\n"
+             "    FileOutputFormat.setOutputPath(job, new Path(otherArgs[otherArgs.length - 1]));")
+    job = _plan(tmp_path, _job(paths))
+    slots = [(s.name, s.nargs, s.read) for s in argument_slots(job.plan.params)]
+    assert slots == [("input_path", None, True), ("middle_args", "*", False), ("output_path", None, True)]
+
+
+def test_arguments_read_out_of_order_become_options(tmp_path):
+    """A loop over every argument but the last that also adds args[0] by position: the command line
+    cannot be laid out in the driver's order, so the script says so and takes them by name."""
+    loop = LOOP + "\n    FileInputFormat.addInputPath(job, new Path(otherArgs[0]));"
+    job = _plan(tmp_path, _job(loop))
+    assert any("in an order the script cannot take them in" in h.reason for h in job.plan.hand_work)
+
+
+def test_a_literal_array_of_paths_walked_by_a_loop(tmp_path):
+    """`String[] otherArgs = {"in/a", "in/b", "out"}`: the loop's bounds are known, each path is a literal."""
+    job = _plan(tmp_path, _job(LOOP, args='{"in/a", "in/b", "out/words"}'))
+    assert [(p.name, p.default, p.positional) for p in job.plan.params] == \
+        [("input_path_1", "in/a", False), ("input_path_2", "in/b", False), ("output_path", "out/words", False)]
