@@ -593,6 +593,8 @@ class Plan:
     tables: tuple[SideTable, ...] = ()  # side files the mappers look rows up in
     upstream: tuple["Stage", ...] = ()  # chained jobs: the earlier jobs of the driver, in order
     mode: ModeCheck | None = None  # a driver that picks its job by an argument: the branch this job is
+    # job settings the driver sets from its arguments (`conf.set(name, args[i])`): (setting, param)
+    arg_settings: tuple[tuple[str, str], ...] = ()
 
     def __post_init__(self) -> None:
         if not self.map_steps or not isinstance(self.map_steps[-1], Project):

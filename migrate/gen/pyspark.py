@@ -290,8 +290,10 @@ class ExprWriter:
             if len(args) == 1:
                 return f"java_tokens({self(args[0])})"
             return f"java_tokens({self(args[0])}, {tokenizer_regex(args[1].value)!r})"
-        if op == "regex_matches":
-            return f"F.regexp_extract_all({self(args[0])}, F.lit({self.regex(args[1])}), {args[2].value})"
+        if op == "regex_matches":  # Spark's regexp functions use java.util.regex, as RegexMapper does
+            pattern = f"F.lit({self.regex(args[1])})" if isinstance(args[1], Lit) else self(args[1])
+            group = args[2].value if isinstance(args[2], Lit) else self(args[2])
+            return f"F.regexp_extract_all({self(args[0])}, {pattern}, {group})"
         if op == "index":
             if e.on_error == "null":
                 return f"F.get({self(args[0])}, {self(args[1]) if not isinstance(args[1], Lit) else args[1].value})"
@@ -1261,7 +1263,9 @@ def _signature(plan: Plan, x: ExprWriter) -> tuple[str, str]:
                       *(f"{p}: list[str]" if many.get(p) else f"{p}: str" for p in paths)])
     call = ", ".join([*upstream, *(f"args.{p}" for p in paths)])
     if x.settings:
-        args, call = args + ", conf: dict[str, str] | None = None", call + ", conf=settings(args.defines)"
+        given = "".join(f", {name!r}: args.{param}" for name, param in plan.arg_settings)
+        conf = f"{{**settings(args.defines){given}}}" if given else "settings(args.defines)"
+        args, call = args + ", conf: dict[str, str] | None = None", call + f", conf={conf}"
     if x.counters:
         args, call = args + ", counters: HadoopCounters | None = None", call + ", counters=counters"
     return args, call

@@ -7,8 +7,10 @@ mappers read the input key, which on TextInputFormat is the byte offset (Source.
 """
 from __future__ import annotations
 
+import re
+
 from migrate.java.hadoop_api import MAPRED, MAPREDUCE
-from migrate.plan import Agg, AggRef, Call, Col, Emit, Explode, Group, Identity, Lit, Project, Span, Step
+from migrate.plan import Agg, AggRef, Call, Col, ConfValue, Emit, Explode, Group, Identity, Lit, Project, Span, Step
 from migrate.lift.exprs import BYTE_OFFSET
 
 TOKEN_MAPPERS = {f"{MAPREDUCE}.lib.map.TokenCounterMapper", f"{MAPRED}.lib.TokenCountMapper"}
@@ -33,15 +35,20 @@ def library_mapper(fqcn: str | None, input_fmt: str, conf: dict[str, str]) -> tu
                 Project(LIB, "emit (token, 1)", (Emit(LIB, "write(token, one)", Col("String", "token"), Lit("int", 1)),))], ""
     if fqcn in REGEX_MAPPERS:
         pattern_key, group_key = REGEX_MAPPERS[fqcn]
-        if pattern_key not in conf or conf[pattern_key].startswith("<"):
-            source = conf.get(pattern_key, "")
-            if source.startswith("<args["):  # the pattern is a command-line argument of the driver
-                return None, (f"RegexMapper's pattern `{pattern_key}` is the driver's {source[1:-1]}, an argument "
-                              "given at run time; the script does not take it yet")
+        source, group_text = conf.get(pattern_key, ""), conf.get(group_key, "0")
+        if pattern_key not in conf or source.startswith("<") and not _argument(source):
             return None, f"RegexMapper needs `{pattern_key}`, which the driver does not set to a constant"
-        group = int(conf.get(group_key, "0"))
-        matches = Call("String[]", "regex_matches", (value, Lit("String", conf[pattern_key]), Lit("int", group)))
-        return [Explode(LIB, f"every match of {conf[pattern_key]!r}", "match", matches),
+        # a pattern (or group) the driver takes from its arguments is a job setting the script is given
+        pattern = ConfValue("String", pattern_key, "get", None, "regex_pattern") if _argument(source) \
+            else Lit("String", source)
+        if group_text.startswith("<") and not _argument(group_text) or \
+                not group_text.startswith("<") and not group_text.strip().isdigit():
+            return None, f"RegexMapper's group `{group_key}` is not a number the driver sets"
+        group = ConfValue("int", group_key, "getInt", 0, "regex_group") if _argument(group_text) \
+            else Lit("int", int(group_text))
+        matches = Call("String[]", "regex_matches", (value, pattern, group))
+        shown = repr(source) if isinstance(pattern, Lit) else f"the pattern given as {source[1:-1]}"
+        return [Explode(LIB, f"every match of {shown}", "match", matches),
                 Project(LIB, "emit (match, 1L)", (Emit(LIB, "write(match, 1L)", Col("String", "match"), Lit("long", 1)),))], ""
     if fqcn in INVERSE_MAPPERS or fqcn in IDENTITY_MAPPERS:
         if input_fmt == "other":
@@ -54,6 +61,11 @@ def library_mapper(fqcn: str | None, input_fmt: str, conf: dict[str, str]) -> tu
         return [Project(LIB, "emit the pair unchanged" if pair[0] is k else "emit (value, key)",
                         (Emit(LIB, "write", pair[0], pair[1]),))], ""
     return None, f"{fqcn} is not a Hadoop library mapper the converter knows"
+
+
+def _argument(text: str) -> bool:
+    """A driver's `conf.set` value that is one of its arguments (`<args[i]>`)."""
+    return re.fullmatch(r"<args\[\d+\]>", text) is not None
 
 
 def library_reducer(fqcn: str | None, key_type: str, value_type: str) -> Step | None:

@@ -1,6 +1,7 @@
 """Assemble one job's Plan from its JobSpec: source, map steps, reduce fold, sink, hand work."""
 from __future__ import annotations
 
+import re
 from dataclasses import dataclass, field, replace
 
 from javalang import tree as T
@@ -97,6 +98,7 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
     out_ref = spec.output or PathRef("unknown", text="not set")
     params.append(_param("output_path", out_ref, "output folder"))
     params = _argument_layout(params, add, spec.origin)
+    arg_settings = _settings_from_arguments(spec, params)
     mode = _mode_check(spec, params)
     if out_ref.kind == "unknown":
         add("driver", spec.origin, "the driver's output path could not be read", "pass the output folder by hand")
@@ -348,7 +350,7 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
                     offsets=_reads_offsets(steps, fmt) and not branches,
                     split=split_settings(spec.conf) if task_order else ())
     plan = Plan(spec.name, source, tuple(steps), reduce, sink, tuple(params), tuple(hand), tuple(dict.fromkeys(shapes)),
-                tuple(notes), tuple(findings), tuple(branches), tuple(tables), mode=mode)
+                tuple(notes), tuple(findings), tuple(branches), tuple(tables), mode=mode, arg_settings=arg_settings)
     sloc = sum(c.sloc for c in {index.get(fq) for fq in classes.values()} if c is not None)
     return JobResult(spec, plan, classes, files, sloc, notes)
 
@@ -878,6 +880,32 @@ def _param(name: str, ref: PathRef, what: str) -> Param:
     if ref.kind == "literal":
         return Param(name, f"{what} (hard-coded in the original driver)", None, ref.literal)
     return Param(name, f"{what} (the driver computed it: {ref.text})", None, None)
+
+
+def _settings_from_arguments(spec: JobSpec, params: list[Param]) -> tuple[tuple[str, str], ...]:
+    """`conf.set(name, args[i])` in the driver: the script takes args[i] at the same place and hands it
+    to the job as that setting (after any `-D`, which GenericOptionsParser applied before the driver ran)."""
+    out = []
+    taken = {p.name for p in params}
+    for name, text in spec.conf.items():
+        m = re.fullmatch(r"<args\[(\d+)\]>", text)
+        if m is None:
+            continue
+        i = int(m.group(1))
+        held = next((p for p in params if p.position == i and not p.many), None)
+        if held is None:
+            slug = re.sub(r"\W+", "_", name).strip("_").lower() or "setting"
+            param = slug if slug not in taken and slug not in RESERVED_OPTIONS and slug.isidentifier() \
+                else f"setting_{len(out) + 1}"
+            taken.add(param)
+            held = Param(param, f"job setting {name} (args[{i}] of the original driver)", i, None)
+            params.append(held)
+        out.append((name, held.name))
+    return tuple(out)
+
+
+# names argparse already uses in every script (dests of the options the template adds)
+RESERVED_OPTIONS = {"defines", "time_zone", "task_files", "keep_intermediates", "dry_run", "explain", "help"}
 
 
 def _argument_layout(params: list[Param], add, where: Span) -> list[Param]:

@@ -104,3 +104,46 @@ def test_a_literal_array_of_paths_walked_by_a_loop(tmp_path):
     job = _plan(tmp_path, _job(LOOP, args='{"in/a", "in/b", "out/words"}'))
     assert [(p.name, p.default, p.positional) for p in job.plan.params] == \
         [("input_path_1", "in/a", False), ("input_path_2", "in/b", False), ("output_path", "out/words", False)]
+
+
+def test_a_setting_taken_from_an_argument_matches_hadoop(tmp_path):
+    """`conf.set("min.count", args[2])`, read in the reducer's setup(): the script takes args[2] in the
+    same place and hands it to the job as that setting."""
+    source = _job("    FileInputFormat.addInputPath(job, new Path(otherArgs[0]));\n"
+                  "    FileOutputFormat.setOutputPath(job, new Path(otherArgs[1]));")
+    source = source.replace('Configuration conf = new Configuration();',
+                            'Configuration conf = new Configuration();\n    conf.set("min.count", args[2]);')
+    source = source.replace("  public static class R extends Reducer<Text, IntWritable, Text, IntWritable> {",
+                            "  public static class R extends Reducer<Text, IntWritable, Text, IntWritable> {\n"
+                            "    private int min;\n"
+                            "    protected void setup(Context c) { min = c.getConfiguration().getInt(\"min.count\", 1); }")
+    source = source.replace("      c.write(k, new IntWritable(n));", "      if (n >= min) c.write(k, new IntWritable(n));")
+    data = {"1.txt": b"the quay the mill\nmill ferry the\nbell\n"}
+    check = verify_one_job(tmp_path, source, data, args=["data", "@out", "2"])
+    assert check.verdict == "agrees", check.detail
+
+
+def test_a_regex_mapper_pattern_taken_from_an_argument_matches_hadoop(tmp_path):
+    """Hadoop's RegexMapper with its pattern and group the driver's arguments (as Hadoop's Grep example
+    sets them); Spark's regexp functions use java.util.regex as RegexMapper does."""
+    source = HEADER + """import org.apache.hadoop.mapreduce.lib.map.RegexMapper;
+import org.apache.hadoop.mapreduce.lib.reduce.LongSumReducer;
+public class Main {
+  public static void main(String[] args) throws Exception {
+    Configuration conf = new Configuration();
+    conf.set(RegexMapper.PATTERN, args[2]);
+    conf.set(RegexMapper.GROUP, args[3]);
+    Job job = Job.getInstance(conf, "dock codes");
+    job.setMapperClass(RegexMapper.class);
+    job.setCombinerClass(LongSumReducer.class);
+    job.setReducerClass(LongSumReducer.class);
+    job.setOutputKeyClass(Text.class); job.setOutputValueClass(LongWritable.class);
+    FileInputFormat.setInputPaths(job, args[0]);
+    FileOutputFormat.setOutputPath(job, new Path(args[1]));
+    System.exit(job.waitForCompletion(true) ? 0 : 1);
+  }
+}
+"""
+    data = {"1.txt": b"dock-12 to dock-7, dock-12 again\nno docks here\ndock-7dock-9\n"}
+    check = verify_one_job(tmp_path, source, data, args=["data", "@out", "dock-([0-9]+)", "1"])
+    assert check.verdict == "agrees", check.detail
