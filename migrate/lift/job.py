@@ -97,8 +97,8 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
         input_params.append("input_path")
     out_ref = spec.output or PathRef("unknown", text="not set")
     params.append(_param("output_path", out_ref, "output folder"))
-    params = _argument_layout(params, add, spec.origin)
     arg_settings = _settings_from_arguments(spec, params)
+    params = _argument_layout(params, add, spec.origin)
     mode = _mode_check(spec, params)
     if out_ref.kind == "unknown":
         add("driver", spec.origin, "the driver's output path could not be read", "pass the output folder by hand")

@@ -80,7 +80,7 @@ def test_the_script_takes_a_run_of_inputs_then_the_output(tmp_path, loop):
 def test_a_loop_from_the_second_argument_keeps_the_first_by_position(tmp_path):
     loop = LOOP.replace("int i = 0", "int i = 1") + '\n    job.getConfiguration().set("label", otherArgs[0]);'
     slots = [(s.name, s.nargs, s.read) for s in argument_slots(_plan(tmp_path, _job(loop)).plan.params)]
-    assert slots == [("arg0", None, False), ("input_path", "+", True), ("output_path", None, True)]
+    assert slots == [("label", None, True), ("input_path", "+", True), ("output_path", None, True)]
 
 
 def test_the_output_counted_from_the_end_with_one_input_by_position(tmp_path):
