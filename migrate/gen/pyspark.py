@@ -1281,6 +1281,7 @@ def _stage(st: Stage, i: int, reader: Plan) -> dict:
         if sink.sorted_by_key else "result"
     return {"n": i + 1, "plan": st.plan, "body": parts.body, "x": x, "uses_window": parts.uses_window,
             "build_args": args, "build_call": call, "output": st.output.name, "sink": sink, "order": order,
+            "computed": st.output.default == "" and not st.output.positional,
             # a map-only reader writes lines in input order; a mapper with per-task state reads them in order
             "where": _where(st.origin), "in_order": not reader.sink.sorted_by_key or bool(reader.source.split)}
 

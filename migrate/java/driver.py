@@ -16,7 +16,9 @@ from migrate.plan import Span
 class PathRef:
     """Where a job path comes from: `args[i]` of the driver, a literal, or something unreadable."""
 
-    kind: str  # "arg" | "args" (a run of arguments, from a loop over them) | "literal" | "unknown"
+    # "arg" | "args" (a run of arguments, from a loop over them) | "literal" | "computed" (made at run
+    # time: from arguments, or held in a local; `text` says how, and names it) | "unknown"
+    kind: str
     index: int | None = None  # "arg": args[index]; "args": the run's first argument
     literal: str | None = None
     text: str = ""
@@ -197,6 +199,11 @@ def _read_driver(cls: ClassInfo, index: ClassIndex, method) -> list[JobSpec]:
     return specs
 
 
+def _shown(v: tuple) -> str:
+    """A driver value as the report shows a path made from it."""
+    return {"str": lambda: '"' + v[1] + '"', "arg": lambda: f"args[{v[1]}]"}.get(v[0], lambda: str(v[1]))()
+
+
 def _submissions(cls: ClassInfo) -> list[int]:
     """Lines of the class that submit a job: waitForCompletion, submit, JobClient.runJob/submitJob,
     JobControl.run."""
@@ -292,7 +299,11 @@ class _DriverReader:
         if isinstance(s, T.LocalVariableDeclaration):
             for d in s.declarators:
                 if d.initializer is not None:
-                    self.env[d.name] = self._value(d.initializer, d.name)
+                    v = self._value(d.initializer, d.name)
+                    if v[0] == "path" and v[1].kind == "unknown":  # a folder made at run time (a random or
+                        # timed name): the local names it, so the jobs that use it are seen to share it
+                        v = ("path", PathRef("computed", text=f"`{d.name}` ({v[1].text}, line {_line(s)})"))
+                    self.env[d.name] = v
         elif isinstance(s, T.StatementExpression):
             e = s.expression
             if isinstance(e, T.Assignment) and isinstance(e.expressionl, T.MemberReference):
@@ -528,6 +539,8 @@ class _DriverReader:
             if e.operator in ("+", "-") and {l[0], r[0]} == {"int", "arglen"} and not (e.operator == "-" and r[0] == "arglen"):
                 step = r[1] if e.operator == "+" else -r[1]
                 return ("arglen", l[1] + step) if l[0] == "arglen" else ("arglen", r[1] + l[1])
+            if e.operator == "+" and {l[0], r[0]} <= {"str", "arg", "computed"} and {l[0], r[0]} != {"str"}:
+                return ("computed", f"{_shown(l)} + {_shown(r)}")  # `args[1] + "_tmp"`: the same text, the same folder
             if e.operator in ("+", "-") and l[0] == r[0] == "int":
                 return ("int", l[1] + r[1] if e.operator == "+" else l[1] - r[1])
             return ("unknown", "expression")
@@ -823,6 +836,8 @@ class _DriverReader:
     def _path_ref(self, v: tuple, node) -> PathRef:
         if v[0] == "path":
             return v[1]
+        if v[0] == "computed":
+            return PathRef("computed", text=v[1])
         if v[0] == "arg":
             return PathRef("arg", index=v[1])
         if v[0] == "arg_end":

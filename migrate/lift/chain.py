@@ -52,8 +52,9 @@ def _same_driver(a: JobResult, b: JobResult) -> bool:
 
 
 def _same_path(a: PathRef | None, b: PathRef | None) -> bool:
-    return a is not None and b is not None and a.kind in ("arg", "literal") and \
-        (a.kind, a.index, a.literal, a.from_end) == (b.kind, b.index, b.literal, b.from_end)
+    """The same folder: the same argument, literal, or path computed the same way (or held in one local)."""
+    return a is not None and b is not None and a.kind in ("arg", "literal", "computed") and \
+        (a.kind, a.index, a.literal, a.from_end, a.text) == (b.kind, b.index, b.literal, b.from_end, b.text)
 
 
 def why_not_chained(group: list[JobResult]) -> str | None:
@@ -113,6 +114,8 @@ def _pipeline(group: list[JobResult]) -> JobResult:
         folder = replace(out_param, name=f"job_{k}_output",
                          help=out_param.help.replace("output folder", f"output folder of job {k}", 1)
                          + f"; job {k + 1} gets the lines directly: written only with --keep-intermediates")
+        if job.spec.output.kind == "computed":  # made at run time: asked for only to keep it
+            folder = replace(folder, default="", help=folder.help + ", then to this folder")
         params.append(folder)
         line = next((job.spec.call_lines[c] for c in ("waitForCompletion", "submit", "runJob") if c in job.spec.call_lines),
                     job.spec.origin.line_start)

@@ -147,3 +147,63 @@ public class Main {
     data = {"1.txt": b"dock-12 to dock-7, dock-12 again\nno docks here\ndock-7dock-9\n"}
     check = verify_one_job(tmp_path, source, data, args=["data", "@out", "dock-([0-9]+)", "1"])
     assert check.verdict == "agrees", check.detail
+
+
+TWO_JOBS = HEADER + """
+public class Main {
+  public static class Words extends Mapper<LongWritable, Text, Text, IntWritable> {
+    protected void map(LongWritable k, Text v, Context c) throws IOException, InterruptedException {
+      for (String w : v.toString().split(" ")) {
+        if (!w.isEmpty()) c.write(new Text(w), new IntWritable(1));
+      }
+    }
+  }
+  public static class Sum extends Reducer<Text, IntWritable, Text, IntWritable> {
+    protected void reduce(Text k, Iterable<IntWritable> vs, Context c) throws IOException, InterruptedException {
+      int n = 0;
+      for (IntWritable v : vs) n += v.get();
+      c.write(k, new IntWritable(n));
+    }
+  }
+  public static class Repeated extends Mapper<LongWritable, Text, Text, Text> {
+    protected void map(LongWritable k, Text v, Context c) throws IOException, InterruptedException {
+      String[] f = v.toString().split("\\t");
+      if (Integer.parseInt(f[1]) > 1) c.write(new Text(f[0]), new Text(f[1]));
+    }
+  }
+  public static void main(String[] args) throws Exception {
+    Configuration conf = new Configuration();
+    MIDDLE
+    Job count = Job.getInstance(conf, "count");
+    count.setMapperClass(Words.class); count.setReducerClass(Sum.class);
+    count.setOutputKeyClass(Text.class); count.setOutputValueClass(IntWritable.class);
+    FileInputFormat.addInputPath(count, new Path(args[0]));
+    FileOutputFormat.setOutputPath(count, middle);
+    if (!count.waitForCompletion(true)) System.exit(1);
+    Job repeated = Job.getInstance(conf, "repeated");
+    repeated.setMapperClass(Repeated.class); repeated.setNumReduceTasks(0);
+    repeated.setOutputKeyClass(Text.class); repeated.setOutputValueClass(Text.class);
+    FileInputFormat.addInputPath(repeated, middle);
+    FileOutputFormat.setOutputPath(repeated, new Path(args[1]));
+    boolean ok = repeated.waitForCompletion(true);
+    FileSystem.get(conf).delete(middle, true);
+    System.exit(ok ? 0 : 1);
+  }
+}
+"""
+
+
+@pytest.mark.parametrize("middle", [
+    'Path middle = new Path(args[1] + "_words");',  # a folder named after an argument
+    'Path middle = new Path("words-" + System.currentTimeMillis());',  # a temporary folder named by the time
+])
+def test_jobs_chained_through_a_computed_folder_match_hadoop(tmp_path, middle):
+    """Two jobs through a folder the driver makes at run time (and deletes): one script, the first
+    job's lines handed to the second in memory."""
+    source = TWO_JOBS.replace("MIDDLE", middle).replace("import java.util.*;", "import java.util.*;\nimport org.apache.hadoop.fs.FileSystem;")
+    data = {"1.txt": b"the quay the mill\nmill ferry the\nbell\n"}
+    check = verify_one_job(tmp_path, source, data)
+    assert check.verdict == "agrees", check.detail
+    (job,) = scan_text(tmp_path / "again", {"Main.java": source}).jobs
+    assert len(job.plan.upstream) == 1 and [p.name for p in job.plan.params if p.positional] == \
+        ["input_path", "output_path"]
