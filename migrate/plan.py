@@ -544,6 +544,7 @@ class Param:
     default: str | None = None
     many: bool = False  # a run of arguments (a loop over them): args[position .. length - 1 - from_end]
     from_end: int | None = None  # with `many` the run's end, else args[length - from_end] (position None)
+    optional: bool = False  # the driver reads it only when it is given (`if (args.length > i)`): the last one
 
     @property
     def positional(self) -> bool:

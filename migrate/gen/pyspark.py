@@ -1196,7 +1196,7 @@ def argument_slots(params) -> list[Slot]:
     def unused(label: str, name: str) -> Slot:
         return Slot(name, f"{label} of the original driver (not used by this job)", read=False)
 
-    slots = [Slot(p.name, p.help) if p is not None else unused(f"args[{i}]", f"arg{i}")
+    slots = [Slot(p.name, p.help, "?" if p.optional else None) if p is not None else unused(f"args[{i}]", f"arg{i}")
              for i, p in ((i, head.get(i)) for i in range(run.position if run else max(head, default=-1) + 1))]
     if run is not None:
         slots.append(Slot(run.name, run.help, "+"))
@@ -1263,7 +1263,9 @@ def _signature(plan: Plan, x: ExprWriter) -> tuple[str, str]:
                       *(f"{p}: list[str]" if many.get(p) else f"{p}: str" for p in paths)])
     call = ", ".join([*upstream, *(f"args.{p}" for p in paths)])
     if x.settings:
-        given = "".join(f", {name!r}: args.{param}" for name, param in plan.arg_settings)
+        optional = {p.name for p in plan.params if p.optional}
+        given = "".join(f", **({{{name!r}: args.{param}}} if args.{param} is not None else {{}})" if param in optional
+                        else f", {name!r}: args.{param}" for name, param in plan.arg_settings)
         conf = f"{{**settings(args.defines){given}}}" if given else "settings(args.defines)"
         args, call = args + ", conf: dict[str, str] | None = None", call + f", conf={conf}"
     if x.counters:

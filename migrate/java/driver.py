@@ -97,6 +97,7 @@ class JobSpec:
     call_lines: dict[str, int] = field(default_factory=dict)  # job method name -> line of the call
     replaced: list[tuple[int, str, str, str]] = field(default_factory=list)  # (line, call, earlier, later) class
     extra: list[tuple[str, int, str]] = field(default_factory=list)  # (category, line, text) needing hand work
+    optional: set[str] = field(default_factory=set)  # settings made only when an optional argument is given
     # MultipleInputs.addInputPath: one (path, input format, mapper) per input, each with its own mapper
     branches: list[tuple[PathRef, str, str, int]] = field(default_factory=list)  # (path, format, mapper, line)
     # ChainMapper.addMapper / ChainReducer.setReducer / ChainReducer.addMapper, in call order
@@ -246,6 +247,7 @@ class _DriverReader:
         self.deletes: list[tuple[PathRef | None, int]] = []  # every delete: (the path if known, line)
         self.file_io: list[tuple[int, str]] = []  # (line, call) that change files other than by a delete
         self.pending_conf: dict[str, str] = {}  # settings made on a Configuration before the job exists
+        self.optional_settings: set[str] = set()  # settings made only when an optional argument is given
 
     # -- walking
     def run(self, method: T.MethodDeclaration) -> None:
@@ -278,6 +280,8 @@ class _DriverReader:
                                 f"the driver creates {len(created)} jobs and {len(self.specs)} of them could be read "
                                 f"(not read: line {', '.join(map(str, unread))}): the driver's output may come from a "
                                 "job the script does not run"))
+        for s in out:
+            s.optional = {k for k in self.optional_settings if k in s.conf}
         for line, test in self.conditional:
             for s in out:
                 s.extra.append(("conditional-settings", line, f"the driver configures the job under `if ({test})`, a "
@@ -312,6 +316,8 @@ class _DriverReader:
                 self._value(e, None)
         elif isinstance(s, T.IfStatement) and self._branch_on_argument(s):
             return
+        elif isinstance(s, T.IfStatement) and self._optional_argument(s):
+            return
         elif isinstance(s, T.SwitchStatement) and self._switch_on_argument(s):
             return
         elif isinstance(s, T.IfStatement):
@@ -332,6 +338,30 @@ class _DriverReader:
             self._block(s.block)
         elif isinstance(s, T.ReturnStatement) and s.expression is not None:
             self._value(s.expression, None)
+
+    def _optional_argument(self, s: T.IfStatement) -> bool:
+        """`if (args.length == 4) conf.set(name, args[3]);` (also `>=`, `>`): a setting made from an
+        argument only when there are enough of them: an optional argument. False: not that form."""
+        c = s.condition
+        if s.else_statement is not None or not isinstance(c, T.BinaryOperation) or c.operator not in ("==", ">=", ">"):
+            return False
+        left, right = self._value(c.operandl, None), self._value(c.operandr, None)
+        if not (left == ("arglen", 0) and right[0] == "int"):
+            return False
+        needed = right[1] + (c.operator == ">")  # the number of arguments the branch needs
+        body = s.then_statement.statements if isinstance(s.then_statement, T.BlockStatement) else [s.then_statement]
+        for st in body:
+            e = getattr(st, "expression", None)
+            if not (isinstance(e, T.MethodInvocation) and e.member in _CONF_SETTERS and len(e.arguments or []) == 2
+                    and self._value(e.arguments[1], None) == ("arg", needed - 1)):
+                return False
+        before = dict(self.pending_conf), {j: dict(x.conf) for j, x in self.specs.items()}
+        for st in body:
+            self._stmt(st)
+        names = {k for k in self.pending_conf if before[0].get(k) != self.pending_conf[k]}
+        names |= {k for j, x in self.specs.items() for k in x.conf if before[1].get(j, {}).get(k) != x.conf[k]}
+        self.optional_settings |= names
+        return True
 
     def _argument_loop(self, s: T.ForStatement) -> bool:
         """`for (int i = a; i < args.length - k; i++)` (also `<=`, `++i`, `i += 1`): the body once, with

@@ -893,12 +893,14 @@ def _settings_from_arguments(spec: JobSpec, params: list[Param]) -> tuple[tuple[
             continue
         i = int(m.group(1))
         held = next((p for p in params if p.position == i and not p.many), None)
+        optional = name in spec.optional  # the driver sets it only when args[i] is given
         if held is None:
             slug = re.sub(r"\W+", "_", name).strip("_").lower() or "setting"
             param = slug if slug not in taken and slug not in RESERVED_OPTIONS and slug.isidentifier() \
                 else f"setting_{len(out) + 1}"
             taken.add(param)
-            held = Param(param, f"job setting {name} (args[{i}] of the original driver)", i, None)
+            held = Param(param, f"job setting {name} (args[{i}] of the original driver"
+                         + (", if given)" if optional else ")"), i, None, optional=optional)
             params.append(held)
         out.append((name, held.name))
     return tuple(out)
@@ -916,15 +918,17 @@ def _argument_layout(params: list[Param], add, where: Span) -> list[Param]:
     run = runs[0] if runs else None
     head = [p.position for p in params if p.position is not None and not p.many]
     tail = [p.from_end for p in params if p.from_end is not None and not p.many]
+    optional = [p.position for p in params if p.optional]
     clash = len(runs) > 1 or run is not None and (any(i >= run.position for i in head)
-                                                  or any(k > run.from_end for k in tail))
+                                                  or any(k > run.from_end for k in tail)) \
+        or optional and (run is not None or tail or max(head) not in optional or len(optional) > 1)
     if not clash:
         return params
     add("driver", where, "the driver reads arguments by position, in a loop and counted from the end in an order "
         "the script cannot take them in: the arguments of the loop and after it are options", "pass them by name",
         "P1")
-    return [replace(p, position=None, from_end=None, many=False) if p.many or p.from_end is not None else p
-            for p in params]
+    return [replace(p, position=None, from_end=None, many=False, optional=False)
+            if p.many or p.from_end is not None or p.optional else p for p in params]
 
 
 def _jtype(fq: str, structs: dict | None = None) -> str:

@@ -123,7 +123,13 @@ def test_a_setting_taken_from_an_argument_matches_hadoop(tmp_path):
     assert check.verdict == "agrees", check.detail
 
 
-def test_a_regex_mapper_pattern_taken_from_an_argument_matches_hadoop(tmp_path):
+@pytest.mark.parametrize("group_set, args", [
+    ("conf.set(RegexMapper.GROUP, args[3]);", ["dock-([0-9]+)", "1"]),
+    # Hadoop's Grep example: the group only when a fourth argument is given (RegexMapper's default: 0)
+    ("if (args.length == 4)\n      conf.set(RegexMapper.GROUP, args[3]);", ["dock-([0-9]+)", "1"]),
+    ("if (args.length == 4)\n      conf.set(RegexMapper.GROUP, args[3]);", ["dock-([0-9]+)"]),
+])
+def test_a_regex_mapper_pattern_taken_from_an_argument_matches_hadoop(tmp_path, group_set, args):
     """Hadoop's RegexMapper with its pattern and group the driver's arguments (as Hadoop's Grep example
     sets them); Spark's regexp functions use java.util.regex as RegexMapper does."""
     source = HEADER + """import org.apache.hadoop.mapreduce.lib.map.RegexMapper;
@@ -132,7 +138,7 @@ public class Main {
   public static void main(String[] args) throws Exception {
     Configuration conf = new Configuration();
     conf.set(RegexMapper.PATTERN, args[2]);
-    conf.set(RegexMapper.GROUP, args[3]);
+    GROUP_SET
     Job job = Job.getInstance(conf, "dock codes");
     job.setMapperClass(RegexMapper.class);
     job.setCombinerClass(LongSumReducer.class);
@@ -145,7 +151,7 @@ public class Main {
 }
 """
     data = {"1.txt": b"dock-12 to dock-7, dock-12 again\nno docks here\ndock-7dock-9\n"}
-    check = verify_one_job(tmp_path, source, data, args=["data", "@out", "dock-([0-9]+)", "1"])
+    check = verify_one_job(tmp_path, source.replace("GROUP_SET", group_set), data, args=["data", "@out", *args])
     assert check.verdict == "agrees", check.detail
 
 
