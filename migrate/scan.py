@@ -88,7 +88,8 @@ def scan_repo(root: Path, progress=None, max_file_bytes: int = MAX_FILE_BYTES) -
             unread.append(Unread("job", spec.name or spec.driver.fqcn, errors[-1]))
             continue
         scan.jobs.append(job)
-    scan.jobs = chain_jobs(scan.jobs)  # jobs that read the folder the one before wrote: one script
+    # jobs that read the folder the one before wrote: one script
+    scan.jobs = chain_jobs(scan.jobs, replan=lambda spec, pairs: plan_job(spec, index, pairs))
     used = [job_files(job, index) for job in scan.jobs]
     by_path = {f.path: f for f in files}
     # only files some job uses: the rest of a monorepo's Java is never converted, so never checked

@@ -598,6 +598,9 @@ def _read_code(src: Source, var: str, x: ExprWriter, parts: ScriptParts) -> list
     else:
         paths = ", ".join(src.params)
         read = f"spark.read.text([{paths}])" if len(src.params) > 1 else f"spark.read.text({paths})"
+    if src.upstream is not None and src.fmt == "pairs":
+        out.append(f"# the (key, value) pairs job {src.upstream + 1} wrote to the SequenceFile this job read, as they are")
+        return out + [f"{var} = job_{src.upstream + 1}_pairs"]
     if src.upstream is not None:
         read = f"job_{src.upstream + 1}_lines"
         out.append(f"# the lines job {src.upstream + 1} wrote to the folder this job read (passed on, not re-read)")
@@ -1257,7 +1260,8 @@ def _signature(plan: Plan, x: ExprWriter) -> tuple[str, str]:
     """build()'s parameters and the call main() makes: input paths (or the previous job's lines),
     side files, settings, counters."""
     paths = (*plan.source.params, *(t.param for t in plan.tables))
-    upstream = [f"job_{plan.source.upstream + 1}_lines"] if plan.source.upstream is not None else []
+    handed = "pairs" if plan.source.fmt == "pairs" else "lines"
+    upstream = [f"job_{plan.source.upstream + 1}_{handed}"] if plan.source.upstream is not None else []
     many = dict(zip(plan.source.params, plan.source.lists))
     args = ", ".join([*(f"{u}: DataFrame" for u in upstream),
                       *(f"{p}: list[str]" if many.get(p) else f"{p}: str" for p in paths)])
@@ -1285,7 +1289,8 @@ def _stage(st: Stage, i: int, reader: Plan) -> dict:
             "build_args": args, "build_call": call, "output": st.output.name, "sink": sink, "order": order,
             "computed": st.output.default == "" and not st.output.positional,
             # a map-only reader writes lines in input order; a mapper with per-task state reads them in order
-            "where": _where(st.origin), "in_order": not reader.sink.sorted_by_key or bool(reader.source.split)}
+            "where": _where(st.origin), "in_order": not reader.sink.sorted_by_key or bool(reader.source.split),
+            "pairs": reader.source.fmt == "pairs"}
 
 
 def _mode(plan: Plan) -> dict | None:

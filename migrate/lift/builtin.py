@@ -25,10 +25,14 @@ IDENTITY_REDUCERS = {f"{MAPREDUCE}.Reducer", f"{MAPRED}.lib.IdentityReducer", No
 LIB = Span("<ships with Hadoop>", 0, 0)
 
 
-def library_mapper(fqcn: str | None, input_fmt: str, conf: dict[str, str]) -> tuple[list[Step] | None, str]:
-    """Steps for a Hadoop library mapper, or (None, reason) when it cannot be expressed."""
+def library_mapper(fqcn: str | None, input_fmt: str, conf: dict[str, str],
+                   pairs: tuple[str, str] | None = None) -> tuple[list[Step] | None, str]:
+    """Steps for a Hadoop library mapper, or (None, reason) when it cannot be expressed. `pairs`: the
+    (key, value) types the job before wrote (input format "pairs")."""
     LIB = Span(f"{(fqcn or 'Mapper').rsplit('.', 1)[-1]} (ships with Hadoop)", 0, 0)
     value = Col("String", "value")
+    if input_fmt == "pairs" and fqcn not in INVERSE_MAPPERS | IDENTITY_MAPPERS and (pairs or ("", ""))[1] != "String":
+        return None, f"{(fqcn or 'Mapper').rsplit('.', 1)[-1]} reads its value as text; the job before writes other values"
     if fqcn in TOKEN_MAPPERS:
         tokens = Call("String[]", "tokens", (value,))
         return [Explode(LIB, "StringTokenizer over the line", "token", tokens),
@@ -57,6 +61,8 @@ def library_mapper(fqcn: str | None, input_fmt: str, conf: dict[str, str]) -> tu
         # TextInputFormat's key is the line's byte offset (Source.offsets reads it)
         k = Col("String", "key") if input_fmt == "keyvalue" else Col("long", BYTE_OFFSET)
         v = Col("String", "value")
+        if input_fmt == "pairs" and pairs is not None:  # the pairs as the job before wrote them
+            k, v = Col(pairs[0], "key"), Col(pairs[1], "value")
         pair = (v, k) if fqcn in INVERSE_MAPPERS else (k, v)
         return [Project(LIB, "emit the pair unchanged" if pair[0] is k else "emit (value, key)",
                         (Emit(LIB, "write", pair[0], pair[1]),))], ""

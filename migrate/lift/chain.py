@@ -20,8 +20,9 @@ from migrate.plan import Group, Param, Span, Stage, TopN, TopPerKey
 CHAINED = "chained-jobs"
 
 
-def chain_jobs(results: list[JobResult]) -> list[JobResult]:
-    """The results with each chain of one driver's jobs folded into one pipeline result."""
+def chain_jobs(results: list[JobResult], replan=None) -> list[JobResult]:
+    """The results with each chain of one driver's jobs folded into one pipeline result. `replan(spec,
+    pairs)` plans a job again as reading the (key, value) pairs of the job before it."""
     out: list[JobResult] = []
     i = 0
     while i < len(results):
@@ -32,9 +33,42 @@ def chain_jobs(results: list[JobResult]) -> list[JobResult]:
         if len(group) == 1:
             out.extend(group)
             continue
+        if replan is not None:
+            group = _through_sequence_files(group, replan)
         why = why_not_chained(group)
         out.extend([_pipeline(group)] if why is None else _kept_apart(group, why))
     return out
+
+
+def _simple(fq: str | None) -> str:
+    return (fq or "").rsplit(".", 1)[-1]
+
+
+def _through_sequence_files(group: list[JobResult], replan) -> list[JobResult]:
+    """Job k writes a SequenceFile that job k+1 reads: the pairs pass on as they are (typed columns),
+    so job k+1 is planned again as reading them, and job k's output format needs nothing."""
+    group = list(group)
+    for k in range(1, len(group)):
+        prev, job = group[k - 1], group[k]
+        sink = prev.plan.sink
+        if not (_simple(prev.spec.output_format) == "SequenceFileOutputFormat"
+                and _simple(job.spec.input_format) == "SequenceFileInputFormat" and len(job.spec.inputs) == 1
+                and _same_path(job.spec.inputs[0], prev.spec.output)
+                and sink.key_type in PAIR_TYPES and sink.value_type in PAIR_TYPES):
+            continue
+        try:
+            group[k] = replan(job.spec, (sink.key_type, sink.value_type))
+        except (ValueError, KeyError, AttributeError, TypeError, RecursionError):
+            continue  # planned as it was: its SequenceFile input stays hand work
+        hand = tuple(h for h in prev.plan.hand_work if not (h.category == "output-format" and "SequenceFile" in h.reason))
+        note = (f"job {k} wrote a SequenceFile that job {k + 1} read: the (key, value) pairs pass on as they are; "
+                "with --keep-intermediates the folder holds them as text lines, not a SequenceFile")
+        group[k - 1] = replace(prev, plan=replace(prev.plan, hand_work=hand, notes=prev.plan.notes + (note,)))
+    return group
+
+
+# value types a SequenceFile of Writables holds that a typed column carries as they are
+PAIR_TYPES = {"String", "int", "long", "double", "float", "boolean"}
 
 
 def _kept_apart(group: list[JobResult], why: str) -> list[JobResult]:

@@ -51,7 +51,9 @@ class JobResult:
         return "partial" if self.plan.map_steps or self.plan.branches or self.plan.reduce is not None else "not_converted"
 
 
-def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
+def plan_job(spec: JobSpec, index: ClassIndex, pairs: tuple[str, str] | None = None) -> JobResult:
+    """One job's plan. `pairs`: the job reads the (key, value) pairs of the job before it in a chain,
+    of these Java types (a SequenceFile between them), instead of its input format's records."""
     hand: list[HandWork] = []
     notes: list[str] = []
     findings: list[Finding] = []
@@ -103,9 +105,9 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
     if out_ref.kind == "unknown":
         add("driver", spec.origin, "the driver's output path could not be read", "pass the output folder by hand")
     # ---- formats
-    fmt = "text"
+    fmt = "text" if pairs is None else "pairs"
     kv_sep = "\t"
-    if spec.input_format:
+    if spec.input_format and pairs is None:
         simple = spec.input_format.rsplit(".", 1)[-1]
         if simple == "KeyValueTextInputFormat":
             fmt = "keyvalue"
@@ -154,10 +156,13 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
     tables: list[SideTable] = []  # side files the mappers load in setup() and look keys up in
     _chain_hand_work(spec, add)
     # what the mapper's input key is: an input format not converted reads keys of its own
-    known = not spec.input_format or spec.input_format.rsplit(".", 1)[-1] in ("TextInputFormat", "NLineInputFormat",
+    known = pairs is not None or not spec.input_format or spec.input_format.rsplit(".", 1)[-1] in ("TextInputFormat", "NLineInputFormat",
                                                                              "KeyValueTextInputFormat")
     map_fmt = fmt if known else "other"
-    if any(c.role == "map" for c in spec.chain):
+    if pairs is not None and (spec.chain or spec.branches):
+        add("input-format", spec.origin, "a job reading the job before it through a SequenceFile, with chained or "
+            "several mappers, is not converted", "apply the mappers to the pairs by hand", "P2")
+    elif any(c.role == "map" for c in spec.chain):
         steps, skip_first = _chained_maps(spec, index, map_fmt, hand, notes, add, combining, tables, structs, findings)
         shapes.append(f"{sum(c.role == 'map' for c in spec.chain)} chained mappers")
     elif spec.branches:
@@ -166,9 +171,9 @@ def plan_job(spec: JobSpec, index: ClassIndex) -> JobResult:
         shapes.append(f"{len(branches)} inputs, one mapper each")
     elif mcls is not None and "mapper" in mcls.roles:
         steps, skip_first = _lift_mapper(mcls, map_fmt, hand, notes, index, spec.conf, combining, tables,
-                                         findings=findings)
+                                         in_types=pairs, findings=findings)
     elif mapper_fq in KNOWN_CLASSES or mapper_fq in IDENTITY_MAPPERS:
-        lib_steps, why = library_mapper(mapper_fq, map_fmt, spec.conf)
+        lib_steps, why = library_mapper(mapper_fq, map_fmt, spec.conf, pairs)
         if lib_steps is None:
             add("map-logic", spec.origin, why, "read the input with the key you need and select it by hand", "P2")
         else:

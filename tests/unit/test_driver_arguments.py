@@ -213,3 +213,52 @@ def test_jobs_chained_through_a_computed_folder_match_hadoop(tmp_path, middle):
     (job,) = scan_text(tmp_path / "again", {"Main.java": source}).jobs
     assert len(job.plan.upstream) == 1 and [p.name for p in job.plan.params if p.positional] == \
         ["input_path", "output_path"]
+
+
+SEARCH_THEN_SORT = HEADER + """import org.apache.hadoop.fs.FileSystem;
+import org.apache.hadoop.mapreduce.lib.input.SequenceFileInputFormat;
+import org.apache.hadoop.mapreduce.lib.output.SequenceFileOutputFormat;
+import org.apache.hadoop.mapreduce.lib.map.InverseMapper;
+import org.apache.hadoop.mapreduce.lib.map.RegexMapper;
+import org.apache.hadoop.mapreduce.lib.reduce.LongSumReducer;
+public class Main {
+  public static void main(String[] args) throws Exception {
+    Path tempDir = new Path("dock-search-" + Integer.toString(new Random().nextInt(Integer.MAX_VALUE)));
+    Configuration conf = new Configuration();
+    conf.set(RegexMapper.PATTERN, args[2]);
+    if (args.length == 4)
+      conf.set(RegexMapper.GROUP, args[3]);
+    Job search = Job.getInstance(conf, "dock-search");
+    try {
+      FileInputFormat.setInputPaths(search, args[0]);
+      search.setMapperClass(RegexMapper.class);
+      search.setCombinerClass(LongSumReducer.class);
+      search.setReducerClass(LongSumReducer.class);
+      FileOutputFormat.setOutputPath(search, tempDir);
+      search.setOutputFormatClass(SequenceFileOutputFormat.class);
+      search.setOutputKeyClass(Text.class);
+      search.setOutputValueClass(LongWritable.class);
+      search.waitForCompletion(true);
+      Job sort = Job.getInstance(conf, "dock-sort");
+      FileInputFormat.setInputPaths(sort, tempDir);
+      sort.setInputFormatClass(SequenceFileInputFormat.class);
+      sort.setMapperClass(InverseMapper.class);
+      sort.setNumReduceTasks(1);
+      FileOutputFormat.setOutputPath(sort, new Path(args[1]));
+      sort.setSortComparatorClass(LongWritable.DecreasingComparator.class);
+      sort.waitForCompletion(true);
+    } finally {
+      FileSystem.get(conf).delete(tempDir, true);
+    }
+  }
+}
+"""
+
+
+def test_jobs_chained_through_a_sequence_file_match_hadoop(tmp_path):
+    """The form of Hadoop's Grep example: a search job writes (match, count) to a SequenceFile in a
+    temporary folder; a second job swaps each pair (InverseMapper) and sorts by count, largest first.
+    The pairs pass from one job to the next as typed columns."""
+    data = {"1.txt": b"dock-12 to dock-7, dock-12 again\nno docks here\ndock-7dock-9 dock-12\n"}
+    check = verify_one_job(tmp_path, SEARCH_THEN_SORT, data, args=["data", "@out", "dock-([0-9]+)", "1"])
+    assert check.verdict == "agrees", check.detail
