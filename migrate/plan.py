@@ -545,6 +545,8 @@ class Param:
     many: bool = False  # a run of arguments (a loop over them): args[position .. length - 1 - from_end]
     from_end: int | None = None  # with `many` the run's end, else args[length - from_end] (position None)
     optional: bool = False  # the driver reads it only when it is given (`if (args.length > i)`): the last one
+    # a path the driver makes from its arguments (`args[0] + "/input"`): the pieces, ("arg", i) or ("str", text)
+    derived: tuple[tuple[str, object], ...] = ()
 
     @property
     def positional(self) -> bool:

@@ -124,7 +124,7 @@ def _run(job: Job, status: dict, timeout: float, work: Path, o: Outcome) -> None
     if runnable(entry) is not None:
         return
     unset = [a["name"] for a in entry.get("arguments", []) if a["position"] is None and a.get("from_end") is None
-             and a["default"] is None]
+             and not a.get("derived") and a["default"] is None]
     if unset:  # the driver's own arguments are not enough: the script asks for these by name
         o.detail = "the script needs " + ", ".join("--" + n.replace("_", "-") for n in unset)
         return

@@ -1164,7 +1164,8 @@ def render_script(plan: Plan, header: dict, hand_work: list[HandWork]) -> str:
         doc_end=doc_end, plan=plan, header=header, body=parts.body, helpers=helpers,
         regexes=[(k, raw_string(v)) for k, v in regexes.items()], task_rules=sorted(task_rules.items()),
         uses_window=parts.uses_window or any(st["uses_window"] for st in stages),
-        slots=slots, options=[p for p in plan.params if not p.positional], sink=plan.sink, mode=_mode(plan),
+        slots=slots, options=[p for p in plan.params if not p.positional and not p.derived], sink=plan.sink,
+        mode=_mode(plan), derived=[(p.name, _derived_code(p, plan.params)) for p in plan.params if p.derived],
         build_args=build_args, build_call=build_call, hand_work=hand_work, stages=stages,
         counters=any(w.counters for w in writers), dates=any(w.dates for w in writers),
         named_counters=any(w.named_counters for w in writers), time_zone=_time_zone(writers),
@@ -1176,6 +1177,12 @@ def render_script(plan: Plan, header: dict, hand_work: list[HandWork]) -> str:
     doc, _, code = text.partition(doc_end)
     check_size(code)
     return format_code('"""' + docstring_text(doc[3:]) + code)
+
+
+def _derived_code(p, params) -> str:
+    """A path made from the driver's arguments, as the driver makes it (`args[0] + "/input"`)."""
+    holder = {q.position: q.name for q in params if q.position is not None and not q.many}
+    return " + ".join(f"args.{holder[i]}" if kind == "arg" else repr(i) for kind, i in p.derived)
 
 
 @dataclass(frozen=True)

@@ -25,6 +25,8 @@ class PathRef:
     split_commas: bool = False  # FileInputFormat's String overloads read "a,b" as two paths
     # "arg": args[args.length - from_end] (index None); "args": the run stops from_end before the end
     from_end: int | None = None
+    # "computed" from arguments and literals alone: its pieces in order, ("arg", i) or ("str", text)
+    parts: tuple[tuple[str, object], ...] | None = None
 
     @property
     def shown(self) -> str:
@@ -570,7 +572,10 @@ class _DriverReader:
                 step = r[1] if e.operator == "+" else -r[1]
                 return ("arglen", l[1] + step) if l[0] == "arglen" else ("arglen", r[1] + l[1])
             if e.operator == "+" and {l[0], r[0]} <= {"str", "arg", "computed"} and {l[0], r[0]} != {"str"}:
-                return ("computed", f"{_shown(l)} + {_shown(r)}")  # `args[1] + "_tmp"`: the same text, the same folder
+                pieces = [x[2] if x[0] == "computed" else ((x[0], x[1]),) for x in (l, r)]
+                parts = None if None in pieces else pieces[0] + pieces[1]
+                # `args[1] + "_tmp"`: the same text, the same folder
+                return ("computed", f"{_shown(l)} + {_shown(r)}", parts)
             if e.operator in ("+", "-") and l[0] == r[0] == "int":
                 return ("int", l[1] + r[1] if e.operator == "+" else l[1] - r[1])
             return ("unknown", "expression")
@@ -867,7 +872,7 @@ class _DriverReader:
         if v[0] == "path":
             return v[1]
         if v[0] == "computed":
-            return PathRef("computed", text=v[1])
+            return PathRef("computed", text=v[1], parts=v[2] if len(v) > 2 else None)
         if v[0] == "arg":
             return PathRef("arg", index=v[1])
         if v[0] == "arg_end":

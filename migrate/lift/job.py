@@ -100,6 +100,7 @@ def plan_job(spec: JobSpec, index: ClassIndex, pairs: tuple[str, str] | None = N
     out_ref = spec.output or PathRef("unknown", text="not set")
     params.append(_param("output_path", out_ref, "output folder"))
     arg_settings = _settings_from_arguments(spec, params)
+    _arguments_paths_are_made_from(params)
     params = _argument_layout(params, add, spec.origin)
     mode = _mode_check(spec, params)
     if out_ref.kind == "unknown":
@@ -884,6 +885,8 @@ def _param(name: str, ref: PathRef, what: str) -> Param:
         return Param(name, f"{what} (args[{ref.index}] of the original driver)", ref.index, None)
     if ref.kind == "literal":
         return Param(name, f"{what} (hard-coded in the original driver)", None, ref.literal)
+    if ref.kind == "computed" and ref.parts:
+        return Param(name, f"{what} ({ref.text} in the original driver)", None, None, derived=ref.parts)
     return Param(name, f"{what} (the driver computed it: {ref.text})", None, None)
 
 
@@ -909,6 +912,13 @@ def _settings_from_arguments(spec: JobSpec, params: list[Param]) -> tuple[tuple[
             params.append(held)
         out.append((name, held.name))
     return tuple(out)
+
+
+def _arguments_paths_are_made_from(params: list[Param]) -> None:
+    """The arguments a path is made from (`args[0] + "/input"`) are the script's, at the same places."""
+    for i in sorted({int(i) for p in params for kind, i in p.derived if kind == "arg"}):
+        if not any(q.position == i for q in params):
+            params.append(Param(f"arg{i}", f"args[{i}] of the original driver (paths are made from it)", i, None))
 
 
 # names argparse already uses in every script (dests of the options the template adds)

@@ -93,7 +93,7 @@ def build_report(jobs: list[tuple[JobResult, str]], errors: list[ParseFailure], 
             "files": {role: str(span) for role, span in sorted(job.files.items())},
             "shapes": list(job.plan.shapes),
             "arguments": [{"name": p.name, "position": p.position, "from_end": p.from_end, "many": p.many,
-                           "default": p.default, "help": p.help}
+                           "derived": bool(p.derived), "default": p.default, "help": p.help}
                           for p in job.plan.params],
             "hand_work": [{"category": h.category, "file": h.origin.file, "line": h.origin.line_start,
                            "reason": h.reason, "suggestion": h.suggestion, "snippet": h.snippet,

@@ -262,3 +262,11 @@ def test_jobs_chained_through_a_sequence_file_match_hadoop(tmp_path):
     data = {"1.txt": b"dock-12 to dock-7, dock-12 again\nno docks here\ndock-7dock-9 dock-12\n"}
     check = verify_one_job(tmp_path, SEARCH_THEN_SORT, data, args=["data", "@out", "dock-([0-9]+)", "1"])
     assert check.verdict == "agrees", check.detail
+
+
+def test_an_input_made_from_an_argument_matches_hadoop(tmp_path):
+    """`new Path(args[0] + "/in")`: the script takes args[0] and makes the same path from it."""
+    paths = ('    FileInputFormat.addInputPath(job, new Path(otherArgs[0] + "/in"));\n'
+             "    FileOutputFormat.setOutputPath(job, new Path(otherArgs[1]));")
+    check = verify_one_job(tmp_path, _job(paths), {"in/1.txt": b"the quay the mill\n", "other.txt": b"not read\n"})
+    assert check.verdict == "agrees", check.detail
