@@ -296,3 +296,15 @@ def test_the_hadoop_classpath_comes_from_the_user_then_hadoop_home_then_the_whee
     (tmp_path / "lib").mkdir()
     (tmp_path / "lib" / "legacy-utils.jar").write_bytes(b"")
     assert repository_jars(tmp_path) == (str(tmp_path / "lib" / "legacy-utils.jar"),)
+
+
+def test_keys_mode_compares_each_key_once(tmp_path):
+    """An identity reducer after a combiner: how many lines a key has depended on how often the combiner
+    ran; the keys, in order, are what the original defined."""
+    original, script = tmp_path / "original", tmp_path / "script"
+    for folder, text in ((original, "bell\t2\nquay\t3\n"), (script, "bell\t1\nbell\t1\nquay\t1\nquay\t2\n")):
+        folder.mkdir()
+        (folder / "part-r-00000").write_text(text)
+    assert compare_folders(original, script, "keys").agrees
+    (script / "part-r-00000").write_text("bell\t1\nmill\t1\nquay\t3\n")
+    assert not compare_folders(original, script, "keys").agrees
