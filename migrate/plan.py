@@ -598,6 +598,9 @@ class Plan:
     mode: ModeCheck | None = None  # a driver that picks its job by an argument: the branch this job is
     # job settings the driver sets from its arguments (`conf.set(name, args[i])`): (setting, param)
     arg_settings: tuple[tuple[str, str], ...] = ()
+    # what the driver prints after the job from the job's counters: (where, pieces, ends the line); a
+    # piece is ("str", text) or ("counter", group, name)
+    prints: tuple[tuple[Span, tuple, bool], ...] = ()
 
     def __post_init__(self) -> None:
         if not self.map_steps or not isinstance(self.map_steps[-1], Project):

@@ -1166,6 +1166,7 @@ def render_script(plan: Plan, header: dict, hand_work: list[HandWork]) -> str:
         uses_window=parts.uses_window or any(st["uses_window"] for st in stages),
         slots=slots, options=[p for p in plan.params if not p.positional and not p.derived], sink=plan.sink,
         mode=_mode(plan), derived=[(p.name, _derived_code(p, plan.params)) for p in plan.params if p.derived],
+        prints=[(_print_code(pieces), end, _where(where)) for where, pieces, end in plan.prints],
         build_args=build_args, build_call=build_call, hand_work=hand_work, stages=stages,
         counters=any(w.counters for w in writers), dates=any(w.dates for w in writers),
         named_counters=any(w.named_counters for w in writers), time_zone=_time_zone(writers),
@@ -1177,6 +1178,11 @@ def render_script(plan: Plan, header: dict, hand_work: list[HandWork]) -> str:
     doc, _, code = text.partition(doc_end)
     check_size(code)
     return format_code('"""' + docstring_text(doc[3:]) + code)
+
+
+def _print_code(pieces) -> str:
+    """A driver's print of literals and counter values (Java prints a long as Python prints an int)."""
+    return " + ".join(repr(p[1]) if p[0] == "str" else f"str(counts.get(({p[1]!r}, {p[2]!r}), 0))" for p in pieces)
 
 
 def _derived_code(p, params) -> str:

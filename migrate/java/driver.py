@@ -100,6 +100,9 @@ class JobSpec:
     replaced: list[tuple[int, str, str, str]] = field(default_factory=list)  # (line, call, earlier, later) class
     extra: list[tuple[str, int, str]] = field(default_factory=list)  # (category, line, text) needing hand work
     optional: set[str] = field(default_factory=set)  # settings made only when an optional argument is given
+    # what the driver prints after the job from its counters: (line, pieces), a piece ("str", text) or
+    # ("counter", findCounter's argument nodes); `println` ends it with a line break
+    prints: list[tuple[int, tuple, bool]] = field(default_factory=list)
     # MultipleInputs.addInputPath: one (path, input format, mapper) per input, each with its own mapper
     branches: list[tuple[PathRef, str, str, int]] = field(default_factory=list)  # (path, format, mapper, line)
     # ChainMapper.addMapper / ChainReducer.setReducer / ChainReducer.addMapper, in call order
@@ -202,6 +205,11 @@ def _read_driver(cls: ClassInfo, index: ClassIndex, method) -> list[JobSpec]:
     return specs
 
 
+def _is_print(s) -> bool:
+    e = getattr(s, "expression", None)
+    return isinstance(e, T.MethodInvocation) and e.qualifier == "System.out" and e.member in ("println", "print")
+
+
 def _shown(v: tuple) -> str:
     """A driver value as the report shows a path made from it."""
     return {"str": lambda: '"' + v[1] + '"', "arg": lambda: f"args[{v[1]}]"}.get(v[0], lambda: str(v[1]))()
@@ -250,6 +258,10 @@ class _DriverReader:
         self.file_io: list[tuple[int, str]] = []  # (line, call) that change files other than by a delete
         self.pending_conf: dict[str, str] = {}  # settings made on a Configuration before the job exists
         self.optional_settings: set[str] = set()  # settings made only when an optional argument is given
+        self.counter_reads: dict[int, str] = {}  # line of a getCounters() after the job -> the job
+        self.counter_used: set[int] = set()  # those lines whose counters a print the script repeats reads
+        self.counter_other: list[int] = []  # lines that use counters otherwise (not a print the script repeats)
+        self.branch_depth = 0  # inside a branch the reader does not decide (or a loop over the arguments)
 
     # -- walking
     def run(self, method: T.MethodDeclaration) -> None:
@@ -284,6 +296,10 @@ class _DriverReader:
                                 "job the script does not run"))
         for s in out:
             s.optional = {k for k in self.optional_settings if k in s.conf}
+        for line, jid in self.counter_reads.items():  # counters read for something other than a print
+            if line not in self.counter_used or self.counter_other:
+                self.specs[jid].extra.append(("after-job", min([line, *self.counter_other]),
+                                              "`getCounters(...)` after the job ran"))
         for line, test in self.conditional:
             for s in out:
                 s.extra.append(("conditional-settings", line, f"the driver configures the job under `if ({test})`, a "
@@ -302,6 +318,11 @@ class _DriverReader:
             self._stmt(s)
 
     def _stmt(self, s) -> None:
+        held = {n for n, v in self.env.items() if v[0] in ("counters", "counter", "count")}
+        if held and not isinstance(s, T.LocalVariableDeclaration) and not _is_print(s) and \
+                any(isinstance(n, T.MemberReference) and (n.member in held or n.qualifier in held) or
+                    isinstance(n, T.MethodInvocation) and n.qualifier in held for _, n in s):
+            self.counter_other.append(_line(s))
         if isinstance(s, T.LocalVariableDeclaration):
             for d in s.declarators:
                 if d.initializer is not None:
@@ -328,10 +349,12 @@ class _DriverReader:
             if not submits and any(_sets_job(b) for b in branches):
                 self.conditional.append((_line(s), _text(s.condition)))
             self._value(s.condition, None)  # `if (!job.waitForCompletion(true))` submits the job
+            self.branch_depth += 1  # what prints here prints only sometimes
             if not _exits(s.then_statement):
                 self._stmt(s.then_statement)
             if s.else_statement is not None:
                 self._stmt(s.else_statement)
+            self.branch_depth -= 1
         elif isinstance(s, T.ForStatement) and self._argument_loop(s):
             return
         elif isinstance(s, T.BlockStatement):
@@ -402,7 +425,9 @@ class _DriverReader:
             return False
         saved = self.env.get(i)
         self.env[i] = ("argloop", start[1], stop)
+        self.branch_depth += 1
         self._stmt(s.body)
+        self.branch_depth -= 1
         if saved is None:
             self.env.pop(i, None)
         else:
@@ -605,6 +630,16 @@ class _DriverReader:
         line = _line(where)
         if m == "getInstance" and recv == ("static", "Job") or (m == "getInstance" and recv[1:] == ("Job",)):
             return self._new_job(where, None, args)
+        if m == "getCounters" and recv[0] == "job" and recv[1] in self.submitted and not args:
+            self.counter_reads.setdefault(line, recv[1])  # used by a print below, or hand work (jobs())
+            return ("counters", recv[1], line)
+        if m == "findCounter" and recv[0] == "counters" and len(args) in (1, 2):
+            return ("counter", recv[1], recv[2], tuple(args))
+        if m == "getValue" and recv[0] == "counter" and not args:
+            return ("count", recv[1], recv[2], recv[3])
+        if m in ("println", "print") and recv == ("static", "System.out") and len(args) == 1 and self._counter_print(
+                args[0], line, m == "println"):
+            return ("unknown", m)
         if m in _AFTER_JOB and self.submitted and (recv[0] == "job" or m != "getCounters"):
             # the driver reads the job's counters or its output back: a figure the script does not compute
             spec = self.specs[recv[1]] if recv[0] == "job" else self.specs[self.submitted[-1]]
@@ -731,6 +766,36 @@ class _DriverReader:
         self.specs[jid] = spec
         self.order.append(jid)
         return ("job", jid)
+
+    def _counter_print(self, e, line: int, newline: bool) -> bool:
+        """`System.out.println("bad: " + c.findCounter(Bad.ROW).getValue())`, the value perhaps held in a
+        local first: literals and counter values joined with `+`. False where it is anything else."""
+        pieces, stack, reads, ok = [], [e], set(), True
+        while stack:
+            x = stack.pop()
+            if isinstance(x, T.BinaryOperation) and x.operator == "+":
+                stack += [x.operandr, x.operandl]
+                continue
+            v = self._value(x, None)
+            if v[0] == "str":
+                pieces.append(("str", v[1]))
+            elif v[0] == "count":
+                pieces.append(("counter", v[3]))
+                reads.add(v[2])
+            else:
+                ok = ok and v[0] not in ("counters", "counter")
+                pieces.append(("other", None))
+        # Java adds numbers before a String is met (`a + b + " x"` is a sum first): a String comes first
+        jobs = {self.counter_reads[r] for r in reads} or ({self.submitted[-1]} if self.submitted else set())
+        ok = ok and pieces[0][0] == "str" and all(p[0] != "other" for p in pieces) and len(jobs) == 1 \
+            and not self.branch_depth
+        if not ok:
+            if reads:
+                self.counter_other.append(line)
+            return False
+        self.counter_used |= reads  # literals alone after the job: part of the lines it prints
+        self.specs[jobs.pop()].prints.append((line, tuple(pieces), newline))
+        return True
 
     def _aggregate_job(self, builder: str, where, args, line: int) -> tuple:
         """Hadoop's aggregate framework builds the job itself (ValueAggregatorJob): its own mapper,

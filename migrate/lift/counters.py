@@ -89,6 +89,19 @@ def _label(node, scope: Scope) -> str | Expr:
     return v
 
 
+def counter_named(args: tuple, cls: ClassInfo, index: ClassIndex | None) -> tuple[str, str] | None:
+    """The (group, name) that `findCounter(Enum.X)` or `findCounter("group", "name")` names, as the
+    job's updates name it; None for anything computed."""
+    try:
+        if len(args) == 1:
+            return _enum_counter(args[0], cls, index)
+    except Unsupported:
+        return None
+    if len(args) == 2 and all(isinstance(a, T.Literal) and a.value.startswith('"') for a in args):
+        return string_value(args[0].value), string_value(args[1].value)
+    return None
+
+
 def _enum_counter(node, cls: ClassInfo, index: ClassIndex | None) -> tuple[str, str]:
     """`Quality.BAD_ROW` -> (binary name of the enum, as Hadoop prints the group; constant)."""
     if not isinstance(node, T.MemberReference) or not node.qualifier:

@@ -13,6 +13,7 @@ from migrate.java.source import logical_sloc
 from migrate.lift.builtin import IDENTITY_MAPPERS, IDENTITY_REDUCERS, SUM_REDUCERS, library_mapper, library_reducer
 from migrate.lift.collections import constant_fields
 from migrate.lift.combiners import COMBINER_COUNTERS, combiner_counters, judge
+from migrate.lift.counters import counter_named
 from migrate.lift.combining import flushes_all_entries
 from migrate.lift.config import task_constants
 from migrate.lift.limits import explain
@@ -26,7 +27,7 @@ from migrate.lift.topn import lift_top_n, top_n_findings
 from migrate.lift.joins import JoinLifter
 from migrate.lift.sidefiles import read_side_files
 from migrate.lower.walk import assigned_names
-from migrate.plan import (ADVISORY_CATEGORIES, Agg, AggRef, BoolOp, Branch, Cast, Col, ConfValue, EachValue, Join, Emit, Explode, Expr, Field, Filter, Finding, Group, HandWork, Identity, ModeCheck, Param, Plan,
+from migrate.plan import (ADVISORY_CATEGORIES, Agg, AggRef, BoolOp, Branch, Cast, Col, ConfValue, Count, EachValue, Join, Emit, Explode, Expr, Field, Filter, Finding, Group, HandWork, Identity, ModeCheck, Param, Plan,
                           Project, Runs, SideTable, Sink, Source, Span, Step, StructNew, TaskTopN, TopN, TopPerKey, dump_expr,
                           resolve_fields, rewrite)
 
@@ -355,8 +356,10 @@ def plan_job(spec: JobSpec, index: ClassIndex, pairs: tuple[str, str] | None = N
                     lists=tuple(ref.kind == "args" for ref in spec.inputs) or (False,),
                     offsets=_reads_offsets(steps, fmt) and not branches,
                     split=split_settings(spec.conf) if task_order else ())
+    prints = _counter_prints(spec, index, [*steps, *(s for b in branches for s in b.steps)], reduce, add)
     plan = Plan(spec.name, source, tuple(steps), reduce, sink, tuple(params), tuple(hand), tuple(dict.fromkeys(shapes)),
-                tuple(notes), tuple(findings), tuple(branches), tuple(tables), mode=mode, arg_settings=arg_settings)
+                tuple(notes), tuple(findings), tuple(branches), tuple(tables), mode=mode, arg_settings=arg_settings,
+                prints=prints)
     sloc = sum(c.sloc for c in {index.get(fq) for fq in classes.values()} if c is not None)
     return JobResult(spec, plan, classes, files, sloc, notes)
 
@@ -888,6 +891,25 @@ def _param(name: str, ref: PathRef, what: str) -> Param:
     if ref.kind == "computed" and ref.parts:
         return Param(name, f"{what} ({ref.text} in the original driver)", None, None, derived=ref.parts)
     return Param(name, f"{what} (the driver computed it: {ref.text})", None, None)
+
+
+def _counter_prints(spec: JobSpec, index: ClassIndex, steps: list[Step], reduce: Step | None, add) -> tuple:
+    """The driver's prints of the job's counters after it ran: the script prints the same lines. A
+    counter the job's own code does not update (Hadoop's built-in counters) is not reproduced."""
+    counted = {(c.group, c.name) for c in [*steps, *getattr(reduce, "lets", ()), *getattr(reduce, "counts", ())]
+               if isinstance(c, Count) and isinstance(c.group, str) and isinstance(c.name, str)}
+    out = []
+    for line, pieces, newline in spec.prints:
+        named = [("str", p[1]) if p[0] == "str" else ("counter", *(counter_named(p[1], spec.driver, index) or ("", "")))
+                 for p in pieces]
+        missing = [p for p in named if p[0] == "counter" and (p[1], p[2]) not in counted]
+        if missing:
+            add("after-job", Span(spec.driver.file.path, line, line), "the driver prints a counter the job's own "
+                "code does not update (Hadoop's built-in counters, or one named at run time): not reproduced",
+                "print it from Spark's own metrics, or drop the line", "P1")
+            continue
+        out.append((Span(spec.driver.file.path, line, line), tuple(named), newline))
+    return tuple(out)
 
 
 def _settings_from_arguments(spec: JobSpec, params: list[Param]) -> tuple[tuple[str, str], ...]:
