@@ -10,6 +10,7 @@ from migrate.java.driver import read_drivers
 from migrate.java.index import ClassIndex
 from migrate.java.roles import classify
 from migrate.java.source import MAX_FILE_BYTES, ParsedFile, ParseFailure, java_sources, read_java
+from migrate.inventory import PROFILES, RUNS_WITH, other_sources
 from migrate.lift.exprs import Unsupported
 from migrate.lower import lower_task_classes
 from migrate.lift.chain import chain_jobs
@@ -22,9 +23,12 @@ class Unread:
     """Code that could not be converted at all: a file not read, a driver whose job could not be
     read, a job that could not be planned. Each is a `not_converted` entry in every output."""
 
-    kind: str  # "file" | "driver" | "job"
+    kind: str  # "file" | "driver" | "job", or another engine's job source: "hive" | "pig" | "streaming" | "workflow"
     name: str
     error: ParseFailure
+    category: str = "not-read"  # the hand-work category of its entry
+    profile: str = "P3"  # the effort profile it is counted with
+    sloc: int | None = None  # counted by the file's own comment rules (None: as Java)
 
 
 @dataclass
@@ -50,6 +54,10 @@ def scan_repo(root: Path, progress=None, max_file_bytes: int = MAX_FILE_BYTES) -
     paths, passed_over = java_sources(root)
     errors += passed_over
     unread += [Unread("file", Path(e.path).name, e) for e in passed_over]
+    for o in other_sources(root):  # listed, not converted: another engine runs them
+        unread.append(Unread(o.kind, o.path, ParseFailure(o.path, 1, f"{o.detail}, run by {RUNS_WITH[o.kind]}: not "
+                                                                     "converted by this version"),
+                             "other-engine", PROFILES[o.kind], o.sloc))
     for path in paths:
         got = read_java(path, base, max_file_bytes)
         if isinstance(got, ParsedFile):

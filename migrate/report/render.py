@@ -20,7 +20,8 @@ def job_effort(job: JobResult, name: str) -> JobEffort:
 
 
 UNREAD_WORDS = {"file": "the file could not be read", "driver": "the driver's job could not be read",
-                "job": "the job could not be converted"}
+                "job": "the job could not be converted", "hive": "another engine's job", "pig": "another engine's job",
+                "streaming": "another engine's job", "workflow": "jobs chained outside Java"}
 
 
 def where(file: str, line: int | None) -> str:
@@ -43,17 +44,22 @@ def _unread_sloc(source: str | None, path: str, max_bytes: int) -> tuple[int, in
 
 
 def unread_entry(u, hours: float, sloc: int, lines: int) -> dict:
-    """A `not_converted` job entry for code that could not be read or converted at all."""
+    """A `not_converted` job entry for code that could not be read or converted at all, or that
+    another engine runs (Hive, Pig, streaming, Oozie)."""
+    from migrate.inventory import SUGGESTIONS
+
     e = u.error
+    other = u.kind in SUGGESTIONS  # another engine's job source, listed as it is
     return {
-        "name": f"{u.name} (not read)" if u.kind == "file" else u.name, "kind": f"not-read-{u.kind}",
-        "driver": u.name if u.kind != "file" else "", "script": "", "status": "not_converted", "classes": {},
-        "files": {"source": f"{e.path}:1-{lines}"} if lines else {}, "shapes": [], "arguments": [],
-        "hand_work": [{"category": "not-read", "file": e.path, "line": e.line,
+        "name": f"{u.name} (not read)" if u.kind == "file" else u.name,
+        "kind": f"other-{u.kind}" if other else f"not-read-{u.kind}",
+        "driver": u.name if u.kind not in ("file", *SUGGESTIONS) else "", "script": "", "status": "not_converted",
+        "classes": {}, "files": {"source": f"{e.path}:1-{lines}"} if lines else {}, "shapes": [], "arguments": [],
+        "hand_work": [{"category": getattr(u, "category", "not-read"), "file": e.path, "line": e.line,
                        "reason": f"{UNREAD_WORDS[u.kind]}: {e.message}",
-                       "suggestion": "fix what the message names (javac must accept the file) and run mrlift "
-                                     "again, or translate the code by hand", "snippet": "", "profile": "P3",
-                       "sloc": sloc}],
+                       "suggestion": SUGGESTIONS[u.kind] if other else "fix what the message names (javac must "
+                                     "accept the file) and run mrlift again, or translate the code by hand",
+                       "snippet": "", "profile": getattr(u, "profile", "P3"), "sloc": sloc}],
         "notes": [], "reduce_tasks": None, "task_files": False, "layout": "", "findings": [], "aggregates": [], "inputs": [],
         "join": None, "side_tables": [], "chain": [], "counters": [], "comparison": "bytes", "verification": None,
         "sloc": {"total": sloc, "automatic": 0, "hand": sloc}, "effort_hours": round(hours, 2),
@@ -72,10 +78,12 @@ def build_report(jobs: list[tuple[JobResult, str]], errors: list[ParseFailure], 
     unread_sloc = []  # a file's lines count once, whatever number of entries name it
     for u in unread:
         sloc, lines = _unread_sloc(source, u.error.path, max_file_bytes or MAX_FILE_BYTES)
+        sloc = u.sloc if getattr(u, "sloc", None) is not None else sloc
         unread_sloc.append((0 if u.error.path in seen else sloc, lines))
         seen.add(u.error.path)
-    unread_efforts = [JobEffort(f"(not read) {k}", sloc, (("P3", sloc, "not-read"),))
-                      for k, (sloc, _) in enumerate(unread_sloc)]
+    unread_efforts = [JobEffort(f"(not read) {k}", sloc, ((getattr(u, "profile", "P3"), sloc,
+                                                           getattr(u, "category", "not-read")),))
+                      for k, (u, (sloc, _)) in enumerate(zip(unread, unread_sloc))]
     est = repository_hours(efforts + unread_efforts, model)
     out_jobs = []
     for (job, script), eff in zip(jobs, efforts):

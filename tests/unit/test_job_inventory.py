@@ -50,3 +50,29 @@ public class Nightly {
     (entry,) = [u for u in scan.unread if u.kind == "driver"]
     line = source.split("\n").index("    System.exit(job.waitForCompletion(true) ? 0 : 1);") + 1
     assert entry.name == "Nightly" and entry.error.line == line and "submits a job" in entry.error.message
+
+
+OTHER = {
+    "etl/daily.hql": "-- nightly facts\nCREATE EXTERNAL TABLE rides (id STRING) ROW FORMAT DELIMITED\n"
+                     "LOCATION '/data/rides';\nINSERT OVERWRITE TABLE daily SELECT id FROM rides;\n",
+    "etl/report.sql": "SELECT 1;\n",  # plain SQL: not Hive's by anything it says
+    "etl/clean.pig": "r = LOAD '/data' USING PigStorage(',');\nSTORE r INTO '/out';\n",
+    "bin/stream.sh": "hadoop jar hadoop-streaming-3.3.6.jar -input in -output out -mapper m.py -reducer 'r.py'\n",
+    "wf/workflow.xml": "<workflow-app name='w'><action name='a'/><action name='b'/></workflow-app>\n",
+}
+
+
+def test_other_engines_job_sources_are_listed_not_converted(tmp_path):
+    from migrate.convert import write_outputs
+    from migrate.scan import scan_repo
+
+    scan_text(tmp_path / "repo", {**OTHER, "DockTallies.java": AGGREGATE})
+    report = write_outputs(scan_repo(tmp_path / "repo"), tmp_path / "out", "repo").report
+    listed = {j["name"]: j for j in report["jobs"] if j.get("kind", "").startswith("other-")}
+    assert sorted(listed) == ["bin/stream.sh", "etl/clean.pig", "etl/daily.hql", "wf/workflow.xml"]
+    assert listed["etl/daily.hql"]["hand_work"][0]["reason"].endswith("a Hive script of 2 statements, run by Hive: not "
+                                                                      "converted by this version")
+    assert "mapper m.py, reducer r.py" in listed["bin/stream.sh"]["hand_work"][0]["reason"]
+    assert "2 actions" in listed["wf/workflow.xml"]["hand_work"][0]["reason"]
+    assert all(j["status"] == "not_converted" and j["effort_hours"] > 0 for j in listed.values())
+    assert {j["hand_work"][0]["profile"] for j in listed.values()} == {"P1", "P2"}
