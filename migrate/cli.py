@@ -226,6 +226,7 @@ def _inventory(scan: RepoScan) -> dict:
                   "classes": dict(sorted(j.classes.items())), "reduce_tasks": j.spec.reduces,
                   "shapes": list(j.plan.shapes), "status": j.status, "hand_work": len(j.plan.hand_work)}
                  for j in scan.jobs],
+        "submissions": {"seen": scan.submissions[0], "read": scan.submissions[1]},
         "errors": [{"file": e.path, "line": e.line, "message": e.message} for e in scan.errors],
     }
 
@@ -249,6 +250,9 @@ def _print_inventory(console: Console, scan: RepoScan) -> None:
                   shown(reducer),
                   ", ".join(j.plan.shapes), f"[{STATUS_STYLE[j.status]}]{j.status}[/]")
     console.print(t)
+    seen, read = scan.submissions
+    console.print(f"job submissions seen in drivers: {seen}; read into the jobs above: {read}"
+                  + ("" if seen == read else " (each one not read is an entry below)"))
     _print_errors(console, scan)
 
 

@@ -221,6 +221,7 @@ def write_outputs(scan: RepoScan, out: Path, root_label: str, force: bool = Fals
             progress(job)
     base = scan.root if scan.root.is_dir() else scan.root.parent  # the job files' paths start here
     report = build_report(written, errors, root_label, str(base), effort_model, unread, scan.max_file_bytes)
+    report["summary"]["submissions"] = {"seen": scan.submissions[0], "read": scan.submissions[1]}
     report["settings"] = {"max_file_bytes": scan.max_file_bytes,  # files over it are listed as not read
                           "compile_check": scan.compiled, "not_compiled": scan.not_compiled}
     _keep_verdicts(writer, report)

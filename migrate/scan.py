@@ -6,7 +6,7 @@ from dataclasses import dataclass, field, replace
 from pathlib import Path
 
 from migrate.java.compile_checks import CompileProblem, compile_problems
-from migrate.java.driver import read_drivers
+from migrate.java.driver import read_drivers, submissions
 from migrate.java.index import ClassIndex
 from migrate.java.roles import classify
 from migrate.java.source import MAX_FILE_BYTES, ParsedFile, ParseFailure, java_sources, read_java
@@ -43,6 +43,7 @@ class RepoScan:
     unread: list[Unread] = field(default_factory=list)
     max_file_bytes: int = MAX_FILE_BYTES
     compiled: str = "not run: only mrlift's own checks of what javac would reject"  # see compile_check()
+    submissions: tuple[int, int] = (0, 0)  # job submissions seen in drivers, and those read into the jobs
     not_compiled: list[str] = field(default_factory=list)  # files javac could not check (a missing library)
 
 
@@ -74,6 +75,8 @@ def scan_repo(root: Path, progress=None, max_file_bytes: int = MAX_FILE_BYTES) -
                                    "only the first definition is converted: scan the modules one at a time"))
     classify(index)
     specs, problems = read_drivers(index)
+    seen = sum(len(submissions(c)) for c in index if "driver" in c.roles)
+    read = len({(s.driver.fqcn, line) for s in specs for line in s.submitted_at})
     for spec in specs:  # roles that only the driver's use reveals
         for role in ("combiner", "sort_comparator", "grouping_comparator"):
             c = index.get(spec.classes.get(role))
@@ -83,7 +86,7 @@ def scan_repo(root: Path, progress=None, max_file_bytes: int = MAX_FILE_BYTES) -
     for cls, line, msg in problems:
         errors.append(ParseFailure(cls.file.path, line, msg))
         unread.append(Unread("driver", cls.fqcn, errors[-1]))
-    scan = RepoScan(root, files, errors, index, unread=unread, max_file_bytes=max_file_bytes)
+    scan = RepoScan(root, files, errors, index, unread=unread, max_file_bytes=max_file_bytes, submissions=(seen, read))
     for spec in specs:
         try:
             job = plan_job(spec, index)

@@ -97,6 +97,7 @@ class JobSpec:
     deletes_output: bool = False
     unread: list[tuple[int, str]] = field(default_factory=list)  # (line, call text) the reader skipped
     call_lines: dict[str, int] = field(default_factory=dict)  # job method name -> line of the call
+    submitted_at: list[int] = field(default_factory=list)  # lines that submit this job
     replaced: list[tuple[int, str, str, str]] = field(default_factory=list)  # (line, call, earlier, later) class
     extra: list[tuple[str, int, str]] = field(default_factory=list)  # (category, line, text) needing hand work
     optional: set[str] = field(default_factory=set)  # settings made only when an optional argument is given
@@ -165,11 +166,15 @@ def read_drivers(index: ClassIndex) -> tuple[list[JobSpec], list[tuple[ClassInfo
         try:
             found = _read_driver(cls, index, method)
             specs.extend(found)
-            submits = _submissions(cls)
-            if submits and not found:  # never silence: a job that runs is a job in the report
-                problems.append((cls, submits[0], "the driver submits a job (line "
-                                 f"{', '.join(map(str, submits))}) that mrlift could not read: which Job or JobConf "
-                                 "it runs was not found"))
+            submits = submissions(cls)
+            read = {line for spec in found for line in spec.submitted_at}
+            unread = [line for line in submits if line not in read]
+            if unread:  # never silence: a job that runs is a job in the report
+                problems.append((cls, unread[0], "the driver submits a job (line "
+                                 f"{', '.join(map(str, unread))}) that mrlift could not read"
+                                 + (": which Job or JobConf it runs was not found" if not found else
+                                    f" (it read {len(found)} job{'s' if len(found) != 1 else ''}: "
+                                    f"{', '.join(s.name for s in found)})")))
         except (AttributeError, TypeError, ValueError, KeyError, IndexError, RecursionError) as exc:
             # an unforeseen driver shape must not stop the batch: it is reported with its line
             problems.append((cls, method.position.line if method.position else cls.line_start,
@@ -215,13 +220,12 @@ def _shown(v: tuple) -> str:
     return {"str": lambda: '"' + v[1] + '"', "arg": lambda: f"args[{v[1]}]"}.get(v[0], lambda: str(v[1]))()
 
 
-def _submissions(cls: ClassInfo) -> list[int]:
-    """Lines of the class that submit a job: waitForCompletion, submit, JobClient.runJob/submitJob,
-    JobControl.run."""
+def submissions(cls: ClassInfo) -> list[int]:
+    """Lines of the class that submit a job: waitForCompletion, JobClient.runJob/submitJob (JobControl
+    has its own item)."""
     lines = []
     for _, n in cls.node:
-        if isinstance(n, T.MethodInvocation) and (n.member in ("waitForCompletion", "runJob", "submitJob")
-                                                  or n.member == "run" and n.qualifier and "control" in n.qualifier.lower()):
+        if isinstance(n, T.MethodInvocation) and n.member in ("waitForCompletion", "runJob", "submitJob"):
             lines.append(_line(n) or cls.line_start)
     return sorted(set(lines))
 
@@ -406,6 +410,8 @@ class _DriverReader:
             (step.postfix_operators or step.prefix_operators or []) == ["++"] or \
             isinstance(step, T.Assignment) and step.type == "+=" and getattr(step.expressionl, "member", None) == i \
             and getattr(step.value, "value", None) == "1"
+        if _job_creations(s.body) or any(isinstance(n, T.MethodInvocation) and n.member in _SUBMITS for _, n in s.body):
+            return False  # a job made or run per iteration: not a loop over paths
         if not (unit and start[0] == "int" and start[1] >= 0 and end[0] in ("arglen", "int")
                 and isinstance(left, T.MemberReference) and left.member == i and not left.qualifier
                 and c.condition.operator in ("<", "<=")):
@@ -669,10 +675,12 @@ class _DriverReader:
             j = self._value(args[0], None)
             if j[0] == "job":
                 self.specs[j[1]].call_lines.setdefault("runJob", line)
+                self.specs[j[1]].submitted_at.append(line)
                 self._submit(j[1])
             return ("unknown", "running job")
         if m in ("waitForCompletion", "submit") and recv[0] == "job":
             self.specs[recv[1]].call_lines.setdefault(m, line)
+            self.specs[recv[1]].submitted_at.append(line)
             self._submit(recv[1])
             return ("unknown", "bool")
         if m == "delete" and not args:  # java.io.File.delete()

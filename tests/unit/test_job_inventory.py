@@ -76,3 +76,26 @@ def test_other_engines_job_sources_are_listed_not_converted(tmp_path):
     assert "2 actions" in listed["wf/workflow.xml"]["hand_work"][0]["reason"]
     assert all(j["status"] == "not_converted" and j["effort_hours"] > 0 for j in listed.values())
     assert {j["hand_work"][0]["profile"] for j in listed.values()} == {"P1", "P2"}
+
+
+def test_a_second_submission_mrlift_cannot_read_is_an_entry_beside_the_job_it_read(tmp_path):
+    """One job read, another submitted by a helper the reader does not follow: both are in the report."""
+    source = HEADER + """
+public class Twice {
+  static boolean again(Configuration conf) throws Exception {
+    return JobFactory.forTonight(conf).waitForCompletion(true);
+  }
+  public static void main(String[] args) throws Exception {
+    Job job = Job.getInstance(new Configuration(), "first");
+    FileInputFormat.addInputPath(job, new Path(args[0]));
+    FileOutputFormat.setOutputPath(job, new Path(args[1]));
+    job.waitForCompletion(true);
+    System.exit(again(new Configuration()) ? 0 : 1);
+  }
+}
+"""
+    scan = scan_text(tmp_path, {"Twice.java": source})
+    assert [j.spec.name for j in scan.jobs] == ["first"]
+    (entry,) = [u for u in scan.unread if u.kind == "driver"]
+    line = source.split("\n").index("    return JobFactory.forTonight(conf).waitForCompletion(true);") + 1
+    assert entry.error.line == line and "it read 1 job: first" in entry.error.message
