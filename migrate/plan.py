@@ -601,6 +601,8 @@ class Plan:
     # what the driver prints after the job from the job's counters: (where, pieces, ends the line); a
     # piece is ("str", text) or ("counter", group, name)
     prints: tuple[tuple[Span, tuple, bool], ...] = ()
+    # the driver's check of its arguments: where, the stream and text it prints, and its exit code
+    usage: tuple[Span, str, str, int] | None = None
 
     def __post_init__(self) -> None:
         if not self.map_steps or not isinstance(self.map_steps[-1], Project):

@@ -1167,6 +1167,8 @@ def render_script(plan: Plan, header: dict, hand_work: list[HandWork]) -> str:
         slots=slots, options=[p for p in plan.params if not p.positional and not p.derived], sink=plan.sink,
         mode=_mode(plan), derived=[(p.name, _derived_code(p, plan.params)) for p in plan.params if p.derived],
         prints=[(_print_code(pieces), end, _where(where)) for where, pieces, end in plan.prints],
+        usage={"where": _where(plan.usage[0]), "stream": plan.usage[1], "text": repr(plan.usage[2]), "code": plan.usage[3]}
+        if plan.usage else None,
         build_args=build_args, build_call=build_call, hand_work=hand_work, stages=stages,
         counters=any(w.counters for w in writers), dates=any(w.dates for w in writers),
         named_counters=any(w.named_counters for w in writers), time_zone=_time_zone(writers),

@@ -98,6 +98,7 @@ class JobSpec:
     unread: list[tuple[int, str]] = field(default_factory=list)  # (line, call text) the reader skipped
     call_lines: dict[str, int] = field(default_factory=dict)  # job method name -> line of the call
     submitted_at: list[int] = field(default_factory=list)  # lines that submit this job
+    usage: tuple[int, str, str, int] | None = None  # the usage check before it: (line, stream, text, exit code)
     replaced: list[tuple[int, str, str, str]] = field(default_factory=list)  # (line, call, earlier, later) class
     extra: list[tuple[str, int, str]] = field(default_factory=list)  # (category, line, text) needing hand work
     optional: set[str] = field(default_factory=set)  # settings made only when an optional argument is given
@@ -266,6 +267,7 @@ class _DriverReader:
         self.counter_used: set[int] = set()  # those lines whose counters a print the script repeats reads
         self.counter_other: list[int] = []  # lines that use counters otherwise (not a print the script repeats)
         self.branch_depth = 0  # inside a branch the reader does not decide (or a loop over the arguments)
+        self.usage: tuple[int, str, str, int] | None = None  # the driver's usage check, before any job
 
     # -- walking
     def run(self, method: T.MethodDeclaration) -> None:
@@ -300,6 +302,7 @@ class _DriverReader:
                                 "job the script does not run"))
         for s in out:
             s.optional = {k for k in self.optional_settings if k in s.conf}
+            s.usage = self.usage
         for line, jid in self.counter_reads.items():  # counters read for something other than a print
             if line not in self.counter_used or self.counter_other:
                 self.specs[jid].extra.append(("after-job", min([line, *self.counter_other]),
@@ -348,6 +351,8 @@ class _DriverReader:
         elif isinstance(s, T.SwitchStatement) and self._switch_on_argument(s):
             return
         elif isinstance(s, T.IfStatement):
+            if self.usage is None and not self.order and s.else_statement is None:
+                self.usage = self._usage(s)
             submits = any(isinstance(n, T.MethodInvocation) and n.member in _SUBMITS for _, n in s.condition)
             branches = [b for b in (s.then_statement, s.else_statement) if b is not None and not _exits(b)]
             if not submits and any(_sets_job(b) for b in branches):
@@ -367,6 +372,39 @@ class _DriverReader:
             self._block(s.block)
         elif isinstance(s, T.ReturnStatement) and s.expression is not None:
             self._value(s.expression, None)
+
+    def _usage(self, s: T.IfStatement) -> tuple[int, str, str, int] | None:
+        """`if (args.length < 2) { System.err.println("Usage: ..."); System.exit(2); }` before any job:
+        (line, stream, the text printed, exit code), where every statement is a print of a literal or
+        the exit; else None."""
+        c = s.condition
+        if not (isinstance(c, T.BinaryOperation) and c.operator in ("<", "<=", "!=", "==", ">", ">=")
+                and ("arglen", 0) in (self._value(c.operandl, None), self._value(c.operandr, None))):
+            return None
+        body = s.then_statement.statements if isinstance(s.then_statement, T.BlockStatement) else [s.then_statement]
+        text, stream, code = "", None, None
+        for st in body:
+            e = getattr(st, "expression", None)
+            if not isinstance(e, T.MethodInvocation) or code is not None:
+                return None
+            args = e.arguments or []
+            if e.member == "exit" and e.qualifier == "System" and len(args) == 1:
+                v = self._value(args[0], None)
+                if v[0] != "int":
+                    return None
+                code = v[1] & 0xFF  # the process exit status the shell sees
+                continue
+            value = self._value(args[0], None) if len(args) == 1 else ("none",)
+            if e.qualifier not in ("System.err", "System.out") or e.member not in ("println", "print", "printf") \
+                    or value[0] != "str" or stream not in (None, e.qualifier):
+                return None
+            stream = e.qualifier
+            piece = value[1].replace("%n", "\n").replace("%%", "%") if e.member == "printf" else value[1]
+            if e.member == "printf" and "%" in value[1].replace("%n", "").replace("%%", ""):
+                return None  # a format with arguments
+            text += piece + ("\n" if e.member == "println" else "")
+        return (_line(s), "stderr" if stream == "System.err" else "stdout", text, code) \
+            if code is not None and text else None
 
     def _optional_argument(self, s: T.IfStatement) -> bool:
         """`if (args.length == 4) conf.set(name, args[3]);` (also `>=`, `>`): a setting made from an

@@ -359,7 +359,7 @@ def plan_job(spec: JobSpec, index: ClassIndex, pairs: tuple[str, str] | None = N
     prints = _counter_prints(spec, index, [*steps, *(s for b in branches for s in b.steps)], reduce, add)
     plan = Plan(spec.name, source, tuple(steps), reduce, sink, tuple(params), tuple(hand), tuple(dict.fromkeys(shapes)),
                 tuple(notes), tuple(findings), tuple(branches), tuple(tables), mode=mode, arg_settings=arg_settings,
-                prints=prints)
+                prints=prints, usage=(Span(drv, spec.usage[0], spec.usage[0]), *spec.usage[1:]) if spec.usage else None)
     sloc = sum(c.sloc for c in {index.get(fq) for fq in classes.values()} if c is not None)
     return JobResult(spec, plan, classes, files, sloc, notes)
 

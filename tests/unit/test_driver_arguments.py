@@ -270,3 +270,24 @@ def test_an_input_made_from_an_argument_matches_hadoop(tmp_path):
              "    FileOutputFormat.setOutputPath(job, new Path(otherArgs[1]));")
     check = verify_one_job(tmp_path, _job(paths), {"in/1.txt": b"the quay the mill\n", "other.txt": b"not read\n"})
     assert check.verdict == "agrees", check.detail
+
+
+def test_arguments_that_do_not_fit_print_the_drivers_usage_and_exit_code(tmp_path, capsys):
+    """`if (otherArgs.length < 2) { System.err.println("Usage: ..."); System.exit(2); }`: given one
+    argument, the JVM and the script print the same text to stderr and exit 2."""
+    from migrate.convert import write_outputs
+    from migrate.scan import scan_repo
+    from migrate.verify.hadoop import compile_sources, run_job
+    from tests.conftest import load_script
+
+    source = _job(LOOP).replace('System.exit(2);', 'System.exit(3);')
+    (tmp_path / "repo").mkdir()
+    (tmp_path / "repo" / "Main.java").write_text(source)
+    built = compile_sources([tmp_path / "repo" / "Main.java"], tmp_path / "classes")
+    assert built.ok, built.log
+    ran = run_job(tmp_path / "classes", "Main", ["only-one"], cwd=tmp_path)
+    assert ran.returncode == 3 and "Usage: wordcount <in> [<in>...] <out>" in ran.log.splitlines()
+    (job,) = write_outputs(scan_repo(tmp_path / "repo"), tmp_path / "out", "repo").report["jobs"]
+    with pytest.raises(SystemExit) as stop:
+        load_script(tmp_path / "out" / job["script"]).main(["only-one"])
+    assert stop.value.code == 3 and capsys.readouterr().err == "Usage: wordcount <in> [<in>...] <out>\n"

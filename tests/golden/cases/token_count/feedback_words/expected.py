@@ -89,8 +89,17 @@ def write_text_output(result: DataFrame, output_path: str, *, dry_run: bool = Fa
     lines.write.mode("errorifexists").text(output_path)
 
 
+class DriverArguments(argparse.ArgumentParser):
+    """Arguments that do not fit: the original driver's text and exit code
+    (RiderFeedbackWordCount.java:52)."""
+
+    def error(self, message: str) -> None:
+        print("usage: RiderFeedbackWordCount <feedback dir> <out dir>\n", end="", file=sys.stderr)
+        sys.exit(2)
+
+
 def main(argv: list[str] | None = None) -> int:
-    parser = argparse.ArgumentParser(
+    parser = DriverArguments(
         description="Run rider feedback word count on Spark (converted by mrlift)."
     )
     parser.add_argument("input_path", help="input path (args[0] of the original driver)")
