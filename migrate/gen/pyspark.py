@@ -1165,7 +1165,9 @@ def render_script(plan: Plan, header: dict, hand_work: list[HandWork]) -> str:
         regexes=[(k, raw_string(v)) for k, v in regexes.items()], task_rules=sorted(task_rules.items()),
         uses_window=parts.uses_window or any(st["uses_window"] for st in stages),
         slots=slots, options=[p for p in plan.params if not p.positional and not p.derived], sink=plan.sink,
-        mode=_mode(plan), derived=[(p.name, _derived_code(p, plan.params)) for p in plan.params if p.derived],
+        mode=_mode(plan), derived=[*_same_argument(plan.params),
+                                   *((p.name, _derived_code(p, plan.params), "as the original driver made it from "
+                                      "its arguments") for p in plan.params if p.derived)],
         prints=[(_print_code(pieces), end, _where(where)) for where, pieces, end in plan.prints],
         usage={"where": _where(plan.usage[0]), "stream": plan.usage[1], "text": repr(plan.usage[2]), "code": plan.usage[3]}
         if plan.usage else None,
@@ -1185,6 +1187,22 @@ def render_script(plan: Plan, header: dict, hand_work: list[HandWork]) -> str:
 def _print_code(pieces) -> str:
     """A driver's print of literals and counter values (Java prints a long as Python prints an int)."""
     return " + ".join(repr(p[1]) if p[0] == "str" else f"str(counts.get(({p[1]!r}, {p[2]!r}), 0))" for p in pieces)
+
+
+def _same_argument(params) -> list[tuple[str, str]]:
+    """Parameters the driver reads from an argument another one already holds: the same value."""
+    first: dict[tuple, str] = {}
+    out = []
+    for p in params:
+        place = ("at", p.position) if p.position is not None and not p.many else \
+            ("end", p.from_end) if p.from_end is not None and not p.many else None
+        if place is None:
+            continue
+        if place in first:
+            out.append((p.name, f"args.{first[place]}", "the driver reads the same argument for both"))
+        else:
+            first[place] = p.name
+    return out
 
 
 def _derived_code(p, params) -> str:
@@ -1207,9 +1225,13 @@ def argument_slots(params) -> list[Slot]:
     """The script's positional arguments in the driver's order: args[0], args[1], ..., then a run of
     arguments a loop reads (or, where only arguments counted from the end follow, those between,
     unread), then the arguments counted from the end (args[args.length - k] ... args[args.length - 1])."""
-    head = {p.position: p for p in params if p.position is not None and not p.many}
+    head, tail = {}, {}  # the first parameter at each place (the others take its value: _same_argument)
+    for p in params:
+        if p.position is not None and not p.many:
+            head.setdefault(p.position, p)
+        elif p.from_end is not None and not p.many:
+            tail.setdefault(p.from_end, p)
     run = next((p for p in params if p.many), None)
-    tail = {p.from_end: p for p in params if p.from_end is not None and not p.many}
 
     def unused(label: str, name: str) -> Slot:
         return Slot(name, f"{label} of the original driver (not used by this job)", read=False)

@@ -291,3 +291,13 @@ def test_arguments_that_do_not_fit_print_the_drivers_usage_and_exit_code(tmp_pat
     with pytest.raises(SystemExit) as stop:
         load_script(tmp_path / "out" / job["script"]).main(["only-one"])
     assert stop.value.code == 3 and capsys.readouterr().err == "Usage: wordcount <in> [<in>...] <out>\n"
+
+
+def test_one_argument_read_twice_matches_hadoop(tmp_path):
+    """args[0] added twice as an input: Hadoop lists the folder's files twice and counts every line
+    twice; the script takes args[0] once and reads it for both."""
+    paths = ("    FileInputFormat.addInputPath(job, new Path(otherArgs[0]));\n"
+             "    FileInputFormat.addInputPath(job, new Path(otherArgs[0]));\n"
+             "    FileOutputFormat.setOutputPath(job, new Path(otherArgs[1]));")
+    check = verify_one_job(tmp_path, _job(paths), {"1.txt": b"the quay the mill\n"})
+    assert check.verdict == "agrees", check.detail
