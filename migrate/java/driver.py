@@ -341,7 +341,10 @@ class _DriverReader:
         elif isinstance(s, T.StatementExpression):
             e = s.expression
             if isinstance(e, T.Assignment) and isinstance(e.expressionl, T.MemberReference):
-                self.env[e.expressionl.member] = self._value(e.value, e.expressionl.member)
+                v = self._value(e.value, e.expressionl.member)
+                if self.branch_depth and self.env.get(e.expressionl.member) == ("args",):
+                    return  # `if (args.length == 0) args = new String[] {...}`: a fallback; given ones count
+                self.env[e.expressionl.member] = v
             else:
                 self._value(e, None)
         elif isinstance(s, T.IfStatement) and self._branch_on_argument(s):

@@ -301,3 +301,16 @@ def test_one_argument_read_twice_matches_hadoop(tmp_path):
              "    FileOutputFormat.setOutputPath(job, new Path(otherArgs[1]));")
     check = verify_one_job(tmp_path, _job(paths), {"1.txt": b"the quay the mill\n"})
     assert check.verdict == "agrees", check.detail
+
+
+def test_arguments_replaced_only_when_none_are_given_stay_the_scripts_arguments(tmp_path):
+    """`if (args.length == 0) args = new String[] {...}`: the driver's fallback when run without
+    arguments; given arguments are what it reads, so the script takes them in the same places."""
+    source = _job("    FileInputFormat.addInputPath(job, new Path(otherArgs[0]));\n"
+                  "    FileOutputFormat.setOutputPath(job, new Path(otherArgs[1]));",
+                  args="args").replace("    if (otherArgs.length < 2) {",
+                                       '    if (otherArgs.length == 0) {\n'
+                                       '      otherArgs = new String[] {"testdata/in", "testdata/out"};\n    }\n'
+                                       "    if (otherArgs.length < 2) {")
+    job = _plan(tmp_path, source)
+    assert [(s.name, s.read) for s in argument_slots(job.plan.params)] == [("input_path", True), ("output_path", True)]
