@@ -313,14 +313,18 @@ def test_contains_of_another_type_is_declined(tmp_path):
     assert any("false in Java" in r for r in _reasons(job)), _reasons(job)
 
 
-def test_a_regex_pattern_from_an_argument_is_named_as_such(tmp_path):
+def test_a_regex_pattern_from_an_argument_is_taken_in_its_place(tmp_path):
+    """RegexMapper's pattern set from args[2]: the script takes args[2] there and hands it to the job
+    (Hadoop parity: tests/unit/test_driver_arguments.py)."""
     src = job_source("", reducer_class=None).replace(
         "job.setMapperClass(M.class);", "job.setMapperClass(org.apache.hadoop.mapreduce.lib.map.RegexMapper.class);")
     src = src.replace('Job job = Job.getInstance(new Configuration(), "test job");',
                       'Configuration conf = new Configuration();\n    conf.set("mapreduce.mapper.regex", args[2]);\n'
                       '    Job job = Job.getInstance(conf, "test job");')
     (job,) = scan_text(tmp_path, {"Main.java": src}).jobs
-    assert any("the driver's args[2]" in r for r in _reasons(job)), _reasons(job)
+    assert job.status == "converted", _reasons(job)
+    assert [(p.name, p.position) for p in job.plan.params if p.position == 2] == [("mapreduce_mapper_regex", 2)]
+    assert job.plan.arg_settings == (("mapreduce.mapper.regex", "mapreduce_mapper_regex"),)
 
 
 def test_a_key_object_set_after_the_write_inside_a_loop_is_declined(tmp_path):
