@@ -157,11 +157,19 @@ def _pipeline(group: list[JobResult]) -> JobResult:
         stages.append(Stage(replace(plan, hand_work=tuple(h for h in plan.hand_work if h.category != CHAINED)),
                             folder, Span(job.spec.driver.file.path, line, line)))
     final = _reads_previous(last.plan, len(group))
+    # an argument a folder is made from (`argN`, job.py) that another job reads by name: that name
+    held = {q.position for q in params if q.position is not None and not q.many and not _made_from(q)}
+    params = [q for q in params if not (_made_from(q) and q.position in held)]
     plan = replace(final, params=tuple(sorted(params, key=lambda q: (not q.positional, q.position or 0))),
                    hand_work=tuple(hand), notes=tuple(notes), findings=tuple(findings), shapes=tuple(
                        [f"{len(group)} chained jobs"] + shapes), upstream=tuple(stages))
     spec = replace(last.spec, name=" → ".join(j.spec.name for j in group))
     return JobResult(spec, plan, classes, files, sum(j.sloc_total for j in group), notes)
+
+
+def _made_from(p: Param) -> bool:
+    """A parameter job.py adds only because a path is made from that argument."""
+    return p.name == f"arg{p.position}" and p.help.endswith("(paths are made from it)")
 
 
 def _reads_previous(plan, k: int):
