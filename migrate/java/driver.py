@@ -461,20 +461,20 @@ class _DriverReader:
             stop = end[1] + (c.condition.operator == "<=")
             if stop - start[1] > MAX_ARGUMENTS:
                 return False
-            saved = self.env.get(i)
+        else:  # the run ends this many arguments before the end
+            stop = -end[1] - (c.condition.operator == "<=")
+            if stop < 0:
+                return False
+        saved = self.env.get(i)
+        if end[0] == "int":
             for k in range(start[1], stop):
                 self.env[i] = ("int", k)
                 self._stmt(s.body)
-            self.env.pop(i, None) if saved is None else self.env.__setitem__(i, saved)
-            return True
-        stop = -end[1] - (c.condition.operator == "<=")  # the run ends this many arguments before the end
-        if stop < 0:
-            return False
-        saved = self.env.get(i)
-        self.env[i] = ("argloop", start[1], stop)
-        self.branch_depth += 1
-        self._stmt(s.body)
-        self.branch_depth -= 1
+        else:
+            self.env[i] = ("argloop", start[1], stop)
+            self.branch_depth += 1
+            self._stmt(s.body)
+            self.branch_depth -= 1
         if saved is None:
             self.env.pop(i, None)
         else:

@@ -55,11 +55,11 @@ def unread_entry(u, hours: float, sloc: int, lines: int) -> dict:
         "kind": f"other-{u.kind}" if other else f"not-read-{u.kind}",
         "driver": u.name if u.kind not in ("file", *SUGGESTIONS) else "", "script": "", "status": "not_converted",
         "classes": {}, "files": {"source": f"{e.path}:1-{lines}"} if lines else {}, "shapes": [], "arguments": [],
-        "hand_work": [{"category": getattr(u, "category", "not-read"), "file": e.path, "line": e.line,
+        "hand_work": [{"category": u.category, "file": e.path, "line": e.line,
                        "reason": f"{UNREAD_WORDS[u.kind]}: {e.message}",
                        "suggestion": SUGGESTIONS[u.kind] if other else "fix what the message names (javac must "
                                      "accept the file) and run mrlift again, or translate the code by hand",
-                       "snippet": "", "profile": getattr(u, "profile", "P3"), "sloc": sloc}],
+                       "snippet": "", "profile": u.profile, "sloc": sloc}],
         "notes": [], "reduce_tasks": None, "task_files": False, "layout": "", "findings": [], "aggregates": [], "inputs": [],
         "join": None, "side_tables": [], "chain": [], "counters": [], "comparison": "bytes", "verification": None,
         "sloc": {"total": sloc, "automatic": 0, "hand": sloc}, "effort_hours": round(hours, 2),
@@ -78,11 +78,11 @@ def build_report(jobs: list[tuple[JobResult, str]], errors: list[ParseFailure], 
     unread_sloc = []  # a file's lines count once, whatever number of entries name it
     for u in unread:
         sloc, lines = _unread_sloc(source, u.error.path, max_file_bytes or MAX_FILE_BYTES)
-        sloc = u.sloc if getattr(u, "sloc", None) is not None else sloc
+        sloc = u.sloc if u.sloc is not None else sloc
         unread_sloc.append((0 if u.error.path in seen else sloc, lines))
         seen.add(u.error.path)
-    unread_efforts = [JobEffort(f"(not read) {k}", sloc, ((getattr(u, "profile", "P3"), sloc,
-                                                           getattr(u, "category", "not-read")),))
+    unread_efforts = [JobEffort(f"(not read) {k}", sloc, ((u.profile, sloc,
+                                                           u.category),))
                       for k, (u, (sloc, _)) in enumerate(zip(unread, unread_sloc))]
     est = repository_hours(efforts + unread_efforts, model)
     out_jobs = []
