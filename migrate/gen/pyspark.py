@@ -9,9 +9,9 @@ import uuid
 from dataclasses import dataclass, field, replace
 from pathlib import Path
 
-import black
 import jinja2
 
+from migrate.gen import layout
 from migrate.plan import (walk, INTEGRAL, Agg, AggRef, Arith, BoolOp, Call, Cast, Col, Compare, Cond, ConfValue, Count, EachValue, Emit, Explode, Expr, Filter, Group, HandWork, Identity, Join, Let, Lit, Lookup, Plan, Project, Runs, SideTable, Source, Stage, Step, StructNew, TaskTopN, TopN, TopPerKey, Field)
 
 SPARK_TYPES = {"int": "int", "long": "bigint", "double": "double", "float": "float", "boolean": "boolean",
@@ -1356,4 +1356,4 @@ def _tasks(plan: Plan) -> int:
 
 
 def format_code(text: str) -> str:
-    return black.format_str(text, mode=black.Mode(line_length=100))
+    return layout.format_code(text)
