@@ -34,19 +34,33 @@ class Style:
     reuse: bool
     tokenizer: bool
     javadoc: bool
+    counters: bool  # counts malformed records in a counter
 
 
 def _style(rng: random.Random) -> Style:
     return Style(old_api=rng.random() < 0.35, tool=rng.random() < 0.5, nested=rng.random() < 0.6,
                  allman=rng.random() < 0.2, indent=rng.choice(["    ", "  ", "\t"]), reuse=rng.random() < 0.6,
-                 tokenizer=rng.random() < 0.5, javadoc=rng.random() < 0.4)
+                 tokenizer=rng.random() < 0.5, javadoc=rng.random() < 0.4, counters=rng.random() < 0.4)
+
+
+LICENSE = """/*
+ * Copyright (c) Quillmere Freight. All rights reserved.
+ *
+ * This file is part of the Quillmere Freight data platform and is provided for
+ * internal use only. It may not be copied, modified or distributed except as
+ * allowed by the platform team's contribution guide.
+ *
+ * Owner: the {team} team. Questions go to the team's channel, not to the
+ * platform on-call. Changes need one review from the owning team.
+ */
+"""
 
 
 class _Out:
-    """Java text with the author's indent and brace habit."""
+    """Java text with the author's indent and brace habit (and the company's header on top)."""
 
-    def __init__(self, st: Style):
-        self.st, self.lines, self.depth = st, [], 0
+    def __init__(self, st: Style, team: str = "platform"):
+        self.st, self.lines, self.depth = st, LICENSE.format(team=team).splitlines(), 0
 
     def line(self, text: str = "") -> None:
         self.lines.append((self.st.indent * self.depth + text) if text else "")
@@ -140,6 +154,10 @@ def _map_body(o: _Out, st: Style, d: JobDraw, vt: str, emit) -> None:
     o.line(f"String[] parts = {line_expr}.split({d.delim_lit});")
     need = max(d.field, d.key_field) + 1
     o.open(f"if (parts.length < {need})")
+    if st.counters and not st.old_api:
+        o.line('context.getCounter("quality", "short records").increment(1);')
+    elif st.counters:
+        o.line('reporter.incrCounter("quality", "short records", 1);')
     o.line("return;")
     o.close()
     key = f"new Text(parts[{d.key_field}])"
@@ -307,9 +325,9 @@ def job_file(pkg: str, cls: str, d: JobDraw, st: Style) -> dict[str, str]:
             else:
                 o.line("System.exit(job.waitForCompletion(true) ? 0 : 1);")
 
-    o = _Out(st)
+    o = _Out(st, pkg.split(".")[2])
     header(o, _imports(st, d.shape))
-    o.doc(f"{cls}: a {d.shape} job of the {pkg.split('.')[-2]} team.")
+    o.doc(f"{cls}: a {d.shape} job of the {pkg.split('.')[2]} team.")
     ext = " extends Configured implements Tool" if st.tool else ""
     o.open(f"public class {cls}{ext}")
     if st.nested:
@@ -338,7 +356,7 @@ def job_file(pkg: str, cls: str, d: JobDraw, st: Style) -> dict[str, str]:
         for writer, name in ((write_mapper, mapper), (write_reducer, reducer)):
             if name == reducer and map_only:
                 continue
-            o = _Out(st)
+            o = _Out(st, pkg.split(".")[2])
             header(o, _imports(st, d.shape))
             writer(o, False)
             files[f"{base}/{name}.java"] = o.text()
@@ -348,7 +366,7 @@ def job_file(pkg: str, cls: str, d: JobDraw, st: Style) -> dict[str, str]:
 # --- the code around the jobs --------------------------------------------------------------------
 
 def util_file(pkg: str, name: str, st: Style) -> str:
-    o = _Out(st)
+    o = _Out(st, pkg.split(".")[2])
     o.line(f"package {pkg};")
     o.line()
     o.doc("Text helpers shared by the team's jobs.")
@@ -368,7 +386,7 @@ def util_file(pkg: str, name: str, st: Style) -> str:
 
 def plain_file(pkg: str, name: str, rng: random.Random, st: Style) -> str:
     """Java with no Hadoop in it: a record with accessors, a service with loops, an enum or an interface."""
-    o = _Out(st)
+    o = _Out(st, pkg.split(".")[2])
     o.line(f"package {pkg};")
     o.line()
     kind = rng.choice(["record", "record", "service", "service", "enum", "interface"])
@@ -445,7 +463,7 @@ def plain_file(pkg: str, name: str, rng: random.Random, st: Style) -> str:
     return o.text()
 
 
-def generate(root: Path, lines: int, seed: int = 7, hadoop_share: float = 0.3) -> dict:
+def generate(root: Path, lines: int, seed: int = 7, hadoop_share: float = 0.2) -> dict:
     """Write a repository of about `lines` lines under root; about `hadoop_share` of them in jobs and
     the utilities they call. Returns counts: files, lines, jobs."""
     rng = random.Random(seed)

@@ -4,6 +4,8 @@ from __future__ import annotations
 import argparse
 import json
 import sys
+import time
+from contextlib import contextmanager
 from pathlib import Path
 
 from rich.console import Console
@@ -12,7 +14,8 @@ from rich.progress import BarColumn, Progress, TextColumn
 from rich.table import Table
 
 from migrate import __version__
-from migrate.convert import OutputFolderError, write_outputs
+from migrate.batch import default_jobs
+from migrate.convert import OutputFolderError
 from migrate.java.source import MAX_FILE_BYTES
 from migrate.pathmap import PathMapError, load_path_map
 from migrate.report.effort import EffortConfigError, load_model
@@ -51,6 +54,14 @@ def _parser() -> argparse.ArgumentParser:
     c.add_argument("--with-tests", action="store_true",
                    help="also write tests/test_<script>.py per job (the verify comparison, for your own CI) and a "
                         "tests/runs.json to fill with sample data")
+    c.add_argument("-j", "--jobs", type=_processes, default=default_jobs(), metavar="N",
+                   help="processes to work with (default: the machine's cores, here %(default)s); the output is the "
+                        "same whatever N")
+    cache = c.add_mutually_exclusive_group()
+    cache.add_argument("--cache", type=Path, metavar="DIR",
+                       help="folder for what a run works out, by content hash, so that a re-run redoes only what "
+                            "changed (default: .mrlift-cache in the output folder)")
+    cache.add_argument("--no-cache", dest="cache", action="store_false", help="keep no cache")
     c.add_argument("--path-map", type=Path, metavar="FILE",
                    help="TOML file whose [paths] table maps old storage prefixes (hdfs://...) to new ones")
     v = sub.add_parser("verify", help="run the original jobs (Hadoop local runner) and their scripts (local Spark) "
@@ -86,6 +97,50 @@ def _megabytes(text: str) -> int:
     if not value > 0:
         raise argparse.ArgumentTypeError("the limit must be more than 0 MB")
     return int(value * 1024 * 1024)
+
+
+def _processes(text: str) -> int:
+    try:
+        n = int(text)
+    except ValueError:
+        raise argparse.ArgumentTypeError(f"{text!r} is not a number of processes") from None
+    if n < 1:
+        raise argparse.ArgumentTypeError("at least 1 process")
+    return n
+
+
+@contextmanager
+def progress_display(console: Console):
+    """A progress callback: on a terminal a bar with files and jobs per second and the time left;
+    otherwise a plain line now and then (a CI log is not redrawn)."""
+    start = time.monotonic()
+
+    def rates(c) -> str:
+        took = max(time.monotonic() - start, 1e-6)
+        files = min(c.files, c.files_total)
+        left = (took / files * (c.files_total - files)) if files else None
+        return (f"{files}/{c.files_total} files, {c.jobs} jobs ({files / took:.0f} files/s, {c.jobs / took:.1f} "
+                f"jobs/s)" + (f", about {left:.0f} s left" if left is not None and files < c.files_total else ""))
+
+    if console.is_terminal:
+        with Progress(TextColumn("{task.description}"), BarColumn(), TextColumn("{task.fields[rates]}"),
+                      console=console, transient=True) as bar:
+            t = bar.add_task("converting", total=None, rates="surveying the files")
+
+            def show(c) -> None:
+                bar.update(t, total=max(c.files_total, 1), completed=min(c.files, c.files_total), rates=rates(c))
+
+            yield show
+        return
+    last = [0.0]
+
+    def show(c) -> None:
+        now = time.monotonic()
+        if now - last[0] >= 5 or c.shards == c.shards_total:
+            last[0] = now
+            console.print(f"mrlift: {rates(c)}", highlight=False)
+
+    yield show
 
 
 def _size_option(p: argparse.ArgumentParser) -> None:
@@ -132,36 +187,35 @@ def _run(console: Console, args) -> int:
         except (OutputFolderError, PathMapError, EffortConfigError) as exc:
             console.print(f"[red]mrlift: {exc}[/red]")
             return 2
-        files = []
-        with Progress(TextColumn("{task.description}"), BarColumn(), TextColumn("{task.completed}/{task.total}"),
-                      console=console, transient=True) as bar:
-            from migrate.java.source import find_java_files
+        from migrate.batch import NothingRead, convert_repository
+        from migrate.cache import CacheFolderError
+        from migrate.verify.hadoop import HadoopUnavailable
 
-            files = find_java_files(args.path.resolve())
-            t = bar.add_task("reading Java", total=len(files))
-            scan = scan_repo(args.path, progress=lambda _p: bar.advance(t), max_file_bytes=args.max_file_size)
-            from migrate.scan import compile_check
-            from migrate.verify.hadoop import HadoopUnavailable
-
-            try:
-                scan = compile_check(scan, args.compile_check, args.classpath)
-            except HadoopUnavailable as exc:
-                console.print(f"[red]mrlift: --compile-check: {exc}[/red]")
-                return 2
-            t2 = bar.add_task("writing scripts", total=len(scan.jobs))
-            if not scan.files:
-                _print_errors(console, scan)
-                console.print(f"[red]mrlift: no Java source could be read under {args.path}[/red]")
-                return 1
-            try:
-                written = write_outputs(scan, args.output, args.path.name, args.force,
-                                        progress=lambda _j: bar.advance(t2), path_map=path_map,
-                                        with_tests=args.with_tests, effort_model=model)
-            except OSError as exc:  # a read-only disk, no permission, a file where a folder should be
-                console.print(f"[red]mrlift: cannot write the output into {args.output}: "
-                              f"{exc.strerror or exc} ({exc.filename or args.output})[/red]; files written before "
-                              "this are whole, nothing else was changed")
-                return 2
+        try:
+            with progress_display(console) as show:
+                written = convert_repository(args.path, args.output, args.path.name, jobs=args.jobs, force=args.force,
+                                             max_file_bytes=args.max_file_size, compile_mode=args.compile_check,
+                                             classpath=args.classpath, path_map=path_map, with_tests=args.with_tests,
+                                             effort_model=model, progress=show, cache_dir=args.cache)
+        except HadoopUnavailable as exc:
+            console.print(f"[red]mrlift: --compile-check: {exc}[/red]")
+            return 2
+        except CacheFolderError as exc:
+            console.print(f"[red]mrlift: --cache: {exc}[/red]")
+            return 2
+        except NothingRead as exc:
+            for e in exc.errors:
+                console.print("[red]not read[/red] " + shown(f"{where(e.path, e.line)}: {e.message}"))
+            console.print(f"[red]mrlift: no Java source could be read under {args.path}[/red]")
+            return 1
+        except OSError as exc:  # a read-only disk, no permission, a file where a folder should be
+            console.print(f"[red]mrlift: cannot write the output into {args.output}: "
+                          f"{exc.strerror or exc} ({exc.filename or args.output})[/red]; files written before "
+                          "this are whole, nothing else was changed")
+            return 2
+        if written.unchanged:
+            console.print("nothing changed since the last run (sources, settings and the output folder checked by "
+                          "hash): the output is as it was")
         _print_summary(console, written.report, args.output)
         for kept, new in written.kept:
             console.print(f"[yellow]kept[/yellow] {args.output / kept} (edited or not written by mrlift); "
@@ -219,7 +273,8 @@ def _verify(console: Console, args) -> int:
 def _inventory(scan: RepoScan) -> dict:
     return {
         "repository": str(scan.root.name),
-        "files": len(scan.files),
+        "files": scan.found,
+        "parsed": len(scan.files),  # the rest mention no Hadoop and no Hadoop code names them
         "classes": [{"class": c.fqcn, "file": str(c.span), "roles": sorted(c.roles), "api": c.api}
                     for c in scan.index if c.roles],
         "jobs": [{"name": j.spec.name, "driver": j.spec.driver.fqcn, "api": j.spec.api,
@@ -241,7 +296,8 @@ def _short(fq: str | None) -> str:
 
 
 def _print_inventory(console: Console, scan: RepoScan) -> None:
-    t = Table(title=f"Jobs in {scan.root.name} ({len(scan.files)} Java files)")
+    t = Table(title=f"Jobs in {scan.root.name} ({scan.found} Java files, {len(scan.files)} of them parsed: the rest "
+                    "name no Hadoop type and no Hadoop code names them)")
     for col in ("job", "driver", "API", "mapper", "reducer", "shapes", "status"):
         t.add_column(col)
     for j in scan.jobs:

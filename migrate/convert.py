@@ -4,7 +4,7 @@ from __future__ import annotations
 import hashlib
 import json
 import os
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 from pathlib import Path
 
 import black
@@ -13,10 +13,11 @@ from migrate.gen.pyspark import argument_slots, render_script
 from migrate.java.source import ParseFailure
 from migrate.lift.job import JobResult
 from migrate.plan import EachValue, Group, Identity, Join, Runs, TopN, TopPerKey
-from migrate.report.render import build_report, to_csv, to_json, to_markdown
+from migrate.report.render import assemble_report, job_entry, markdown_files, to_csv, to_json
 from migrate.scan import RepoScan, Unread, script_name
 
 MARKER = ".mrlift-output"
+CACHE_FOLDER = ".mrlift-cache"  # the cache's default place: a run killed before its first file leaves only it
 
 
 class OutputFolderError(Exception):
@@ -26,7 +27,8 @@ class OutputFolderError(Exception):
 def check_output_folder(out: Path, force: bool) -> None:
     if out.exists() and not out.is_dir():
         raise OutputFolderError(f"{out} exists and is not a folder")
-    if out.is_dir() and any(out.iterdir()) and not (out / MARKER).exists() and not force:
+    if out.is_dir() and any(p.name != CACHE_FOLDER for p in out.iterdir()) and not (out / MARKER).exists() \
+            and not force:
         raise OutputFolderError(f"{out} is not empty and was not written by mrlift; choose another folder or pass --force")
 
 
@@ -188,18 +190,52 @@ def header_for(job: JobResult, script: str) -> dict:
 
 @dataclass
 class Written:
-    scripts: list[tuple[JobResult, str]]
+    scripts: list[str]  # the scripts written, in the report's order
     report: dict
     kept: list[tuple[str, str]]  # files left alone because they were edited or not ours
+    unchanged: bool = False  # nothing read changed since the last run: nothing was written
+    stats: dict | None = None  # how the work was done: shards worked out, shards taken from the cache
+
+
+@dataclass
+class Rendered:
+    """One job made ready to write: its report entry, its share of the effort, its script and, where
+    a worker made it, its review page (with the marks `fill_page` replaces)."""
+
+    entry: dict
+    effort: object  # report.effort.JobEffort
+    script: str
+    page: str | None = None
+
+
+@dataclass(frozen=True)
+class RunFacts:
+    """What the scan says about the whole run, for the report."""
+
+    root: Path
+    max_file_bytes: int
+    submissions: tuple[int, int]
+    compiled: str
+    not_compiled: list[str]
+
+
+def render_job(job: JobResult, name: str) -> tuple[str | None, ParseFailure | None]:
+    """The job's script, or the reason none could be written (a generator bug: reported, not raised)."""
+    try:
+        text = render_script(job.plan, header_for(job, name), list(job.plan.hand_work))
+        compile(text, name, "exec")  # a script that Python cannot even read is never written
+    except (TypeError, ValueError, KeyError, SyntaxError, black.InvalidInput) as exc:
+        return None, ParseFailure(job.spec.driver.file.path, job.spec.origin.line_start,
+                                  f"could not write a script for {job.spec.name!r}: {type(exc).__name__}: {exc}")
+    return text, None
 
 
 def write_outputs(scan: RepoScan, out: Path, root_label: str, force: bool = False, progress=None,
                   path_map=None, with_tests: bool = False, effort_model=None) -> Written:
+    """Scripts, reports and review pages for a scan made in this process."""
     check_output_folder(out, force)
-    out.mkdir(parents=True, exist_ok=True)
-    writer = _Writer(out)
     taken: set[str] = set()
-    written = []
+    done = []
     errors = list(scan.errors)
     unread = list(scan.unread)
     for job in scan.jobs:
@@ -208,28 +244,50 @@ def write_outputs(scan: RepoScan, out: Path, root_label: str, force: bool = Fals
 
             job = map_job_paths(job, path_map)
         name = script_name(job, taken)
-        try:
-            text = render_script(job.plan, header_for(job, name), list(job.plan.hand_work))
-            compile(text, name, "exec")  # a script that Python cannot even read is never written
-        except (TypeError, ValueError, KeyError, SyntaxError, black.InvalidInput) as exc:  # a generator bug: report
-            errors.append(ParseFailure(job.spec.driver.file.path, job.spec.origin.line_start,
-                                       f"could not write a script for {job.spec.name!r}: {type(exc).__name__}: {exc}"))
-            unread.append(Unread("job", job.spec.name or job.spec.driver.fqcn, errors[-1]))
+        text, failure = render_job(job, name)
+        if failure is not None:
+            errors.append(failure)
+            unread.append(Unread("job", job.spec.name or job.spec.driver.fqcn, failure))
             continue
-        written.append((job, writer.write(name, text)))
+        done.append(Rendered(*job_entry(job, name), text))
         if progress:
             progress(job)
-    base = scan.root if scan.root.is_dir() else scan.root.parent  # the job files' paths start here
-    report = build_report(written, errors, root_label, str(base), effort_model, unread, scan.max_file_bytes)
-    report["summary"]["submissions"] = {"seen": scan.submissions[0], "read": scan.submissions[1]}
-    report["settings"] = {"max_file_bytes": scan.max_file_bytes,  # files over it are listed as not read
-                          "compile_check": scan.compiled, "not_compiled": scan.not_compiled}
+    facts = RunFacts(scan.root, scan.max_file_bytes, scan.submissions, scan.compiled, scan.not_compiled)
+    return write_results(out, root_label, done, errors, unread, facts, with_tests, effort_model)
+
+
+def write_results(out: Path, root_label: str, done: list[Rendered], errors: list[ParseFailure], unread: list[Unread],
+                  facts: RunFacts, with_tests: bool = False, effort_model=None, fill_page=None) -> Written:
+    """Write the scripts, then the reports and the review built from them. `fill_page(page, job entry,
+    report, k)`: finishes a page a worker made (else every page is made here)."""
+    out.mkdir(parents=True, exist_ok=True)
+    writer = _Writer(out)
+    entries = []
+    for r in done:
+        name = writer.write(r.entry["script"], r.script)  # beside a hand-edited script: another name
+        entries.append(({**r.entry, "script": name}, replace(r.effort, name=name)))
+    base = facts.root if facts.root.is_dir() else facts.root.parent  # the job files' paths start here
+    report = assemble_report(entries, errors, root_label, str(base), effort_model, unread, facts.max_file_bytes)
+    report["summary"]["submissions"] = {"seen": facts.submissions[0], "read": facts.submissions[1]}
+    report["settings"] = {"max_file_bytes": facts.max_file_bytes,  # files over it are listed as not read
+                          "compile_check": facts.compiled, "not_compiled": facts.not_compiled}
     _keep_verdicts(writer, report)
-    _write_reports(writer, report, out)
+    pages = None
+    if fill_page is not None:
+        from migrate.report.review import job_page, nav_links, neighbours, page_name
+
+        pages = {}
+        for k, j in enumerate(report["jobs"]):
+            if k < len(done) and done[k].page is not None:
+                pages[page_name(j, k)] = fill_page(done[k].page, j, report, k)
+            else:  # code not read: its Java, made here
+                pages[page_name(j, k)] = job_page(j, base, None, report["repository"], report["warning"],
+                                                  nav=nav_links(*neighbours(report, k)))
+    _write_reports(writer, report, out, pages)
     if with_tests:
         _write_checks(writer, report)
     writer.close()
-    return Written(written, report, writer.kept)
+    return Written([e["script"] for e, _ in entries], report, writer.kept)
 
 
 def _write_checks(writer: _Writer, report: dict) -> None:
@@ -308,11 +366,18 @@ def record_checks(out: Path, report: dict, checks) -> list[tuple[str, str]]:
     return writer.kept
 
 
-def _write_reports(writer: _Writer, report: dict, out: Path) -> None:
-    """report.json (the source of all the rest), report.md, effort.csv and review.html."""
-    from migrate.report.review import render_review
+def _write_reports(writer: _Writer, report: dict, out: Path, pages: dict[str, str] | None = None) -> None:
+    """report.json (the source of all the rest), report.md, effort.csv, review.html and the job pages
+    (`pages`: made already, else made here from the report and the files)."""
+    from migrate.report.review import index_page, render_review
 
     writer.write("report.json", to_json(report))
-    writer.write("report.md", to_markdown(report))
+    for name, text in markdown_files(report).items():
+        writer.write(name, text)
     writer.write("effort.csv", to_csv(report))
-    writer.write("review.html", render_review(report, out))
+    if pages is None:
+        pages = render_review(report, out)
+    else:
+        pages = {"review.html": index_page(report), **pages}
+    for name, page in pages.items():
+        writer.write(name, page)

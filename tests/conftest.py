@@ -34,13 +34,11 @@ def spark():
 
 @pytest.fixture(scope="session")
 def converted_samples(tmp_path_factory):
-    """mrlift convert samples/bikeshare -o <tmp>: the folder and its report."""
-    from migrate.convert import write_outputs
-    from migrate.scan import scan_repo
+    """mrlift convert samples/bikeshare -o <tmp> --jobs 2 --no-compile-check: the folder and its report."""
+    from migrate.batch import convert_repository
 
     out = tmp_path_factory.mktemp("converted") / "bikeshare"
-    scan = scan_repo(SAMPLES)
-    written = write_outputs(scan, out, "bikeshare")
+    written = convert_repository(SAMPLES, out, "bikeshare", jobs=2, compile_mode="off")
     return out, written.report
 
 

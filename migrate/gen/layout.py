@@ -73,7 +73,7 @@ def format_code(text: str) -> str:
     tail = lines[prev_end:]
     if any(line.strip() and not line.lstrip().startswith("#") for line in tail):
         return _black(text)
-    laid = _black("".join(skeleton) + "".join(tail)).splitlines(keepends=True)
+    laid = _piece("".join(skeleton) + "".join(tail)).splitlines(keepends=True)  # the same skeleton recurs
     out, i = [], 0
     for k, body in enumerate(pieces):
         stand = _piece(_stand_in(tree.body[k], k)).splitlines(keepends=True)

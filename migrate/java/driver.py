@@ -1,7 +1,6 @@
 """Read a driver's Job / JobConf calls into a JobSpec: classes, types, formats, paths, conf, reducers."""
 from __future__ import annotations
 
-import re
 
 from dataclasses import dataclass, field, replace
 

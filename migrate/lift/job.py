@@ -27,7 +27,7 @@ from migrate.lift.topn import lift_top_n, top_n_findings
 from migrate.lift.joins import JoinLifter
 from migrate.lift.sidefiles import read_side_files
 from migrate.lower.walk import assigned_names
-from migrate.plan import (ADVISORY_CATEGORIES, Agg, AggRef, BoolOp, Branch, Cast, Col, ConfValue, Count, EachValue, Join, Emit, Explode, Expr, Field, Filter, Finding, Group, HandWork, Identity, ModeCheck, Param, Plan,
+from migrate.plan import (ADVISORY_CATEGORIES, Agg, AggRef, BoolOp, Branch, Col, ConfValue, Count, EachValue, Join, Emit, Explode, Expr, Field, Filter, Finding, Group, HandWork, Identity, ModeCheck, Param, Plan,
                           Project, Runs, SideTable, Sink, Source, Span, Step, StructNew, TaskTopN, TopN, TopPerKey, dump_expr,
                           resolve_fields, rewrite)
 

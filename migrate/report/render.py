@@ -66,13 +66,61 @@ def unread_entry(u, hours: float, sloc: int, lines: int) -> dict:
     }
 
 
+def job_entry(job: JobResult, script: str) -> tuple[dict, JobEffort]:
+    """A job's report entry (its effort hours are the repository estimate's, added by assemble_report)."""
+    mode = job.spec.mode
+    eff = job_effort(job, script)
+    return {
+        "name": job.spec.name + (f" (args[{mode.index}] {mode.label if mode.value is None else repr(mode.value)})"
+                                 if mode is not None else ""),
+        "driver": job.spec.driver.fqcn,
+        # a driver that picks its job by an argument: the value of that argument this job runs for
+        "mode": {"argument": mode.index, "value": mode.value, "line": mode.line,
+                 "tests": [{"literal": lit, "ignore_case": ic} for lit, ic in mode.tests]} if mode is not None else None,
+        "script": script,
+        "status": job.status,
+        "classes": {role: fq for role, fq in sorted(job.classes.items())},
+        "files": {role: str(span) for role, span in sorted(job.files.items())},
+        "shapes": list(job.plan.shapes),
+        "arguments": [{"name": p.name, "position": p.position, "from_end": p.from_end, "many": p.many,
+                       "derived": bool(p.derived), "default": p.default, "help": p.help}
+                      for p in job.plan.params],
+        "hand_work": [{"category": h.category, "file": h.origin.file, "line": h.origin.line_start,
+                       "reason": h.reason, "suggestion": h.suggestion, "snippet": h.snippet,
+                       "profile": h.profile, "sloc": h.sloc} for h in job.plan.hand_work],
+        "notes": list(job.plan.notes),
+        "reduce_tasks": job.spec.reduces,
+        "task_files": job.plan.sink.partition is not None,  # the script can write one file per task
+        "layout": layout_of(job),
+        "findings": [{"category": f.category, "file": f.origin.file, "line": f.origin.line_start,
+                      "finding": f.message, "suggestion": f.suggestion} for f in job.plan.findings],
+        "aggregates": aggregates_of(job),
+        "inputs": inputs_of(job),
+        "join": join_of(job),
+        "side_tables": side_tables_of(job),
+        "chain": chain_of(job),
+        "counters": counters_of(job),
+        "comparison": comparison_of(job),  # what `mrlift verify` may compare: what the original defines
+        "verification": None,  # filled by `mrlift verify`
+        "sloc": {"total": eff.sloc_total, "automatic": eff.sloc_auto, "hand": eff.sloc_manual},
+    }, eff
+
+
 def build_report(jobs: list[tuple[JobResult, str]], errors: list[ParseFailure], root_label: str,
                  source: str | None = None, model: Model | None = None, unread: list | None = None,
                  max_file_bytes: int | None = None) -> dict:
     """The report as plain data (what report.json holds); `model`: the effort constants (default: published);
     `unread`: code that could not be read or converted at all (scan.Unread), each a not_converted entry."""
+    return assemble_report([job_entry(j, script) for j, script in jobs], errors, root_label, source, model, unread,
+                           max_file_bytes)
+
+
+def assemble_report(entries: list[tuple[dict, JobEffort]], errors: list[ParseFailure], root_label: str,
+                    source: str | None = None, model: Model | None = None, unread: list | None = None,
+                    max_file_bytes: int | None = None) -> dict:
+    """The report from the jobs' entries (job_entry), each given its share of the repository estimate."""
     model = model or DEFAULT
-    efforts = [job_effort(j, script) for j, script in jobs]
+    efforts = [eff for _, eff in entries]
     unread = list(unread or [])
     seen: set[str] = set()
     unread_sloc = []  # a file's lines count once, whatever number of entries name it
@@ -86,43 +134,8 @@ def build_report(jobs: list[tuple[JobResult, str]], errors: list[ParseFailure], 
                       for k, (u, (sloc, _)) in enumerate(zip(unread, unread_sloc))]
     est = repository_hours(efforts + unread_efforts, model)
     out_jobs = []
-    for (job, script), eff in zip(jobs, efforts):
-        mode = job.spec.mode
-        out_jobs.append({
-            "name": job.spec.name + (f" (args[{mode.index}] {mode.label if mode.value is None else repr(mode.value)})"
-                                     if mode is not None else ""),
-            "driver": job.spec.driver.fqcn,
-            # a driver that picks its job by an argument: the value of that argument this job runs for
-            "mode": {"argument": mode.index, "value": mode.value, "line": mode.line,
-                     "tests": [{"literal": lit, "ignore_case": ic} for lit, ic in mode.tests]} if mode is not None else None,
-            "script": script,
-            "status": job.status,
-            "classes": {role: fq for role, fq in sorted(job.classes.items())},
-            "files": {role: str(span) for role, span in sorted(job.files.items())},
-            "shapes": list(job.plan.shapes),
-            "arguments": [{"name": p.name, "position": p.position, "from_end": p.from_end, "many": p.many,
-                           "derived": bool(p.derived), "default": p.default, "help": p.help}
-                          for p in job.plan.params],
-            "hand_work": [{"category": h.category, "file": h.origin.file, "line": h.origin.line_start,
-                           "reason": h.reason, "suggestion": h.suggestion, "snippet": h.snippet,
-                           "profile": h.profile, "sloc": h.sloc} for h in job.plan.hand_work],
-            "notes": list(job.plan.notes),
-            "reduce_tasks": job.spec.reduces,
-            "task_files": job.plan.sink.partition is not None,  # the script can write one file per task
-            "layout": layout_of(job),
-            "findings": [{"category": f.category, "file": f.origin.file, "line": f.origin.line_start,
-                          "finding": f.message, "suggestion": f.suggestion} for f in job.plan.findings],
-            "aggregates": aggregates_of(job),
-            "inputs": inputs_of(job),
-            "join": join_of(job),
-            "side_tables": side_tables_of(job),
-            "chain": chain_of(job),
-            "counters": counters_of(job),
-            "comparison": comparison_of(job),  # what `mrlift verify` may compare: what the original defines
-            "verification": None,  # filled by `mrlift verify`
-            "sloc": {"total": eff.sloc_total, "automatic": eff.sloc_auto, "hand": eff.sloc_manual},
-            "effort_hours": round(est["jobs"][script], 2),
-        })
+    for entry, eff in entries:
+        out_jobs.append({**entry, "effort_hours": round(est["jobs"][eff.name], 2)})
     for u, eff, (sloc, lines) in zip(unread, unread_efforts, unread_sloc):
         out_jobs.append(unread_entry(u, est["jobs"][eff.name], sloc, lines))
     counts = {s: sum(1 for j in out_jobs if j["status"] == s) for s in ("converted", "partial", "not_converted")}
@@ -247,7 +260,28 @@ def to_csv(report: dict) -> str:
     return buf.getvalue()
 
 
-def to_markdown(report: dict) -> str:
+INLINE_DETAIL = 60  # up to this many jobs, report.md holds every job's detail; beyond, a file per job
+
+
+def detail_name(job: dict, k: int) -> str:
+    """The file of a job's detail beside report.md: report/<script>.md (report/entry-<k>.md without one)."""
+    return f"report/{job['script'].removesuffix('.py')}.md" if job["script"] else f"report/entry-{k}.md"
+
+
+def markdown_files(report: dict) -> dict[str, str]:
+    """report.md, and for a repository of more than INLINE_DETAIL jobs the jobs' detail files."""
+    if len(report["jobs"]) <= INLINE_DETAIL:
+        return {"report.md": to_markdown(report)}
+    files = {"report.md": to_markdown(report, detail=False)}
+    for k, j in enumerate(report["jobs"]):
+        section = _detail(j)
+        if section:
+            files[detail_name(j, k)] = "\n".join(["[all jobs](../report.md)", "", *section])
+    return files
+
+
+def to_markdown(report: dict, detail: bool = True) -> str:
+    """report.md; `detail`: each job's hand work, findings and notes here (else in its own file, linked)."""
     s = report["summary"]
     out = [f"# mrlift conversion report: {report['repository']}", "",
            f"> **{report['warning']}**", "",
@@ -260,8 +294,9 @@ def to_markdown(report: dict) -> str:
                if report["settings"].get("not_compiled") else ""), ""] if report.get("settings") else []),
            "| job | driver | script | status | checked against Hadoop | shapes | hand-work items | effort (h) |",
            "|---|---|---|---|---|---|---|---|"]
-    for j in report["jobs"]:
-        out.append(f"| {md_cell(j['name'])} | `{md_cell(j['driver'])}` | `{md_cell(j['script'] or '(none)')}` | "
+    for k, j in enumerate(report["jobs"]):
+        name = md_cell(j["name"]) if detail or not _detail(j) else f"[{md_cell(j['name'])}]({detail_name(j, k)})"
+        out.append(f"| {name} | `{md_cell(j['driver'])}` | `{md_cell(j['script'] or '(none)')}` | "
                    f"{j['status']} | {md_cell(checked_label(j))} | {md_cell(', '.join(j['shapes']))} | "
                    f"{len(j['hand_work'])} | {j['effort_hours']:.1f} |")
     e = report["effort"]
@@ -276,52 +311,60 @@ def to_markdown(report: dict) -> str:
         if e["pert"]["categories"]:
             out.append(f"| PERT total | {e['pert']['hours']} h, σ {e['pert']['sigma']} h | (O + 4M + P) / 6 |")
         out += ["", "</details>", ""]
-    for j in report["jobs"]:
-        v = j.get("verification") or {}
-        if not (j["hand_work"] or j["notes"] or j["counters"] or j["findings"] or j["aggregates"] or j["inputs"]
-                or j["side_tables"] or j["chain"] or j.get("layout") or v.get("verdict") in ("error", "differs")):
-            continue
-        out += [f"## {md_cell(j['name'])} ({j['status']})", ""]
-        if j.get("layout"):
-            out.append(f"- layout: {LAYOUT_TEXT[j['layout']].format(n=j['reduce_tasks'])}")
-        if v.get("verdict") in ("error", "differs"):
-            out.append(f"- **checked against Hadoop: {v['verdict']}**: {v['detail']} ({v['checked_at']})")
-            for d in (v.get("comparison") or {}).get("differences", []):
-                out.append(f"  - line {d['line']}: original `{d['original']}`, script `{d['converted']}`")
-            if v.get("log"):
-                out += ["", "```", v["log"], "```", ""]
-        for h in j["hand_work"]:
-            out += [f"- **{h['category']}** at `{where(h['file'], h['line'])}`: {h['reason']}",
-                    f"  - code: `{h['snippet']}`" if h["snippet"] else "  - code: (see file)",
-                    f"  - suggestion: {h['suggestion']}"]
-        for f in j["findings"]:
-            out += [f"- **finding: {f['category']}** at `{f['file']}:{f['line']}`: {f['finding']}",
-                    f"  - to decide: {f['suggestion']}"]
-        for i in j["inputs"]:
-            out.append(f"- input `{i['argument']}` read as {i['format']}, mapped by `{i['mapper']}`")
-        for c in j["chain"]:
-            out.append(f"- job {c['job']} `{c['name']}` reads {c['reads']} and writes {c['writes']}")
-        for t in j["side_tables"]:
-            out.append(f"- side file `{t['argument']}` read in setup() (`{t['file']}:{t['line']}`) into the "
-                       f"{t['java_type']} `{t['field']}`; looked up per record: a broadcast left join")
-        for side in (j["join"] or {}).get("sides", []):
-            out.append(f"- join side `{side['name']}` (`{side['file']}:{side['line']}` `{side['java']}`): "
-                       f"{side['kind']}")
-        for a in j["aggregates"]:
-            out.append(f"- accumulator `{a['accumulator']}` ({a['java_type']}, `{a['file']}:{a['line']}` "
-                       f"`{a['java']}`) became {a['aggregate']} over `{a['over']}`")
-        for n in j["notes"]:
-            out.append(f"- note: {n}")
-        for c in j["counters"]:
-            group = c["group"] if c["group"] is not None else f"[{c['group_from']}]"
-            name = c["name"] if c["name"] is not None else f"[{c['name_from']}]"
-            out.append(f"- counter `{group}:{name}` (`{c['file']}:{c['line']}`) counts {c['counts']}")
-        out.append("")
+    if detail:
+        for j in report["jobs"]:
+            out += _detail(j)
     if report["errors"]:
         out += ["## Files not read", ""]
         out += [f"- `{where(e['file'], e['line'])}`: {e['message']}" for e in report["errors"]]
         out.append("")
     return "\n".join(out)
+
+
+def _detail(j: dict) -> list[str]:
+    """A job's section: its hand work, findings, inputs, chain, side files, aggregates, notes, counters."""
+    out: list[str] = []
+    v = j.get("verification") or {}
+    if not (j["hand_work"] or j["notes"] or j["counters"] or j["findings"] or j["aggregates"] or j["inputs"]
+            or j["side_tables"] or j["chain"] or j.get("layout") or v.get("verdict") in ("error", "differs")):
+        return []
+    out += [f"## {md_cell(j['name'])} ({j['status']})", ""]
+    if j.get("layout"):
+        out.append(f"- layout: {LAYOUT_TEXT[j['layout']].format(n=j['reduce_tasks'])}")
+    if v.get("verdict") in ("error", "differs"):
+        out.append(f"- **checked against Hadoop: {v['verdict']}**: {v['detail']} ({v['checked_at']})")
+        for d in (v.get("comparison") or {}).get("differences", []):
+            out.append(f"  - line {d['line']}: original `{d['original']}`, script `{d['converted']}`")
+        if v.get("log"):
+            out += ["", "```", v["log"], "```", ""]
+    for h in j["hand_work"]:
+        out += [f"- **{h['category']}** at `{where(h['file'], h['line'])}`: {h['reason']}",
+                f"  - code: `{h['snippet']}`" if h["snippet"] else "  - code: (see file)",
+                f"  - suggestion: {h['suggestion']}"]
+    for f in j["findings"]:
+        out += [f"- **finding: {f['category']}** at `{f['file']}:{f['line']}`: {f['finding']}",
+                f"  - to decide: {f['suggestion']}"]
+    for i in j["inputs"]:
+        out.append(f"- input `{i['argument']}` read as {i['format']}, mapped by `{i['mapper']}`")
+    for c in j["chain"]:
+        out.append(f"- job {c['job']} `{c['name']}` reads {c['reads']} and writes {c['writes']}")
+    for t in j["side_tables"]:
+        out.append(f"- side file `{t['argument']}` read in setup() (`{t['file']}:{t['line']}`) into the "
+                   f"{t['java_type']} `{t['field']}`; looked up per record: a broadcast left join")
+    for side in (j["join"] or {}).get("sides", []):
+        out.append(f"- join side `{side['name']}` (`{side['file']}:{side['line']}` `{side['java']}`): "
+                   f"{side['kind']}")
+    for a in j["aggregates"]:
+        out.append(f"- accumulator `{a['accumulator']}` ({a['java_type']}, `{a['file']}:{a['line']}` "
+                   f"`{a['java']}`) became {a['aggregate']} over `{a['over']}`")
+    for n in j["notes"]:
+        out.append(f"- note: {n}")
+    for c in j["counters"]:
+        group = c["group"] if c["group"] is not None else f"[{c['group_from']}]"
+        name = c["name"] if c["name"] is not None else f"[{c['name_from']}]"
+        out.append(f"- counter `{group}:{name}` (`{c['file']}:{c['line']}`) counts {c['counts']}")
+    out.append("")
+    return out
 
 
 def checked_label(j: dict) -> str:

@@ -1,4 +1,5 @@
-"""review.html: one self-contained page to review each generated script beside its Java.
+"""The review: review.html (numbers, charts, every job, filters, search by class) and one
+self-contained page per job (review/<script>.html) with the script beside its Java.
 
 Built from report.json and the files it names (the legacy sources under report["source"], the
 scripts in the output folder), so `convert` and `verify` write the same page. No network: the
@@ -40,9 +41,51 @@ def highlighted_lines(code: str, lexer) -> list[str]:
     return lines
 
 
+_PY_PIECES: dict[str, list[str]] = {}
+
+
+def highlighted_python(script: str) -> list[str]:
+    """highlighted_lines of a script, one top-level statement at a time, each distinct one lexed once
+    per process (scripts share their helpers; the lexer starts every top-level statement afresh)."""
+    import ast
+
+    try:
+        body = ast.parse(script).body
+    except SyntaxError:
+        body = []
+    lines = script.splitlines(keepends=True)
+    if not body or not script.endswith("\n"):
+        return highlighted_lines(script, PythonLexer(stripnl=False))
+    cuts = sorted({0, *(min([n.lineno, *(d.lineno for d in getattr(n, "decorator_list", []))]) - 1 for n in body),
+                   len(lines)})
+    out: list[str] = []
+    for a, b in zip(cuts, cuts[1:]):
+        piece = "".join(lines[a:b])
+        got = _PY_PIECES.get(piece)
+        if got is None:
+            if len(_PY_PIECES) > 4096:
+                _PY_PIECES.clear()
+            got = _PY_PIECES[piece] = highlighted_lines(piece, PythonLexer(stripnl=False))
+        out += got
+    return out
+
+
 def _files_of(job: dict) -> list[str]:
     """The job's Java files (paths relative to the source root), each once, in the report's order."""
     return list(dict.fromkeys(span.rpartition(":")[0] for span in job["files"].values()))
+
+
+_HIGHLIGHTED: dict[str, list[str]] = {}  # a Java file's lines as HTML, made once per process
+
+
+def _java_lines(source: Path, path: str) -> list[str]:
+    key = f"{source}\0{path}"
+    got = _HIGHLIGHTED.get(key)
+    if got is None:
+        if len(_HIGHLIGHTED) > 512:  # a shard's files, not the repository's
+            _HIGHLIGHTED.clear()
+        got = _HIGHLIGHTED[key] = highlighted_lines(_java_text(source, path), JavaLexer(stripnl=False))
+    return got
 
 
 def _java_text(source: Path, path: str) -> str:
@@ -53,13 +96,15 @@ def _java_text(source: Path, path: str) -> str:
         return f"// {path}: not shown ({exc})\n"
 
 
-def _job_section(k: int, job: dict, source: Path, out_dir: Path) -> str:
+NO_SCRIPT = "# (no script: this code could not be read or converted; see the item on the left)\n"
+
+
+def _job_section(k: int, job: dict, source: Path, script: str, shown: dict | None = None) -> str:
+    """The job's Java beside its script. `shown`: text put in place of the effort and the verdict (a
+    worker writes the page before the repository's estimate exists)."""
     files = _files_of(job)
     by_name = {Path(p).name: i for i, p in enumerate(files)}
-    script_path = out_dir / job["script"] if job["script"] else None
-    script = (script_path.read_text(encoding="utf-8") if script_path and script_path.is_file() else
-              "# (no script: this code could not be read or converted; see the item on the left)\n")
-    py_lines = highlighted_lines(script, PythonLexer(stripnl=False))
+    py_lines = highlighted_python(script)
     raw_py = script.splitlines()
     links: dict[str, list[str]] = {}  # java line id -> python line ids
     py_html = []
@@ -76,9 +121,8 @@ def _job_section(k: int, job: dict, source: Path, out_dir: Path) -> str:
     java_html = []
     placed: set[tuple[str, int]] = set()  # hand-work lines shown inline
     for i, path in enumerate(files):
-        text = _java_text(source, path)
         java_html.append(f'<div class="file">{html.escape(path)}</div>')
-        for n, line in enumerate(highlighted_lines(text, JavaLexer(stripnl=False)), 1):
+        for n, line in enumerate(_java_lines(source, path), 1):
             jid = f"j{k}-f{i}-{n}"
             py = links.get(jid, [])
             attr = f' data-py="{" ".join(py)}" class="ln linked"' if py else ' class="ln"'
@@ -90,11 +134,11 @@ def _job_section(k: int, job: dict, source: Path, out_dir: Path) -> str:
                     f'</b>: {html.escape(h["reason"])}<br><i>suggestion:</i> {html.escape(h["suggestion"])}</div>')
     loose = [h for h in job["hand_work"] if (h["file"], h["line"]) not in placed]
     cats = sorted({h["category"] for h in job["hand_work"]})
-    verdict = checked_label(job)
+    shown = shown or {"effort": f'{job["effort_hours"]:.1f}', "verdict": html.escape(checked_label(job))}
     head = (f'<h2>{html.escape(job["name"])} <span class="badge {job["status"]}">{job["status"]}</span></h2>'
             f'<p class="meta"><code>{html.escape(job["driver"])}</code> → <code>{html.escape(job["script"])}</code>'
-            f' · {html.escape(", ".join(job["shapes"]))} · effort {job["effort_hours"]:.1f} h'
-            f' · hand work: {len(job["hand_work"])} · checked against Hadoop: {html.escape(verdict)}</p>')
+            f' · {html.escape(", ".join(job["shapes"]))} · effort {shown["effort"]} h'
+            f' · hand work: {len(job["hand_work"])} · checked against Hadoop: {shown["verdict"]}</p>')
     extra = "".join(f'<div class="hw"><b>{html.escape(h["category"])}</b> at {html.escape(where(h["file"], h["line"]))}: '
                     f'{html.escape(h["reason"])}</div>' for h in loose)
     return (f'<section class="job" id="job-{k}" data-status="{job["status"]}" data-categories="{" ".join(cats)}" '
@@ -120,6 +164,9 @@ def _bar_chart(title: str, rows: list[tuple[str, float, str]], unit: str = "") -
     return "".join(parts)
 
 
+EFFORT_BARS = 25  # the index charts the jobs of most effort; the table lists every job
+
+
 def charts(report: dict) -> str:
     s = report["summary"]
     status = [(k.replace("_", " "), s[k], STATUS_COLOURS[k]) for k in ("converted", "partial", "not_converted")]
@@ -127,25 +174,27 @@ def charts(report: dict) -> str:
     by_cat = [(c, n, "#5b6b8c") for c, n in cats.most_common()]
     effort = sorted(((j["name"], round(j["effort_hours"], 1), STATUS_COLOURS[j["status"]]) for j in report["jobs"]),
                     key=lambda r: -r[1])
+    title = "Estimated effort per job (hours)" if len(effort) <= EFFORT_BARS else \
+        f"Estimated effort: the {EFFORT_BARS} jobs of most effort (hours)"
     return (_bar_chart("Jobs by status", status) + _bar_chart("Hand-work items by category", by_cat)
-            + _bar_chart("Estimated effort per job (hours)", effort, " h"))
+            + _bar_chart(title, effort[:EFFORT_BARS], " h"))
 
 
 _CSS = """
 body{font:14px/1.4 system-ui,sans-serif;margin:0;color:#1d2433;background:#fafbfc}
 header{padding:12px 20px;background:#1d2433;color:#fff;position:sticky;top:0;z-index:2}
 header h1{font-size:18px;margin:0 0 6px}
+header a{color:#cfe0ff}
 .warn{background:#fff4e5;border-left:4px solid #b7791f;padding:8px 12px;margin:12px 20px}
 .filters label{margin-right:12px}
 main{padding:0 20px 40px}
 .summary{display:flex;flex-wrap:wrap;gap:16px}
-.job{border-top:2px solid #d0d7e2;margin-top:24px;padding-top:8px;scroll-margin-top:var(--header,120px)}
-.job.current h2{color:#0b57d0}
+.job{margin-top:12px;padding-top:8px;scroll-margin-top:var(--header,120px)}
 .badge{font-size:12px;padding:2px 8px;border-radius:10px;color:#fff;vertical-align:middle}
 .badge.converted{background:#2f7d32}.badge.partial{background:#b7791f}.badge.not_converted{background:#b42318}
 .meta{color:#4a5568;margin:2px 0 8px}
 .pair{display:grid;grid-template-columns:minmax(0,1fr) minmax(0,1fr);gap:8px}
-.code{font:12px/1.45 ui-monospace,monospace;background:#fff;border:1px solid #d0d7e2;overflow:auto;max-height:70vh}
+.code{font:12px/1.45 ui-monospace,monospace;background:#fff;border:1px solid #d0d7e2;overflow:auto;max-height:75vh}
 .ln{white-space:pre;padding:0 6px}
 .ln .no{display:inline-block;width:3.5em;color:#8a94a6;user-select:none}
 .step,.linked{cursor:pointer}
@@ -154,40 +203,82 @@ main{padding:0 20px 40px}
 .file{background:#eef1f6;padding:2px 6px;font-weight:600}
 .hw{background:#fdecea;border-left:3px solid #b42318;margin:2px 6px 4px 4em;padding:4px 8px;white-space:normal}
 .chart .ct{font-weight:600;font-size:13px}.chart .cl,.chart .cv{font-size:12px}
+table.jobs{border-collapse:collapse;width:100%;margin-top:16px;background:#fff}
+table.jobs th,table.jobs td{border-bottom:1px solid #e2e7ef;padding:4px 8px;text-align:left;vertical-align:top}
+table.jobs th{background:#eef1f6;position:sticky;top:var(--header,120px)}
+table.jobs td.num{text-align:right}
 .hidden{display:none}
 """
 
-_JS = """
+_PAGE_JS = """
 (function(){
   var head=document.querySelector('header');
   function pad(){document.documentElement.style.setProperty('--header',(head.offsetHeight+8)+'px');}
   pad();window.addEventListener('resize',pad);
-  var jobs=[].slice.call(document.querySelectorAll('section.job')), cur=-1;
   function clear(){[].forEach.call(document.querySelectorAll('.ln.hl'),function(e){e.classList.remove('hl');});}
   function mark(ids){var first=null;ids.forEach(function(id){var e=document.getElementById(id);
     if(e){e.classList.add('hl');first=first||e;}});if(first){first.scrollIntoView({block:'center'});}}
   document.addEventListener('click',function(ev){var l=ev.target.closest('.ln');if(!l)return;
     var to=l.getAttribute('data-java')||l.getAttribute('data-py');if(!to)return;clear();l.classList.add('hl');
     mark(to.split(' '));});
-  function visible(){return jobs.filter(function(j){return !j.classList.contains('hidden');});}
-  function go(step){var v=visible();if(!v.length)return;var i=v.indexOf(jobs[cur]);i=Math.max(0,Math.min(v.length-1,i+step));
-    if(cur>=0)jobs[cur].classList.remove('current');cur=jobs.indexOf(v[i]);v[i].classList.add('current');
-    v[i].scrollIntoView({block:'start'});v[i].focus({preventScroll:true});}
-  document.addEventListener('keydown',function(ev){var t=ev.target;
-    if(t.tagName==='SELECT'||(t.tagName==='INPUT'&&t.type!=='checkbox'))return;
-    if(ev.key==='j'||ev.key==='n'){go(1);}else if(ev.key==='k'||ev.key==='p'){go(-1);}});
-  function filter(){var on=[].slice.call(document.querySelectorAll('.filters input:checked')).map(function(e){return e.value;});
-    var cat=document.getElementById('category').value;
-    jobs.forEach(function(j){var ok=on.indexOf(j.getAttribute('data-status'))>=0&&
-      (!cat||(' '+j.getAttribute('data-categories')+' ').indexOf(' '+cat+' ')>=0);j.classList.toggle('hidden',!ok);});}
-  [].forEach.call(document.querySelectorAll('.filters input,.filters select'),function(e){e.addEventListener('change',filter);});
+  document.addEventListener('keydown',function(ev){var t=ev.target;if(t.tagName==='INPUT'||t.tagName==='SELECT')return;
+    var a=document.querySelector(ev.key==='j'||ev.key==='n'?'a[rel=next]':ev.key==='k'||ev.key==='p'?'a[rel=prev]':
+      ev.key==='u'?'a[rel=index]':'none');if(a){a.click();}});
 })();
 """
 
+_INDEX_JS = """
+(function(){
+  var head=document.querySelector('header');
+  function pad(){document.documentElement.style.setProperty('--header',(head.offsetHeight+8)+'px');}
+  pad();window.addEventListener('resize',pad);
+  var rows=[].slice.call(document.querySelectorAll('table.jobs tbody tr'));
+  function filter(){var on=[].slice.call(document.querySelectorAll('.filters input[type=checkbox]:checked')).map(function(e){return e.value;});
+    var cat=document.getElementById('category').value, q=document.getElementById('search').value.trim().toLowerCase();
+    var shown=0;
+    rows.forEach(function(r){var ok=on.indexOf(r.getAttribute('data-status'))>=0&&
+      (!cat||(' '+r.getAttribute('data-categories')+' ').indexOf(' '+cat+' ')>=0)&&
+      (!q||r.getAttribute('data-classes').indexOf(q)>=0);r.classList.toggle('hidden',!ok);if(ok)shown++;});
+    document.getElementById('shown').textContent=shown;}
+  [].forEach.call(document.querySelectorAll('.filters input,.filters select'),function(e){
+    e.addEventListener(e.type==='search'?'input':'change',filter);});
+})();
+"""
 
-def render_review(report: dict, out_dir: Path) -> str:
-    """The whole page."""
-    source = Path(report.get("source") or ".")
+_HEAD = ("<!DOCTYPE html><html lang=\"en\"><head><meta charset=\"utf-8\">"
+         "<meta http-equiv=\"Content-Security-Policy\" content=\"default-src 'none'; style-src 'unsafe-inline'; "
+         "script-src 'unsafe-inline'; img-src data:\">")
+_CODE_STYLE = HtmlFormatter(style="default").get_style_defs(".code")
+
+
+def page_name(job: dict, k: int) -> str:
+    """The job's page, beside the index: review/<script>.html (review/entry-<k>.html without a script)."""
+    return f"review/{Path(job['script']).stem}.html" if job["script"] else f"review/entry-{k}.html"
+
+
+def nav_links(prev: str | None, nxt: str | None) -> str:
+    """Links to the index and to the previous and next job pages (names relative to a job page)."""
+    return ('<a rel="index" href="../review.html">all jobs</a>'
+            + (f' · <a rel="prev" href="{prev}">previous</a>' if prev else "")
+            + (f' · <a rel="next" href="{nxt}">next</a>' if nxt else "")
+            + " · keys: j / k next and previous job, u all jobs · click a line to see where it came from")
+
+
+def job_page(job: dict, source: Path, script: str | None, repository: str, warning: str,
+             shown: dict | None = None, nav: str = "") -> str:
+    """One job's self-contained page: its Java beside its script, lines linked both ways.
+    `nav`: nav_links to the pages around it."""
+    section = _job_section(0, job, source, script if script is not None else NO_SCRIPT, shown)
+    links = nav
+    return (f"{_HEAD}<title>{html.escape(job['name'])}: mrlift review of {html.escape(repository)}</title>"
+            f"<style>{_CSS}{_CODE_STYLE}</style></head><body><header><h1>mrlift review: {html.escape(repository)}"
+            f"</h1><div class=\"nav\">{links}</div></header><div class=\"warn\"><b>{html.escape(warning)}</b></div>"
+            f"<main>{section}</main><script>{_PAGE_JS}</script></body></html>")
+
+
+def index_page(report: dict) -> str:
+    """review.html: the numbers, the charts and every job, with filters and a search by class name;
+    each job links to its own page."""
     s = report["summary"]
     cats = sorted({h["category"] for j in report["jobs"] for h in j["hand_work"]})
     e = report["effort"]
@@ -195,19 +286,50 @@ def render_review(report: dict, out_dir: Path) -> str:
                        for k in ("converted", "partial", "not_converted"))
                + '<label>hand work: <select id="category"><option value="">any</option>'
                + "".join(f'<option value="{html.escape(c)}">{html.escape(c)}</option>' for c in cats)
-               + "</select></label> · keys: j / k next and previous job · click a line to see where it came from")
+               + '</select></label><label>class: <input type="search" id="search" placeholder="name of a class"></label>'
+               + f' showing <span id="shown">{len(report["jobs"])}</span> of {len(report["jobs"])}')
     summary = (f"<p>{s['jobs']} jobs: {s['converted']} converted, {s['partial']} partial, {s['not_converted']} not "
                f"converted; {s.get('verified', 0)} checked against Hadoop with the same output. Estimated effort "
                f"<b>{e['hours']:.1f} h</b> (range {e['range_hours'][0]:.1f} to {e['range_hours'][1]:.1f} h, "
                f"{html.escape(e['model'])}). {html.escape(e['caveat'])}</p>")
-    sections = "".join(_job_section(k, j, source, out_dir) for k, j in enumerate(report["jobs"]))
-    style = HtmlFormatter(style="default").get_style_defs(".code")
+    rows = []
+    for k, j in enumerate(report["jobs"]):
+        names = " ".join(sorted({j["driver"], *j["classes"].values()} - {""})).lower()
+        rows.append(
+            f'<tr data-status="{j["status"]}" data-categories="{html.escape(" ".join(sorted({h["category"] for h in j["hand_work"]})))}" '
+            f'data-classes="{html.escape(names)}"><td><a href="{html.escape(page_name(j, k))}">{html.escape(j["name"])}</a></td>'
+            f'<td><code>{html.escape(j["driver"])}</code></td><td><code>{html.escape(j["script"])}</code></td>'
+            f'<td><span class="badge {j["status"]}">{j["status"]}</span></td><td>{html.escape(", ".join(j["shapes"]))}</td>'
+            f'<td class="num">{len(j["hand_work"])}</td><td class="num">{j["effort_hours"]:.1f}</td>'
+            f'<td>{html.escape(checked_label(j))}</td></tr>')
+    table = ('<table class="jobs"><thead><tr><th>job</th><th>driver</th><th>script</th><th>status</th><th>shapes</th>'
+             '<th>hand work</th><th>effort (h)</th><th>checked against Hadoop</th></tr></thead><tbody>'
+             + "".join(rows) + "</tbody></table>")
     data = html.escape(json.dumps({"summary": s, "effort_hours": e["hours"]}), quote=False)
-    return ("<!DOCTYPE html><html lang=\"en\"><head><meta charset=\"utf-8\">"
-            "<meta http-equiv=\"Content-Security-Policy\" content=\"default-src 'none'; style-src 'unsafe-inline'; "
-            "script-src 'unsafe-inline'; img-src data:\">"
-            f"<title>mrlift review: {html.escape(report['repository'])}</title><style>{_CSS}{style}</style></head><body>"
-            f"<header><h1>mrlift review: {html.escape(report['repository'])}</h1><div class=\"filters\">{filters}</div>"
-            f"</header><div class=\"warn\"><b>{html.escape(report['warning'])}</b></div><main>{summary}"
-            f"<div class=\"summary\">{charts(report)}</div>{sections}</main>"
-            f"<script type=\"application/json\" id=\"report-numbers\">{data}</script><script>{_JS}</script></body></html>")
+    return (f"{_HEAD}<title>mrlift review: {html.escape(report['repository'])}</title><style>{_CSS}</style></head>"
+            f"<body><header><h1>mrlift review: {html.escape(report['repository'])}</h1><div class=\"filters\">{filters}"
+            f"</div></header><div class=\"warn\"><b>{html.escape(report['warning'])}</b></div><main>{summary}"
+            f"<div class=\"summary\">{charts(report)}</div>{table}</main>"
+            f"<script type=\"application/json\" id=\"report-numbers\">{data}</script><script>{_INDEX_JS}</script>"
+            "</body></html>")
+
+
+def neighbours(report: dict, k: int) -> tuple[str | None, str | None]:
+    """The pages before and after job k, as links from a job page."""
+    jobs = report["jobs"]
+    prev = page_name(jobs[k - 1], k - 1).removeprefix("review/") if k > 0 else None
+    nxt = page_name(jobs[k + 1], k + 1).removeprefix("review/") if k + 1 < len(jobs) else None
+    return prev, nxt
+
+
+def render_review(report: dict, out_dir: Path) -> dict[str, str]:
+    """The index and every job's page, read from report.json's data, the scripts in `out_dir` and the
+    legacy sources: {file name in the output folder: page}."""
+    source = Path(report.get("source") or ".")
+    pages = {"review.html": index_page(report)}
+    for k, j in enumerate(report["jobs"]):
+        path = out_dir / j["script"] if j["script"] else None
+        script = path.read_text(encoding="utf-8") if path is not None and path.is_file() else None
+        pages[page_name(j, k)] = job_page(j, source, script, report["repository"], report["warning"],
+                                          nav=nav_links(*neighbours(report, k)))
+    return pages

@@ -1,7 +1,8 @@
-"""review.html in a real browser: headless Chromium (Debian's package, driven by Playwright).
+"""The review in a real browser: headless Chromium (Debian's package, driven by Playwright).
 
-The page must work opened from disk with no request leaving it, log no console error, and link
-lines both ways: clicking a Python step highlights the Java lines it came from.
+The index and a job page must work opened from disk with no request leaving them and log no console
+error; the index filters and searches its jobs; a job page links lines both ways (clicking a Python
+step highlights the Java lines it came from) and moves to the next job and back to the index.
 """
 from __future__ import annotations
 
@@ -32,25 +33,65 @@ def browser():
         b.close()
 
 
-def test_review_page_opens_from_disk_offline_and_links_lines(browser, converted_samples, tmp_path):
-    out_dir, report = converted_samples
-    page_file = out_dir / "review.html"
-    requests, problems = [], []
-    page = browser.new_page(viewport={"width": 1400, "height": 900})
+def _watch(page, requests: list, problems: list) -> None:
     page.on("request", lambda r: requests.append(r.url))
     page.on("console", lambda m: problems.append(m.text) if m.type == "error" else None)
     page.on("pageerror", lambda e: problems.append(str(e)))
-    page.goto(page_file.as_uri())
-    page.screenshot(path=str(tmp_path / "review.png"))
-    assert (tmp_path / "review.png").stat().st_size > 10_000
+
+
+def test_review_index_opens_from_disk_offline_filters_and_searches(browser, converted_samples, tmp_path):
+    out_dir, report = converted_samples
+    requests, problems = [], []
+    page = browser.new_page(viewport={"width": 1400, "height": 900})
+    _watch(page, requests, problems)
+    page.goto((out_dir / "review.html").as_uri())
+    page.screenshot(path=str(tmp_path / "index.png"))
+    assert (tmp_path / "index.png").stat().st_size > 10_000
     assert [u for u in requests if not u.startswith(("file:", "data:"))] == []
     assert problems == []
-    # the numbers on the page are report.json's
+    # the numbers on the page are report.json's, and every job is a row
     shown = json.loads(page.locator("#report-numbers").text_content())
     assert shown["summary"] == json.loads((out_dir / "report.json").read_text())["summary"]
-    assert len(page.locator("section.job").all()) == len(report["jobs"])
-    # click the first Python step of the first job: the Java lines it names light up
-    step = page.locator("section.job").first.locator(".python .step").first
+    rows = page.locator("table.jobs tbody tr")
+    assert rows.count() == len(report["jobs"])
+
+    def visible() -> list:
+        return [r for r in rows.all() if "hidden" not in (r.get_attribute("class") or "")]
+
+    # a status filter hides the rows of that status
+    page.locator(".filters input[value=converted]").uncheck()
+    assert len(visible()) == sum(1 for j in report["jobs"] if j["status"] != "converted")
+    assert page.locator("#shown").text_content() == str(len(visible()))
+    page.locator(".filters input[value=converted]").check()
+    # the search finds a job by the name of any of its classes
+    job = next(j for j in report["jobs"] if j["classes"].get("mapper"))
+    mapper = job["classes"]["mapper"].rsplit(".", 1)[-1]
+    page.locator("#search").fill(mapper.lower())
+    found = visible()
+    expected = [j for j in report["jobs"]
+                if mapper.lower() in " ".join([j["driver"], *j["classes"].values()]).lower()]
+    assert len(found) == len(expected) >= 1
+    # the header row of the table stands below the sticky page header
+    header = page.locator("header").bounding_box()
+    assert page.locator("table.jobs").bounding_box()["y"] >= header["y"] + header["height"] - 1
+    page.close()
+
+
+def test_a_job_page_links_lines_both_ways_and_moves_between_jobs(browser, converted_samples, tmp_path):
+    out_dir, report = converted_samples
+    requests, problems = [], []
+    page = browser.new_page(viewport={"width": 1400, "height": 900})
+    _watch(page, requests, problems)
+    page.goto((out_dir / "review.html").as_uri())
+    with page.expect_navigation():
+        page.locator("table.jobs tbody tr a").first.click()  # the index's first row opens the job's page
+    first = report["jobs"][0]
+    assert page.url.endswith(f"review/{first['script'].removesuffix('.py')}.html")
+    assert first["name"] in page.locator("h2").text_content()
+    page.screenshot(path=str(tmp_path / "job.png"))
+    assert (tmp_path / "job.png").stat().st_size > 10_000
+    # click the first Python step: the Java lines it names light up
+    step = page.locator(".python .step").first
     targets = step.get_attribute("data-java").split()
     step.click()
     for t in targets:
@@ -60,19 +101,18 @@ def test_review_page_opens_from_disk_offline_and_links_lines(browser, converted_
     back = java.get_attribute("data-py").split()
     java.click()
     assert all("hl" in page.locator(f"#{b}").get_attribute("class").split() for b in back)
-    # a filter hides jobs of a status; `j` moves to the next visible job
-    page.locator(".filters input[value=converted]").uncheck()
-    visible = [s for s in page.locator("section.job").all() if "hidden" not in (s.get_attribute("class") or "")]
-    assert len(visible) == sum(1 for j in report["jobs"] if j["status"] != "converted")
-    page.keyboard.press("j")
-    assert "current" in visible[0].get_attribute("class")
-    # the job's title stands below the sticky header, not under it
-    title = visible[0].locator("h2").bounding_box()
-    header = page.locator("header").bounding_box()
-    assert title["y"] >= header["y"] + header["height"] - 1
     # a script line wider than its pane scrolls inside the pane instead of being cut off
-    pane = visible[0].locator(".python")
+    pane = page.locator(".python")
     widths = pane.evaluate("e => [e.scrollWidth, e.clientWidth, getComputedStyle(e).overflowX]")
     box = pane.bounding_box()
     assert widths[2] == "auto" and box["x"] + box["width"] <= 1400 + 1
+    # `j` opens the next job's page, `u` the index
+    with page.expect_navigation():
+        page.keyboard.press("j")
+    assert report["jobs"][1]["name"] in page.locator("h2").text_content()
+    with page.expect_navigation():
+        page.keyboard.press("u")
+    assert page.url.endswith("/review.html")
+    assert [u for u in requests if not u.startswith(("file:", "data:"))] == []
+    assert problems == []
     page.close()

@@ -15,21 +15,21 @@ def test_unparseable_non_utf8_and_empty_files_are_errors_and_the_batch_goes_on(t
     repo = tmp_path / "repo"
     files = {
         "Main.java": GOOD,
-        "Broken.java": "public class Broken {\n  void f( {\n}\n",
+        "Broken.java": "import org.apache.hadoop.io.Text;\npublic class Broken {\n  void f( {\n}\n",
         "Latin1.java": "// caf\xe9\npublic class Latin1 {}\n".encode("latin-1"),
         "Empty.java": "",
     }
     scan = scan_text(repo, files)
     errors = {e.path: e for e in scan.errors}
     assert set(errors) == {"Broken.java", "Latin1.java", "Empty.java"}
-    assert errors["Broken.java"].line == 2 and "syntax" in errors["Broken.java"].message
+    assert errors["Broken.java"].line == 3 and "syntax" in errors["Broken.java"].message
     assert errors["Latin1.java"].line == 1 and "UTF-8" in errors["Latin1.java"].message
     assert "empty" in errors["Empty.java"].message
     assert [j.status for j in scan.jobs] == ["converted"]
     out = tmp_path / "out"
     assert main(["convert", str(repo), "-o", str(out)]) == 0
     report = json.loads((out / "report.json").read_text())
-    assert {(e["file"], e["line"]) for e in report["errors"]} == {("Broken.java", 2), ("Latin1.java", 1), ("Empty.java", 1)}
+    assert {(e["file"], e["line"]) for e in report["errors"]} == {("Broken.java", 3), ("Latin1.java", 1), ("Empty.java", 1)}
     assert report["jobs"][0]["status"] == "converted"
 
 
@@ -72,12 +72,14 @@ def test_exit_codes_for_usage_errors_and_unreadable_repositories(tmp_path):
 
 
 def test_scan_json_lists_jobs_classes_and_errors(tmp_path, capsys):
-    scan_text(tmp_path, {"Main.java": GOOD, "Bad.java": "class {"})
+    scan_text(tmp_path, {"Main.java": GOOD, "Bad.java": "import org.apache.hadoop.io.Text;\nclass {",
+                        "Plain.java": "class Plain {"})  # no Hadoop in it, named by no Hadoop file: not parsed
     assert main(["scan", str(tmp_path), "--json"]) == 0
     data = json.loads(capsys.readouterr().out)
     assert data["jobs"][0]["driver"] == "Main" and data["jobs"][0]["status"] == "converted"
     assert {c["class"]: c["roles"] for c in data["classes"]}["Main.M"] == ["mapper"]
-    assert data["errors"][0]["file"] == "Bad.java"
+    assert [e["file"] for e in data["errors"]] == ["Bad.java"]
+    assert data["files"] == 3 and data["parsed"] == 1  # Main; Bad.java was read and failed
 
 
 def test_reconvert_never_replaces_hand_edits_or_foreign_files(tmp_path):

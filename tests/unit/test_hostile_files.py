@@ -125,8 +125,10 @@ def test_every_file_not_read_is_in_every_output(tmp_path):
     md = (out / "report.md").read_text()
     assert f"`Damaged.java:{damaged_line}`" in md and "Latin.java (not read)" in md
     page = (out / "review.html").read_text()
-    assert "Damaged.java (not read)" in page and "no script: this code could not be read" in page
-    assert "3 jobs: 1 converted, 0 partial, 2 not converted" in page
+    assert "Damaged.java (not read)" in page and "3 jobs: 1 converted, 0 partial, 2 not converted" in page
+    k = [j["name"] for j in report["jobs"]].index("Damaged.java (not read)")
+    own = (out / "review" / f"entry-{k}.html").read_text()  # its own page: the Java, and no script
+    assert "no script: this code could not be read" in own and "Damaged.java" in own and "getInstance" in own
 
 
 def test_the_output_folder_below_a_file_or_unwritable_is_a_clear_error(tmp_path, capsys, monkeypatch):

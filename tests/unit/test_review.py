@@ -1,4 +1,4 @@
-"""review.html without a browser: hostile Java text stays text, and the page's numbers are report.json's."""
+"""The review without a browser: hostile Java text stays text, and the pages' numbers are report.json's."""
 from __future__ import annotations
 
 import json
@@ -42,12 +42,15 @@ def test_hostile_java_text_is_shown_as_text(tmp_path):
     (tmp_path / "repo" / "p").mkdir(parents=True)
     (tmp_path / "repo" / "p" / "Hostile.java").write_text(HOSTILE)
     write_outputs(scan_repo(tmp_path / "repo"), tmp_path / "out", "repo <&>")
-    page = (tmp_path / "out" / "review.html").read_text()
-    assert page.count("<script") == 2  # the page's own: the numbers (JSON) and the behaviour
-    assert "<img" not in page and "<b>bold" not in page and "</div><script>" not in page
+    index = (tmp_path / "out" / "review.html").read_text()
+    page = (tmp_path / "out" / "review" / "hostile.html").read_text()
+    assert index.count("<script") == 2  # the index's own: the numbers (JSON) and the behaviour
+    assert page.count("<script") == 1  # the job page's own behaviour
+    for text in (index, page):
+        assert "<img" not in text and "<b>bold" not in text and "</div><script>" not in text
+        assert "hostile &lt;job&gt; &amp; co" in text and "mrlift review: repo &lt;&amp;&gt;" in text
+        assert "http://" not in text.replace('xmlns="http://www.w3.org/2000/svg"', "") and "https://" not in text
     assert "&lt;/div&gt;&lt;script&gt;alert" in page and "&lt;img src=x onerror=alert(1)&gt;" in page
-    assert "hostile &lt;job&gt; &amp; co" in page and "mrlift review: repo &lt;&amp;&gt;" in page
-    assert "http://" not in page.replace('xmlns="http://www.w3.org/2000/svg"', "") and "https://" not in page
 
 
 def test_page_numbers_and_charts_match_the_report(converted_samples):
@@ -57,9 +60,16 @@ def test_page_numbers_and_charts_match_the_report(converted_samples):
     s = report["summary"]
     assert f"{s['jobs']} jobs: {s['converted']} converted, {s['partial']} partial" in page
     assert f"<b>{report['effort']['hours']:.1f} h</b>" in page
-    assert page.count('<section class="job"') == len(report["jobs"])
-    for j in report["jobs"]:  # each job's effort bar is labelled with the report's hours
+    assert page.count("<tr data-status=") == len(report["jobs"])  # every job is a row of the index
+    from migrate.report.review import EFFORT_BARS, page_name
+
+    top = sorted(report["jobs"], key=lambda j: -round(j["effort_hours"], 1))[:EFFORT_BARS]
+    for j in top:  # the jobs of most effort are charted, labelled with the report's hours
         assert f">{round(j['effort_hours'], 1):g} h</text>" in page
+    for k, j in enumerate(report["jobs"]):  # each row links to the job's own page, which shows its hours
+        assert f'href="{page_name(j, k)}"' in page
+        own = (out_dir / page_name(j, k)).read_text()
+        assert f"effort {j['effort_hours']:.1f} h" in own and page.count("<section class=\"job\"") == 0
     csv_lines = (out_dir / "effort.csv").read_text().splitlines()
     assert len(csv_lines) == 1 + len(report["jobs"]) + sum(len(j["hand_work"]) for j in report["jobs"]) + 1
 
@@ -71,7 +81,7 @@ def test_line_numbers_hold_when_a_java_file_starts_with_blank_lines(tmp_path):
     text = "\n\n\n" + HOSTILE  # pygments strips leading newlines unless told not to
     (tmp_path / "repo" / "p" / "Hostile.java").write_text(text)
     write_outputs(scan_repo(tmp_path / "repo"), tmp_path / "out", "repo")
-    page = (tmp_path / "out" / "review.html").read_text()
+    page = (tmp_path / "out" / "review" / "hostile.html").read_text()
     java_line = next(i for i, l in enumerate(text.split("\n"), 1) if "public class Hostile" in l)
     row = re.search(rf'<div id="j0-f0-{java_line}"[^>]*><span class="no">{java_line}</span>(.*?)</div>', page)
     assert row and "Hostile" in row.group(1)

@@ -169,8 +169,10 @@ def test_sample_jobs_agree_and_the_verdicts_go_into_the_report(converted_copy, c
     md = (converted_copy / "report.md").read_text()
     assert "| rides per station |" in md and "agrees (" in md and "unverified" in md  # the others
     assert report["summary"]["verified"] == 4
-    page = (converted_copy / "review.html").read_text()  # the review page carries the verdicts too
-    assert "4 checked against Hadoop with the same output" in page and "checked against Hadoop: agrees (" in page
+    page = (converted_copy / "review.html").read_text()  # the review carries the verdicts too
+    assert "4 checked against Hadoop with the same output" in page and "<td>agrees (" in page
+    own = (converted_copy / "review" / "rides_per_station.html").read_text()
+    assert "checked against Hadoop: agrees (" in own
     assert "agrees" in (converted_copy / "effort.csv").read_text()
 
 
