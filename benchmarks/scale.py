@@ -51,7 +51,7 @@ def _tree_rss(pid: int) -> tuple[int, int, int]:
             with open(f"/proc/{p}/statm") as f:
                 size = int(f.read().split()[1]) * os.sysconf("SC_PAGE_SIZE")
             with open(f"/proc/{p}/comm") as f:
-                is_java = f.read().strip() == "java"
+                is_java = f.read().strip() in ("java", "javac")
         except OSError:
             continue
         if is_java:
@@ -96,9 +96,9 @@ def bare_parse(repo: Path) -> float:
 
 
 def same_outputs(a: Path, b: Path) -> bool:
-    """Every file in both folders, byte for byte."""
-    names_a = sorted(p.relative_to(a) for p in a.rglob("*") if p.is_file())
-    names_b = sorted(p.relative_to(b) for p in b.rglob("*") if p.is_file())
+    """Every file in both folders, byte for byte (the cache is a record of work, not output)."""
+    names_a = sorted(p.relative_to(a) for p in a.rglob("*") if p.is_file() and ".mrlift-cache" not in p.parts)
+    names_b = sorted(p.relative_to(b) for p in b.rglob("*") if p.is_file() and ".mrlift-cache" not in p.parts)
     if names_a != names_b:
         return False
     match, mismatch, errors = filecmp.cmpfiles(a, b, [str(n) for n in names_a], shallow=False)

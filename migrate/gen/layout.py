@@ -12,11 +12,15 @@ black on the whole text for every golden and sample script.
 from __future__ import annotations
 
 import ast
+import io
+import re
+import tokenize
 
 import black
 
 MODE = black.Mode(line_length=100)
-_CACHE: dict[str, str] = {}
+_CACHE: dict[str, str] = {}  # masked piece -> black's output for it
+_SAME: dict[str, str] = {}  # piece -> its formatted text
 _CACHE_LIMIT = 4096  # distinct pieces kept per process (helpers repeat; job bodies rarely do)
 
 
@@ -25,13 +29,98 @@ def _black(text: str) -> str:
 
 
 def _piece(text: str) -> str:
-    got = _CACHE.get(text)
+    """black's output for one top-level statement. Two statements that differ only in the letters and
+    digits inside plain strings and comments (a job's name, a Java line quoted in a comment) are laid
+    out alike: black decides by lengths and keeps such strings and comments as they are. So the layout
+    is cached with those letters and digits masked, and the originals are put back in their places
+    (black keeps the order of the strings, and of the comments)."""
+    same = _SAME.get(text)  # helpers and boilerplate recur as they are: no need to mask them
+    if same is not None:
+        return same
+    masked, originals = _masked(text)
+    got = _CACHE.get(masked)
     if got is None:
-        got = _black(text)
+        got = _black(masked)
         if len(_CACHE) >= _CACHE_LIMIT:
             _CACHE.clear()
-        _CACHE[text] = got
-    return got
+        _CACHE[masked] = got
+    back = got if masked == text else _unmasked(got, originals)
+    if back is None:
+        back = _black(text)
+    if len(_SAME) >= _CACHE_LIMIT:
+        _SAME.clear()
+    _SAME[text] = back
+    return back
+
+
+_PLAIN = re.compile(r"[ -~]*")  # printable ASCII: no tab, no wide character, one column per character
+_LETTERS = re.compile(r"[A-Za-z0-9]")
+_KINDS = (tokenize.STRING, tokenize.COMMENT)
+
+
+def _maskable(t) -> bool:
+    """A one-line string black leaves as it is (no prefix, no escape, no quote inside), or a comment
+    already spelled as black spells it."""
+    s = t.string
+    if t.start[0] != t.end[0] or not _PLAIN.fullmatch(s) or s != s.rstrip():
+        return False
+    if t.type == tokenize.COMMENT:
+        return s.startswith("# ") and not s[2:].startswith(("type:", "fmt:", "noqa"))
+    q = s[:1]
+    return q in "\"'" and len(s) >= 2 and s[-1] == q and "\\" not in s and "'" not in s[1:-1] \
+        and '"' not in s[1:-1]
+
+
+def _tokens(text: str):
+    try:
+        return [t for t in tokenize.generate_tokens(io.StringIO(text).readline) if t.type in _KINDS]
+    except (tokenize.TokenError, IndentationError, SyntaxError):
+        return None
+
+
+def _replace(text: str, edits: list) -> str:
+    lines = text.splitlines(keepends=True)
+    for (row, col), (_, end), new in reversed(edits):
+        line = lines[row - 1]
+        lines[row - 1] = line[:col] + new + line[end:]
+    return "".join(lines)
+
+
+def _masked(text: str) -> tuple[str, dict]:
+    """The text with letters and digits in plain strings and comments as `a`, and what was there:
+    {(kind, n-th token of that kind): original}."""
+    toks = _tokens(text)
+    if toks is None:
+        return text, {}
+    edits, originals, seen = [], {}, {tokenize.STRING: 0, tokenize.COMMENT: 0}
+    for t in toks:
+        n = seen[t.type]
+        seen[t.type] += 1
+        if _maskable(t):
+            new = _LETTERS.sub("a", t.string)
+            if new != t.string:
+                edits.append((t.start, t.end, new))
+                originals[(t.type, n)] = t.string
+    return _replace(text, edits), originals
+
+
+def _unmasked(text: str, originals: dict) -> str | None:
+    """black's output with the originals back (None where the tokens do not line up one for one)."""
+    toks = _tokens(text)
+    if toks is None:
+        return None
+    edits, seen = [], {tokenize.STRING: 0, tokenize.COMMENT: 0}
+    for t in toks:
+        n = seen[t.type]
+        seen[t.type] += 1
+        old = originals.get((t.type, n))
+        if old is None:
+            continue
+        if len(t.string) != len(old) or _LETTERS.sub("a", old)[1:-1] != t.string[1:-1]:
+            return None
+        new = old if t.type == tokenize.COMMENT else t.string[0] + old[1:-1] + t.string[-1]
+        edits.append((t.start, t.end, new))
+    return _replace(text, edits) if len(edits) == len(originals) else None
 
 
 def _stand_in(node: ast.stmt, k: int) -> str:

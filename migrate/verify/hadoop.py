@@ -92,9 +92,13 @@ def javac_errors(sources: list[Path], classpath: str, timeout: float = 600) -> d
     if shutil.which("javac") is None:
         raise HadoopUnavailable("javac is not on PATH (a JDK 17+ is needed for --compile-check)")
     with tempfile.TemporaryDirectory(prefix="mrlift-javac-") as out:
-        # FLOW: go on to attribution and flow analysis even after errors, so every file is checked
+        # FLOW: go on to attribution and flow analysis even after errors, so every file is checked, and
+        # stop there without errors too (no class files: a third of javac's time); the JIT's first tier
+        # and the serial collector suit one short compile (measured: 2.5 s of CPU instead of 8 on 40k
+        # lines, 230 MB instead of 425)
         cmd = ["javac", "-nowarn", "-encoding", "UTF-8", "-Xmaxerrs", "100000", "-proc:none",
-               "-XDshould-stop.ifError=FLOW", "-cp", classpath,
+               "-XDshould-stop.ifError=FLOW", "-XDshould-stop.ifNoError=FLOW", "-J-XX:TieredStopAtLevel=1",
+               "-J-XX:+UseSerialGC", "-cp", classpath,
                "-d", out, *map(str, sources)]
         try:
             p = subprocess.run(cmd, capture_output=True, text=True, timeout=timeout)
