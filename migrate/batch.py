@@ -174,6 +174,7 @@ def convert_repository(root: Path, out: Path, root_label: str, *, jobs: int = 1,
         digest_of = dict(zip(rels, digests))
         shards = [[real[p] for p in shard] for shard in survey.shards]
         errors += duplicate_errors(survey)
+        del facts, survey.facts[:]  # every file's names: no longer needed, and a monorepo has many
         counts.files_total, counts.shards_total = len(survey.parse), len(survey.shards)
         if progress:
             progress(counts)

@@ -22,7 +22,7 @@ from pathlib import Path
 from migrate import __version__
 from migrate.convert import write_atomically
 
-FORMAT = 1  # bump when what an entry holds changes
+FORMAT = 2  # bump when what an entry holds changes
 
 
 class CacheFolderError(Exception):

@@ -18,6 +18,7 @@ from __future__ import annotations
 
 import hashlib
 import re
+import sys
 from dataclasses import dataclass
 from pathlib import Path
 
@@ -58,6 +59,13 @@ def _blank(m: re.Match) -> str:
     return "\n" * m.group(0).count("\n")
 
 
+def _type_like(names, last: bool = False) -> frozenset[str]:
+    """The names that can be a type's: Java spells types capitalised (common practice; a lowercase
+    class name is not looked for, so code that names one is not reached through it). Memory: a
+    monorepo's files mention far more variables and methods than types."""
+    return frozenset(sys.intern(n) for n in names if not (n.rpartition(".")[2] if last else n)[:1].islower())
+
+
 def _prefixes(dotted: list[str]) -> frozenset[str]:
     out = set()
     for d in dotted:
@@ -92,8 +100,9 @@ def survey_file(path: Path, root: Path, max_bytes: int) -> FileFacts:
     first = _DECLARED.search(code)
     return FileFacts(rel, digest, text.count("\n") + 1, m.group(1) if m else "",
                      tuple(dict.fromkeys(_DECLARED.findall(code))), tuple(imports), tuple(wildcards),
-                     frozenset(_WORD.findall(code)), supers, HADOOP in text or not text.strip(), REGISTERS in code,
-                     _prefixes(_DOTTED.findall(code)), code.count("\n", 0, first.start()) + 1 if first else 0)
+                     _type_like(_WORD.findall(code)), supers, HADOOP in text or not text.strip(), REGISTERS in code,
+                     _type_like(_prefixes(_DOTTED.findall(code)), last=True),
+                     code.count("\n", 0, first.start()) + 1 if first else 0)
 
 
 @dataclass
