@@ -296,8 +296,9 @@ def _short(fq: str | None) -> str:
 
 
 def _print_inventory(console: Console, scan: RepoScan) -> None:
-    t = Table(title=f"Jobs in {scan.root.name} ({scan.found} Java files, {len(scan.files)} of them parsed: the rest "
-                    "name no Hadoop type and no Hadoop code names them)")
+    rest = (f", {len(scan.files)} of them parsed: the rest name no Hadoop type and no Hadoop code names them"
+            if scan.skipped else "")
+    t = Table(title=f"Jobs in {scan.root.name} ({scan.found} Java files{rest})")
     for col in ("job", "driver", "API", "mapper", "reducer", "shapes", "status"):
         t.add_column(col)
     for j in scan.jobs:
