@@ -106,19 +106,12 @@ def job_entry(job: JobResult, script: str) -> tuple[dict, JobEffort]:
     }, eff
 
 
-def build_report(jobs: list[tuple[JobResult, str]], errors: list[ParseFailure], root_label: str,
-                 source: str | None = None, model: Model | None = None, unread: list | None = None,
-                 max_file_bytes: int | None = None) -> dict:
-    """The report as plain data (what report.json holds); `model`: the effort constants (default: published);
-    `unread`: code that could not be read or converted at all (scan.Unread), each a not_converted entry."""
-    return assemble_report([job_entry(j, script) for j, script in jobs], errors, root_label, source, model, unread,
-                           max_file_bytes)
-
-
 def assemble_report(entries: list[tuple[dict, JobEffort]], errors: list[ParseFailure], root_label: str,
                     source: str | None = None, model: Model | None = None, unread: list | None = None,
                     max_file_bytes: int | None = None) -> dict:
-    """The report from the jobs' entries (job_entry), each given its share of the repository estimate."""
+    """The report as plain data (what report.json holds) from the jobs' entries (job_entry), each given its
+    share of the repository estimate; `model`: the effort constants (default: published); `unread`: code
+    that could not be read or converted at all (scan.Unread), each a not_converted entry."""
     model = model or DEFAULT
     efforts = [eff for _, eff in entries]
     unread = list(unread or [])
