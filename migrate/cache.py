@@ -1,6 +1,6 @@
 """The content-addressed cache: what a run worked out, by the hash of everything it depended on.
 
-Three kinds of entry, each under a key made from mrlift's version, the run's settings and the
+Three kinds of entry, each under a key made from mrlift's version and code, the run's settings and the
 sha256 of the files it read: the survey facts of a file (by its bytes), javac's answer (by every
 parsed file), and a shard's finished jobs (by the shard's files and javac's answer for them). A
 changed file changes only the keys of what read it, so a re-run redoes only the shards that use it.
@@ -12,6 +12,7 @@ you alone, like any build cache; a folder others may write to is refused.
 """
 from __future__ import annotations
 
+import functools
 import hashlib
 import os
 import pickle
@@ -29,9 +30,19 @@ class CacheFolderError(Exception):
     """The cache folder cannot be used safely."""
 
 
+@functools.lru_cache(maxsize=1)
+def code_digest() -> str:
+    """sha256 of mrlift's own code and templates: a changed rule changes every key, release or not."""
+    here = Path(__file__).resolve().parent
+    h = hashlib.sha256()
+    for p in sorted([*here.rglob("*.py"), *here.rglob("*.properties"), *(here.parent / "templates").glob("*.j2")]):
+        h.update(p.relative_to(here.parent).as_posix().encode() + b"\0" + p.read_bytes())
+    return h.hexdigest()
+
+
 def key_of(*parts) -> str:
-    """A key for these parts (strings, bytes, numbers, tuples of them), with mrlift's version in it."""
-    h = hashlib.sha256(f"mrlift {__version__} cache {FORMAT}".encode())
+    """A key for these parts (strings, bytes, numbers, tuples of them), with mrlift's version and code in it."""
+    h = hashlib.sha256(f"mrlift {__version__} {code_digest()} cache {FORMAT}".encode())
     for p in parts:
         data = p if isinstance(p, bytes) else repr(p).encode("utf-8", "surrogateescape")
         h.update(len(data).to_bytes(8, "big") + data)
