@@ -220,6 +220,16 @@ def _reduce_body(o: _Out, st: Style, d: JobDraw, vt: str, emit, values: str) -> 
         emit("key", "new IntWritable(running)")
 
 
+def _open_task_method(o: _Out, st: Style, old_head: str, new_head: str):
+    """Open map() or reduce() in the author's API; returns how the method writes a pair."""
+    if st.old_api:
+        o.open(old_head + " throws IOException")
+        return lambda k, v: o.line(f"output.collect({k}, {v});")
+    o.line("@Override")
+    o.open(new_head + " throws IOException, InterruptedException")
+    return lambda k, v: o.line(f"context.write({k}, {v});")
+
+
 def job_file(pkg: str, cls: str, d: JobDraw, st: Style) -> dict[str, str]:
     """The job's Java files: {relative path: text}."""
     vt, _ = _value_type(d.shape)
@@ -250,15 +260,9 @@ def job_file(pkg: str, cls: str, d: JobDraw, st: Style) -> dict[str, str]:
             o.line("private static final IntWritable ONE = new IntWritable(1);")
             o.line("private final Text word = new Text();")
             o.line()
-        if st.old_api:
-            o.open(f"public void map(LongWritable key, Text value, OutputCollector<{mo_key}, {mo_val}> output, "
-                   "Reporter reporter) throws IOException")
-            emit = lambda k, v: o.line(f"output.collect({k}, {v});")  # noqa: E731
-        else:
-            o.line("@Override")
-            o.open("protected void map(LongWritable key, Text value, Context context) throws IOException, "
-                   "InterruptedException")
-            emit = lambda k, v: o.line(f"context.write({k}, {v});")  # noqa: E731
+        emit = _open_task_method(o, st, f"public void map(LongWritable key, Text value, OutputCollector<{mo_key}, "
+                                 f"{mo_val}> output, Reporter reporter)",
+                                 "protected void map(LongWritable key, Text value, Context context)")
         _map_body(o, st, d, vt, emit)
         o.close()
         o.close()
@@ -274,15 +278,9 @@ def job_file(pkg: str, cls: str, d: JobDraw, st: Style) -> dict[str, str]:
             o.line("private final HashMap<String, Integer> seen = new HashMap<>();")
             o.line("private int running = 0;")
             o.line()
-        if st.old_api:
-            o.open(f"public void reduce(Text key, Iterator<{vt}> values, OutputCollector<Text, {vt}> output, "
-                   "Reporter reporter) throws IOException")
-            emit = lambda k, v: o.line(f"output.collect({k}, {v});")  # noqa: E731
-        else:
-            o.line("@Override")
-            o.open(f"protected void reduce(Text key, Iterable<{vt}> values, Context context) throws IOException, "
-                   "InterruptedException")
-            emit = lambda k, v: o.line(f"context.write({k}, {v});")  # noqa: E731
+        emit = _open_task_method(o, st, f"public void reduce(Text key, Iterator<{vt}> values, OutputCollector<Text, "
+                                 f"{vt}> output, Reporter reporter)",
+                                 f"protected void reduce(Text key, Iterable<{vt}> values, Context context)")
         if d.shape == "distinct":
             emit("key", "NullWritable.get()")
         else:

@@ -53,8 +53,6 @@ class JobOut:
     order: tuple  # (driver file, driver line, n-th job of the driver): the order of a whole-repository scan
     marks: dict  # what the main process puts in place of what only it knows (see marks())
     naming: tuple
-    files: tuple[str, ...]
-    checked: bool  # written with javac's answer
     failure: ParseFailure | None = None
     unread_name: str = ""
     rendered: Rendered | None = None
@@ -105,7 +103,7 @@ def run_shard(shard: int, paths: list[Path], javac: JavacFacts | None) -> ShardO
         m = marks(s, shard, k)
         where = (job.spec.driver.file.path, job.spec.driver.line_start)
         nth[where] = nth.get(where, -1) + 1
-        out = JobOut((*where, nth[where]), m, naming_of(job), tuple(files), javac is not None)
+        out = JobOut((*where, nth[where]), m, naming_of(job))
         text, failure = render_job(job, m["script"])
         if failure is not None:
             out.failure, out.unread_name = failure, job.spec.name or job.spec.driver.fqcn
@@ -160,8 +158,8 @@ def convert_repository(root: Path, out: Path, root_label: str, *, jobs: int = 1,
     digests = [file_digest(p, max_file_bytes) for p in paths]
     rels = [shown_path(p, root) if root.is_dir() else p.name for p in paths]
     setting = (str(base), root_label, max_file_bytes, repr(path_map), with_tests, repr(effort_model))
-    run_key = key_of("run", setting, compile_mode, classpath_facts(compile_mode, classpath, base),
-                     list(zip(rels, digests)), unread, errors)
+    jars = classpath_facts(compile_mode, classpath, base)  # may ask `hadoop classpath`: once
+    run_key = key_of("run", setting, compile_mode, jars, list(zip(rels, digests)), unread, errors)
     done = unchanged_run(out, cache, run_key)
     if done is not None:
         return done
@@ -178,8 +176,7 @@ def convert_repository(root: Path, out: Path, root_label: str, *, jobs: int = 1,
         counts.files_total, counts.shards_total = len(survey.parse), len(survey.shards)
         if progress:
             progress(counts)
-        javac_key = key_of("javac", compile_mode, classpath_facts(compile_mode, classpath, base),
-                           [(p, digest_of[p]) for p in survey.parse])
+        javac_key = key_of("javac", compile_mode, jars, [(p, digest_of[p]) for p in survey.parse])
         javac: list = [cache.get("javac", javac_key)]
         if javac[0] is None and compile_mode == "off":
             javac = [run_javac(base, [], "off")]

@@ -122,10 +122,14 @@ def _names_in(f: FileFacts, others: dict[str, list[FileFacts]]) -> set[str]:
             if g.path == f.path:
                 continue
             q = g.package
-            if (q == f.package or imported.get(w, "").startswith(q + ".") if q else not f.package) \
-                    or any(w_ == q or w_.startswith(q + ".") for w_ in f.wildcards) \
-                    or any(i.startswith(f"{q}.") and w in i.split(".") for i in f.imports) \
-                    or (q and f"{q}.{w}" in f.text_fq):
+            if not q:  # the unnamed package is seen only from itself
+                seen = not f.package
+            else:
+                seen = (q == f.package or imported.get(w, "").startswith(q + ".")
+                        or any(p == q or p.startswith(q + ".") for p in f.wildcards)
+                        or any(i.startswith(q + ".") and w in i.split(".") for i in f.imports)
+                        or f"{q}.{w}" in f.text_fq)
+            if seen:
                 found.add(g.path)
     return found
 
